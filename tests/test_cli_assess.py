@@ -1,0 +1,117 @@
+"""The assess command through typer's test runner, and the start-up budget."""
+
+from __future__ import annotations
+
+import json
+import subprocess
+import sys
+
+import numpy as np
+import pytest
+from conftest import gaussian
+from typer.testing import CliRunner
+
+from uvcheck.cli import app
+from uvcheck.io.reader import read_spectrum
+from uvcheck.spectrum import integrate
+
+runner = CliRunner()
+
+
+@pytest.fixture
+def lamp_file(tmp_path):
+    wl = np.arange(240.0, 800.0, 0.5)
+    v = gaussian(wl, 253.7, 0.6, 0.8) + gaussian(wl, 546.1, 0.6, 0.2)
+    p = tmp_path / "lamp one.csv"   # a space in the name on purpose
+    p.write_text("Wavelength (nm),Irradiance (uW/cm2/nm)\n"
+                 + "\n".join(f"{a:.1f},{b * 100:.8e}" for a, b in zip(wl, v)), encoding="utf-8")
+    return p
+
+
+def test_assess_prints_summary(lamp_file):
+    r = runner.invoke(app, ["assess", str(lamp_file)])
+    assert r.exit_code == 0, r.output
+    assert "Emission by band" in r.output and "µW/cm²" in r.output
+    assert "Hg 253.7 nm" in r.output
+
+
+def test_json_numbers_equal_direct_computation(lamp_file, tmp_path):
+    out = tmp_path / "r.json"
+    r = runner.invoke(app, ["assess", str(lamp_file), "--json", str(out)])
+    assert r.exit_code == 0, r.output
+    d = json.loads(out.read_text(encoding="utf-8"))
+    assert d["schema"] == "uvcheck.assessment/1"
+    assert set(d["bands"]) >= {"below-200nm", "UV-C", "far-UVC", "UV-B", "UV-A", "visible", "IR-A"}
+    spec, _ = read_spectrum(lamp_file)
+    direct = integrate(spec, 200.0, 280.0).value
+    assert d["bands"]["UV-C"]["value"] == pytest.approx(direct, rel=1e-6)
+    assert d["bands"]["UV-C"]["value"] == pytest.approx(0.8, rel=1e-4)  # analytic Gaussian area
+    for key in ("path", "sha256", "quantity", "unit", "range_nm", "step_nm", "inferred", "warnings"):
+        assert key in d["input"]
+
+
+def test_json_to_stdout_is_pure_json(lamp_file):
+    r = runner.invoke(app, ["assess", str(lamp_file), "--json", "-"])
+    assert r.exit_code == 0
+    assert json.loads(r.stdout)["tool"]["name"] == "uvcheck"
+
+
+def test_no_overwrite_without_force(lamp_file, tmp_path):
+    out = tmp_path / "r.json"
+    out.write_text("keep me")
+    r = runner.invoke(app, ["assess", str(lamp_file), "--json", str(out)])
+    assert r.exit_code == 2
+    assert out.read_text() == "keep me"
+    r = runner.invoke(app, ["assess", str(lamp_file), "--json", str(out), "--force"])
+    assert r.exit_code == 0 and out.read_text().startswith("{")
+
+
+def test_bad_input_one_line_exit_2(tmp_path):
+    p = tmp_path / "empty.csv"
+    p.write_text("")
+    r = runner.invoke(app, ["assess", str(p)])
+    assert r.exit_code == 2
+    assert "empty" in r.stderr and "Traceback" not in r.stderr
+    assert len(r.stderr.strip().splitlines()) == 1
+
+
+def test_relative_scaling_recorded(tmp_path):
+    wl = np.arange(250.0, 800.0, 1.0)
+    p = tmp_path / "rel.csv"
+    p.write_text("\n".join(f"{a},{b}" for a, b in zip(wl, gaussian(wl, 395, 6, 1.0))))
+    out = tmp_path / "r.json"
+    r = runner.invoke(app, ["assess", str(p), "--scale-band", "UV-A=1000 uW/cm2", "--json", str(out)])
+    assert r.exit_code == 0, r.output
+    d = json.loads(out.read_text())
+    assert d["bands"]["UV-A"]["value"] == pytest.approx(10.0, rel=1e-9)  # 1000 µW/cm² = 10 W/m²
+    assert d["input"]["scaling"][0]["method"] == "band reading"
+    r = runner.invoke(app, ["assess", str(p), "--scale-lux", "100"])
+    assert "lux says nothing about UV" in r.output
+
+
+def test_python_dash_m_and_console_script(lamp_file):
+    r = subprocess.run([sys.executable, "-m", "uvcheck", "--version"], capture_output=True, text=True)
+    assert r.returncode == 0 and r.stdout.startswith("uvcheck ")
+
+
+def test_help_imports_no_heavy_modules():
+    # DESIGN.md start-up budget: `uvcheck --help` imports none of these
+    code = ("import sys\nfrom uvcheck.cli import app\n"
+            "try:\n    app(['--help'], prog_name='uvcheck')\nexcept SystemExit:\n    pass\n"
+            "heavy = [m for m in ('numpy', 'pandas', 'scipy', 'colour', 'matplotlib') if m in sys.modules]\n"
+            "print('HEAVY:' + ','.join(heavy))")
+    r = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True)
+    assert r.returncode == 0, r.stderr
+    assert r.stdout.strip().splitlines()[-1] == "HEAVY:"
+
+
+def test_assess_path_needs_numpy_only(lamp_file):
+    # DESIGN.md: the plain assessment path needs numpy only
+    code = ("import sys\nfrom uvcheck.cli import app\n"
+            f"try:\n    app(['assess', {str(lamp_file)!r}, '--quiet'], prog_name='uvcheck')\n"
+            "except SystemExit as e:\n    assert e.code in (0, None), e.code\n"
+            "heavy = [m for m in ('pandas', 'scipy', 'colour', 'matplotlib') if m in sys.modules]\n"
+            "print('HEAVY:' + ','.join(heavy))")
+    r = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True)
+    assert r.returncode == 0, r.stderr
+    assert r.stdout.strip().splitlines()[-1] == "HEAVY:"

@@ -1,0 +1,88 @@
+"""Unit parsing and conversion (SI definitions; 1 µW/cm² = 10 mW/m² by the SI prefixes)."""
+
+import math
+
+import pytest
+
+from uvcheck.errors import UnitError
+from uvcheck.units import (format_duration, parse_quantity, parse_spectral_unit,
+                           parse_wavelength_unit, to_trade)
+
+
+@pytest.mark.parametrize("text,quantity,factor", [
+    # factor to W m^-2 nm^-1 from the SI prefixes: µ = 1e-6, m = 1e-3, c = 1e-2, n = 1e-9
+    ("W/m²/nm", "irradiance", 1.0),
+    ("W m-2 nm-1", "irradiance", 1.0),
+    ("W/(m²·nm)", "irradiance", 1.0),
+    ("W.m-2.nm-1", "irradiance", 1.0),
+    ("mW/m2/nm", "irradiance", 1e-3),
+    ("µW/cm²/nm", "irradiance", 1e-2),   # 1 µW/cm² = 1e-6 W / 1e-4 m² = 1e-2 W/m²
+    ("μW/cm²/nm", "irradiance", 1e-2),   # Greek mu
+    ("uW/cm^2/nm", "irradiance", 1e-2),
+    ("mW/cm2/nm", "irradiance", 10.0),
+    ("W/m2/um", "irradiance", 1e-3),     # per µm -> per nm
+    ("irradiance_W_m2_nm", "irradiance", 1.0),
+    ("uW_per_cm2_per_nm", "irradiance", 1e-2),
+    ("W/m2/sr/nm", "radiance", 1.0),
+    ("W·m⁻²·sr⁻¹·nm⁻¹", "radiance", 1.0),
+    ("W/nm", "flux", 1.0),
+    ("mW/nm", "flux", 1e-3),
+    ("counts", "relative", 1.0),
+    ("a.u.", "relative", 1.0),
+    ("relative", "relative", 1.0),
+    ("%", "relative", 1.0),
+])
+def test_spectral_units(text, quantity, factor):
+    u = parse_spectral_unit(text)
+    assert u.quantity == quantity
+    assert u.factor == pytest.approx(factor, rel=1e-12)
+
+
+def test_one_microwatt_per_cm2_is_ten_milliwatt_per_m2():
+    # SI: 1 µW/cm² = 1e-6 W / 1e-4 m² = 1e-2 W/m² = 10 mW/m²
+    assert parse_quantity("1 µW/cm²", "irradiance").value_si == pytest.approx(10e-3)
+    assert parse_quantity("10 mW/m2", "irradiance").value_si == pytest.approx(1e-2)
+    assert to_trade(0.01, "W m-2") == (pytest.approx(1.0), "µW/cm²")
+    # 1 mJ/cm² = 10 J/m²
+    assert parse_quantity("1 mJ/cm2", "dose").value_si == pytest.approx(10.0)
+
+
+def test_photon_units_flagged():
+    u = parse_spectral_unit("umol/m2/s/nm")
+    assert u.photon and u.quantity == "irradiance"
+
+
+@pytest.mark.parametrize("text,kind,si", [
+    ("30 min", "time", 1800.0), ("1.5 h", "time", 5400.0), ("2 m", "length", 2.0),
+    ("20 cm", "length", 0.2), ("254nm", "length", 254e-9), ("20 m²", "area", 20.0),
+    ("50 m3", "volume", 50.0), ("8 W", "power", 8.0), ("3,1 V", "voltage", 3.1),
+    ("99.9 %", "fraction", 0.999), ("0.1 cm2/mJ", "rate_constant", 0.01),
+])
+def test_quantities(text, kind, si):
+    assert parse_quantity(text, kind).value_si == pytest.approx(si)
+
+
+def test_wrong_kind_named():
+    with pytest.raises(UnitError, match="is not a time"):
+        parse_quantity("30 kg", "time")
+    with pytest.raises(UnitError, match="has no unit"):
+        parse_quantity("30", "time")
+    with pytest.raises(UnitError, match="cannot read"):
+        parse_quantity("soon", "time")
+
+
+def test_not_per_wavelength_is_refused():
+    with pytest.raises(UnitError, match="not per wavelength"):
+        parse_spectral_unit("W/m2")
+
+
+def test_wavelength_units():
+    assert parse_wavelength_unit("nm") == ("length", 1.0)
+    assert parse_wavelength_unit("µm") == ("length", 1000.0)
+    assert parse_wavelength_unit("m") == ("length", 1e9)
+    assert parse_wavelength_unit("cm-1")[0] == "wavenumber"
+
+
+def test_durations():
+    assert format_duration(90) == "1.5 min"
+    assert format_duration(math.inf) == "unlimited"

@@ -1,0 +1,139 @@
+"""The Assessment: one object holding every result for one lamp.
+
+``assess(spectrum, conditions, ...) -> Assessment`` runs the evaluators in order (bands,
+spectral features, photometry, hazards, germicidal output, claims) and keeps their result
+objects. ``Assessment.to_dict()`` is the single source of truth for the JSON, terminal, HTML,
+PDF and CSV outputs: every renderer reads this dict, so the printed number and the tested
+number are the same number.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import Any
+
+from uvcheck import __version__
+from uvcheck.bands import UVC_DEFINITION_NOTE, BandResult, band_breakdown
+from uvcheck.conditions import Conditions
+from uvcheck.features import DetectedLine, PeakInfo, find_lines, peak_info
+from uvcheck.photometry import Photometry, photometry
+from uvcheck.spectrum import Spectrum
+
+SCHEMA = "uvcheck.assessment/1"
+
+SCREENING_NOTICE = ("This is a screening assessment of the measured sample under the stated "
+                    "conditions, not a certification. Exposure limits are guidance values, "
+                    "not a sharp line between safe and harmful. Follow local codes and "
+                    "licensed professional practice.")
+
+
+@dataclass(frozen=True)
+class AssessOptions:
+    """Choices that change what is evaluated.
+
+    limit_set : exposure-limit set id (see ``uvcheck references``).
+    exposure_time_s : exposure duration for hazard distances. [s]
+    """
+
+    limit_set: str = "iec62471_2006"
+    uncertainty: bool = True
+
+
+@dataclass(frozen=True)
+class Assessment:
+    """Every result for one lamp, as result objects; :meth:`to_dict` is the JSON contract."""
+
+    spectrum: Spectrum
+    conditions: Conditions
+    input: dict[str, Any]
+    bands: dict[str, BandResult]
+    peak: PeakInfo
+    lines: list[DetectedLine]
+    photometry: Photometry
+    sections: dict[str, Any] = field(default_factory=dict)
+    warnings: tuple[str, ...] = ()
+    notes: tuple[str, ...] = ()
+
+    def to_dict(self) -> dict[str, Any]:
+        hg = any(ln.identified_as == "Hg 253.7 nm" for ln in self.lines)
+        d: dict[str, Any] = {
+            "schema": SCHEMA,
+            "tool": {"name": "uvcheck", "version": __version__},
+            "input": self.input,
+            "conditions": self.conditions.to_dict(),
+            "position": position_statement(self.conditions),
+            "bands": {k: v.to_dict() for k, v in self.bands.items()},
+            "band_convention": UVC_DEFINITION_NOTE,
+            "spectral": {
+                **self.peak.to_dict(),
+                "lines": [ln.to_dict() for ln in self.lines],
+                "hg_253_7_present": hg,
+            },
+            "photometry": self.photometry.to_dict(),
+        }
+        for k, v in self.sections.items():
+            d[k] = v.to_dict() if hasattr(v, "to_dict") else v
+        d["warnings"] = list(self.warnings)
+        d["notes"] = list(self.notes) + [SCREENING_NOTICE]
+        return d
+
+
+def position_statement(c: Conditions) -> str:
+    if c.measurement_distance_m is None:
+        return ("No measurement distance was given: results apply at the measurement "
+                "position only.")
+    return f"Measured at {c.measurement_distance_m:g} m from the lamp."
+
+
+def input_section(spectrum: Spectrum, report: Any | None) -> dict[str, Any]:
+    """The ``input`` block of the JSON contract."""
+    meta = dict(spectrum.meta)
+    lo, hi = spectrum.range_nm
+    inferred = report.to_dict() if report is not None else {}
+    warnings = list(inferred.get("warnings", []))
+    for s in meta.get("scaling", []):
+        if s.get("note"):
+            warnings.append(s["note"])
+    return {
+        "path": meta.get("source"),
+        "sha256": meta.get("sha256"),
+        "origin": meta.get("origin", "measured"),
+        "quantity": spectrum.quantity,
+        "unit": spectrum.spectral_unit,
+        "range_nm": [lo, hi],
+        "step_nm": spectrum.step_nm,
+        "noise_floor": spectrum.noise_floor,
+        "scaling": list(meta.get("scaling", [])),
+        "instrument": dict(meta.get("instrument", {})),
+        "inferred": inferred,
+        "warnings": warnings,
+    }
+
+
+def assess(spectrum: Spectrum, conditions: Conditions | None = None, report: Any | None = None,
+           options: AssessOptions | None = None) -> Assessment:
+    """Evaluate a spectrum: bands, features, photometry, hazards, germicidal output.
+
+    spectrum : the spectrum at the measurement position (absolute or relative).
+    conditions : distances, source size, exposure time (defaults: none given).
+    report : the reader's ImportReport, copied into the ``input`` block.
+    options : :class:`AssessOptions`.
+    """
+    conditions = conditions or Conditions()
+    options = options or AssessOptions()
+    bands = band_breakdown(spectrum)
+    vis = bands["visible"].fraction
+    warnings: list[str] = []
+    notes: list[str] = []
+    if not spectrum.is_absolute:
+        warnings.append("RELATIVE spectrum: only shape results (band fractions, peak, "
+                        "centroid) are given; no hazard value, time or dose can be computed "
+                        "until it is scaled (--scale-band, --scale-lux or --scale-total).")
+    if conditions.measurement_distance_m is None:
+        notes.append(position_statement(conditions))
+    sections: dict[str, Any] = {}
+    return Assessment(spectrum=spectrum, conditions=conditions,
+                      input=input_section(spectrum, report), bands=bands,
+                      peak=peak_info(spectrum), lines=find_lines(spectrum),
+                      photometry=photometry(spectrum, vis), sections=sections,
+                      warnings=tuple(warnings), notes=tuple(notes))

@@ -1,0 +1,123 @@
+"""Band breakdown: how much of the output is UV-C, UV-B, UV-A, visible, IR-A.
+
+Band edges (ISO 21348 / CIE S 017 ILV): UV-C 100–280 nm, UV-B 280–315 nm, UV-A 315–400 nm,
+visible 380/400–780 nm, IR-A 780–1400 nm. uvcheck uses a partition that a spectrometer in air
+can measure:
+
+* ``below-200nm`` 100–200 nm: vacuum UV, where the 184.9 nm mercury line sits; absorbed by
+  air within centimetres, making ozone; almost no instrument measures it;
+* ``UV-C`` 200–280 nm (the practical edge; the CIE definition starts at 100 nm);
+* ``UV-B`` 280–315 nm, ``UV-A`` 315–400 nm, ``visible`` 400–780 nm, ``IR-A`` 780–1400 nm;
+* ``far-UVC`` 200–235 nm, a sub-band of UV-C (not part of the partition).
+
+Each band reports its value, its fraction of the measured total, its coverage (share of the
+band inside the measured range), and a status:
+
+* ``complete``: fully measured;
+* ``partial``: partly measured, the value is a lower bound;
+* ``not-covered``: not measured at all, the value is None (never 0);
+* ``below-detection``: under the detection limit (3 σ of the band integral from the
+  noise floor), reported as "< detection limit", not as a number.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from uvcheck.spectrum import Spectrum, integrate, total_integral
+from uvcheck.units import to_trade
+
+#: (name, lo_nm, hi_nm, in_partition, description)
+BANDS: tuple[tuple[str, float, float, bool, str], ...] = (
+    ("below-200nm", 100.0, 200.0, True, "vacuum UV (184.9 nm Hg line; makes ozone)"),
+    ("UV-C", 200.0, 280.0, True, "UV-C, 200–280 nm (CIE: 100–280 nm)"),
+    ("far-UVC", 200.0, 235.0, False, "far-UVC, 200–235 nm (sub-band of UV-C)"),
+    ("UV-B", 280.0, 315.0, True, "UV-B, 280–315 nm"),
+    ("UV-A", 315.0, 400.0, True, "UV-A, 315–400 nm"),
+    ("visible", 400.0, 780.0, True, "visible, 400–780 nm"),
+    ("IR-A", 780.0, 1400.0, True, "IR-A, 780–1400 nm"),
+)
+BAND_NAMES = tuple(b[0] for b in BANDS)
+BAND_RANGES = {b[0]: (b[1], b[2]) for b in BANDS}
+UVC_DEFINITION_NOTE = ("UV-C is integrated from 200 nm, the practical edge for radiation in "
+                       "air; the CIE definition of UV-C is 100–280 nm, and 100–200 nm is "
+                       "reported separately as below-200nm.")
+
+
+@dataclass(frozen=True)
+class BandResult:
+    """One band of the breakdown.
+
+    name : band name (see :data:`BANDS`).
+    range_nm : band limits. [nm]
+    value : integral over the measured part (None if not covered, below detection or relative).
+        [W m⁻²] for irradiance (or W m⁻² sr⁻¹, W).
+    unit : unit of ``value``.
+    fraction : share of the measured total (None when value is None, except for relative
+        spectra, where the fraction is the only result). [-]
+    coverage : share of the band inside the measured range. [-]
+    status : ``complete`` | ``partial`` | ``not-covered`` | ``below-detection``.
+    detection_limit : 3 σ of the band integral, same unit as value (None if unknown).
+    """
+
+    name: str
+    range_nm: tuple[float, float]
+    value: float | None
+    unit: str
+    fraction: float | None
+    coverage: float
+    status: str
+    detection_limit: float | None
+
+    @property
+    def is_lower_bound(self) -> bool:
+        return self.status == "partial"
+
+    def to_dict(self) -> dict:
+        trade, label = to_trade(self.value, self.unit)
+        dl_trade, _ = to_trade(self.detection_limit, self.unit)
+        return {"range_nm": list(self.range_nm), "value": self.value, "unit": self.unit,
+                "fraction": self.fraction, "coverage": self.coverage, "status": self.status,
+                "detection_limit": self.detection_limit,
+                "is_lower_bound": self.is_lower_bound,
+                "value_trade": trade, "detection_limit_trade": dl_trade,
+                "trade_unit": label}
+
+
+def band_breakdown(spectrum: Spectrum) -> dict[str, BandResult]:
+    """Integrate every band of :data:`BANDS`, with coverage and detection status.
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> wl = np.arange(250.0, 451.0)
+    >>> b = band_breakdown(Spectrum(wl, np.ones(wl.size), "irradiance"))
+    >>> (b["UV-A"].value, b["UV-A"].status, b["UV-C"].status, b["below-200nm"].status)
+    (85.0, 'complete', 'partial', 'not-covered')
+    """
+    total = total_integral(spectrum)
+    out: dict[str, BandResult] = {}
+    absolute = spectrum.is_absolute
+    for name, lo, hi, _part, _desc in BANDS:
+        r = integrate(spectrum, lo, hi)
+        dl = r.detection_limit
+        if r.coverage <= 0.0:
+            status, value, frac = "not-covered", None, None
+        elif dl is not None and r.value < dl:
+            status, value, frac = "below-detection", None, None
+        else:
+            status = "complete" if r.complete else "partial"
+            value = r.value
+            frac = r.value / total if total > 0 else None
+        if not absolute:
+            value = None
+            dl = None
+        out[name] = BandResult(name=name, range_nm=(lo, hi), value=value,
+                               unit=spectrum.integrated_unit, fraction=frac,
+                               coverage=r.coverage, status=status, detection_limit=dl)
+    return out
+
+
+def measured_total(spectrum: Spectrum) -> float:
+    """∫ over the whole measured range (the denominator of the band fractions)."""
+    return total_integral(spectrum)

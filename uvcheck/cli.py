@@ -1,0 +1,196 @@
+"""The command line: parse, call the science, render. Nothing else lives here.
+
+Start-up budget: this module imports typer and the standard library only. Every command
+imports what it needs inside its body, so ``uvcheck --help`` loads no numpy, scipy, pandas,
+colour or matplotlib (a test checks ``sys.modules``).
+"""
+
+from __future__ import annotations
+
+import functools
+import sys
+from pathlib import Path
+from typing import Annotated, Any, Callable, Optional
+
+import typer
+
+from uvcheck import __version__
+
+app = typer.Typer(
+    name="uvcheck",
+    help="Check lamps sold as germicidal, UV-sterilising or disinfecting: what they emit, "
+         "how hazardous they are (IEC 62471), and whether their claims can hold. "
+         "Screening assessments, not certifications.",
+    no_args_is_help=True,
+    add_completion=False,
+    pretty_exceptions_enable=False,
+    rich_markup_mode=None,
+)
+
+_STATE = {"debug": False}
+
+
+def _version(value: bool) -> None:
+    if value:
+        typer.echo(f"uvcheck {__version__}")
+        raise typer.Exit()
+
+
+@app.callback()
+def _root(
+    debug: Annotated[bool, typer.Option("--debug", help="Show a traceback on errors.")] = False,
+    version: Annotated[Optional[bool], typer.Option("--version", callback=_version,
+                                                    is_eager=True, help="Print the version.")] = None,
+) -> None:
+    _STATE["debug"] = debug
+
+
+def guarded(fn: Callable[..., Any]) -> Callable[..., Any]:
+    """Turn UvcheckError into one line on stderr and exit status 2 (traceback with --debug)."""
+
+    @functools.wraps(fn)
+    def wrapper(*args: Any, **kwargs: Any) -> Any:
+        from uvcheck.errors import UvcheckError
+
+        try:
+            return fn(*args, **kwargs)
+        except UvcheckError as exc:
+            if _STATE["debug"]:
+                raise
+            typer.echo(f"uvcheck: error: {exc.one_line()}", err=True)
+            raise typer.Exit(2) from None
+        except (OSError, MemoryError) as exc:
+            if _STATE["debug"]:
+                raise
+            typer.echo(f"uvcheck: error: {exc}", err=True)
+            raise typer.Exit(2) from None
+
+    return wrapper
+
+
+# ---------------------------------------------------------------------------------------------
+# Shared options
+# ---------------------------------------------------------------------------------------------
+
+Encoding = Annotated[Optional[str], typer.Option(help="Text encoding (default: detected).",
+                                                 rich_help_panel="Reading the file")]
+Delimiter = Annotated[Optional[str], typer.Option(help="Field delimiter: tab, semicolon, comma, "
+                                                  "pipe or space (default: detected).",
+                                                  rich_help_panel="Reading the file")]
+Decimal = Annotated[Optional[str], typer.Option(help="Decimal mark: '.' or ',' (default: detected).",
+                                                rich_help_panel="Reading the file")]
+Column = Annotated[Optional[str], typer.Option(help="Value column: name or number (from 1).",
+                                               rich_help_panel="Reading the file")]
+WlColumn = Annotated[Optional[str], typer.Option("--wavelength-column",
+                                                 help="Wavelength column: name or number.",
+                                                 rich_help_panel="Reading the file")]
+WlUnit = Annotated[Optional[str], typer.Option("--wavelength-unit",
+                                               help="Wavelength unit: nm, um, m or cm-1.",
+                                               rich_help_panel="Reading the file")]
+Unit = Annotated[Optional[str], typer.Option(help="Unit of the values, e.g. 'uW/cm2/nm', "
+                                             "'W/m2/sr/nm', 'W/nm' or 'relative'.",
+                                             rich_help_panel="Reading the file")]
+Block = Annotated[Optional[int], typer.Option(help="Data block to read when a file holds several "
+                                              "(from 1).", rich_help_panel="Reading the file")]
+DataStart = Annotated[Optional[int], typer.Option("--data-start", help="Line where the data rows "
+                                                  "start (from 1).", rich_help_panel="Reading the file")]
+
+
+def read_options(encoding: str | None, delimiter: str | None, decimal: str | None,
+                 column: str | None, wavelength_column: str | None, wavelength_unit: str | None,
+                 unit: str | None, block: int | None, data_start: int | None) -> Any:
+    from uvcheck.io.reader import ReadOptions
+
+    return ReadOptions(encoding=encoding, delimiter=delimiter, decimal=decimal, column=column,
+                       wavelength_column=wavelength_column, wavelength_unit=wavelength_unit,
+                       unit=unit, block=block, data_start=data_start)
+
+
+def _length(text: str | None, where: str, default_unit: str | None = None) -> float | None:
+    if text is None:
+        return None
+    from uvcheck.units import parse_quantity
+
+    q = parse_quantity(text, "length", where, default_unit=default_unit).value_si
+    if not q > 0:
+        from uvcheck.errors import ConfigurationError
+
+        raise ConfigurationError(f"{text!r} must be a positive distance", where)
+    return q
+
+
+# ---------------------------------------------------------------------------------------------
+# assess
+# ---------------------------------------------------------------------------------------------
+
+@app.command()
+@guarded
+def assess(
+    spectrum_file: Annotated[Path, typer.Argument(help="Spectrum export (CSV, TSV or text).")],
+    json_out: Annotated[Optional[str], typer.Option("--json", help="Write the full result as "
+                                                    "JSON to this path ('-' for stdout).")] = None,
+    force: Annotated[bool, typer.Option(help="Replace existing output files.")] = False,
+    distance: Annotated[Optional[str], typer.Option(help="Measurement distance, e.g. '20 cm' "
+                                                    "(default: from the file, else none).")] = None,
+    scale_band: Annotated[Optional[str], typer.Option("--scale-band", help="Scale a relative "
+                                                      "spectrum by a radiometer reading, e.g. "
+                                                      "'UV-C=120 uW/cm2'.")] = None,
+    scale_lux: Annotated[Optional[str], typer.Option("--scale-lux", help="Scale by a lux-meter "
+                                                     "reading (says nothing about UV).")] = None,
+    scale_total: Annotated[Optional[str], typer.Option("--scale-total", help="Scale so the "
+                                                       "measured range integrates to this, e.g. "
+                                                       "'12 W/m2'.")] = None,
+    quiet: Annotated[bool, typer.Option(help="Print nothing but errors.")] = False,
+    encoding: Encoding = None, delimiter: Delimiter = None, decimal: Decimal = None,
+    column: Column = None, wavelength_column: WlColumn = None, wavelength_unit: WlUnit = None,
+    unit: Unit = None, block: Block = None, data_start: DataStart = None,
+) -> None:
+    """Assess a measured spectrum: band breakdown, peak, photometry (and hazards, germicidal
+    output and claims as they apply)."""
+    from uvcheck.assessment import assess as run_assess
+    from uvcheck.conditions import Conditions
+    from uvcheck.errors import ConfigurationError
+    from uvcheck.io.reader import read_spectrum
+    from uvcheck.report.jsonout import write_json
+    from uvcheck.report.terminal import render_assessment
+
+    if sum(x is not None for x in (scale_band, scale_lux, scale_total)) > 1:
+        raise ConfigurationError("give only one of --scale-band, --scale-lux, --scale-total")
+    if json_out and json_out != "-" and Path(json_out).exists() and not force:
+        from uvcheck.errors import OutputExistsError
+
+        raise OutputExistsError("the output file exists", json_out,
+                                "give --force to replace it, or choose another name")
+    opts = read_options(encoding, delimiter, decimal, column, wavelength_column, wavelength_unit,
+                        unit, block, data_start)
+    spec, report = read_spectrum(spectrum_file, opts)
+    spec = apply_scaling(spec, scale_band, scale_lux, scale_total)
+    d0 = _length(distance, "--distance") if distance else report.measurement_distance_m
+    cond = Conditions(measurement_distance_m=d0)
+    result = run_assess(spec, cond, report).to_dict()
+    if json_out:
+        write_json(json_out, result, force=force)
+    if not quiet and json_out != "-":
+        typer.echo(render_assessment(result), nl=False)
+
+
+def apply_scaling(spec: Any, scale_band: str | None, scale_lux: str | None,
+                  scale_total: str | None) -> Any:
+    from uvcheck import scaling
+
+    if scale_band:
+        return scaling.scale_by_band(spec, scale_band)
+    if scale_lux:
+        return scaling.scale_by_lux(spec, scale_lux)
+    if scale_total:
+        return scaling.scale_by_total(spec, scale_total)
+    return spec
+
+
+def main() -> None:
+    """Console entry point."""
+    app(prog_name="uvcheck")
+
+
+if __name__ == "__main__":  # pragma: no cover
+    main()

@@ -1,0 +1,1 @@
+"""Readers and writers: everything that touches files lives here."""

@@ -1,0 +1,918 @@
+"""Tolerant reader for spectrometer and spreadsheet text exports.
+
+``read_spectrum(path, **overrides) -> (Spectrum, ImportReport)``
+
+What it copes with, and reports in the :class:`ImportReport`:
+
+* encodings: UTF-8 (with or without BOM), UTF-16 (BOM or NUL pattern), Latin-1/cp1252;
+* delimiters: comma, semicolon, tab, pipe, runs of spaces; decimal comma (with semicolon,
+  tab or spaces); thousands separators where unambiguous (``1,234.5`` or ``1.234,5``);
+* a metadata block of any length before the data (``key: value``, ``key;value``,
+  ``key=value``, ``[Section]`` lines, comments, blank lines), a header row, an optional
+  units row, footer lines after the data;
+* units in the header, the units row or the metadata, in the usual spellings
+  (see :func:`uvcheck.units.parse_spectral_unit`); none → relative, and it says so;
+* several value columns (``column=`` picks one; otherwise an error lists them), an index or
+  pixel column, two spectra side by side, several data blocks (``block=``);
+* descending or unsorted wavelengths (sorted), duplicates (averaged), gaps (kept as gaps,
+  never bridged), non-uniform steps, NaN/inf rows (dropped and counted), negative values
+  (kept: they are noise and set the noise floor), wavelengths in µm, m or cm⁻¹.
+
+Every guess can be overridden. Unreadable input raises :class:`InputFormatError` naming
+the line and column and what to do. The file is streamed: only the head is held as text,
+and the numbers go straight into compact arrays, so a million-row file needs little memory.
+"""
+
+from __future__ import annotations
+
+import array
+import math
+import re
+from dataclasses import asdict, dataclass, field
+from itertools import islice
+from pathlib import Path
+from typing import Any, Iterable, Iterator
+
+import numpy as np
+
+from uvcheck.errors import InputFormatError, UnitError
+from uvcheck.features import estimate_noise
+from uvcheck.io.textfile import HEAD_BYTES, Decoded, file_sha256, iter_lines, sniff_encoding
+from uvcheck.spectrum import Spectrum
+from uvcheck.units import parse_quantity, parse_spectral_unit, parse_wavelength_unit
+
+#: Lines of the file examined to decide the format (the rest is streamed).
+HEAD_LINES = 4000
+DELIMITERS = {"tab": "\t", "semicolon": ";", "comma": ",", "pipe": "|", "space": None}
+_DELIM_NAMES = {v: k for k, v in DELIMITERS.items()}
+#: Order of preference when several formats read the head equally well.
+_CONFIGS = [("tab", "."), ("tab", ","), ("semicolon", "."), ("semicolon", ","),
+            ("comma", "."), ("pipe", "."), ("pipe", ","), ("space", "."), ("space", ",")]
+_MISSING = {"", "na", "n/a", "nan", "-nan", "+nan", "--", "-", "null", "none", "#n/a",
+            "1.#qnan", "-1.#ind", "1.#ind", "#value!", "#div/0!"}
+_INF = {"inf", "+inf", "infinity", "+infinity", "1.#inf"}
+_NINF = {"-inf", "-infinity", "-1.#inf"}
+_NUM_DOT = re.compile(r"^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$")
+_NUM_COMMA = re.compile(r"^[-+]?(\d+,?\d*|,\d+)([eE][-+]?\d+)?$")
+_THOUS_DOT = re.compile(r"^[-+]?[1-9]\d{0,2}(,\d{3})+(\.\d*)?$")      # 1,234.5
+_THOUS_COMMA = re.compile(r"^[-+]?[1-9]\d{0,2}(\.\d{3})+(,\d*)?$")    # 1.234,5
+_COMMENT = re.compile(r"^\s*(#|//|%|!|\*|REM\b)")
+_SECTION = re.compile(r"^\s*\[([^\]]+)\]\s*$")
+_KEYVAL = re.compile(r"^\s*([^:=;\t]{1,60}?)\s*(?::|=|;|\t)\s*(.*?)\s*;*\s*$")
+_WL_NAME = re.compile(r"(?i)(wave\s*length|wavelength|wellenl|longueur|lambda|λ|^\s*wl\b|^\s*nm\b|"
+                      r"^\s*(x|wave)\s*(\[|\(|$))")
+_INDEX_NAME = re.compile(r"(?i)^\s*(pixel|pix|index|idx|#|no\.?|n|i|channel|ch|row)\s*(\[.*\]|\(.*\))?\s*$")
+_RAMAN = re.compile(r"(?i)raman")
+_WAVENUMBER = re.compile(r"(?i)wave\s*number|cm\s*-\s*1|cm⁻¹|1/cm")
+
+
+# ---------------------------------------------------------------------------------------------
+# Result types
+# ---------------------------------------------------------------------------------------------
+
+@dataclass(frozen=True)
+class ReadOptions:
+    """User overrides for every guess the reader makes (None = infer)."""
+
+    encoding: str | None = None
+    delimiter: str | None = None          # tab | semicolon | comma | pipe | space
+    decimal: str | None = None            # "." or ","
+    column: str | None = None             # value column: exact name or 1-based number
+    wavelength_column: str | None = None  # name or 1-based number
+    wavelength_unit: str | None = None    # nm | um | m | cm-1 | ...
+    unit: str | None = None               # value unit, e.g. "uW/cm2/nm" or "relative"
+    block: int | None = None              # 1-based data block when a file holds several
+    data_start: int | None = None         # 1-based line where the data rows start
+
+
+@dataclass(frozen=True)
+class ImportReport:
+    """What the reader inferred, so the user can check (and override) every guess."""
+
+    path: str
+    sha256: str
+    encoding: str
+    encoding_how: str
+    delimiter: str
+    decimal: str
+    thousands: str | None
+    header_line: int | None
+    units_line: int | None
+    data_lines: tuple[int, int]
+    columns: tuple[str, ...]
+    wavelength_column: str
+    wavelength_unit: str
+    wavelength_unit_how: str
+    value_column: str
+    value_unit: str
+    value_unit_how: str
+    quantity: str
+    rows_read: int
+    rows_used: int
+    rows_dropped_nonfinite: int
+    duplicates_averaged: int
+    sorted: str                      # "ascending" | "descending (reversed)" | "unsorted (sorted)"
+    step_nm: dict
+    gaps_nm: tuple[tuple[float, float], ...]
+    noise: dict
+    metadata: dict
+    measurement_distance_m: float | None
+    warnings: tuple[str, ...] = field(default_factory=tuple)
+
+    def to_dict(self) -> dict:
+        d = asdict(self)
+        d["data_lines"] = list(self.data_lines)
+        d["gaps_nm"] = [list(g) for g in self.gaps_nm]
+        d["columns"] = list(self.columns)
+        d["warnings"] = list(self.warnings)
+        return d
+
+
+# ---------------------------------------------------------------------------------------------
+# Tokenising and numbers
+# ---------------------------------------------------------------------------------------------
+
+def _split(line: str, delim: str) -> list[str]:
+    if delim == "space":
+        toks = line.split()
+    else:
+        ch = DELIMITERS[delim]
+        if '"' in line:
+            import csv
+
+            toks = next(csv.reader([line], delimiter=ch), [])
+        else:
+            toks = line.split(ch)
+        toks = [t.strip() for t in toks]
+        while toks and toks[-1] == "":
+            toks.pop()  # trailing delimiter
+    return [t.strip().strip('"').strip("'").strip() for t in toks]
+
+
+class _Num:
+    """Number parser for one (decimal, thousands) convention, counting what it saw."""
+
+    __slots__ = ("decimal", "mixed", "thousands_seen")
+
+    def __init__(self, decimal: str):
+        self.decimal = decimal
+        self.mixed = 0
+        self.thousands_seen = 0
+
+    def __call__(self, tok: str) -> float | None:
+        """The token's value; NaN for a missing-value token; None if not a number."""
+        t = tok.strip()
+        low = t.lower()
+        if low in _MISSING:
+            return math.nan
+        if low in _INF:
+            return math.inf
+        if low in _NINF:
+            return -math.inf
+        if self.decimal == ".":
+            if _NUM_DOT.match(t):
+                return float(t)
+            if _THOUS_DOT.match(t):
+                self.thousands_seen += 1
+                return float(t.replace(",", ""))
+            if _NUM_COMMA.match(t) and "," in t:
+                self.mixed += 1
+                return float(t.replace(",", "."))
+            return None
+        if _NUM_COMMA.match(t):
+            return float(t.replace(",", "."))
+        if _THOUS_COMMA.match(t):
+            self.thousands_seen += 1
+            return float(t.replace(".", "").replace(",", "."))
+        if _NUM_DOT.match(t) and "." in t:
+            self.mixed += 1
+            return float(t)
+        return None
+
+
+def _row_values(toks: list[str], num: _Num) -> list[float] | None:
+    """All tokens as numbers (a data row), or None if any token is not a number."""
+    if len(toks) < 2:
+        return None
+    out = []
+    real = 0
+    for t in toks:
+        v = num(t)
+        if v is None:
+            return None
+        if not math.isnan(v):
+            real += 1
+        out.append(v)
+    return out if real >= 1 and not math.isnan(out[0]) or real >= 2 else None
+
+
+def _is_data(toks: list[str], num: _Num) -> bool:
+    return _row_values(toks, num) is not None
+
+
+# ---------------------------------------------------------------------------------------------
+# Format detection on the head of the file
+# ---------------------------------------------------------------------------------------------
+
+@dataclass
+class _Block:
+    start: int        # 0-based line index of the first data row
+    end: int          # 0-based index of the last data row
+    ncols: int
+    bad: list[int]    # non-data lines inside the block
+
+
+def _blocks(lines: list[str], delim: str, decimal: str, first: int = 0
+            ) -> tuple[list[_Block], _Num]:
+    """Runs of data rows (allowing up to 2 stray lines inside a run), and the number parser
+    that read them (its counts of mixed decimals and thousands separators)."""
+    num = _Num(decimal)
+    blocks: list[_Block] = []
+    cur: _Block | None = None
+    pending: list[int] = []
+    for i in range(first, len(lines)):
+        line = lines[i]
+        if not line.strip():
+            if cur is not None:
+                pending.append(i)
+            continue
+        toks = _split(line, delim)
+        if _is_data(toks, num):
+            n = len(toks)
+            if cur is not None and len([p for p in pending if lines[p].strip()]) <= 2:
+                cur.bad.extend(p for p in pending if lines[p].strip())
+                cur.end = i
+                pending = []
+                continue
+            if cur is not None:
+                blocks.append(cur)
+            cur = _Block(start=i, end=i, ncols=n, bad=[])
+            pending = []
+        else:
+            if cur is not None:
+                pending.append(i)
+                if len([p for p in pending if lines[p].strip()]) > 2:
+                    blocks.append(cur)
+                    cur = None
+                    pending = []
+    if cur is not None:
+        blocks.append(cur)
+    # column count = the most common count among rows of the block
+    for b in blocks:
+        counts: dict[int, int] = {}
+        for j in range(b.start, min(b.end + 1, b.start + 500)):
+            if lines[j].strip() and j not in b.bad:
+                n = len(_split(lines[j], delim))
+                counts[n] = counts.get(n, 0) + 1
+        if counts:
+            b.ncols = max(counts, key=lambda k: (counts[k], k))
+    return blocks, num
+
+
+def _choose_format(lines: list[str], opts: ReadOptions, where: str) -> tuple[str, str, list[_Block]]:
+    delims = [opts.delimiter] if opts.delimiter else None
+    if opts.delimiter and opts.delimiter not in DELIMITERS:
+        raise InputFormatError(f"unknown delimiter {opts.delimiter!r}", where,
+                               f"use one of: {', '.join(DELIMITERS)}")
+    if opts.decimal and opts.decimal not in (".", ","):
+        raise InputFormatError(f"unknown decimal mark {opts.decimal!r}", where, "use '.' or ','")
+    first = (opts.data_start - 1) if opts.data_start else 0
+    best = None
+    for d, dec in _CONFIGS:
+        if delims and d not in delims:
+            continue
+        if opts.decimal and dec != opts.decimal:
+            continue
+        if d == "comma" and dec == ",":
+            continue
+        bl, num = _blocks(lines, d, dec, first)
+        if not bl:
+            continue
+        top = max(bl, key=lambda b: b.end - b.start - len(b.bad))
+        rows = top.end - top.start + 1 - len(top.bad)
+        # a delimiter that really occurs in the rows beats whitespace splitting; fewer numbers
+        # read against the convention (other decimal mark, thousands separators) win ties
+        present = d == "space" or DELIMITERS[d] in lines[top.start]
+        score = (rows, -(num.mixed + num.thousands_seen), present)
+        if best is None or score > best[0]:
+            best = (score, d, dec, bl)
+    if best is None:
+        raise InputFormatError("no rows of numbers found", where,
+                               "the file must hold a table of wavelength and value columns; "
+                               "check the export, or give --delimiter and --decimal")
+    return best[1], best[2], best[3]
+
+
+# ---------------------------------------------------------------------------------------------
+# Header, units row, metadata
+# ---------------------------------------------------------------------------------------------
+
+_UNIT_IN_BRACKETS = re.compile(r"[\[(]([^\[\]()]*(?:\([^()]*\)[^\[\]()]*)*)[\])]\s*$")
+
+
+def _unit_from_header(cell: str) -> str | None:
+    """A unit written in a column name: 'Irradiance (µW/cm²/nm)', 'E [W m-2 nm-1]',
+    'irradiance_W_m2_nm', 'Irradiance, W/m2/nm', or the whole cell."""
+    c = cell.strip()
+    if not c:
+        return None
+    m = _UNIT_IN_BRACKETS.search(c)
+    if m and m.group(1).strip():
+        return m.group(1).strip()
+    if "," in c:
+        tail = c.rsplit(",", 1)[1].strip()
+        if tail:
+            return tail
+    if " in " in c:
+        return c.rsplit(" in ", 1)[1].strip()
+    if "_" in c:
+        last = c.rsplit("_", 1)[1]
+        try:
+            parse_wavelength_unit(last)
+            return last
+        except UnitError:
+            return c
+    parts = c.split()
+    if len(parts) >= 2:
+        return parts[-1]
+    return c
+
+
+def _looks_like_unit_row(toks: list[str]) -> bool:
+    hits = 0
+    for t in toks:
+        if not t:
+            continue
+        try:
+            parse_spectral_unit(t)
+            hits += 1
+            continue
+        except UnitError:
+            pass
+        try:
+            parse_wavelength_unit(t)
+            hits += 1
+        except UnitError:
+            return False
+    return hits >= 1
+
+
+def _metadata(lines: Iterable[tuple[int, str]]) -> tuple[dict[str, str], list[str]]:
+    meta: dict[str, str] = {}
+    other: list[str] = []
+    section = ""
+    for _, line in lines:
+        s = line.strip()
+        if not s:
+            continue
+        m = _SECTION.match(s)
+        if m:
+            section = m.group(1).strip()
+            continue
+        body = _COMMENT.sub("", s, count=1).strip() if _COMMENT.match(s) else s
+        m = _KEYVAL.match(body)
+        if m and m.group(1).strip():
+            key = m.group(1).strip()
+            if section:
+                key = f"{section}/{key}"
+            if key not in meta:
+                meta[key] = m.group(2).strip()
+        else:
+            other.append(s)
+    return meta, other
+
+
+def _meta_lookup(meta: dict[str, str], *patterns: str) -> tuple[str, str] | None:
+    for pat in patterns:
+        rx = re.compile(pat, re.I)
+        for k, v in meta.items():
+            key = k.rsplit("/", 1)[-1]
+            if rx.search(key) and v:
+                return k, v
+    return None
+
+
+# ---------------------------------------------------------------------------------------------
+# The reader
+# ---------------------------------------------------------------------------------------------
+
+def _col_ref(ref: str, names: list[str], what: str, where: str) -> int:
+    r = ref.strip()
+    if r.isdigit():
+        i = int(r) - 1
+        if 0 <= i < len(names):
+            return i
+        raise InputFormatError(f"there is no {what} {r}: the file has {len(names)} columns", where,
+                               "columns are numbered from 1")
+    low = [n.strip().lower() for n in names]
+    if r.lower() in low:
+        return low.index(r.lower())
+    raise InputFormatError(f"no column named {ref!r}", where,
+                           "columns: " + ", ".join(f"{i + 1} {n!r}" for i, n in enumerate(names)))
+
+
+def _stream_rows(path: Path, decoded: Decoded, delim: str, num: _Num, start: int, ncols: int,
+                 stats: dict[str, Any]) -> Iterator[tuple[int, list[float]]]:
+    """Data rows from line ``start`` on, until the block ends (3 non-data lines in a row)."""
+    run_bad: list[tuple[int, str]] = []
+    for i, line in enumerate(islice(iter_lines(path, decoded), start, None), start=start):
+        if not line.strip():
+            continue
+        toks = _split(line, delim)
+        vals = _row_values(toks, num)
+        if vals is None:
+            run_bad.append((i, line))
+            if len(run_bad) > 2:
+                stats["footer_start"] = run_bad[0][0]
+                stats["footer_sample"] = [t for _, t in run_bad[:3]]
+                return
+            continue
+        if run_bad:
+            stats.setdefault("bad_rows", []).extend(j for j, _ in run_bad)
+            run_bad = []
+        if len(vals) != ncols:
+            stats["ragged"] = stats.get("ragged", 0) + 1
+            stats.setdefault("ragged_lines", []).append(i + 1)
+            if len(vals) < ncols:
+                vals = vals + [math.nan] * (ncols - len(vals))
+            else:
+                vals = vals[:ncols]
+        stats["last_line"] = i
+        yield i, vals
+    if run_bad:
+        stats["footer_start"] = run_bad[0][0]
+        stats["footer_sample"] = [t for _, t in run_bad[:3]]
+
+
+def read_spectrum(path: str | Path, options: ReadOptions | None = None, **overrides: Any
+                  ) -> tuple[Spectrum, ImportReport]:
+    """Read a spectrum from a text export, inferring the format and reporting every guess.
+
+    path : the file.
+    options : :class:`ReadOptions` (or give the same fields as keyword arguments).
+
+    Returns the :class:`Spectrum` (in SI spectral units, or relative) and the
+    :class:`ImportReport`. Raises :class:`InputFormatError` for unreadable input.
+    """
+    opts = options or ReadOptions(**overrides)
+    p = Path(path)
+    where = str(p)
+    if not p.exists():
+        raise InputFormatError("file not found", where, "check the path")
+    if p.is_dir():
+        raise InputFormatError("this is a folder, not a file", where)
+    with open(p, "rb") as fh:
+        head_bytes = fh.read(HEAD_BYTES)
+    decoded = sniff_encoding(head_bytes, opts.encoding, where)
+    warnings: list[str] = []
+    try:
+        return _read(p, decoded, opts, warnings)
+    except UnicodeDecodeError:
+        if opts.encoding:
+            raise
+    except InputFormatError as exc:
+        if "not valid" not in exc.what or opts.encoding:
+            raise
+    warnings.append("the file mixes encodings (valid UTF-8 at the start, other bytes later); "
+                    "read as Latin-1 / Windows-1252: check µ, ² and ° in the units")
+    return _read(p, Decoded("cp1252", "mixed: fell back to Latin-1 / Windows-1252", False),
+                 opts, warnings)
+
+
+def _read(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
+          ) -> tuple[Spectrum, ImportReport]:
+    where = str(p)
+    head = list(islice(iter_lines(p, decoded), HEAD_LINES))
+    if not any(line.strip() for line in head):
+        raise InputFormatError("the file is empty (no text)", where, "export the spectrum again")
+    delim, decimal, blocks = _choose_format(head, opts, where)
+    big = [b for b in blocks if b.end - b.start + 1 - len(b.bad) >= 3]
+    if opts.block:
+        if not 1 <= opts.block <= len(big):
+            raise InputFormatError(f"there is no data block {opts.block}; the file has {len(big)}",
+                                   where)
+        block = big[opts.block - 1]
+    elif len(big) > 1:
+        desc = []
+        for k, b in enumerate(big, 1):
+            label = next((head[j].strip() for j in range(b.start - 1, max(-1, b.start - 6), -1)
+                          if head[j].strip()), "")
+            desc.append(f"{k}: lines {b.start + 1}–{b.end + 1}" + (f" after {label[:40]!r}" if label else ""))
+        raise InputFormatError(f"the file holds {len(big)} data blocks ({'; '.join(desc)})", where,
+                               "choose one with --block N")
+    else:
+        block = max(blocks, key=lambda b: b.end - b.start)
+    ncols = block.ncols
+    num = _Num(decimal)
+    # ---- header and units row -------------------------------------------------------
+    header_line = units_line = None
+    names = [f"column {k + 1}" for k in range(ncols)]
+    col_units: list[str | None] = [None] * ncols
+    j = block.start - 1
+    above: list[int] = []
+    first_above = True
+    while j >= 0 and len(above) < 2:
+        s = head[j].strip()
+        if s and not _COMMENT.match(s):
+            above.append(j)
+        elif s and first_above:
+            # a commented header ("# wavelength, irradiance") right above the data
+            body = _COMMENT.sub("", s, count=1)
+            if len(_split(body, delim)) == ncols:
+                above.append(j)
+        elif s and above:
+            break  # a comment line ends the header block
+        if s:
+            first_above = False
+        j -= 1
+
+    def cells(k: int) -> list[str]:
+        s = head[k]
+        if _COMMENT.match(s):
+            s = _COMMENT.sub("", s, count=1)
+        toks = _split(s, delim)
+        if len(toks) != ncols and delim != "space":
+            alt = s.split()
+            if len(alt) == ncols:
+                toks = alt
+        return toks
+
+    if above:
+        t0 = cells(above[0])
+        if len(t0) in (ncols, ncols + 1) and not _is_data(t0, num):
+            if _looks_like_unit_row(t0) and len(above) > 1 and len(cells(above[1])) in (ncols, ncols + 1):
+                units_line = above[0]
+                header_line = above[1]
+                for k, t in enumerate(t0[:ncols]):
+                    col_units[k] = t or None
+            else:
+                header_line = above[0]
+            hdr = cells(header_line)[:ncols]
+            names = [h if h else f"column {k + 1}" for k, h in enumerate(hdr)] + names[len(hdr):]
+    meta_end = header_line if header_line is not None else block.start
+    meta, _other = _metadata((k, head[k]) for k in range(0, meta_end))
+    # ---- stream the data ------------------------------------------------------------
+    stats: dict[str, Any] = {"bad_rows": list(block.bad)}
+    cols = [array.array("d") for _ in range(ncols)]
+    first_lines: list[int] = []
+    n_rows = 0
+    for i, vals in _stream_rows(p, decoded, delim, num, block.start, ncols, stats):
+        for c, v in zip(cols, vals):
+            c.append(v)
+        if n_rows < 3:
+            first_lines.append(i)
+        n_rows += 1
+    last_line = stats.get("last_line", block.end)
+    footer_start = stats.get("footer_start")
+    if footer_start is not None:
+        fmeta, _ = _metadata([(0, t) for t in stats.get("footer_sample", [])])
+        for k, v in fmeta.items():
+            meta.setdefault(f"footer/{k}", v)
+        sample = stats.get("footer_sample", [""])[0]
+        if re.match(r"^\s*[-+]?\d", sample) and len(_split(sample, delim)) < ncols:
+            warnings.append(f"line {footer_start + 1} looks like a truncated data row "
+                            f"({sample[:40]!r}); it was not used")
+    if stats.get("bad_rows"):
+        bl = sorted(set(stats["bad_rows"]))
+        warnings.append(f"{len(bl)} unreadable line(s) inside the data skipped: line(s) "
+                        + ", ".join(str(b + 1) for b in bl[:5]) + (" …" if len(bl) > 5 else ""))
+    if stats.get("ragged"):
+        rl = stats["ragged_lines"]
+        warnings.append(f"{stats['ragged']} row(s) with a different number of fields "
+                        f"(line(s) {', '.join(map(str, rl[:5]))}{' …' if len(rl) > 5 else ''}); "
+                        "missing fields count as missing values")
+    if num.mixed:
+        warnings.append(f"mixed decimal separators: {num.mixed} number(s) used the other decimal "
+                        f"mark than the file's '{decimal}'; they were read as decimals")
+    thousands = None
+    if num.thousands_seen:
+        thousands = "," if decimal == "." else "."
+        warnings.append(f"{num.thousands_seen} number(s) with thousands separators "
+                        f"('{thousands}') were read")
+    if n_rows < 2:
+        raise InputFormatError(f"only {n_rows} data row found (line {block.start + 1})", where,
+                               "a spectrum needs at least two rows of wavelength and value")
+    data = [np.frombuffer(c, dtype=np.float64) for c in cols]
+    # ---- choose columns -------------------------------------------------------------
+    wl_idx, val_idx, idx_note = _pick_columns(names, data, opts, where, block.start)
+    if idx_note:
+        warnings.append(idx_note)
+    wl_raw = data[wl_idx]
+    v_raw = data[val_idx]
+    # ---- wavelength unit ------------------------------------------------------------
+    wl_unit_text = opts.wavelength_unit
+    wl_how = "given with --wavelength-unit"
+    if wl_unit_text is None:
+        hdr_unit = col_units[wl_idx] or _unit_from_header(names[wl_idx])
+        if _RAMAN.search(names[wl_idx]):
+            raise InputFormatError(f"column {names[wl_idx]!r} is a Raman shift, not a wavelength",
+                                   f"{where} line {(header_line or 0) + 1}",
+                                   "export the spectrum against wavelength")
+        cand = None
+        if hdr_unit:
+            try:
+                parse_wavelength_unit(hdr_unit)
+                cand = hdr_unit
+            except UnitError:
+                cand = None
+        if cand is None and _WAVENUMBER.search(names[wl_idx]):
+            cand = "cm-1"
+        if cand is None:
+            found = _meta_lookup(meta, r"(x|wave\s*length|wl|abscissa)[\s_]*unit")
+            if found:
+                try:
+                    parse_wavelength_unit(found[1])
+                    cand = found[1]
+                    wl_how = f"from metadata {found[0]!r}"
+                except UnitError:
+                    pass
+        if cand is not None:
+            wl_unit_text = cand
+            if wl_how == "given with --wavelength-unit":
+                wl_how = "from the header" if units_line is None else "from the units row"
+    wl_nm, wl_label, wl_how = _to_nm(wl_raw, wl_unit_text, wl_how, where, warnings)
+    # ---- value unit -----------------------------------------------------------------
+    unit_text = opts.unit
+    unit_how = "given with --unit"
+    if unit_text is None:
+        cands = []
+        if col_units[val_idx]:
+            cands.append((col_units[val_idx], "from the units row"))
+        hu = _unit_from_header(names[val_idx])
+        if hu:
+            cands.append((hu, "from the header"))
+        if names[val_idx] != hu and "_" in names[val_idx]:
+            cands.append((names[val_idx], "from the column name"))
+        found = _meta_lookup(meta, r"^(y|data|value|irradiance|intensity|radiance|spectral)?[\s_]*units?$",
+                             r"(irradiance|radiance|intensity|y|data)[\s_]*units?")
+        if found:
+            cands.append((found[1], f"from metadata {found[0]!r}"))
+        for text, how in cands:
+            try:
+                parse_spectral_unit(text)
+                unit_text, unit_how = text, how
+                break
+            except UnitError:
+                continue
+    if unit_text is None:
+        su = parse_spectral_unit("relative")
+        unit_label = "relative"
+        unit_how = "no recognisable unit in the header, units row or metadata: treated as relative"
+        warnings.append("no unit found for the values: the spectrum is treated as RELATIVE "
+                        "(shape only); give --unit, or scale it (--scale-band / --scale-lux)")
+    else:
+        try:
+            su = parse_spectral_unit(unit_text, f"{where} unit")
+        except UnitError as exc:
+            raise InputFormatError(exc.what, where, exc.todo) from None
+        unit_label = unit_text
+    dq = _meta_lookup(meta, r"^(data\s*type|quantity|measurement\s*type|mode|type)$")
+    if dq and su.quantity == "relative" and re.search(r"(?i)irradiance|radiance", dq[1]) and unit_text is None:
+        warnings.append(f"metadata says {dq[0]} = {dq[1]!r} but no unit was found: values kept relative")
+    # ---- clean ----------------------------------------------------------------------
+    values = v_raw * su.factor
+    if su.photon:
+        from uvcheck.constants import AVOGADRO_PER_MOL, PLANCK_J_S, SPEED_OF_LIGHT_M_S
+
+        per_photon = PLANCK_J_S * SPEED_OF_LIGHT_M_S / (wl_nm * 1e-9)
+        n_factor = AVOGADRO_PER_MOL if re.search(r"mol", unit_text or "") else 1.0
+        values = values * n_factor * per_photon
+        warnings.append("photon units converted to W with E = hc/λ per sample")
+    finite = np.isfinite(wl_nm) & np.isfinite(values)
+    n_drop = int((~finite).sum())
+    if n_drop:
+        bad_at = np.nonzero(~finite)[0][:3]
+        warnings.append(f"{n_drop} row(s) with NaN, inf or missing values dropped "
+                        f"(data row(s) {', '.join(str(int(b) + 1) for b in bad_at)}"
+                        f"{' …' if n_drop > 3 else ''})")
+    wl_nm, values = wl_nm[finite], values[finite]
+    if wl_nm.size < 2:
+        raise InputFormatError("fewer than two rows with finite wavelength and value", where,
+                               "check the value column (--column) and the number format")
+    if np.any(wl_nm <= 0):
+        k = int(np.nonzero(wl_nm <= 0)[0][0])
+        raise InputFormatError(f"wavelength {wl_nm[k]:g} nm is zero or negative "
+                               f"(data row {k + 1}, column {wl_idx + 1})", where,
+                               "the wavelength column must hold wavelengths; "
+                               "choose it with --wavelength-column")
+    d = np.diff(wl_nm)
+    if np.all(d > 0):
+        order = "ascending"
+    elif np.all(d < 0):
+        order = "descending (reversed)"
+    else:
+        order = "unsorted (sorted)"
+        warnings.append("wavelengths were not in order; rows sorted")
+    idx = np.argsort(wl_nm, kind="stable")
+    wl_nm, values = wl_nm[idx], values[idx]
+    uniq, inv, counts = np.unique(wl_nm, return_inverse=True, return_counts=True)
+    n_dup = int((counts > 1).sum())
+    if n_dup:
+        values = np.bincount(inv, weights=values) / counts
+        wl_nm = uniq
+        warnings.append(f"{n_dup} duplicated wavelength(s): their values were averaged")
+    if wl_nm.size < 2:
+        raise InputFormatError("all rows have the same wavelength", where)
+    if wl_nm[-1] > 1e5:
+        raise InputFormatError(f"wavelengths up to {wl_nm[-1]:g} nm are not optical radiation", where,
+                               "wrong wavelength unit? give --wavelength-unit (nm, um, m, cm-1)")
+    steps = np.diff(wl_nm)
+    gaps = _gaps(wl_nm, steps)
+    if gaps:
+        warnings.append("gaps in the data (not bridged): " + ", ".join(f"{a:g}–{b:g} nm" for a, b in gaps[:4]))
+    spikes = _isolated_spikes(values)
+    if spikes:
+        warnings.append("isolated spike(s) far above their neighbours at "
+                        + ", ".join(f"{wl_nm[k]:g} nm" for k in spikes[:3])
+                        + ": a corrupt row or a cosmic-ray hit? check the file")
+    if su.quantity == "relative":
+        sat = _saturation(values)
+        if sat:
+            warnings.append(sat)
+    noise = estimate_noise(values)
+    # ---- metadata of interest ---------------------------------------------------------
+    dist = None
+    found = _meta_lookup(meta, r"(measure(ment)?\s*)?distance", r"abstand", r"^dist")
+    if found:
+        m = re.match(r"^\s*([-+]?\d+(?:[.,]\d+)?\s*(?:mm|cm|m|in|ft)\b)", found[1])
+        try:
+            dist = parse_quantity(m.group(1) if m else found[1], "length").value_si
+            if not dist > 0:
+                raise UnitError("not positive")
+        except UnitError:
+            dist = None
+            warnings.append(f"metadata {found[0]} = {found[1]!r} could not be read as a distance")
+    sha = file_sha256(p)
+    step = {"median": float(np.median(steps)), "min": float(steps.min()), "max": float(steps.max()),
+            "uniform": bool(np.allclose(steps, steps[0], rtol=1e-3, atol=1e-6))}
+    report = ImportReport(
+        path=str(p), sha256=sha, encoding=decoded.encoding, encoding_how=decoded.how,
+        delimiter=delim, decimal=decimal, thousands=thousands,
+        header_line=None if header_line is None else header_line + 1,
+        units_line=None if units_line is None else units_line + 1,
+        data_lines=(block.start + 1, last_line + 1), columns=tuple(names),
+        wavelength_column=names[wl_idx], wavelength_unit=wl_label, wavelength_unit_how=wl_how,
+        value_column=names[val_idx], value_unit=unit_label, value_unit_how=unit_how,
+        quantity=su.quantity, rows_read=n_rows, rows_used=int(wl_nm.size),
+        rows_dropped_nonfinite=n_drop, duplicates_averaged=n_dup, sorted=order, step_nm=step,
+        gaps_nm=tuple(gaps), noise=noise.to_dict(), metadata=dict(list(meta.items())[:60]),
+        measurement_distance_m=dist, warnings=tuple(warnings))
+    spec = Spectrum(wavelength_nm=wl_nm, values=values, quantity=su.quantity,
+                    noise_floor=noise.sigma, gaps_nm=tuple(gaps),
+                    meta={"source": str(p), "sha256": sha, "file_name": p.name,
+                          "instrument": _instrument_notes(meta), "origin": "measured"})
+    return spec, report
+
+
+def _instrument_notes(meta: dict[str, str]) -> dict[str, str]:
+    keys = r"(instrument|spectrometer|model|serial|device|integration|exposure|averag|calibrat|date|time|operator|detector|dark|boxcar|sensor|distance|lamp|sample)"
+    rx = re.compile(keys, re.I)
+    return {k: v for k, v in list(meta.items()) if rx.search(k)}
+
+
+def _pick_columns(names: list[str], data: list[np.ndarray], opts: ReadOptions, where: str,
+                  start: int) -> tuple[int, int, str | None]:
+    n = len(names)
+    usable = [k for k in range(n) if np.isfinite(data[k]).any()]
+    note = None
+    if opts.wavelength_column:
+        wl_idx = _col_ref(opts.wavelength_column, names, "wavelength column", where)
+    else:
+        named = [k for k in usable if _WL_NAME.search(names[k]) or _WAVENUMBER.search(names[k])
+                 or _RAMAN.search(names[k])]
+        index_cols = [k for k in usable if _is_index(names[k], data[k])]
+        if named:
+            wl_idx = named[0]
+            if index_cols and index_cols[0] < wl_idx:
+                note = f"column {index_cols[0] + 1} ({names[index_cols[0]]!r}) looks like a row or pixel index and was ignored"
+        else:
+            rest = [k for k in usable if k not in index_cols]
+            if index_cols and rest and not _monotonic(data[rest[0]]):
+                rest = []
+            if not rest:
+                raise InputFormatError(
+                    "the first column looks like a pixel index (0, 1, 2, …), not wavelengths",
+                    f"{where} line {start + 1}, column 1",
+                    "export the spectrum with its wavelength calibration, or give "
+                    "--wavelength-column if a column does hold wavelengths")
+            wl_idx = rest[0]
+            if index_cols and index_cols[0] < wl_idx:
+                note = f"column {index_cols[0] + 1} ({names[index_cols[0]]!r}) looks like a row or pixel index and was ignored"
+        if _is_index(names[wl_idx], data[wl_idx]) and not named:
+            raise InputFormatError("the wavelength column looks like a pixel index (0, 1, 2, …)",
+                                   f"{where} line {start + 1}, column {wl_idx + 1}",
+                                   "export with the wavelength calibration")
+    if opts.column:
+        val_idx = _col_ref(opts.column, names, "value column", where)
+        if val_idx == wl_idx:
+            raise InputFormatError("the value column is the wavelength column", where,
+                                   "choose another --column")
+        return wl_idx, val_idx, note
+    cands = [k for k in usable if k != wl_idx and not _is_index(names[k], data[k])]
+    second_wl = [k for k in cands if _WL_NAME.search(names[k]) or _same_axis(data[wl_idx], data[k])]
+    if second_wl:
+        raise InputFormatError(
+            f"the file holds spectra side by side (wavelength columns {wl_idx + 1} and "
+            f"{second_wl[0] + 1})", where,
+            "choose one pair with --wavelength-column N and --column M")
+    if not cands:
+        raise InputFormatError("no value column next to the wavelengths", f"{where} line {start + 1}",
+                               "the file needs a wavelength column and a value column")
+    if len(cands) > 1:
+        listing = ", ".join(f"{k + 1} {names[k]!r}" for k in cands)
+        raise InputFormatError(f"{len(cands)} value columns ({listing})", where,
+                               "choose one with --column NAME or --column NUMBER")
+    return wl_idx, cands[0], note
+
+
+def _is_index(name: str, col: np.ndarray) -> bool:
+    if _INDEX_NAME.match(name or ""):
+        return True
+    c = col[np.isfinite(col)]
+    if c.size < 3:
+        return False
+    return bool(c[0] in (0.0, 1.0) and np.all(np.diff(c) == 1.0))
+
+
+def _monotonic(col: np.ndarray) -> bool:
+    c = col[np.isfinite(col)]
+    d = np.diff(c)
+    return bool(c.size >= 2 and (np.all(d > 0) or np.all(d < 0)))
+
+
+def _same_axis(wl: np.ndarray, other: np.ndarray) -> bool:
+    a, b = wl[np.isfinite(wl)], other[np.isfinite(other)]
+    if a.size < 5 or b.size < 5:
+        return False
+    mono = np.all(np.diff(b) > 0) or np.all(np.diff(b) < 0)
+    overlap = min(a.max(), b.max()) - max(a.min(), b.min())
+    return bool(mono and overlap > 0.5 * (a.max() - a.min()) and b.min() > 0.5 * a.min())
+
+
+def _to_nm(wl: np.ndarray, unit_text: str | None, how: str, where: str,
+           warnings: list[str]) -> tuple[np.ndarray, str, str]:
+    if unit_text is not None:
+        try:
+            kind, factor = parse_wavelength_unit(unit_text)
+        except UnitError as exc:
+            raise InputFormatError(exc.what, where, exc.todo) from None
+        if kind == "wavenumber":
+            with np.errstate(divide="ignore"):
+                out = 1e7 / (wl * factor)
+            warnings.append("wavenumbers (cm⁻¹) converted to wavelengths: λ[nm] = 10⁷ / ν[cm⁻¹]")
+            return out, unit_text, how
+        return wl * factor, unit_text, how
+    fin = wl[np.isfinite(wl)]
+    lo, hi = float(fin.min()), float(fin.max())
+    if lo >= 100 and hi <= 20000:
+        return wl, "nm", "inferred from the values (100–20 000 → nm)"
+    if 0.1 <= lo and hi <= 20:
+        warnings.append(f"wavelengths {lo:g}–{hi:g} read as µm (no unit given)")
+        return wl * 1000.0, "um", "inferred from the values (0.1–20 → µm)"
+    if 1e-7 <= lo and hi <= 2e-5:
+        warnings.append(f"wavelengths {lo:g}–{hi:g} read as metres (no unit given)")
+        return wl * 1e9, "m", "inferred from the values (1e-7–2e-5 → m)"
+    if lo <= 0:
+        k = int(np.nonzero(wl <= 0)[0][0])
+        raise InputFormatError(f"wavelength {wl[k]:g} is zero or negative (data row {k + 1})", where,
+                               "the wavelength column must hold wavelengths; check --wavelength-column")
+    raise InputFormatError(f"the wavelength column runs {lo:g}–{hi:g}, which is no wavelength range "
+                           "in nm, µm or m", where,
+                           "give the unit with --wavelength-unit (nm, um, m, cm-1)")
+
+
+def _gaps(wl: np.ndarray, steps: np.ndarray) -> list[tuple[float, float]]:
+    """Steps more than 3× both neighbouring steps and > 1 nm are gaps."""
+    if steps.size < 3:
+        return []
+    left = np.concatenate(([steps[1]], steps[:-1]))
+    right = np.concatenate((steps[1:], [steps[-2]]))
+    neigh = np.maximum(left, right)
+    big = (steps > 3.0 * neigh) & (steps > 1.0)
+    return [(float(wl[k]), float(wl[k + 1])) for k in np.nonzero(big)[0]]
+
+
+def _isolated_spikes(v: np.ndarray) -> list[int]:
+    if v.size < 5:
+        return []
+    a = np.abs(v)
+    nb = np.maximum(np.concatenate(([a[1]], a[:-1])), np.concatenate((a[1:], [a[-2]])))
+    scale = float(np.median(a)) or float(a.max()) * 1e-12
+    spikes = np.nonzero((a > 1000.0 * np.maximum(nb, scale * 10)) & (a > 0))[0]
+    return [int(k) for k in spikes]
+
+
+def _saturation(v: np.ndarray) -> str | None:
+    vmax = float(v.max())
+    if vmax <= 0:
+        return None
+    at = v >= vmax * (1 - 1e-9)
+    run = best = 0
+    for flag in at:
+        run = run + 1 if flag else 0
+        best = max(best, run)
+    if best >= 3 and float(vmax).is_integer() and vmax in (255.0, 1023.0, 4095.0, 16383.0, 65535.0,
+                                                           65536.0, 262143.0):
+        return (f"{best} consecutive samples at {vmax:g} counts: the detector is probably "
+                "saturated there; shorten the integration time")
+    return None

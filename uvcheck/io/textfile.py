@@ -1,0 +1,89 @@
+"""Decoding text files of unknown encoding, and streaming their lines.
+
+Instruments and spreadsheets write UTF-8 (with or without BOM), UTF-16 ("Unicode text" from
+spreadsheets, usually with a BOM) and Latin-1 / Windows-1252 (µ, ², ° as single bytes).
+"""
+
+from __future__ import annotations
+
+import codecs
+import hashlib
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Iterator
+
+from uvcheck.errors import InputFormatError
+
+HEAD_BYTES = 256 * 1024
+
+
+@dataclass(frozen=True)
+class Decoded:
+    encoding: str          # codec name used
+    how: str               # how it was decided
+    bom: bool
+
+
+def sniff_encoding(head: bytes, forced: str | None = None, where: str = "file") -> Decoded:
+    """Decide the text encoding from the first bytes of a file.
+
+    head : the first bytes (up to :data:`HEAD_BYTES`).
+    forced : an encoding given by the user (``--encoding``), used as is.
+    """
+    if forced:
+        try:
+            codecs.lookup(forced)
+        except LookupError:
+            raise InputFormatError(f"unknown encoding {forced!r}", where,
+                                   "use utf-8, utf-16, latin-1 or cp1252") from None
+        return Decoded(forced, "given with --encoding", False)
+    if not head:
+        raise InputFormatError("the file is empty", where, "export the spectrum again")
+    if head.startswith(codecs.BOM_UTF8):
+        return Decoded("utf-8-sig", "UTF-8 byte-order mark", True)
+    if head.startswith(codecs.BOM_UTF16_LE) or head.startswith(codecs.BOM_UTF16_BE):
+        return Decoded("utf-16", "UTF-16 byte-order mark", True)
+    sample = head[:4096]
+    nul = sample.count(b"\x00")
+    if nul:
+        even = sample[0::2].count(b"\x00")
+        odd = sample[1::2].count(b"\x00")
+        if odd > 0.4 * len(sample) / 2 and even < 0.05 * len(sample) / 2:
+            return Decoded("utf-16-le", "NUL bytes in every second position (UTF-16 LE, no BOM)", False)
+        if even > 0.4 * len(sample) / 2 and odd < 0.05 * len(sample) / 2:
+            return Decoded("utf-16-be", "NUL bytes in every second position (UTF-16 BE, no BOM)", False)
+        raise InputFormatError("this is a binary file, not a text export", where,
+                               "export the spectrum from the instrument software as text "
+                               "(CSV or tab-separated)")
+    control = sum(1 for b in sample if b < 9 or 13 < b < 32)
+    if control > 0.01 * len(sample) + 2:
+        raise InputFormatError("this is a binary file, not a text export", where,
+                               "export the spectrum as text (CSV or tab-separated)")
+    try:
+        head.decode("utf-8")
+        return Decoded("utf-8", "valid UTF-8", False)
+    except UnicodeDecodeError as exc:
+        if exc.start >= len(head) - 4:  # a multi-byte character cut by the head boundary
+            return Decoded("utf-8", "valid UTF-8", False)
+    return Decoded("cp1252", "not valid UTF-8: read as Latin-1 / Windows-1252", False)
+
+
+def file_sha256(path: Path) -> str:
+    h = hashlib.sha256()
+    with open(path, "rb") as fh:
+        for chunk in iter(lambda: fh.read(1 << 20), b""):
+            h.update(chunk)
+    return h.hexdigest()
+
+
+def iter_lines(path: Path, decoded: Decoded) -> Iterator[str]:
+    """Stream the decoded lines (without line endings) of a file."""
+    errors = "replace" if decoded.encoding == "cp1252" else "strict"
+    with open(path, "r", encoding=decoded.encoding, errors=errors, newline=None) as fh:
+        try:
+            for line in fh:
+                yield line.rstrip("\r\n")
+        except UnicodeDecodeError as exc:
+            raise InputFormatError(f"the file is not valid {decoded.encoding} text "
+                                   f"({exc.reason} at byte {exc.start})", str(path),
+                                   "give the encoding with --encoding (e.g. latin-1)") from None

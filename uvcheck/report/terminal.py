@@ -1,0 +1,130 @@
+"""Plain-text summary for the terminal, rendered from ``Assessment.to_dict()``.
+
+No colour codes and no third-party libraries: the output reads the same in a terminal, a
+log file or an e-mail. Every absolute value is shown in SI and in the trade unit.
+"""
+
+from __future__ import annotations
+
+from typing import Any, Sequence
+
+from uvcheck.units import format_duration, sig
+
+STATUS_TEXT = {"complete": "measured", "partial": "partly measured (lower bound)",
+               "not-covered": "not measured", "below-detection": "below detection limit",
+               "not-assessable": "not assessable"}
+
+
+def table(headers: Sequence[str], rows: Sequence[Sequence[Any]], right: Sequence[int] = ()) -> str:
+    """A fixed-width text table; columns listed in ``right`` are right-aligned."""
+    cells = [[str(h) for h in headers]] + [["" if c is None else str(c) for c in r] for r in rows]
+    widths = [max(len(r[i]) for r in cells) for i in range(len(headers))]
+    out = []
+    for k, r in enumerate(cells):
+        parts = [c.rjust(widths[i]) if i in right else c.ljust(widths[i]) for i, c in enumerate(r)]
+        out.append("  " + "  ".join(parts).rstrip())
+        if k == 0:
+            out.append("  " + "  ".join("-" * w for w in widths))
+    return "\n".join(out)
+
+
+def _pct(x: float | None) -> str:
+    return "—" if x is None else (f"{100 * x:.3g} %" if x < 0.999995 or x > 1 else "100 %")
+
+
+def _band_value(b: dict, key: str) -> str:
+    if b["status"] == "not-covered":
+        return "—"
+    if b["status"] == "below-detection":
+        dl = b["detection_limit" if key == "value" else "detection_limit_trade"]
+        return "< " + sig(dl) if dl is not None else "< DL"
+    v = b[key]
+    if v is None:
+        return "(relative)"
+    return ("≥ " if b["status"] == "partial" else "") + sig(v)
+
+
+def render_import(inp: dict) -> list[str]:
+    r = inp.get("inferred") or {}
+    if not r:
+        return [f"Input: {inp.get('origin', 'spectrum')} ({inp.get('quantity')})"]
+    lines = [f"Import report for {r['path']}",
+             f"  text: {r['encoding']} ({r['encoding_how']}); {r['delimiter']}-separated, "
+             f"decimal mark '{r['decimal']}'" + (f", thousands '{r['thousands']}'" if r.get("thousands") else ""),
+             f"  header line {r['header_line'] or '—'}, units line {r['units_line'] or '—'}, "
+             f"data lines {r['data_lines'][0]}–{r['data_lines'][1]} "
+             f"({r['rows_read']} rows read, {r['rows_used']} used)",
+             f"  wavelength: column {r['wavelength_column']!r} in {r['wavelength_unit']} "
+             f"({r['wavelength_unit_how']}); {r['sorted']}",
+             f"  values: column {r['value_column']!r} in {r['value_unit']} ({r['value_unit_how']})"
+             f" -> {r['quantity']}",
+             f"  range {sig(inp['range_nm'][0], 4)}–{sig(inp['range_nm'][1], 4)} nm, median step "
+             f"{sig(r['step_nm']['median'])} nm" + ("" if r["step_nm"]["uniform"] else " (non-uniform)"),
+             ]
+    nz = r.get("noise") or {}
+    if nz.get("sigma") is not None:
+        lines.append(f"  noise floor (1 σ per sample): {sig(inp.get('noise_floor'))} {inp['unit']} "
+                     f"({nz['method']}, {nz['n_negative']} negative samples)")
+    if r.get("measurement_distance_m"):
+        lines.append(f"  measurement distance in the file: {sig(r['measurement_distance_m'])} m")
+    return lines
+
+
+def render_assessment(d: dict) -> str:
+    """The whole terminal summary of an assessment dict."""
+    out: list[str] = [f"uvcheck {d['tool']['version']}: lamp assessment", ""]
+    out += render_import(d["input"])
+    for s in d["input"].get("scaling", []):
+        out.append(f"  scaling: {s.get('method')} ({s.get('text')})")
+    out.append(f"  {d['position']}")
+    warn = list(d["input"].get("warnings", [])) + list(d.get("warnings", []))
+    if warn:
+        out.append("")
+        out.append("Warnings")
+        out += [f"  ! {w}" for w in warn]
+    out.append("")
+    out.append("Emission by band")
+    bands = d["bands"]
+    any_b = next(iter(bands.values()))
+    unit = any_b["unit"]
+    trade = any_b["trade_unit"]
+    rows = []
+    for name, b in bands.items():
+        rows.append([name, f"{b['range_nm'][0]:g}–{b['range_nm'][1]:g}", _band_value(b, "value"),
+                     _band_value(b, "value_trade"), _pct(b["fraction"]), _pct(b["coverage"]),
+                     STATUS_TEXT.get(b["status"], b["status"])])
+    out.append(table(["band", "nm", unit, trade, "share", "coverage", "status"], rows,
+                     right=(2, 3, 4, 5)))
+    out.append(f"  ({d['band_convention']})")
+    sp = d["spectral"]
+    out.append("")
+    pk = f"Peak {sig(sp['peak_nm'], 4)} nm" if sp["peak_nm"] is not None else "No peak"
+    out.append(f"{pk}; centroid {sig(sp['centroid_nm'], 4)} nm; FWHM {sig(sp['fwhm_nm'])} nm")
+    if sp["lines"]:
+        names = [f"{sig(ln['wavelength_nm'], 4)} nm" + (f" ({ln['identified_as']})" if ln["identified_as"] else "")
+                 for ln in sp["lines"][:8]]
+        out.append("Emission peaks found: " + ", ".join(names))
+    out.append("Mercury 253.7 nm line: " + ("present" if sp["hg_253_7_present"] else "not found"))
+    ph = d["photometry"]
+    if ph["value"] is not None:
+        out.append(f"{ph['quantity'].replace('_', ' ').capitalize()}: {sig(ph['value'])} {ph['unit']}"
+                   + ("" if ph["coverage"] >= 0.99 else f" (V(λ) {ph['coverage']:.0%} covered: lower bound)"))
+    if ph["x"] is not None:
+        out.append(f"Chromaticity x = {ph['x']:.4f}, y = {ph['y']:.4f}"
+                   + (f"; CCT {ph['cct_K']:.0f} K, Duv {ph['duv']:+.4f}" if ph["cct_K"] else
+                      f"; no CCT: {ph['cct_note']}"))
+    for key, renderer in SECTION_RENDERERS.items():
+        if d.get(key) is not None:
+            out.append("")
+            out += renderer(d[key], d)
+    out.append("")
+    out += [f"Note: {n}" for n in d.get("notes", [])]
+    return "\n".join(out) + "\n"
+
+
+#: Renderers for later sections (hazards, germicidal, claims …), keyed by JSON section name.
+SECTION_RENDERERS: dict[str, Any] = {}
+
+
+def duration(seconds: float | None) -> str:
+    return format_duration(seconds)

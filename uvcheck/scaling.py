@@ -1,0 +1,117 @@
+"""Scaling a relative spectrum to absolute units, with the scaling recorded.
+
+A relative spectrum gives shape results only. It becomes absolute with an anchor:
+
+* a radiometer reading in a band (``"UV-C=120 µW/cm²"``, or a range ``"250-260nm=5 uW/cm2"``);
+  the reading is taken as the unweighted band irradiance, i.e. a meter with a flat response
+  over the band — real meters are not flat, so the result is indicative unless the meter's
+  response is known;
+* a lux-meter reading: the spectrum is scaled so that 683·∫E·V dλ equals the reading. Lux
+  carries no information about UV, and lux meters misread narrow-band LEDs: the output says
+  so loudly;
+* a known total over the measured range (``"12 W/m2"``).
+
+The anchor, its value and its source are appended to ``spectrum.meta['scaling']`` and shown
+in every output.
+"""
+
+from __future__ import annotations
+
+import re
+
+from uvcheck.bands import BAND_RANGES
+from uvcheck.errors import ConfigurationError
+from uvcheck.photometry import luminous_value
+from uvcheck.spectrum import Spectrum, integrate, scaled, total_integral
+from uvcheck.units import parse_quantity
+
+LUX_WARNING = ("SCALED BY A LUX READING: lux says nothing about UV. The UV figures rest "
+               "entirely on the spectrum's shape below 400 nm, and lux meters misread "
+               "narrow-band and violet sources. Treat every UV figure as indicative only.")
+BAND_METER_NOTE = ("scaled by a band reading, taken as the unweighted band irradiance (a meter "
+                   "with a flat response over the band); a real meter's spectral response "
+                   "changes this, so the scaling is indicative unless that response is known")
+
+
+def _quantity_kind(spectrum: Spectrum) -> tuple[str, str]:
+    return ("irradiance", "irradiance") if spectrum.quantity in ("relative", "irradiance") else (
+        spectrum.quantity, spectrum.quantity)
+
+
+def parse_band_reading(text: str) -> tuple[str, float, float, float]:
+    """``"UV-C=120 µW/cm²"`` → (label, lo_nm, hi_nm, value in W m⁻²).
+
+    Examples
+    --------
+    >>> parse_band_reading("UV-C=120 µW/cm²")
+    ('UV-C', 200.0, 280.0, 1.2)
+    >>> parse_band_reading("250-260nm=5 uW/cm2")[1:3]
+    (250.0, 260.0)
+    """
+    if "=" not in text:
+        raise ConfigurationError(f"cannot read the band reading {text!r}", "--scale-band",
+                                 "write it as BAND=VALUE UNIT, e.g. 'UV-C=120 uW/cm2' or "
+                                 "'250-260nm=5 uW/cm2'")
+    band, reading = (t.strip() for t in text.split("=", 1))
+    if band in BAND_RANGES:
+        lo, hi = BAND_RANGES[band]
+    else:
+        m = re.fullmatch(r"(\d+(?:\.\d+)?)\s*[-–]\s*(\d+(?:\.\d+)?)\s*(nm)?", band)
+        if not m:
+            raise ConfigurationError(f"unknown band {band!r}", "--scale-band",
+                                     f"use one of {', '.join(BAND_RANGES)} or a range like "
+                                     "'250-260nm'")
+        lo, hi = float(m.group(1)), float(m.group(2))
+        if not hi > lo:
+            raise ConfigurationError(f"band {band!r} is empty", "--scale-band")
+    value = parse_quantity(reading, "irradiance", "--scale-band").value_si
+    if not value > 0:
+        raise ConfigurationError("the band reading must be positive", "--scale-band")
+    return band, lo, hi, value
+
+
+def scale_by_band(spectrum: Spectrum, text: str) -> Spectrum:
+    """Scale so the band integral equals a radiometer reading (see :func:`parse_band_reading`)."""
+    band, lo, hi, value = parse_band_reading(text)
+    r = integrate(spectrum, lo, hi)
+    if r.coverage < 0.999:
+        raise ConfigurationError(f"the spectrum covers only {r.coverage:.0%} of the band {band} "
+                                 f"({lo:g}–{hi:g} nm)", "--scale-band",
+                                 "scale with a band the spectrum covers")
+    dl = r.detection_limit or 0.0
+    if not r.value > dl:
+        raise ConfigurationError(f"the spectrum has no signal above its noise in {band}",
+                                 "--scale-band", "scale with a band where the lamp emits")
+    return scaled(spectrum, value / r.value, "irradiance",
+                  {"method": "band reading", "band": band, "range_nm": [lo, hi],
+                   "reading_W_m2": value, "text": text, "note": BAND_METER_NOTE})
+
+
+def scale_by_lux(spectrum: Spectrum, lux_text: str) -> Spectrum:
+    """Scale so that K_m ∫E·V dλ equals a lux reading; always flagged as UV-blind."""
+    value = parse_quantity(lux_text, "illuminance", "--scale-lux", default_unit="lx").value_si
+    if not value > 0:
+        raise ConfigurationError("the lux reading must be positive", "--scale-lux")
+    lum, cov = luminous_value(spectrum)
+    if cov < 0.99:
+        raise ConfigurationError(f"the spectrum covers only {cov:.0%} of V(λ) (360–830 nm)",
+                                 "--scale-lux", "a lux scaling needs the whole visible range")
+    if not lum > 0:
+        raise ConfigurationError("the spectrum has no visible output to scale by lux",
+                                 "--scale-lux", "use --scale-band with a UV radiometer reading")
+    return scaled(spectrum, value / lum, "irradiance",
+                  {"method": "lux reading", "reading_lx": value, "text": lux_text,
+                   "note": LUX_WARNING})
+
+
+def scale_by_total(spectrum: Spectrum, text: str) -> Spectrum:
+    """Scale so that the integral over the measured range equals a known total."""
+    value = parse_quantity(text, "irradiance", "--scale-total").value_si
+    tot = total_integral(spectrum)
+    if not (value > 0 and tot > 0):
+        raise ConfigurationError("the total and the spectrum's integral must be positive",
+                                 "--scale-total")
+    lo, hi = spectrum.range_nm
+    return scaled(spectrum, value / tot, "irradiance",
+                  {"method": "known total", "range_nm": [lo, hi], "total_W_m2": value,
+                   "text": text})

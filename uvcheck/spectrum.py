@@ -1,0 +1,355 @@
+"""The one spectrum type, and integration with honest coverage.
+
+A :class:`Spectrum` is immutable and validated once. Its *covered range* is the wavelength
+span it represents (the measured range for a measurement, the model range for a nominal
+spectrum), minus any *gaps* inside it. Every integral over [a, b] reports how much of [a, b]
+(or of a weighting's area over [a, b]) the spectrum covered: missing range is never read as
+zero emission.
+
+Integration rule (used for bands, hazards and germicidal quantities alike): the spectrum is
+taken as piecewise linear between its samples, the weighting is evaluated at the samples
+(and at the integration limits), and the product is integrated by the trapezoid rule on the
+spectrum's own grid. This is the Σ E_λ·W(λ)·Δλ of IEC 62471:2006 clause 4.3 with Δλ the
+measurement's spacing; evaluating the weighting on the spectrum's grid (rather than
+resampling the spectrum onto a coarse weighting grid) keeps narrow lines intact. Discrete
+lines (nominal line sources) add ``value × W(λ_line)``. Bands are half-open [a, b) for
+lines, so a partition of bands adds up to the total exactly.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field, replace
+from types import MappingProxyType
+from typing import Any, Callable, Mapping
+
+import numpy as np
+
+from uvcheck.errors import ConfigurationError, InputFormatError
+
+#: Quantities a spectrum can hold, with their spectral and integrated SI units.
+SPECTRAL_UNIT = {"irradiance": "W m-2 nm-1", "radiance": "W m-2 sr-1 nm-1",
+                 "flux": "W nm-1", "relative": "relative"}
+INTEGRATED_UNIT = {"irradiance": "W m-2", "radiance": "W m-2 sr-1", "flux": "W",
+                   "relative": "relative"}
+QUANTITIES = tuple(SPECTRAL_UNIT)
+
+
+@dataclass(frozen=True)
+class Line:
+    """A discrete emission line of a nominal line source.
+
+    wavelength_nm : line centre. [nm]
+    value : line strength in the spectrum's integrated unit (W m⁻² for irradiance). [W m⁻²]
+    """
+
+    wavelength_nm: float
+    value: float
+
+
+def _frozen_array(a: Any, name: str) -> np.ndarray:
+    arr = np.array(a, dtype=np.float64, copy=True)
+    if arr.ndim != 1:
+        raise InputFormatError(f"{name} must be one-dimensional, got shape {arr.shape}")
+    arr.setflags(write=False)
+    return arr
+
+
+@dataclass(frozen=True, eq=False)
+class Spectrum:
+    """A spectral distribution: irradiance, radiance, flux or a relative shape.
+
+    wavelength_nm : sample wavelengths, finite, positive, strictly increasing. [nm]
+    values : spectral values, finite (negative values are kept: they are noise). Units by
+        ``quantity``: [W m⁻² nm⁻¹], [W m⁻² sr⁻¹ nm⁻¹], [W nm⁻¹] or relative.
+    quantity : ``irradiance`` | ``radiance`` | ``flux`` | ``relative``.
+    lines : discrete lines (nominal line sources), strengths in the integrated unit.
+    noise_floor : 1-σ noise of one sample, in the spectral unit, or None if unknown.
+    gaps_nm : intervals inside the covered range with no data. [nm]
+    covered_nm : the range the spectrum represents; defaults to the span of samples and
+        lines. A nominal model declares its own range. [nm]
+    meta : source file, sha256, instrument notes, scaling history (read-only mapping).
+
+    Examples
+    --------
+    >>> s = Spectrum([250.0, 260.0], [1.0, 1.0], "irradiance")
+    >>> s.range_nm
+    (250.0, 260.0)
+    """
+
+    wavelength_nm: np.ndarray
+    values: np.ndarray
+    quantity: str
+    lines: tuple[Line, ...] = ()
+    noise_floor: float | None = None
+    gaps_nm: tuple[tuple[float, float], ...] = ()
+    covered_nm: tuple[float, float] | None = None
+    meta: Mapping[str, Any] = field(default_factory=lambda: MappingProxyType({}))
+
+    def __post_init__(self) -> None:
+        wl = _frozen_array(self.wavelength_nm, "wavelength_nm")
+        v = _frozen_array(self.values, "values")
+        object.__setattr__(self, "wavelength_nm", wl)
+        object.__setattr__(self, "values", v)
+        if self.quantity not in SPECTRAL_UNIT:
+            raise ConfigurationError(f"unknown quantity {self.quantity!r}; "
+                                     f"available: {', '.join(QUANTITIES)}")
+        if wl.shape != v.shape:
+            raise InputFormatError(f"{wl.size} wavelengths but {v.size} values")
+        if not np.all(np.isfinite(wl)) or not np.all(np.isfinite(v)):
+            raise InputFormatError("wavelengths and values must be finite")
+        if wl.size and wl[0] <= 0:
+            raise InputFormatError(f"wavelengths must be positive, found {wl[0]:g} nm")
+        if wl.size > 1 and not np.all(np.diff(wl) > 0):
+            raise InputFormatError("wavelengths must be strictly increasing")
+        if wl.size == 1:
+            raise InputFormatError("a spectrum needs at least two samples")
+        lines = tuple(ln if isinstance(ln, Line) else Line(float(ln[0]), float(ln[1]))
+                      for ln in self.lines)
+        for ln in lines:
+            if not (math.isfinite(ln.wavelength_nm) and ln.wavelength_nm > 0
+                    and math.isfinite(ln.value)):
+                raise InputFormatError(f"bad line {ln}")
+        object.__setattr__(self, "lines", tuple(sorted(lines, key=lambda ln: ln.wavelength_nm)))
+        if wl.size == 0 and not lines:
+            raise InputFormatError("a spectrum needs samples or lines")
+        if self.covered_nm is None:
+            pts = [float(wl[0]), float(wl[-1])] if wl.size else []
+            pts += [ln.wavelength_nm for ln in lines]
+            cov = (min(pts), max(pts))
+        else:
+            cov = (float(self.covered_nm[0]), float(self.covered_nm[1]))
+            if not cov[0] < cov[1]:
+                raise InputFormatError(f"covered range {cov} is empty")
+        object.__setattr__(self, "covered_nm", cov)
+        gaps = tuple(sorted((float(a), float(b)) for a, b in self.gaps_nm))
+        object.__setattr__(self, "gaps_nm", gaps)
+        if self.noise_floor is not None and not (math.isfinite(self.noise_floor)
+                                                  and self.noise_floor >= 0):
+            raise InputFormatError(f"noise floor must be finite and >= 0, got {self.noise_floor}")
+        if not isinstance(self.meta, MappingProxyType):
+            object.__setattr__(self, "meta", MappingProxyType(dict(self.meta)))
+
+    # --- derived, read-only views -------------------------------------------------------
+    @property
+    def range_nm(self) -> tuple[float, float]:
+        """The covered range. [nm]"""
+        return self.covered_nm  # type: ignore[return-value]
+
+    @property
+    def is_absolute(self) -> bool:
+        return self.quantity != "relative"
+
+    @property
+    def spectral_unit(self) -> str:
+        return SPECTRAL_UNIT[self.quantity]
+
+    @property
+    def integrated_unit(self) -> str:
+        return INTEGRATED_UNIT[self.quantity]
+
+    @property
+    def step_nm(self) -> float | None:
+        """Median sample spacing. [nm]"""
+        if self.wavelength_nm.size < 2:
+            return None
+        return float(np.median(np.diff(self.wavelength_nm)))
+
+    def segments(self) -> list[tuple[float, float]]:
+        """Covered sub-intervals: the covered range minus the gaps. [nm]"""
+        lo, hi = self.range_nm
+        segs = []
+        cur = lo
+        for a, b in self.gaps_nm:
+            if b <= cur or a >= hi:
+                continue
+            if a > cur:
+                segs.append((cur, min(a, hi)))
+            cur = max(cur, b)
+        if cur < hi:
+            segs.append((cur, hi))
+        return segs
+
+    def derive(self, **changes: Any) -> "Spectrum":
+        """A new spectrum with some fields changed (the original is untouched)."""
+        return replace(self, **changes)
+
+
+# ---------------------------------------------------------------------------------------------
+# Integration
+# ---------------------------------------------------------------------------------------------
+
+Weight = Callable[[np.ndarray], np.ndarray]
+
+
+@dataclass(frozen=True)
+class Integral:
+    """A (weighted) integral over [lo, hi] and how much of it was measured.
+
+    value : the integral over the covered part, in the spectrum's integrated unit.
+    coverage : share of the weighting's area over [lo, hi] (of the length for an unweighted
+        band) that the spectrum covers, 0–1. [-]
+    sigma : 1-σ of the value from the sample noise floor, or None. [integrated unit]
+    lo_nm, hi_nm : the limits asked for. [nm]
+    covered_nm : the covered sub-intervals of [lo, hi]. [nm]
+    """
+
+    value: float
+    coverage: float
+    sigma: float | None
+    lo_nm: float
+    hi_nm: float
+    covered_nm: tuple[tuple[float, float], ...]
+
+    @property
+    def complete(self) -> bool:
+        return self.coverage >= 1.0 - 1e-9
+
+    @property
+    def detection_limit(self) -> float | None:
+        """3 σ (the IUPAC limit-of-detection convention, k = 3), or None."""
+        return None if self.sigma is None else 3.0 * self.sigma
+
+
+def _area(weight: Weight | None, a: float, b: float) -> float:
+    """∫ₐᵇ W(λ) dλ on a dense grid (0.05 nm or finer), used only for coverage shares."""
+    if b <= a:
+        return 0.0
+    if weight is None:
+        return b - a
+    n = max(3, int(math.ceil((b - a) / 0.05)) + 1)
+    x = np.linspace(a, b, n)
+    return float(np.trapezoid(np.asarray(weight(x), dtype=float), x))
+
+
+def integrate(spectrum: Spectrum, lo_nm: float, hi_nm: float,
+              weight: Weight | None = None) -> Integral:
+    """∫ E(λ)·W(λ) dλ over [lo, hi] on the spectrum's grid, with coverage. [integrated unit]
+
+    spectrum : the spectrum E(λ). [spectral unit]
+    lo_nm, hi_nm : integration limits. [nm]
+    weight : W(λ), dimensionless, vectorised; None for an unweighted band. [-]
+
+    Notes
+    -----
+    Trapezoid rule on the samples inside [lo, hi] plus the two limits (the spectrum is
+    interpolated linearly there). Parts of [lo, hi] outside the covered range, or in a gap,
+    are left out of the value and counted in the coverage; they are never filled.
+
+    Examples
+    --------
+    >>> flat = Spectrum([200.0, 300.0, 400.0], [1.0, 1.0, 1.0], "irradiance")
+    >>> r = integrate(flat, 250.0, 450.0)
+    >>> (r.value, round(r.coverage, 3))
+    (150.0, 0.75)
+    """
+    lo, hi = float(lo_nm), float(hi_nm)
+    if not hi > lo:
+        raise ConfigurationError(f"integration range {lo:g}–{hi:g} nm is empty")
+    wl, y = spectrum.wavelength_nm, spectrum.values
+    covered: list[tuple[float, float]] = []
+    total = 0.0
+    var = 0.0
+    for s0, s1 in spectrum.segments():
+        a, b = max(lo, s0), min(hi, s1)
+        if b <= a:
+            continue
+        covered.append((a, b))
+        if wl.size >= 2:
+            a_d, b_d = max(a, wl[0]), min(b, wl[-1])
+            if b_d > a_d:
+                i0 = int(np.searchsorted(wl, a_d, side="right"))
+                i1 = int(np.searchsorted(wl, b_d, side="left"))
+                x = np.concatenate(([a_d], wl[i0:i1], [b_d]))
+                yy = np.concatenate(([np.interp(a_d, wl, y)], y[i0:i1], [np.interp(b_d, wl, y)]))
+                w = np.ones_like(x) if weight is None else np.asarray(weight(x), dtype=float)
+                dx = np.diff(x)
+                c = np.zeros_like(x)
+                c[:-1] += dx / 2
+                c[1:] += dx / 2
+                c *= w
+                total += float(np.dot(c, yy))
+                var += float(np.dot(c, c))
+    for ln in spectrum.lines:
+        if lo <= ln.wavelength_nm < hi and any(a <= ln.wavelength_nm <= b for a, b in covered):
+            wv = 1.0 if weight is None else float(np.asarray(weight(np.array([ln.wavelength_nm])))[0])
+            total += ln.value * wv
+    full = _area(weight, lo, hi)
+    got = sum(_area(weight, a, b) for a, b in covered)
+    if full > 0:
+        coverage = min(1.0, got / full)
+    else:
+        coverage = 1.0 if covered and math.isclose(sum(b - a for a, b in covered), hi - lo) else 0.0
+    sigma = None if spectrum.noise_floor is None else spectrum.noise_floor * math.sqrt(var)
+    return Integral(value=total, coverage=coverage, sigma=sigma, lo_nm=lo, hi_nm=hi,
+                    covered_nm=tuple(covered))
+
+
+def total_integral(spectrum: Spectrum) -> float:
+    """∫ E(λ) dλ over the whole covered range (continuum and lines). [integrated unit]"""
+    lo, hi = spectrum.range_nm
+    return integrate(spectrum, lo, math.nextafter(hi, math.inf)).value
+
+
+# ---------------------------------------------------------------------------------------------
+# Scaling (relative -> absolute) and plain transformations
+# ---------------------------------------------------------------------------------------------
+
+def scaled(spectrum: Spectrum, factor: float, quantity: str | None = None,
+           note: Mapping[str, Any] | None = None) -> Spectrum:
+    """The spectrum multiplied by ``factor``, optionally becoming absolute.
+
+    spectrum : any spectrum.
+    factor : multiplier (> 0). [-] or [spectral unit per relative unit]
+    quantity : new quantity (e.g. ``irradiance`` when scaling a relative spectrum).
+    note : a record of the scaling (method, reading, source) appended to ``meta['scaling']``.
+
+    Examples
+    --------
+    >>> s = scaled(Spectrum([400.0, 500.0], [1.0, 1.0], "relative"), 2.0, "irradiance")
+    >>> (s.quantity, float(s.values[0]))
+    ('irradiance', 2.0)
+    """
+    if not (math.isfinite(factor) and factor > 0):
+        raise ConfigurationError(f"scaling factor must be finite and positive, got {factor}")
+    meta = dict(spectrum.meta)
+    if note is not None:
+        meta["scaling"] = list(meta.get("scaling", [])) + [dict(note)]
+    return replace(
+        spectrum,
+        values=spectrum.values * factor,
+        lines=tuple(Line(ln.wavelength_nm, ln.value * factor) for ln in spectrum.lines),
+        noise_floor=None if spectrum.noise_floor is None else spectrum.noise_floor * factor,
+        quantity=quantity or spectrum.quantity,
+        meta=MappingProxyType(meta),
+    )
+
+
+def restricted(spectrum: Spectrum, lo_nm: float, hi_nm: float) -> Spectrum:
+    """The spectrum cut to [lo, hi]: what an instrument with that range would have seen.
+
+    Used by property tests ("less measured range never improves a verdict") and to model
+    instruments. Samples outside are dropped and the covered range shrinks.
+    """
+    lo, hi = max(lo_nm, spectrum.range_nm[0]), min(hi_nm, spectrum.range_nm[1])
+    if not hi > lo:
+        raise ConfigurationError(f"{lo_nm:g}–{hi_nm:g} nm does not overlap the spectrum")
+    wl, v = spectrum.wavelength_nm, spectrum.values
+    if wl.size:
+        lo, hi = max(lo, float(wl[0])), min(hi, float(wl[-1]))
+        if not hi > lo:
+            raise ConfigurationError(f"{lo_nm:g}–{hi_nm:g} nm holds no samples")
+        inner = (wl > lo) & (wl < hi)
+        # the cut points are interpolated, so the restricted data span exactly [lo, hi]
+        wl_new = np.concatenate(([lo], wl[inner], [hi]))
+        v_new = np.concatenate(([np.interp(lo, wl, v)], v[inner], [np.interp(hi, wl, v)]))
+    else:
+        wl_new, v_new = wl, v
+    return replace(
+        spectrum,
+        wavelength_nm=wl_new,
+        values=v_new,
+        lines=tuple(ln for ln in spectrum.lines if lo <= ln.wavelength_nm <= hi),
+        covered_nm=(lo, hi),
+        gaps_nm=tuple((a, b) for a, b in spectrum.gaps_nm if b > lo and a < hi),
+    )
