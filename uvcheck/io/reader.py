@@ -56,6 +56,7 @@ _NUM_DOT = re.compile(r"^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$")
 _NUM_COMMA = re.compile(r"^[-+]?(\d+,?\d*|,\d+)([eE][-+]?\d+)?$")
 _THOUS_DOT = re.compile(r"^[-+]?[1-9]\d{0,2}(,\d{3})+(\.\d*)?$")      # 1,234.5
 _THOUS_COMMA = re.compile(r"^[-+]?[1-9]\d{0,2}(\.\d{3})+(,\d*)?$")    # 1.234,5
+_STARTS_NUMERIC = re.compile(r"^\s*[-+]?(\d|[.,]\d)")
 _COMMENT = re.compile(r"^\s*(#|//|%|!|\*|REM\b)")
 _SECTION = re.compile(r"^\s*\[([^\]]+)\]\s*$")
 _KEYVAL = re.compile(r"^\s*([^:=;\t]{1,60}?)\s*(?::|=|;|\t)\s*(.*?)\s*;*\s*$")
@@ -425,6 +426,7 @@ def _stream_rows(path: Path, decoded: Decoded, delim: str, num: _Num, start: int
             if len(run_bad) > 2:
                 stats["footer_start"] = run_bad[0][0]
                 stats["footer_sample"] = [t for _, t in run_bad[:3]]
+                _look_for_more_blocks(path, decoded, delim, num, i + 1, stats)
                 return
             continue
         if run_bad:
@@ -442,6 +444,24 @@ def _stream_rows(path: Path, decoded: Decoded, delim: str, num: _Num, start: int
     if run_bad:
         stats["footer_start"] = run_bad[0][0]
         stats["footer_sample"] = [t for _, t in run_bad[:3]]
+
+
+def _look_for_more_blocks(path: Path, decoded: Decoded, delim: str, num: _Num, start: int,
+                          stats: dict[str, Any]) -> None:
+    """After the footer: note where another run of ≥ 3 data rows starts, if any."""
+    run = 0
+    first = None
+    for i, line in enumerate(islice(iter_lines(path, decoded), start, None), start=start):
+        if not line.strip():
+            continue
+        if _is_data(_split(line, delim), num):
+            first = i if run == 0 else first
+            run += 1
+            if run >= 3:
+                stats["later_block"] = first
+                return
+        else:
+            run = 0
 
 
 def read_spectrum(path: str | Path, options: ReadOptions | None = None, **overrides: Any
@@ -485,7 +505,11 @@ def _read(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
     head = list(islice(iter_lines(p, decoded), HEAD_LINES))
     if not any(line.strip() for line in head):
         raise InputFormatError("the file is empty (no text)", where, "export the spectrum again")
-    delim, decimal, blocks = _choose_format(head, opts, where)
+    # Decide the format on a sample: everything up to the first line that starts like a
+    # number, plus 300 lines (the rest of the file is streamed with that format).
+    first_num = next((k for k, ln in enumerate(head) if _STARTS_NUMERIC.match(ln)), 0)
+    sample = head[:first_num + 300]
+    delim, decimal, blocks = _choose_format(sample, opts, where)
     big = [b for b in blocks if b.end - b.start + 1 - len(b.bad) >= 3]
     if opts.block:
         if not 1 <= opts.block <= len(big):
@@ -563,6 +587,12 @@ def _read(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
             first_lines.append(i)
         n_rows += 1
     last_line = stats.get("last_line", block.end)
+    if stats.get("later_block") is not None and not opts.block:
+        lb = stats["later_block"] + 1
+        raise InputFormatError(
+            f"the file holds several data blocks (lines {block.start + 1}–{last_line + 1}, and "
+            f"another from line {lb})", where,
+            f"read the first with --block 1, or the later one with --data-start {lb}")
     footer_start = stats.get("footer_start")
     if footer_start is not None:
         fmeta, _ = _metadata([(0, t) for t in stats.get("footer_sample", [])])
