@@ -197,6 +197,8 @@ def find_lines(spectrum: Spectrum, min_snr: float = 5.0, min_relative: float = 0
     sigma = spectrum.noise_floor or 0.0
     thr = max(min_snr * sigma, min_relative * vmax)
     cand = np.where((v[1:-1] >= v[:-2]) & (v[1:-1] > v[2:]))[0] + 1
+    # a peak's baseline is at least the global minimum: drop candidates that cannot qualify
+    cand = cand[v[cand] - float(v.min()) >= thr]
     found = []
     for i in cand:
         lo = int(np.searchsorted(wl, wl[i] - 20.0))

@@ -211,15 +211,30 @@ class Integral:
         return None if self.sigma is None else 3.0 * self.sigma
 
 
+_AREA_CACHE: dict[tuple[int, float, float], tuple[Any, float]] = {}
+
+
 def _area(weight: Weight | None, a: float, b: float) -> float:
-    """∫ₐᵇ W(λ) dλ on a dense grid (0.05 nm or finer), used only for coverage shares."""
+    """∫ₐᵇ W(λ) dλ on a dense grid (0.05 nm or finer), used only for coverage shares.
+
+    Results for tabulated weightings (immutable, loaded once per process) are cached.
+    """
     if b <= a:
         return 0.0
     if weight is None:
         return b - a
+    cacheable = type(weight).__name__ == "Weighting"
+    key = (id(weight), a, b)
+    if cacheable and key in _AREA_CACHE and _AREA_CACHE[key][0] is weight:
+        return _AREA_CACHE[key][1]
     n = max(3, int(math.ceil((b - a) / 0.05)) + 1)
     x = np.linspace(a, b, n)
-    return float(np.trapezoid(np.asarray(weight(x), dtype=float), x))
+    area = float(np.trapezoid(np.asarray(weight(x), dtype=float), x))
+    if cacheable:
+        if len(_AREA_CACHE) > 4096:
+            _AREA_CACHE.clear()
+        _AREA_CACHE[key] = (weight, area)  # holding the weight keeps its id unique
+    return area
 
 
 def integrate(spectrum: Spectrum, lo_nm: float, hi_nm: float,

@@ -446,6 +446,40 @@ def _stream_rows(path: Path, decoded: Decoded, delim: str, num: _Num, start: int
         stats["footer_sample"] = [t for _, t in run_bad[:3]]
 
 
+_FAST_LINE = re.compile(r"^\s*$|^\s*[-+]?(\d|[.,]\d|nan|inf)", re.I)
+
+
+def _fast_block(path: Path, decoded: Decoded, delim: str, decimal: str, start: int, ncols: int
+                ) -> tuple[np.ndarray, int, int | None] | None:
+    """Parse the clean leading part of a data block with numpy's C parser.
+
+    Returns (rows, index of the last row line, index of the first line not consumed or None
+    at end of file), or None when the block is not clean enough (ragged rows, thousands
+    separators, mixed decimals, stray text…), in which case the tolerant row-by-row parser
+    reads it instead. Both give the same numbers for a clean block.
+    """
+    state = {"last": start, "stop": None}
+    comma_decimal = decimal == "," and delim != "comma"
+
+    def lines() -> Iterator[str]:
+        for i, line in enumerate(islice(iter_lines(path, decoded), start, None), start=start):
+            if not _FAST_LINE.match(line):
+                state["stop"] = i
+                return
+            if line.strip():
+                state["last"] = i
+            yield line.replace(",", ".") if comma_decimal else line
+
+    try:
+        arr = np.loadtxt(lines(), delimiter=DELIMITERS[delim], dtype=np.float64, ndmin=2,
+                         comments=None, quotechar='"', encoding=None)
+    except (ValueError, IndexError):
+        return None
+    if arr.shape[0] < 1 or arr.shape[1] != ncols:
+        return None
+    return arr, state["last"], state["stop"]
+
+
 def _look_for_more_blocks(path: Path, decoded: Decoded, delim: str, num: _Num, start: int,
                           stats: dict[str, Any]) -> None:
     """After the footer: note where another run of ≥ 3 data rows starts, if any."""
@@ -506,9 +540,9 @@ def _read(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
     if not any(line.strip() for line in head):
         raise InputFormatError("the file is empty (no text)", where, "export the spectrum again")
     # Decide the format on a sample: everything up to the first line that starts like a
-    # number, plus 300 lines (the rest of the file is streamed with that format).
+    # number, plus 60 lines (the rest of the file is streamed with that format).
     first_num = next((k for k, ln in enumerate(head) if _STARTS_NUMERIC.match(ln)), 0)
-    sample = head[:first_num + 300]
+    sample = head[:first_num + 60]
     delim, decimal, blocks = _choose_format(sample, opts, where)
     big = [b for b in blocks if b.end - b.start + 1 - len(b.bad) >= 3]
     if opts.block:
@@ -580,12 +614,22 @@ def _read(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
     cols = [array.array("d") for _ in range(ncols)]
     first_lines: list[int] = []
     n_rows = 0
-    for i, vals in _stream_rows(p, decoded, delim, num, block.start, ncols, stats):
-        for c, v in zip(cols, vals):
-            c.append(v)
-        if n_rows < 3:
-            first_lines.append(i)
-        n_rows += 1
+    resume_at = block.start
+    fast = _fast_block(p, decoded, delim, decimal, block.start, ncols) if not block.bad else None
+    if fast is not None:
+        arr, last_fast, stop = fast
+        for k in range(ncols):
+            cols[k].frombytes(np.ascontiguousarray(arr[:, k]).tobytes())
+        n_rows = arr.shape[0]
+        stats["last_line"] = last_fast
+        resume_at = stop
+    if resume_at is not None:
+        for i, vals in _stream_rows(p, decoded, delim, num, resume_at, ncols, stats):
+            for c, v in zip(cols, vals):
+                c.append(v)
+            if n_rows < 3:
+                first_lines.append(i)
+            n_rows += 1
     last_line = stats.get("last_line", block.end)
     if stats.get("later_block") is not None and not opts.block:
         lb = stats["later_block"] + 1
