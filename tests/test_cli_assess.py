@@ -115,3 +115,24 @@ def test_assess_path_needs_numpy_only(lamp_file):
     r = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True)
     assert r.returncode == 0, r.stderr
     assert r.stdout.strip().splitlines()[-1] == "HEAVY:"
+
+
+def test_hazard_sections_in_json(lamp_file, tmp_path):
+    # issue 3 JSON contract: hazards, risk_group, evaluation; blue light as E_B without a size
+    out = tmp_path / "h.json"
+    r = runner.invoke(app, ["assess", str(lamp_file), "--distance", "1 m", "--json", str(out)])
+    assert r.exit_code == 0, r.output
+    d = json.loads(out.read_text())
+    assert set(d["hazards"]) == {"actinic_uv", "near_uv", "blue_light", "retinal_thermal",
+                                 "retinal_thermal_weak_stimulus", "ir_eye", "skin_thermal"}
+    for h in d["hazards"].values():
+        assert {"symbol", "value", "unit", "limit", "t_max_s", "risk_group",
+                "risk_group_is_lower_bound", "coverage", "status", "assumptions"} <= set(h)
+    assert d["hazards"]["blue_light"]["symbol"] == "E_B"
+    assert set(d["risk_group"]) >= {"group", "is_lower_bound", "governing"}
+    assert d["evaluation"]["distance_m"] == pytest.approx(0.2)
+    assert d["evaluation"]["limit_set"] == "iec62471_2006"
+    # 0.8 W/m² of 253.7 nm at 1 m: at 0.2 m E_S = 0.8·S(253.7)·25 ≈ 10 W/m² -> RG3
+    assert d["risk_group"]["group"] == "RG3" and d["risk_group"]["governing"] == "actinic_uv"
+    r = runner.invoke(app, ["assess", str(lamp_file), "--source-size", "20", "--distance", "1 m", "--json", "-"])
+    assert json.loads(r.stdout)["hazards"]["blue_light"]["symbol"] == "L_B"

@@ -16,15 +16,14 @@ from uvcheck import __version__
 from uvcheck.bands import UVC_DEFINITION_NOTE, BandResult, band_breakdown
 from uvcheck.conditions import Conditions
 from uvcheck.features import DetectedLine, PeakInfo, find_lines, peak_info
+from uvcheck.hazards import SCREENING_NOTE, evaluate_hazards
 from uvcheck.photometry import Photometry, photometry
 from uvcheck.spectrum import Spectrum
 
 SCHEMA = "uvcheck.assessment/1"
 
-SCREENING_NOTICE = ("This is a screening assessment of the measured sample under the stated "
-                    "conditions, not a certification. Exposure limits are guidance values, "
-                    "not a sharp line between safe and harmful. Follow local codes and "
-                    "licensed professional practice.")
+#: The screening caveat every output carries (one wording, from the hazard module).
+SCREENING_NOTICE = SCREENING_NOTE
 
 
 @dataclass(frozen=True)
@@ -71,10 +70,19 @@ class Assessment:
             },
             "photometry": self.photometry.to_dict(),
         }
+        extra_notes: list[str] = []
         for k, v in self.sections.items():
-            d[k] = v.to_dict() if hasattr(v, "to_dict") else v
+            part = v.to_dict() if hasattr(v, "to_dict") else v
+            if k == "hazards":
+                # the hazard evaluation contributes several top-level keys of the contract
+                # (hazards, risk_group, evaluation, hazard_distances, ...)
+                extra_notes += part.pop("notes", [])
+                d.update(part)
+            else:
+                d[k] = part
         d["warnings"] = list(self.warnings)
-        d["notes"] = list(self.notes) + [SCREENING_NOTICE]
+        notes = list(self.notes) + [n for n in extra_notes if n not in self.notes]
+        d["notes"] = notes + ([SCREENING_NOTICE] if SCREENING_NOTICE not in notes else [])
         return d
 
 
@@ -132,6 +140,8 @@ def assess(spectrum: Spectrum, conditions: Conditions | None = None, report: Any
     if conditions.measurement_distance_m is None:
         notes.append(position_statement(conditions))
     sections: dict[str, Any] = {}
+    hz = evaluate_hazards(spectrum, conditions, limit_set=options.limit_set)
+    sections["hazards"] = hz
     return Assessment(spectrum=spectrum, conditions=conditions,
                       input=input_section(spectrum, report), bands=bands,
                       peak=peak_info(spectrum), lines=find_lines(spectrum),

@@ -140,6 +140,24 @@ def assess(
     scale_total: Annotated[Optional[str], typer.Option("--scale-total", help="Scale so the "
                                                        "measured range integrates to this, e.g. "
                                                        "'12 W/m2'.")] = None,
+    source_size: Annotated[Optional[str], typer.Option("--source-size", help="Apparent source "
+                                                       "size (largest luminous dimension); a bare "
+                                                       "number is mm, e.g. '30' or '3 cm'.",
+                                                       rich_help_panel="Geometry")] = None,
+    alpha: Annotated[Optional[float], typer.Option(help="Angular subtense α of the source at the "
+                                                   "measurement position [rad] (instead of "
+                                                   "--source-size).", rich_help_panel="Geometry")] = None,
+    use_distance: Annotated[Optional[str], typer.Option("--use-distance", help="Also evaluate at a "
+                                                        "realistic distance of use, e.g. '1.5 m'.",
+                                                        rich_help_panel="Geometry")] = None,
+    general_lighting: Annotated[bool, typer.Option("--general-lighting", help="Lamp for general "
+                                                   "lighting service: assessed at the 500 lx "
+                                                   "distance (never under 200 mm).",
+                                                   rich_help_panel="Geometry")] = False,
+    exposure_time: Annotated[str, typer.Option("--exposure-time", help="Exposure duration for "
+                                               "hazard distances.", rich_help_panel="Geometry")] = "8 h",
+    limits: Annotated[str, typer.Option(help="Exposure-limit set: iec62471_2006 (default), "
+                                        "icnirp_2013 or acgih_2022_far_uvc.")] = "iec62471_2006",
     quiet: Annotated[bool, typer.Option(help="Print nothing but errors.")] = False,
     encoding: Encoding = None, delimiter: Delimiter = None, decimal: Decimal = None,
     column: Column = None, wavelength_column: WlColumn = None, wavelength_unit: WlUnit = None,
@@ -147,8 +165,8 @@ def assess(
 ) -> None:
     """Assess a measured spectrum: band breakdown, peak, photometry (and hazards, germicidal
     output and claims as they apply)."""
+    from uvcheck.assessment import AssessOptions
     from uvcheck.assessment import assess as run_assess
-    from uvcheck.conditions import Conditions
     from uvcheck.errors import ConfigurationError
     from uvcheck.io.reader import read_spectrum
     from uvcheck.report.jsonout import write_json
@@ -166,12 +184,30 @@ def assess(
     spec, report = read_spectrum(spectrum_file, opts)
     spec = apply_scaling(spec, scale_band, scale_lux, scale_total)
     d0 = _length(distance, "--distance") if distance else report.measurement_distance_m
-    cond = Conditions(measurement_distance_m=d0)
-    result = run_assess(spec, cond, report).to_dict()
+    cond = conditions_from_options(d0, source_size, alpha, use_distance, general_lighting,
+                                   exposure_time)
+    result = run_assess(spec, cond, report, AssessOptions(limit_set=limits)).to_dict()
     if json_out:
         write_json(json_out, result, force=force)
     if not quiet and json_out != "-":
         typer.echo(render_assessment(result), nl=False)
+
+
+def conditions_from_options(d0: float | None, source_size: str | None, alpha: float | None,
+                            use_distance: str | None, general_lighting: bool,
+                            exposure_time: str, **extra: Any) -> Any:
+    from uvcheck.conditions import Conditions
+    from uvcheck.errors import ConfigurationError
+    from uvcheck.units import parse_quantity
+
+    if source_size is not None and alpha is not None:
+        raise ConfigurationError("give --source-size or --alpha, not both")
+    t = parse_quantity(exposure_time, "time", "--exposure-time").value_si
+    return Conditions(measurement_distance_m=d0,
+                      use_distance_m=_length(use_distance, "--use-distance"),
+                      source_size_m=_length(source_size, "--source-size", default_unit="mm"),
+                      alpha_rad=alpha, general_lighting=general_lighting, exposure_time_s=t,
+                      **extra)
 
 
 def apply_scaling(spec: Any, scale_band: str | None, scale_lux: str | None,

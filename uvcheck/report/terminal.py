@@ -122,8 +122,99 @@ def render_assessment(d: dict) -> str:
     return "\n".join(out) + "\n"
 
 
-#: Renderers for later sections (hazards, germicidal, claims …), keyed by JSON section name.
-SECTION_RENDERERS: dict[str, Any] = {}
+GROUP_TEXT = {"Exempt": "Exempt", "RG1": "RG1", "RG2": "RG2", "RG3": "RG3"}
+
+
+SHORT_HAZARD = {"actinic_uv": "actinic UV, skin & eye", "near_uv": "near UV, eye",
+                "blue_light": "blue light, retina", "retinal_thermal": "retinal thermal",
+                "retinal_thermal_weak_stimulus": "retinal thermal, weak stimulus",
+                "ir_eye": "infrared, eye", "skin_thermal": "thermal, skin"}
+
+
+def group_text(group: str | None, lower: bool, bound: str | None = None) -> str:
+    """'RG2', 'at least RG1', 'at most RG1', or 'at least Exempt*' (* not assessable as Exempt)."""
+    if group is None:
+        return "—"
+    if lower:
+        return "at least Exempt*" if group == "Exempt" else f"at least {group}"
+    if bound == "at-most":
+        return f"at most {group}"
+    return group
+
+
+def _hazard_value(h: dict) -> str:
+    if h["value"] is None:
+        return "—"
+    dl = h.get("detection_limit")
+    if h["status"] == "below-detection":
+        return "< " + sig(h["value"])
+    if h["status"] == "partial":
+        if dl is not None and h["value"] < dl:
+            return "< " + sig(dl) + " so far"
+        return "≥ " + sig(h["value"])
+    return sig(h["value"])
+
+
+def render_hazards(hazards: dict, d: dict) -> list[str]:
+    ev = d.get("evaluation") or {}
+    rg = d.get("risk_group") or {}
+    out = [f"Photobiological hazards (IEC 62471 / CIE S 009; limit set {ev.get('limit_set', '?')})"]
+    dist = ev.get("distance_m")
+    out.append(f"  evaluated at {sig(dist) + ' m' if dist else 'the measurement position'}"
+               f"{': ' + ev['distance_rule'] if ev.get('distance_rule') else ''}")
+    rows = []
+    for hid, h in hazards.items():
+        if h["t_max_s"] is not None:
+            tmax = format_duration(h["t_max_s"])
+        elif h["status"] in ("not-assessable", "not-applicable") or h["value"] is None:
+            tmax = "—"
+        else:
+            tmax = "> 8 h" if hid == "actinic_uv" else "unlimited"
+        rows.append([f"{h['symbol']} {SHORT_HAZARD.get(hid, hid)}", _hazard_value(h), h["unit"],
+                     sig(h["limit"]) if h["limit"] is not None else "—", tmax,
+                     group_text(h["risk_group"], h["risk_group_is_lower_bound"], h.get("risk_group_bound")),
+                     _pct(h["coverage"]) if h["coverage"] is not None else "—",
+                     STATUS_TEXT.get(h["status"], h["status"])])
+    out.append(table(["hazard", "value", "unit", "Exempt limit", "t_max", "group", "coverage",
+                      "status"], rows, right=(1, 3, 4, 6)))
+    if any(h["risk_group_is_lower_bound"] and h["risk_group"] == "Exempt" for h in hazards.values()):
+        out.append("  * partly measured: below the Exempt limit so far, but cannot be called Exempt")
+    for hid, h in hazards.items():
+        if h.get("reason"):
+            out.append(f"  - {h['symbol']}: {h['reason']}")
+    out.append("")
+    out.append(f"Overall risk group: {group_text(rg.get('group'), rg.get('is_lower_bound', False))}"
+               + (f", set by {rg['governing']}" if rg.get("governing") else ""))
+    if rg.get("note") and rg.get("is_lower_bound"):
+        out.append(f"  ({rg['note']})")
+    hd = d.get("hazard_distances") or {}
+    lines = []
+    for key in ("actinic_uv", "near_uv", "blue_light"):
+        x = hd.get(key)
+        if x and x.get("distance_m") is not None:
+            b = x.get("boundaries_m") or {}
+            bl = ", ".join(f"{g} beyond {sig(b[g])} m" for g in ("RG2", "RG1", "Exempt") if b.get(g))
+            lines.append(f"  {x['symbol']}: {format_duration(hd.get('exposure_time_s'))} limit reached "
+                         f"closer than {sig(x['distance_m'])} m" + (f"; {bl}" if bl else ""))
+    if lines:
+        out.append("Hazard distances (point-source inverse-square approximation):")
+        out += lines
+    use = d.get("use_distance")
+    if use:
+        urg = use.get("risk_group") or {}
+        ud = (use.get("evaluation") or {}).get("distance_m")
+        out.append(f"At the distance of use ({sig(ud)} m): risk group "
+                   f"{group_text(urg.get('group'), urg.get('is_lower_bound', False))}")
+        for hid in ("actinic_uv", "near_uv", "blue_light"):
+            h = (use.get("hazards") or {}).get(hid)
+            if h and h.get("value") is not None:
+                t = format_duration(h["t_max_s"]) if h.get("t_max_s") is not None else "no time limit within the limit's range"
+                out.append(f"  {h['symbol']} {_hazard_value(h)} {h['unit']}; t_max {t}")
+    return out
+
+
+#: Renderers for later sections (germicidal, claims …), keyed by JSON section name.
+SECTION_RENDERERS: dict[str, Any] = {"hazards": render_hazards}
 
 
 def duration(seconds: float | None) -> str:
