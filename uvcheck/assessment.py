@@ -16,6 +16,7 @@ from uvcheck import __version__
 from uvcheck.bands import UVC_DEFINITION_NOTE, BandResult, band_breakdown
 from uvcheck.conditions import Conditions
 from uvcheck.features import DetectedLine, PeakInfo, find_lines, peak_info
+from uvcheck.germicidal import evaluate_germicidal
 from uvcheck.hazards import SCREENING_NOTE, evaluate_hazards
 from uvcheck.photometry import Photometry, photometry
 from uvcheck.spectrum import Spectrum
@@ -35,6 +36,7 @@ class AssessOptions:
     """
 
     limit_set: str = "iec62471_2006"
+    technology: str | None = None
     uncertainty: bool = True
 
 
@@ -142,6 +144,8 @@ def assess(spectrum: Spectrum, conditions: Conditions | None = None, report: Any
     sections: dict[str, Any] = {}
     hz = evaluate_hazards(spectrum, conditions, limit_set=options.limit_set)
     sections["hazards"] = hz
+    sections["germicidal"] = evaluate_germicidal(spectrum, conditions,
+                                                 technology=options.technology)
     return Assessment(spectrum=spectrum, conditions=conditions,
                       input=input_section(spectrum, report), bands=bands,
                       peak=peak_info(spectrum), lines=find_lines(spectrum),

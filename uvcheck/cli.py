@@ -223,6 +223,12 @@ def apply_scaling(spec: Any, scale_band: str | None, scale_lux: str | None,
     return spec
 
 
+from uvcheck.cli_room import organisms_command, room_command  # noqa: E402  (typer only)
+
+app.command("room")(guarded(room_command))
+app.command("organisms")(guarded(organisms_command))
+
+
 def main() -> None:
     """Console entry point."""
     app(prog_name="uvcheck")

@@ -213,8 +213,52 @@ def render_hazards(hazards: dict, d: dict) -> list[str]:
     return out
 
 
-#: Renderers for later sections (germicidal, claims …), keyed by JSON section name.
-SECTION_RENDERERS: dict[str, Any] = {"hazards": render_hazards}
+def _trade(block: dict) -> str:
+    if block.get("value") is not None:
+        pre = "≥ " if block.get("is_lower_bound") else ""
+        return (f"{pre}{sig(block['value'])} {block['unit']} "
+                f"({pre}{sig(block['value_trade'])} {block['trade_unit']})")
+    if block.get("upper_bound") is not None:
+        return (f"< {sig(block['upper_bound'])} {block['unit']} "
+                f"(< {sig(block['upper_bound_trade'])} {block['trade_unit']})")
+    return "not measured" if block.get("status") == "not-covered" else "—"
+
+
+def render_germicidal(g: dict, d: dict) -> list[str]:
+    out = ["Germicidal output" + (f" at {sig(g['position']['distance_m'])} m"
+                                  if (g.get("position") or {}).get("distance_m") else
+                                  " at the measurement position")]
+    out.append(f"  {g['statement']}")
+    out.append(f"  UV-C 200–280 nm: {_trade(g['uvc'])}; far-UVC 200–235 nm: {_trade(g['far_uvc'])}")
+    eq = (g.get("effective") or {}).get("equivalent_254") or {}
+    if eq.get("most_favourable") is not None:
+        out.append(f"  254-nm-equivalent: {sig(eq['least_favourable'])}–{sig(eq['most_favourable'])} W m-2 "
+                   f"across action spectra (claims use the most favourable, {eq['most_favourable_id']})")
+    vb = (g.get("effective") or {}).get("violet_blue_405")
+    if vb and vb.get("value") is not None:
+        out.append(f"  violet-blue (≈405 nm) effective: {_trade(vb)}")
+    oz = g.get("ozone") or {}
+    if oz:
+        out.append(f"  ozone (output below 240 nm): {oz.get('status')} — {oz.get('note') or oz.get('basis') or ''}")
+    for a in g.get("artefacts") or []:
+        out.append(f"  ! {a['kind']}: {a['detail']}")
+    eff = g.get("efficiency") or {}
+    if eff.get("efficiency") is not None:
+        out.append(f"  UV-C efficiency: {eff['efficiency']:.3g} W/W ({eff.get('verdict')}; {eff.get('note') or ''})")
+    rows = []
+    for e in (g.get("inactivation") or [])[:14]:
+        rows.append([e["organism"], e["medium"], f"{e['wavelength_nm']:g}",
+                     ("≥ " if e["times_are"] == "at_least" else "") + format_duration(e["time_to_90_s"]),
+                     ("≥ " if e["times_are"] == "at_least" else "") + format_duration(e["time_to_99_9_s"])
+                     if e["time_to_99_9_s"] is not None else "beyond data"])
+    if rows:
+        out.append("  Time to inactivate at this position (reciprocity assumed; no shadowing or soiling):")
+        out.append(table(["organism", "medium", "data nm", "90 %", "99.9 %"], rows, right=(3, 4)))
+    return out
+
+
+#: Renderers for later sections (claims, room …), keyed by JSON section name.
+SECTION_RENDERERS: dict[str, Any] = {"hazards": render_hazards, "germicidal": render_germicidal}
 
 
 def duration(seconds: float | None) -> str:

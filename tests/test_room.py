@@ -1,0 +1,234 @@
+"""The room model and the ``room`` / ``organisms`` commands.
+
+Check values: NOTES.md §7 C14 (eACH), C15 (point source at the centre of a sphere:
+3Φ/(4πR²)), C16 (99.9 % in 30 min), §5 (occupant 8-h limit at 254 nm: 0.2 µW/cm²; 100 µW/cm²
+reaches it in 60 s). Analytic anchors derived in the comments (energy conservation,
+symmetry, Keitz on the bisector, integrating sphere).
+"""
+
+import doctest
+import json
+import math
+
+import numpy as np
+import pytest
+import typer
+from typer.testing import CliRunner
+
+from uvcheck import room as room_mod
+from uvcheck.cli_room import organisms_command, room_command
+from uvcheck.errors import ConfigurationError, OutputExistsError
+from uvcheck.geometry import keitz_irradiance
+from uvcheck.inactivation import get_organism
+from uvcheck.room import (Box, LampGeometry, Sphere, boundary_flux_per_W,
+                          direct_irradiance_per_W, evaluate_room, lamp_from_spectrum,
+                          lamp_from_uvc_flux, volume_average_fluence_rate)
+from uvcheck.spectrum import Spectrum
+
+ROOM = Box(4.0, 5.0, 2.7)
+
+
+def test_doctests():
+    assert doctest.testmod(room_mod).failed == 0
+
+
+def test_c15_sphere_centre_analytic():
+    # NOTES.md §7 C15: volume-average fluence rate 3Φ/(4πR²); required within 0.5 %
+    R = 2.0
+    fa = volume_average_fluence_rate(Sphere(R), LampGeometry((0.0, 0.0, 0.0)))
+    assert fa.total_per_W == pytest.approx(3 / (4 * math.pi * R * R), rel=5e-3)
+    assert fa.total_per_W == pytest.approx(3 / (4 * math.pi * R * R), rel=1e-9)   # in fact exact
+
+
+def test_sphere_with_reflections_integrating_sphere():
+    # derived (integrating sphere): reflected incident E_r = ρΦ/(A(1−ρ)), fluence 4E_r
+    R, rho = 1.5, 0.5
+    fa = volume_average_fluence_rate(Sphere(R), LampGeometry((0.0, 0.0, 0.0)), reflectance=rho)
+    A = 4 * math.pi * R * R
+    assert fa.total_per_W == pytest.approx(3 / A + 4 * rho / (A * (1 - rho)))
+
+
+@pytest.mark.parametrize("geom", [
+    LampGeometry((2.0, 2.5, 1.35)),
+    LampGeometry((0.3, 4.9, 2.6), "lambertian_down"),
+    LampGeometry((2.0, 2.5, 2.7), "lambertian_down"),
+    LampGeometry((2.0, 2.5, 2.4), "cylinder", 1.2, "x"),
+    LampGeometry((0.01, 0.01, 0.01)),
+])
+def test_energy_conservation(geom):
+    # derived: every watt emitted reaches the walls, floor or ceiling (no absorption in air)
+    assert boundary_flux_per_W(ROOM, geom) == pytest.approx(1.0, abs=1e-6)
+    fa = volume_average_fluence_rate(ROOM, geom)
+    assert fa.error_rel < 1e-4
+
+
+def test_cube_centre_floor_gets_one_sixth():
+    # derived (symmetry): an isotropic source at the centre of a cube sends Φ/6 to each face
+    cube = Box(2.0, 2.0, 2.0)
+    r = evaluate_room(cube, lamp_from_uvc_flux(1.0, LampGeometry((1.0, 1.0, 1.0))),
+                      reflectance=0.0, work_plane_m=0.0)
+    assert r.plane["mean_W_m2"] == pytest.approx(1 / 6 / 4.0, rel=1e-9)
+
+
+def test_tube_reproduces_keitz_on_the_bisector():
+    # derived (module docstring): the segmented sin-ψ line source gives the Keitz formula
+    geom = LampGeometry((2.0, 2.5, 2.0), "cylinder", 1.2, "x")
+    pts = np.array([[2.0, 2.5, 1.0], [2.0, 2.5, 0.2]])
+    e = direct_irradiance_per_W(pts, (0.0, 0.0, 1.0), geom)
+    assert e == pytest.approx(keitz_irradiance(1.0, np.array([1.0, 1.8]), 1.2), rel=1e-6)
+
+
+def test_point_below_lamp_is_inverse_square():
+    # NOTES.md §5: isotropic E = Φ/(4πr²) on a plane facing the lamp
+    geom = LampGeometry((2.0, 2.5, 2.5))
+    e = direct_irradiance_per_W(np.array([[2.0, 2.5, 0.5]]), (0.0, 0.0, 1.0), geom)
+    assert e[0] == pytest.approx(1 / (4 * math.pi * 4.0))
+
+
+def test_c14_each_in_the_room():
+    # NOTES.md §5/§7: eACH = 3600·k·E_avg with the room's volume-average fluence rate
+    r = evaluate_room(ROOM, lamp_from_uvc_flux(2.0, LampGeometry((2.0, 2.5, 2.4))))
+    o = get_organism("mycobacterium_tuberculosis_254_legacy")
+    assert r.each_for(o) == pytest.approx(3600 * o.k_e_m2_per_J * r.fluence_rate_avg_W_m2)
+    row = next(a for a in r.air if a["organism_id"] == o.id)
+    assert row["each_per_h"] == pytest.approx(r.each_for(o))
+    # well-mixed air: 99.9 % in 3·ln10/(k·E_avg)
+    assert row["time_to_99_9_s"] == pytest.approx(3 * math.log(10) / (o.k_e_m2_per_J * r.fluence_rate_avg_W_m2))
+    assert r.to_dict()["each_per_h"][o.id] == row["each_per_h"]
+    assert r.air_most_susceptible["note"].startswith("a claim about germs")
+
+
+def test_c16_requirement_on_the_work_plane():
+    # NOTES.md §7 C16: 99.9 % in 30 min with D90 = 3.7 mJ/cm² needs ≥ 6.17 µW/cm² everywhere
+    geom = LampGeometry((2.0, 2.5, 2.4), "lambertian_down")
+    unit = evaluate_room(ROOM, lamp_from_uvc_flux(1.0, geom), target_dose_J_m2=111.0)
+    flux = 0.0617 / unit.plane["min_W_m2"]                 # linear in flux
+    r = evaluate_room(ROOM, lamp_from_uvc_flux(flux, geom), target_dose_J_m2=111.0)
+    assert r.plane["min_W_m2"] == pytest.approx(0.0617)
+    assert r.plane["time_to_target_everywhere_s"] == pytest.approx(111.0 / 0.0617)
+    assert r.plane["time_to_target_everywhere_s"] <= 1800 * 1.0001
+    assert r.plane["p10_W_m2"] >= r.plane["min_W_m2"]
+    assert r.plane["percentile_error_rel"] < 0.02
+
+
+def test_occupant_limit_at_254():
+    # NOTES.md §5: 6 mJ/cm² in 8 h -> 0.208 µW/cm² continuous UV-C at 254 nm (S(254) = 0.5,
+    # IEC 62471 Table 4.1); at 100 µW/cm² the limit is reached in 60 s
+    geom = LampGeometry((2.0, 2.5, 2.6), "lambertian_down")
+    unit = evaluate_room(ROOM, lamp_from_uvc_flux(1.0, geom))
+    for target_W_m2, t_expected in ((60 / 28800, 28800.0), (1.0, 60.0)):
+        flux = target_W_m2 / unit.occupant["irradiance_W_m2"]
+        occ = evaluate_room(ROOM, lamp_from_uvc_flux(flux, geom)).occupant
+        assert occ["irradiance_W_m2"] == pytest.approx(target_W_m2)
+        # S(253.7) by log-linear interpolation of S(250) = 0.43, S(254) = 0.5: slightly below 0.5
+        assert occ["effective_S_W_m2"] / occ["irradiance_W_m2"] == pytest.approx(0.5, rel=0.02)
+        assert occ["time_to_limit_s"] == pytest.approx(t_expected, rel=0.02)
+        assert occ["effective_S_is_lower_bound"]           # only UV-C was stated
+        assert "not a certification" in occ["note"]
+
+
+def test_more_flux_never_lengthens_a_time():
+    geom = LampGeometry((2.0, 2.5, 2.4))
+    a = evaluate_room(ROOM, lamp_from_uvc_flux(1.0, geom), target_dose_J_m2=100.0)
+    b = evaluate_room(ROOM, lamp_from_uvc_flux(3.0, geom), target_dose_J_m2=100.0)
+    assert b.plane["time_to_target_at_p10_s"] < a.plane["time_to_target_at_p10_s"]
+    for x, y in zip(a.air, b.air):
+        assert y["time_to_99_9_s"] < x["time_to_99_9_s"]
+    assert b.occupant["time_to_limit_s"] < a.occupant["time_to_limit_s"]
+
+
+def test_lamp_from_measured_spectrum():
+    # 1 W/m² measured at 1 m on the axis of an isotropic lamp -> Φ = 4π W (NOTES.md §5)
+    s = Spectrum([200.0, 800.0], [0.0, 0.0], "irradiance", lines=((253.7, 1.0),))
+    lamp = lamp_from_spectrum(s, LampGeometry((2.0, 2.5, 2.4)), measured_at_m=1.0)
+    assert lamp.flux_spectrum.lines[0].value == pytest.approx(4 * math.pi)
+    down = lamp_from_spectrum(s, LampGeometry((2.0, 2.5, 2.4), "lambertian_down"), measured_at_m=1.0)
+    assert down.flux_spectrum.lines[0].value == pytest.approx(math.pi)    # Φ = πd²E
+    with pytest.raises(ConfigurationError, match="distance"):
+        lamp_from_spectrum(s, LampGeometry((2.0, 2.5, 2.4)))
+    with pytest.raises(ConfigurationError, match="relative"):
+        lamp_from_spectrum(Spectrum([200.0, 300.0], [1.0, 1.0], "relative"), LampGeometry((1, 1, 1)), 1.0)
+
+
+def test_room_errors():
+    with pytest.raises(ConfigurationError, match="outside the room"):
+        evaluate_room(ROOM, lamp_from_uvc_flux(1.0, LampGeometry((5.0, 2.5, 2.4))))
+    with pytest.raises(ConfigurationError, match="outside the room"):
+        evaluate_room(ROOM, lamp_from_uvc_flux(1.0, LampGeometry((0.3, 2.5, 2.4), "cylinder", 1.2)))
+    with pytest.raises(ConfigurationError, match="reflectance"):
+        evaluate_room(ROOM, lamp_from_uvc_flux(1.0, LampGeometry((2, 2, 2))), reflectance=1.0)
+    with pytest.raises(ConfigurationError, match="not UV-C"):
+        lamp_from_uvc_flux(1.0, LampGeometry((2, 2, 2)), wavelength_nm=300.0)
+    with pytest.raises(ConfigurationError, match="available: isotropic, lambertian_down, cylinder"):
+        LampGeometry((1, 1, 1), "spot")
+
+
+def test_json_contract():
+    r = evaluate_room(ROOM, lamp_from_uvc_flux(2.0, LampGeometry((2.0, 2.5, 2.4))))
+    d = json.loads(json.dumps(r.to_dict(), allow_nan=False))
+    assert d["dimensions_m"] == {"width": 4.0, "length": 5.0, "height": 2.7}
+    for key in ("min_W_m2", "mean_W_m2", "p10_W_m2"):
+        assert d["plane"][key] > 0
+    assert d["fluence_rate_avg_W_m2"] > 0
+    assert d["occupant"]["irradiance_W_m2"] > 0 and d["occupant"]["time_to_limit_s"] > 0
+    assert d["each_per_h"]
+
+
+# --- commands ------------------------------------------------------------------------------
+
+def _app():
+    app = typer.Typer()
+    app.command("room")(room_command)
+    app.command("organisms")(organisms_command)
+    return app
+
+
+def test_room_command_json_matches_the_science(tmp_path):
+    out = tmp_path / "room.json"
+    res = CliRunner().invoke(_app(), ["room", "--uvc-flux", "2 W", "--size", "4 x 5 x 2.7 m",
+                                      "--lamp-at", "2, 2.5, 2.4 m", "--json", str(out)])
+    assert res.exit_code == 0, res.output
+    assert "µW/cm²" in res.output and "eACH" in res.output
+    d = json.loads(out.read_text())["room"]
+    direct = evaluate_room(ROOM, lamp_from_uvc_flux(2.0, LampGeometry((2.0, 2.5, 2.4))))
+    assert d["fluence_rate_avg_W_m2"] == pytest.approx(direct.fluence_rate_avg_W_m2, rel=1e-6)
+    res = CliRunner().invoke(_app(), ["room", "--uvc-flux", "2 W", "--json", str(out)])
+    assert isinstance(res.exception, OutputExistsError)
+
+
+def test_room_command_from_a_spectrum_file(tmp_path):
+    f = tmp_path / "lamp.csv"
+    wl = np.arange(200.0, 800.01, 0.5)
+    v = np.exp(-0.5 * ((wl - 253.7) / 0.6) ** 2) * 0.01
+    f.write_text("wavelength_nm,irradiance_W_m2_nm\n" + "\n".join(f"{a:.1f},{b:.6g}" for a, b in zip(wl, v)))
+    res = CliRunner().invoke(_app(), ["room", str(f), "--distance", "1 m", "--json", "-", "--quiet"])
+    assert res.exit_code == 0, res.output
+    d = json.loads(res.output)["room"]
+    assert d["lamp"]["germicidal_status"] == "germicidal-uvc"
+    assert d["lamp"]["uvc_flux_W"] == pytest.approx(4 * math.pi * 0.01 * 0.6 * math.sqrt(2 * math.pi), rel=0.01)
+
+
+def test_room_command_errors():
+    res = CliRunner().invoke(_app(), ["room"])
+    assert isinstance(res.exception, ConfigurationError) and "either" in str(res.exception)
+    res = CliRunner().invoke(_app(), ["room", "--uvc-flux", "2 kg"])
+    assert res.exception is not None and "power" in str(res.exception)
+
+
+def test_organisms_command():
+    res = CliRunner().invoke(_app(), ["organisms", "--medium", "air", "--json", "-"])
+    assert res.exit_code == 0, res.output
+    rows = json.loads(res.output)["organisms"]
+    assert rows and all(r["medium"] in ("air", "mixed", "unspecified") for r in rows)
+    res = CliRunner().invoke(_app(), ["organisms", "--pathway", "violet_blue"])
+    assert res.exit_code == 0 and "405" in res.output and "salmonella" in res.output
+
+
+def test_small_api_and_far_uvc_note():
+    r = evaluate_room(ROOM, lamp_from_uvc_flux(1.0, LampGeometry((2.0, 2.5, 2.4)), 222.0))
+    o = get_organism("hcov_oc43_air_222_buonanno2020")
+    row = next(a for a in r.air if a["organism_id"] == o.id)
+    assert r.air_time_s(o, 99.9) == pytest.approx(row["time_to_99_9_s"])
+    # a 222 nm line: the most favourable 222-nm equivalent is the flux itself (unweighted UV-C)
+    assert r.equivalent_fluence_rate(222.0) == pytest.approx(r.fluence.total_per_W)
+    assert "ACGIH 2022" in r.occupant["note"]
