@@ -62,7 +62,7 @@ class Assessment:
             "tool": {"name": "uvcheck", "version": __version__},
             "input": self.input,
             "conditions": self.conditions.to_dict(),
-            "position": position_statement(self.conditions),
+            "position": position_statement(self.conditions, self.input.get("origin", "measured")),
             "bands": {k: v.to_dict() for k, v in self.bands.items()},
             "band_convention": UVC_DEFINITION_NOTE,
             "spectral": {
@@ -75,9 +75,9 @@ class Assessment:
         extra_notes: list[str] = []
         for k, v in self.sections.items():
             part = v.to_dict() if hasattr(v, "to_dict") else v
-            if k == "hazards":
-                # the hazard evaluation contributes several top-level keys of the contract
-                # (hazards, risk_group, evaluation, hazard_distances, ...)
+            if k in ("hazards", "claims"):
+                # these evaluations contribute several top-level keys of the contract
+                # (hazards, risk_group, evaluation, ...; claims, claims_summary, listing, ...)
                 extra_notes += part.pop("notes", [])
                 d.update(part)
             else:
@@ -88,7 +88,10 @@ class Assessment:
         return d
 
 
-def position_statement(c: Conditions) -> str:
+def position_statement(c: Conditions, origin: str = "measured") -> str:
+    if origin == "nominal":
+        return (f"Nominal estimate placed at {c.measurement_distance_m:g} m from the lamp "
+                "(no measurement).")
     if c.measurement_distance_m is None:
         return ("No measurement distance was given: results apply at the measurement "
                 "position only.")
@@ -121,13 +124,16 @@ def input_section(spectrum: Spectrum, report: Any | None) -> dict[str, Any]:
 
 
 def assess(spectrum: Spectrum, conditions: Conditions | None = None, report: Any | None = None,
-           options: AssessOptions | None = None) -> Assessment:
+           options: AssessOptions | None = None, claims: Any | None = None,
+           extra: dict[str, Any] | None = None) -> Assessment:
     """Evaluate a spectrum: bands, features, photometry, hazards, germicidal output.
 
     spectrum : the spectrum at the measurement position (absolute or relative).
     conditions : distances, source size, exposure time (defaults: none given).
     report : the reader's ImportReport, copied into the ``input`` block.
     options : :class:`AssessOptions`.
+    claims : a :class:`uvcheck.claims.ClaimsResult` (verdicts on a listing's claims).
+    extra : further JSON sections (e.g. ``nominal`` for a listing screening).
     """
     conditions = conditions or Conditions()
     options = options or AssessOptions()
@@ -146,6 +152,10 @@ def assess(spectrum: Spectrum, conditions: Conditions | None = None, report: Any
     sections["hazards"] = hz
     sections["germicidal"] = evaluate_germicidal(spectrum, conditions,
                                                  technology=options.technology)
+    if claims is not None:
+        sections["claims"] = claims
+    for k, v in (extra or {}).items():
+        sections[k] = v
     return Assessment(spectrum=spectrum, conditions=conditions,
                       input=input_section(spectrum, report), bands=bands,
                       peak=peak_info(spectrum), lines=find_lines(spectrum),

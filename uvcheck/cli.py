@@ -158,6 +158,14 @@ def assess(
                                                "hazard distances.", rich_help_panel="Geometry")] = "8 h",
     limits: Annotated[str, typer.Option(help="Exposure-limit set: iec62471_2006 (default), "
                                         "icnirp_2013 or acgih_2022_far_uvc.")] = "iec62471_2006",
+    claims: Annotated[Optional[Path], typer.Option("--claims", help="Listing file (TOML) whose "
+                                                   "claims are judged against the measurement.")] = None,
+    fail_on: Annotated[Optional[str], typer.Option("--fail-on", help="Exit with status 1 when a "
+                                                   "claim gets this verdict (cannot-hold, unlikely, "
+                                                   "not-assessable).")] = None,
+    electrical_power: Annotated[Optional[str], typer.Option("--electrical-power", help="Electrical "
+                                                            "input power, e.g. '8 W' (for the UV-C "
+                                                            "conversion efficiency).")] = None,
     quiet: Annotated[bool, typer.Option(help="Print nothing but errors.")] = False,
     encoding: Encoding = None, delimiter: Delimiter = None, decimal: Decimal = None,
     column: Column = None, wavelength_column: WlColumn = None, wavelength_unit: WlUnit = None,
@@ -183,19 +191,92 @@ def assess(
                         unit, block, data_start)
     spec, report = read_spectrum(spectrum_file, opts)
     spec = apply_scaling(spec, scale_band, scale_lux, scale_total)
+    _check_fail_on(fail_on)
     d0 = _length(distance, "--distance") if distance else report.measurement_distance_m
+    listing = None
+    if claims is not None:
+        from uvcheck.io.listing import read_listing
+
+        listing = read_listing(claims)
     cond = conditions_from_options(d0, source_size, alpha, use_distance, general_lighting,
-                                   exposure_time)
-    result = run_assess(spec, cond, report, AssessOptions(limit_set=limits)).to_dict()
+                                   exposure_time, listing=listing,
+                                   electrical_power=electrical_power)
+    verdicts = None
+    if listing is not None:
+        from uvcheck.claims import judge, readings_from_measurement
+
+        verdicts = judge(listing, readings_from_measurement(spec, cond), measured=True)
+    result = run_assess(spec, cond, report, AssessOptions(limit_set=limits),
+                        claims=verdicts).to_dict()
     if json_out:
         write_json(json_out, result, force=force)
     if not quiet and json_out != "-":
         typer.echo(render_assessment(result), nl=False)
+    _exit_for(result, fail_on)
+
+
+FAIL_ON = ("cannot-hold", "unlikely", "not-assessable")
+
+
+def _check_fail_on(fail_on: str | None) -> None:
+    if fail_on is not None and fail_on not in FAIL_ON:
+        from uvcheck.errors import ConfigurationError
+
+        raise ConfigurationError(f"unknown verdict {fail_on!r} for --fail-on",
+                                 todo=f"use one of: {', '.join(FAIL_ON)}")
+
+
+def _exit_for(result: dict, fail_on: str | None) -> None:
+    """Status 1 when a claim has the --fail-on verdict (or a worse one)."""
+    if fail_on is None:
+        return
+    order = {"holds": 0, "not-assessable": 1, "unlikely": 2, "cannot-hold": 3}
+    worst = max((order.get(c["verdict"], 0) for c in result.get("claims", [])), default=0)
+    if worst >= order[fail_on]:
+        raise typer.Exit(1)
+
+
+@app.command()
+@guarded
+def screen(
+    listing_file: Annotated[Path, typer.Argument(help="Listing file (TOML) describing the product "
+                                                 "as sold (see examples/listings/README.md).")],
+    json_out: Annotated[Optional[str], typer.Option("--json", help="Write the result as JSON "
+                                                    "to this path ('-' for stdout).")] = None,
+    force: Annotated[bool, typer.Option(help="Replace existing output files.")] = False,
+    fail_on: Annotated[Optional[str], typer.Option("--fail-on", help="Exit with status 1 when a "
+                                                   "claim gets this verdict.")] = None,
+    limits: Annotated[str, typer.Option(help="Exposure-limit set.")] = "iec62471_2006",
+    quiet: Annotated[bool, typer.Option(help="Print nothing but errors.")] = False,
+) -> None:
+    """Screen a listing's statements without a measurement: nominal spectra from the stated
+    data (an ESTIMATE), the full hazard and germicidal evaluation, and a verdict per claim."""
+    from uvcheck.io.listing import read_listing
+    from uvcheck.report.jsonout import write_json
+    from uvcheck.report.terminal import render_assessment
+    from uvcheck.screening import screen_listing_file
+
+    _check_fail_on(fail_on)
+    if json_out and json_out != "-" and Path(json_out).exists() and not force:
+        from uvcheck.errors import OutputExistsError
+
+        raise OutputExistsError("the output file exists", json_out,
+                                "give --force to replace it, or choose another name")
+    listing = read_listing(listing_file)
+    result = screen_listing_file(listing, limit_set=limits).to_dict()
+    if json_out:
+        write_json(json_out, result, force=force)
+    if not quiet and json_out != "-":
+        typer.echo(render_assessment(result), nl=False)
+    _exit_for(result, fail_on)
 
 
 def conditions_from_options(d0: float | None, source_size: str | None, alpha: float | None,
                             use_distance: str | None, general_lighting: bool,
-                            exposure_time: str, **extra: Any) -> Any:
+                            exposure_time: str, listing: Any | None = None,
+                            electrical_power: str | None = None, **extra: Any) -> Any:
+    """Conditions from the command-line options; a listing fills what the options leave open
+    (emitter model, tube length, source size, electrical power)."""
     from uvcheck.conditions import Conditions
     from uvcheck.errors import ConfigurationError
     from uvcheck.units import parse_quantity
@@ -203,11 +284,22 @@ def conditions_from_options(d0: float | None, source_size: str | None, alpha: fl
     if source_size is not None and alpha is not None:
         raise ConfigurationError("give --source-size or --alpha, not both")
     t = parse_quantity(exposure_time, "time", "--exposure-time").value_si
+    size = _length(source_size, "--source-size", default_unit="mm")
+    power = None if electrical_power is None else parse_quantity(
+        electrical_power, "power", "--electrical-power").value_si
+    if listing is not None:
+        if size is None and alpha is None:
+            size = listing.source_size_m
+        if power is None:
+            power = listing.electrical_power_W
+        if "emitter" not in extra and listing.emitter:
+            extra["emitter"] = listing.emitter
+            if listing.emitter == "tube":
+                extra.setdefault("tube_length_m", listing.tube_length_m)
     return Conditions(measurement_distance_m=d0,
                       use_distance_m=_length(use_distance, "--use-distance"),
-                      source_size_m=_length(source_size, "--source-size", default_unit="mm"),
-                      alpha_rad=alpha, general_lighting=general_lighting, exposure_time_s=t,
-                      **extra)
+                      source_size_m=size, alpha_rad=alpha, general_lighting=general_lighting,
+                      exposure_time_s=t, electrical_power_W=power, **extra)
 
 
 def apply_scaling(spec: Any, scale_band: str | None, scale_lux: str | None,

@@ -672,6 +672,7 @@ def evaluate_room(room: Box, lamp: RoomLamp, *, reflectance: float = DEFAULT_REF
         "p90_W_m2": q(weighted_percentile(plane_per_W, w, 90)),
         "max_W_m2": q(float(plane_per_W.max())),
         "uniformity_min_mean": float(plane_per_W.min() / mean_fine) if mean_fine > 0 else None,
+        "p10_per_W_m2": p10,  # geometry alone: irradiance at p10 per watt of flux [m⁻²]
         "grid_step_m": [room.width_m / (nx - 1), room.length_m / (ny - 1)],
         "percentile_error_rel": abs(p10 - p10_c) / p10 if p10 > 0 else None,
         "mean_error_rel": abs(mean_fine - mean_coarse) / mean_fine if mean_fine > 0 else None,

@@ -75,13 +75,17 @@ def render_assessment(d: dict) -> str:
     out: list[str] = [f"uvcheck {d['tool']['version']}: lamp assessment", ""]
     out += render_import(d["input"])
     for s in d["input"].get("scaling", []):
-        out.append(f"  scaling: {s.get('method')} ({s.get('text')})")
+        out.append(f"  scaling: {s.get('method')}"
+                   + (f" ({s['text']})" if s.get("text") else ""))
     out.append(f"  {d['position']}")
-    warn = list(d["input"].get("warnings", [])) + list(d.get("warnings", []))
+    warn = list(dict.fromkeys(list(d["input"].get("warnings", [])) + list(d.get("warnings", []))))
     if warn:
         out.append("")
         out.append("Warnings")
         out += [f"  ! {w}" for w in warn]
+    if d.get("claims"):
+        out.append("")
+        out += render_claims(d["claims"], d)
     out.append("")
     out.append("Emission by band")
     bands = d["bands"]
@@ -257,7 +261,44 @@ def render_germicidal(g: dict, d: dict) -> list[str]:
     return out
 
 
-#: Renderers for later sections (claims, room …), keyed by JSON section name.
+VERDICT_TEXT = {"holds": "HOLDS", "cannot-hold": "CANNOT HOLD", "unlikely": "UNLIKELY",
+                "not-assessable": "NOT ASSESSABLE"}
+
+
+def wrap(text: str, indent: int, width: int = 100) -> list[str]:
+    import textwrap
+
+    return textwrap.wrap(text, width=width, initial_indent=" " * indent,
+                         subsequent_indent=" " * indent) or [" " * indent]
+
+
+def render_claims(claims: list, d: dict) -> list[str]:
+    lst = d.get("listing") or {}
+    origin = (d.get("input") or {}).get("origin")
+    on = "the measured spectrum" if origin == "measured" else "a nominal ESTIMATE from the listing"
+    out = [f"Claims of \"{lst.get('name', 'the product')}\" (judged on {on})"]
+    for c in claims:
+        label = VERDICT_TEXT.get(c["verdict"], c["verdict"])
+        text = c.get("text") or c["kind"]
+        out.append(f"  [{label}] \"{text}\" ({c['kind']})")
+        out += wrap(c["basis"], 6)
+        if c.get("missing"):
+            out += wrap("missing: " + "; ".join(c["missing"]), 6)
+    summ = (d.get("claims_summary") or {})
+    if summ.get("decision_rule"):
+        out += wrap("Decision rule: " + summ["decision_rule"], 2)
+    pl = d.get("plausibility") or {}
+    used = {(c.get("details") or {}).get("finding") for c in claims}
+    other = [f for f in pl.get("findings", []) if f["status"] in ("cannot-hold", "unlikely")
+             and f["id"] not in used]
+    if other:
+        out.append("  Other findings from the listing's stated data:")
+        for f in other:
+            out += wrap(f"- [{VERDICT_TEXT.get(f['status'], f['status'])}] {f['message']}", 4)
+    return out
+
+
+#: Renderers for later sections (room …), keyed by JSON section name; claims come first.
 SECTION_RENDERERS: dict[str, Any] = {"hazards": render_hazards, "germicidal": render_germicidal}
 
 

@@ -1,0 +1,881 @@
+"""Claim verdicts: can each marketing statement hold, with the numbers behind it.
+
+One engine for both uses: ``uvcheck assess SPECTRUM --claims LISTING`` (a measurement plus
+the listing) and ``uvcheck screen LISTING`` (the listing alone, through nominal spectra built
+from its stated data, :mod:`uvcheck.nominal`). The evidence is a set of *readings* of the lamp
+— the measurement, or the nominal estimate's min / typical / max cases for each way the
+listing can be read — and every claim is judged over them:
+
+* **efficacy and emission claims** get the benefit of the doubt (DESIGN.md): they are judged
+  with the *most favourable* reading (highest output, most susceptible organism in the table,
+  lowest dose across studies, most favourable action spectrum, the claim's closest place).
+  ``cannot-hold`` only when even that reading falls short by more than the decision margin
+  (:data:`MARGIN`, a factor of 2 unless the uncertainty module gives an interval);
+  ``unlikely`` when it falls short by less than that; ``holds`` when it reaches the need.
+  A reading that a plausibility check refutes (an LED voltage that cannot make the stated
+  wavelength) is not used as the favourable reading;
+* **safety claims** fail as soon as the *most likely* reading (the measurement; without one,
+  the typical case of the most credible nominal reading) exceeds an exposure limit;
+* ``not-assessable`` names what is missing.
+
+Every verdict carries ``needed``, ``available`` and their ``ratio`` (available / needed), a
+one-line ``basis`` with the numbers ("needs 11.1 mJ/cm² in 30 min at 2 cm; this lamp gives at
+most 0.004 mJ/cm² there: short by 2 800×") and the assumptions made on the listing's behalf.
+Exposure verdicts are screening results, not certifications.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field, replace
+from functools import cached_property
+from typing import Any, Iterable, Sequence
+
+from uvcheck.conditions import Conditions
+from uvcheck.errors import ConfigurationError
+from uvcheck.spectrum import Spectrum, integrate
+from uvcheck.units import format_duration, sig
+
+VERDICTS = ("holds", "unlikely", "cannot-hold", "not-assessable")
+#: Decision margin of the simple rule: a claim is ``cannot-hold`` only when the most favourable
+#: reading falls short by more than this factor (covers calibration, distance and organism-data
+#: scatter; common practice in screening, not a standard value). The uncertainty module
+#: replaces it by the 95 % interval where that is computed.
+MARGIN = 2.0
+#: Ceiling height assumed for a room given only by its floor area (common practice). [m]
+DEFAULT_ROOM_HEIGHT_M = 2.5
+#: Benchmark for a coverage claim with no inactivation claim to go with it: 90 % (1 log) of
+#: the most susceptible relevant organism within 1 h (uvcheck's default, not a standard).
+COVERAGE_BENCHMARK = (90.0, 3600.0)
+WORKDAY_S = 8 * 3600.0
+#: Wavelength tolerance for a stated peak: max(this, half the measured FWHM). [nm]
+PEAK_TOLERANCE_NM = 3.0
+#: The ``unlikely`` zone for a stated peak, beyond the tolerance. [nm]
+PEAK_UNLIKELY_NM = 10.0
+#: Names people write for the organisms in the table (lower case) -> words to find in a row.
+ORGANISM_ALIASES = {
+    "e. coli": "escherichia coli", "e.coli": "escherichia coli", "ecoli": "escherichia coli",
+    "staph": "staphylococcus", "mrsa": "staphylococcus aureus", "s. aureus": "staphylococcus aureus",
+    "covid": "coronavirus", "covid-19": "coronavirus", "sars-cov-2": "sars-cov-2",
+    "corona": "coronavirus", "coronavirus": "coronavirus", "flu": "influenza",
+    "influenza": "influenza", "tb": "tuberculosis", "tuberculosis": "tuberculosis",
+    "legionella": "legionella", "norovirus": "norovirus", "salmonella": "salmonella",
+    "listeria": "listeria", "mould": "aspergillus", "mold": "aspergillus",
+    "pseudomonas": "pseudomonas", "adenovirus": "adenovirus", "polio": "poliovirus",
+}
+
+
+# ---------------------------------------------------------------------------------------------
+# Result type
+# ---------------------------------------------------------------------------------------------
+
+@dataclass(frozen=True)
+class Quantity:
+    """A number with its unit and what it is (for ``needed`` and ``available``)."""
+
+    value: float | None
+    unit: str
+    what: str
+
+    def text(self) -> str:
+        return f"{self.what}: {'unknown' if self.value is None else sig(self.value) + ' ' + self.unit}"
+
+    def to_dict(self) -> dict[str, Any]:
+        return {"value": self.value, "unit": self.unit, "what": self.what}
+
+
+@dataclass(frozen=True)
+class Verdict:
+    """The verdict on one claim.
+
+    id, kind, text : the claim as sold.
+    verdict : ``holds`` | ``unlikely`` | ``cannot-hold`` | ``not-assessable``.
+    needed, available : what the claim needs and what the evidence gives.
+    ratio : available / needed (> 1: enough; for safety, t_max / exposure time). [-]
+    basis : one line with the numbers.
+    assumptions : choices made on the listing's behalf.
+    missing : data that would make a ``not-assessable`` claim assessable.
+    evidence : ``measured`` | ``nominal estimate`` | ``listing``.
+    reading : the reading that decided (``measured``, ``as-stated/max`` …).
+    """
+
+    id: str
+    kind: str
+    text: str | None
+    verdict: str
+    needed: Quantity | None
+    available: Quantity | None
+    ratio: float | None
+    basis: str
+    assumptions: tuple[str, ...] = ()
+    missing: tuple[str, ...] = ()
+    evidence: str = "measured"
+    reading: str | None = None
+    details: dict[str, Any] = field(default_factory=dict)
+
+    def __post_init__(self) -> None:
+        if self.verdict not in VERDICTS:
+            raise ConfigurationError(f"unknown verdict {self.verdict!r}")
+
+    def to_dict(self) -> dict[str, Any]:
+        return {"id": self.id, "kind": self.kind, "text": self.text, "verdict": self.verdict,
+                "needed": None if self.needed is None else self.needed.to_dict(),
+                "available": None if self.available is None else self.available.to_dict(),
+                "ratio": self.ratio, "basis": self.basis,
+                "assumptions": list(self.assumptions), "missing": list(self.missing),
+                "evidence": self.evidence, "reading": self.reading,
+                "details": dict(self.details)}
+
+
+def _by_ratio(ratio: float | None, margin: float = MARGIN) -> str:
+    if ratio is None:
+        return "not-assessable"
+    if ratio >= 1.0:
+        return "holds"
+    if ratio >= 1.0 / margin:
+        return "unlikely"
+    return "cannot-hold"
+
+
+def _short(ratio: float) -> str:
+    if ratio >= 1.0:
+        return f"enough by {sig(ratio, 2)}×"
+    return f"short by {sig(1.0 / ratio, 2)}×"
+
+
+def _mj_cm2(j_m2: float) -> str:
+    return f"{sig(j_m2 * 0.1)} mJ/cm²"
+
+
+def _uw_cm2(w_m2: float) -> str:
+    return f"{sig(w_m2 * 100)} µW/cm²"
+
+
+# ---------------------------------------------------------------------------------------------
+# Readings of the lamp
+# ---------------------------------------------------------------------------------------------
+
+@dataclass(frozen=True, eq=False)
+class Reading:
+    """One reading of the lamp: an absolute irradiance spectrum at a reference distance.
+
+    label : ``measured``, or ``<reading>/<case>`` for a nominal estimate (``as-stated/max``).
+    spectrum : spectral irradiance at ``conditions.measurement_distance_m`` (or a relative
+        spectrum, which supports shape claims only).
+    conditions : reference distance, emitter model, tube length, source size.
+    likely : True for a most-likely reading (used for safety claims).
+    refuted : plausibility finding ids that make this reading impossible.
+    favourable : True for a reading usable as the most favourable one.
+    evidence : ``measured`` | ``nominal estimate``.
+    """
+
+    label: str
+    spectrum: Spectrum
+    conditions: Conditions
+    likely: bool = True
+    refuted: tuple[str, ...] = ()
+    favourable: bool = True
+    evidence: str = "measured"
+    technology: str | None = None
+
+    @property
+    def d_ref(self) -> float | None:
+        return self.conditions.measurement_distance_m
+
+    @cached_property
+    def _cache(self) -> dict[Any, Any]:
+        return {}
+
+    def germicidal_at(self, distance_m: float | None) -> Any:
+        from uvcheck.germicidal import evaluate_germicidal
+
+        key = ("g", distance_m)
+        if key not in self._cache:
+            d = distance_m if (distance_m is not None and self.d_ref is not None) else None
+            self._cache[key] = evaluate_germicidal(self.spectrum, self.conditions,
+                                                   technology=self.technology, distance_m=d)
+        return self._cache[key]
+
+    def hazards(self) -> Any:
+        from uvcheck.hazards import evaluate_hazards
+
+        if "h" not in self._cache:
+            self._cache["h"] = evaluate_hazards(self.spectrum, self.conditions)
+        return self._cache["h"]
+
+    def hazards_at(self, distance_m: float) -> dict[str, Any]:
+        """Hazard values and t_max at a distance of use (the hazard module's use evaluation)."""
+        from uvcheck.hazards import evaluate_hazards
+
+        key = ("hd", distance_m)
+        if key not in self._cache:
+            c = replace(self.conditions, use_distance_m=distance_m)
+            self._cache[key] = (evaluate_hazards(self.spectrum, c).to_dict().get("use_distance") or {})
+        return self._cache[key]
+
+    def room(self, box: Any, placement: str) -> Any:
+        """The room model for this reading; ``placement``: ``centre`` (favourable, isotropic)
+        or ``ceiling`` (the usual mounting, for occupant exposure)."""
+        from uvcheck import room as rm
+
+        key = ("room", box, placement)
+        if key not in self._cache:
+            if placement == "centre":
+                geom = rm.LampGeometry((box.width_m / 2, box.length_m / 2, box.height_m / 2))
+            else:
+                pattern = "lambertian_down" if self.conditions.emitter == "lambertian" else "isotropic"
+                geom = rm.LampGeometry((box.width_m / 2, box.length_m / 2,
+                                        max(box.height_m - 0.05, box.height_m * 0.9)), pattern)
+            lamp = rm.lamp_from_spectrum(self.spectrum, geom, self.d_ref)
+            self._cache[key] = rm.evaluate_room(box, lamp, grid_step_m=max(box.width_m, box.length_m) / 40)
+        return self._cache[key]
+
+
+@dataclass(frozen=True)
+class Evidence:
+    """Everything the verdicts rest on: the listing, the readings and the plausibility findings."""
+
+    listing: Any
+    readings: tuple[Reading, ...]
+    plausibility: Any
+    measured: bool
+    margin: float = MARGIN
+
+    def favourable(self) -> list[Reading]:
+        r = [x for x in self.readings if x.favourable and not x.refuted and x.spectrum.is_absolute]
+        return r or [x for x in self.readings if x.spectrum.is_absolute and not x.refuted]
+
+    def likely(self) -> Reading | None:
+        for x in self.readings:
+            if x.likely:
+                return x
+        return self.readings[0] if self.readings else None
+
+
+def readings_from_measurement(spectrum: Spectrum, conditions: Conditions,
+                              technology: str | None = None) -> tuple[Reading, ...]:
+    return (Reading("measured", spectrum, conditions, True, (), True, "measured", technology),)
+
+
+def readings_from_listing(listing: Any, plausibility: Any,
+                          estimates: Sequence[Any] | None = None) -> tuple[Reading, ...]:
+    """Nominal readings: each way of reading the listing × min / typical / max.
+
+    The reference distance is the listing's use distance, else 0.2 m (the IEC 62471
+    assessment distance). The most likely reading is the ``typical`` case of the
+    electrical-evidence reading where the LED voltages refute the stated wavelength, else of
+    the as-stated reading.
+    """
+    from uvcheck import nominal
+
+    ests = tuple(estimates) if estimates is not None else nominal.listing_readings(listing)
+    d_ref = listing.use_distance_m or 0.2
+    refuting = [f.id for f in plausibility.findings
+                if f.status == "cannot-hold" and f.id.split(":")[0] in
+                ("die-voltage-vs-photon-energy", "led-wavelength")]
+    has_evidence = any(e.reading == "electrical-evidence" for e in ests)
+    out: list[Reading] = []
+    for est in ests:
+        refuted = tuple(refuting) if est.reading == "as-stated" and has_evidence else ()
+        likely_reading = (est.reading == "electrical-evidence") if has_evidence else (est.reading == "as-stated")
+        cond = Conditions(measurement_distance_m=d_ref, emitter=est.emitter,
+                          tube_length_m=est.tube_length_m if est.emitter == "tube" else None,
+                          source_size_m=est.source_size_m,
+                          electrical_power_W=listing.electrical_power_W)
+        cases = nominal.CASES if est.is_absolute else ("shape",)
+        for case in cases:
+            flux = est.spectrum(case) if est.is_absolute else est.spectrum()
+            if flux.quantity == "flux":
+                spec = nominal.irradiance_at(flux, d_ref, est.emitter, est.tube_length_m,
+                                             est.source_size_m)
+            else:
+                spec = flux
+            out.append(Reading(f"{est.reading}/{case}", spec, cond,
+                               likely=likely_reading and case in ("typical", "shape"),
+                               refuted=refuted, favourable=case in ("max", "shape"),
+                               evidence="nominal estimate", technology=est.technology))
+    return tuple(out)
+
+
+# ---------------------------------------------------------------------------------------------
+# The engine
+# ---------------------------------------------------------------------------------------------
+
+def evaluate_claims(evidence: Evidence) -> list[Verdict]:
+    """A verdict for every claim of the listing (in the listing's order)."""
+    out = []
+    for c in evidence.listing.claims:
+        fn = _JUDGES.get(c.kind, _unrecognised)
+        try:
+            v = fn(c, evidence)
+        except ConfigurationError as exc:
+            v = _na(c, evidence, f"cannot be evaluated: {exc.what}", ())
+        out.append(v)
+    return out
+
+
+def _na(c: Any, ev: Evidence, basis: str, missing: Sequence[str],
+        assumptions: Sequence[str] = ()) -> Verdict:
+    return Verdict(c.id, c.kind, c.text, "not-assessable", None, None, None, basis,
+                   tuple(assumptions), tuple(missing),
+                   "measured" if ev.measured else "nominal estimate")
+
+
+def _unrecognised(c: Any, ev: Evidence) -> Verdict:
+    return _na(c, ev, "not a statement uvcheck can check" + (f" ({c.note})" if c.note else ""),
+               c.missing())
+
+
+# --- emission ----------------------------------------------------------------------------
+
+def _emission(c: Any, ev: Evidence) -> Verdict:
+    ev_kind = "measured" if ev.measured else "nominal estimate"
+    lam = c.wavelength_nm
+    band = c.band_nm
+    if lam is None and band is None:
+        return _na(c, ev, "no wavelength or band stated", c.missing())
+    # listing evidence against it (die voltage, "254 nm LED", a cover that blocks UV-C)
+    refuting = _plausibility_against(ev, lam, band)
+    if not ev.measured:
+        fav = ev.favourable()
+        if refuting:
+            f = refuting[0]
+            return Verdict(c.id, c.kind, c.text, f.status, _q(f.needed), _q(f.available),
+                           f.ratio, f.message, tuple(f.assumptions), (), "listing", None,
+                           {"finding": f.id, "basis": f.basis})
+        if not fav:
+            return _na(c, ev, "no power stated and no spectrum: the emission cannot be estimated",
+                       ("a spectrum", "lamp.optical_power or lamp.electrical_power"))
+        r = fav[0]
+        return Verdict(c.id, c.kind, c.text, "holds", None, None, None,
+                       f"consistent with the stated technology ({r.technology}); an estimate from "
+                       "the listing, not a measurement", (), (), ev_kind, r.label)
+    r = ev.readings[0]
+    g = r.germicidal_at(None)
+    d = g.to_dict()
+    from uvcheck.features import find_lines, peak_info
+
+    lines = find_lines(r.spectrum)
+    pk = peak_info(r.spectrum)
+    uvc_ok = d["status"] == "germicidal-uvc"
+    if lam is not None:
+        tol = max(PEAK_TOLERANCE_NM, (pk.fwhm_nm or 0.0) / 2)
+        near = [ln for ln in lines if abs(ln.wavelength_nm - lam) <= tol]
+        close = [ln for ln in lines if abs(ln.wavelength_nm - lam) <= tol + PEAK_UNLIKELY_NM]
+        in_uvc = lam < 280.0
+        if in_uvc and not uvc_ok:
+            ub = d["uvc"].get("upper_bound")
+            return Verdict(c.id, c.kind, c.text, "cannot-hold",
+                           Quantity(lam, "nm", "stated peak"),
+                           Quantity(pk.peak_nm, "nm", "measured peak"), None,
+                           f"stated {lam:g} nm; the lamp emits no germicidal UV-C "
+                           f"({d['statement']}); its output peaks at {sig(pk.peak_nm, 4)} nm",
+                           (), (), ev_kind, r.label, {"uvc_upper_bound_W_m2": ub})
+        if near:
+            ln = min(near, key=lambda x: abs(x.wavelength_nm - lam))
+            return Verdict(c.id, c.kind, c.text, "holds", Quantity(lam, "nm", "stated peak"),
+                           Quantity(ln.wavelength_nm, "nm", "emission line found"), None,
+                           f"emission found at {sig(ln.wavelength_nm, 4)} nm"
+                           + (f" ({ln.identified_as})" if ln.identified_as else "")
+                           + f", within {sig(tol, 2)} nm of the stated {lam:g} nm",
+                           (), (), ev_kind, r.label)
+        verdict = "unlikely" if close else "cannot-hold"
+        found = ", ".join(f"{sig(x.wavelength_nm, 4)} nm" for x in lines[:5]) or "none"
+        return Verdict(c.id, c.kind, c.text, verdict, Quantity(lam, "nm", "stated peak"),
+                       Quantity(pk.peak_nm, "nm", "measured peak"), None,
+                       f"no emission line within {sig(tol, 2)} nm of the stated {lam:g} nm; "
+                       f"peaks found: {found}" + ("; the lamp does emit UV-C, at another wavelength"
+                                                  if uvc_ok and in_uvc else ""),
+                       (), (), ev_kind, r.label)
+    lo, hi = band
+    integ = integrate(r.spectrum, lo, hi)
+    tot = integrate(r.spectrum, *r.spectrum.range_nm).value
+    dl = integ.detection_limit or 0.0
+    uvc_band = hi <= 280.0
+    if integ.coverage <= 0:
+        return _na(c, ev, f"the spectrum does not cover {lo:g}–{hi:g} nm", ("a spectrum covering the band",))
+    if uvc_band and not uvc_ok:
+        return Verdict(c.id, c.kind, c.text, "cannot-hold",
+                       Quantity(dl, r.spectrum.integrated_unit, f"emission in {c.band_name or 'the band'} above the detection limit"),
+                       Quantity(d["uvc"].get("upper_bound"), r.spectrum.integrated_unit, "UV-C, at most"), None,
+                       d["statement"], (), (), ev_kind, r.label)
+    if integ.value > dl:
+        frac = integ.value / tot if tot > 0 else None
+        return Verdict(c.id, c.kind, c.text, "holds",
+                       Quantity(dl, r.spectrum.integrated_unit, "detection limit"),
+                       Quantity(integ.value, r.spectrum.integrated_unit, f"{c.band_name or 'band'} output"),
+                       integ.value / dl if dl > 0 else None,
+                       f"{sig(integ.value)} {r.spectrum.integrated_unit} in {lo:g}–{hi:g} nm"
+                       + (f" ({sig(100 * frac, 3)} % of the measured output)" if frac else ""),
+                       (), (), ev_kind, r.label)
+    return Verdict(c.id, c.kind, c.text, "cannot-hold",
+                   Quantity(dl, r.spectrum.integrated_unit, "detection limit"),
+                   Quantity(integ.value, r.spectrum.integrated_unit, "band output"), None,
+                   f"nothing above the detection limit ({sig(dl)} {r.spectrum.integrated_unit}) in {lo:g}–{hi:g} nm",
+                   (), (), ev_kind, r.label)
+
+
+def _q(a: Any) -> Quantity | None:
+    if a is None:
+        return None
+    return Quantity(a.value, a.unit, a.what)
+
+
+def _plausibility_against(ev: Evidence, lam: float | None, band: tuple[float, float] | None) -> list[Any]:
+    if ev.plausibility is None:
+        return []
+    uv = (lam is not None and lam < 280.0) or (band is not None and band[1] <= 280.0)
+    out = []
+    for f in ev.plausibility.findings:
+        base = f.id.split(":")[0]
+        if f.status not in ("cannot-hold", "unlikely"):
+            continue
+        if base in ("die-voltage-vs-photon-energy", "led-wavelength") and (lam is not None or uv):
+            out.append(f)
+        elif base == "cover" and uv:
+            out.append(f)
+    out.sort(key=lambda f: 0 if f.status == "cannot-hold" else 1)
+    return out
+
+
+# --- inactivation and coverage --------------------------------------------------------------
+
+def _percent(c: Any) -> tuple[float | None, list[str]]:
+    notes = []
+    if c.log_reduction is not None:
+        return 100.0 * (1.0 - 10.0 ** (-c.log_reduction)), notes
+    if c.reduction_fraction is not None:
+        if c.reduction_fraction >= 1.0:
+            notes.append("a 100 % kill cannot be shown by any dose; judged as 99.9999 % (6 log)")
+            return 99.9999, notes
+        return 100.0 * c.reduction_fraction, notes
+    return None, notes
+
+
+def find_organism(name: str) -> list[Any]:
+    """Rows of the organism table that match a name as written ("E. coli", "coronavirus")."""
+    from uvcheck.inactivation import organisms
+
+    low = name.strip().lower()
+    key = ORGANISM_ALIASES.get(low, low)
+    rows = [o for o in organisms() if key in o.organism.lower() or low in o.organism.lower()]
+    return rows
+
+
+def _room_box(c: Any, listing: Any) -> tuple[Any, list[str]] | None:
+    from uvcheck.room import Box
+
+    area = c.area_m2 if c.area_m2 is not None else None
+    vol = c.volume_m3 if c.volume_m3 is not None else None
+    if area is None and vol is None:
+        area, vol = listing.area_m2, listing.room_volume_m3
+    if area is None and vol is None:
+        return None
+    notes = []
+    h = listing.room_height_m
+    if h is None:
+        h = DEFAULT_ROOM_HEIGHT_M
+        notes.append(f"ceiling height {h:g} m assumed (common practice)")
+    if area is None:
+        area = vol / h
+    side = math.sqrt(area)
+    notes.append(f"a square room {sig(side)} m × {sig(side)} m × {sig(h)} m")
+    return Box(side, side, h), notes
+
+
+#: Generic words and the organism groups of the table they cover (None: every group).
+GENERIC_GROUPS = {"bacteria": ("bacterium",), "bacterium": ("bacterium",),
+                  "viruses": ("virus",), "virus": ("virus",), "fungi": ("fungal_spore",),
+                  "mould": ("fungal_spore",), "mold": ("fungal_spore",),
+                  "spores": ("bacterial_spore", "fungal_spore")}
+
+
+def _generic_groups(name: str | None) -> tuple[str, ...] | None:
+    if not name:
+        return None
+    words = set(name.lower().replace(",", " ").replace("/", " ").split())
+    groups: list[str] = []
+    for w in words:
+        if w in GENERIC_GROUPS:
+            groups += GENERIC_GROUPS[w]
+    if not groups or words & {"germs", "pathogens", "microbes", "microorganisms", "all"}:
+        return None
+    return tuple(dict.fromkeys(groups + ["mixed"]))
+
+
+def _organism_candidates(c: Any, medium: str) -> tuple[list[Any] | None, str | None]:
+    """(rows to consider, or None for 'most susceptible'; a problem text)."""
+    from uvcheck.inactivation import select
+
+    if c.organism is None or c.organism_generic:
+        groups = _generic_groups(c.organism)
+        if groups is None:
+            return None, None
+        rows = [o for o in select(medium, exclude_groups=("phage",)) if o.group in groups]
+        return (rows or None), None
+    rows = find_organism(c.organism)
+    if not rows:
+        return [], f"uvcheck's organism table has no data for {c.organism!r}"
+    rel = set(o.id for o in select(medium))
+    use = [o for o in rows if o.id in rel] or rows
+    return use, None
+
+
+def _needed_dose(o: Any, percent: float) -> float | None:
+    from uvcheck.inactivation import log_for_percent
+
+    n = log_for_percent(percent)
+    d = o.dose_for_log(n)
+    rng = o.dose_range_for_log(n)
+    if rng is not None and rng[0] is not None:
+        d = min(d, rng[0]) if d is not None else rng[0]
+    return d
+
+
+def _best_at_point(g: Any, candidates: list[Any] | None, medium: str, percent: float
+                   ) -> tuple[Any, float, float] | None:
+    """(organism, needed dose J/m², lamp equivalent irradiance W/m²) with the shortest time."""
+    from uvcheck.inactivation import select
+
+    pool = candidates if candidates is not None else list(select(medium, exclude_groups=("phage",)))
+    best = None
+    for o in pool:
+        e = g.irradiance_for(o)
+        need = _needed_dose(o, percent)
+        if not e or not need:
+            continue
+        t = need / e
+        if best is None or t < best[0]:
+            best = (t, o, need, e)
+    return None if best is None else best[1:]
+
+
+def _inactivation(c: Any, ev: Evidence) -> Verdict:
+    ev_kind = "measured" if ev.measured else "nominal estimate"
+    percent, notes = _percent(c)
+    missing = list(c.missing(ev.listing))
+    if missing:
+        return _na(c, ev, "the claim does not say " + " or ".join(missing), missing)
+    t = c.time_s
+    fav = ev.favourable()
+    if not fav:
+        return _na(c, ev, "no absolute output: the spectrum is relative and no power is stated",
+                   ("a scaled spectrum (--scale-band) or lamp.optical_power / lamp.electrical_power",))
+    box_info = None
+    d = c.distance_m
+    if d is None and c.area_m2 is None and c.volume_m3 is None:
+        d = ev.listing.use_distance_m
+    if d is None:
+        box_info = _room_box(c, ev.listing)
+    if d is not None and any(r.d_ref is None for r in fav):
+        return _na(c, ev, "the spectrum's measurement distance is unknown, so the dose at "
+                          f"{sig(d)} m cannot be worked out", ("--distance",))
+    media = [c.medium] if c.medium else (["surface"] if d is not None else ["air", "surface"])
+    assumptions = list(notes)
+    if c.medium is None:
+        assumptions.append("the claim names no medium: judged on " + " and ".join(media)
+                           + ", whichever is more favourable")
+    best: dict[str, Any] | None = None
+    for r in fav:
+        for medium in media:
+            cands, problem = _organism_candidates(c, medium)
+            if problem:
+                return _na(c, ev, problem, ("an organism in uvcheck's table (uvcheck organisms)",))
+            if d is not None:
+                g = r.germicidal_at(d)
+                hit = _best_at_point(g, cands, medium, percent)
+                if hit is None:
+                    continue
+                o, need, e = hit
+                place = f"at {sig(d)} m"
+                avail = e * t
+            else:
+                box, bnotes = box_info
+                if medium == "air":
+                    room = r.room(box, "centre")
+                    hit = None
+                    from uvcheck.inactivation import select
+
+                    pool = cands if cands is not None else list(select("air", exclude_groups=("phage",)))
+                    for o in pool:
+                        ts = room.air_time_s(o, percent)
+                        if ts:
+                            e_avg = room.equivalent_fluence_rate(o.wavelength_nm, o.pathway) or 0.0
+                            need = _needed_dose(o, percent)
+                            if need and (hit is None or need / max(e_avg, 1e-300) < hit[1] / max(hit[2], 1e-300)):
+                                hit = (o, need, e_avg)
+                    if hit is None:
+                        continue
+                    o, need, e = hit
+                    place = "averaged over the room's air (well mixed)"
+                    avail = e * t
+                else:
+                    room = r.room(box, "centre")
+                    p10 = room.plane.get("p10_W_m2")
+                    # the organism's equivalent flux times the plane's p10 per watt
+                    g_ref = r.germicidal_at(None)
+                    hit = _best_at_point(g_ref, cands, "surface", percent)
+                    per_w = room.plane.get("p10_per_W_m2")
+                    if hit is None or not per_w:
+                        continue
+                    o, need, _ = hit
+                    flux_o = room.germicidal.equivalent_irradiance(o.wavelength_nm, o.pathway)
+                    if not flux_o:
+                        continue
+                    e = flux_o * per_w
+                    place = "on the worst-lit 10 % of the work plane"
+                    avail = e * t
+                assumptions = list(dict.fromkeys(assumptions + bnotes + [
+                    "lamp placed at the centre of the room, radiating in all directions "
+                    "(the most favourable placement)"]))
+            ratio = avail / need
+            if best is None or ratio > best["ratio"]:
+                best = {"ratio": ratio, "organism": o, "need": need, "avail": avail, "e": e,
+                        "place": place, "reading": r.label, "medium": medium}
+    if best is None:
+        return _na(c, ev, "no organism in uvcheck's table can be evaluated with this lamp's output",
+                   ("organism data for the lamp's wavelengths",), assumptions)
+    o = best["organism"]
+    ratio = best["ratio"]
+    verdict = _by_ratio(ratio, ev.margin)
+    who = (f"the most susceptible relevant organism in uvcheck's table ({o.organism}, {o.medium} data)"
+           if (c.organism is None or c.organism_generic) else o.organism)
+    if c.organism is None or c.organism_generic:
+        assumptions.append(f"'{c.organism or 'germs'}' judged with {who}; most real pathogens need more")
+    basis = (f"{sig(percent, 4)} % of {who} needs {_mj_cm2(best['need'])} in {format_duration(t)} "
+             f"{best['place']}; this lamp gives at most {_mj_cm2(best['avail'])} there "
+             f"({_uw_cm2(best['e'])} × {format_duration(t)}): {_short(ratio)}")
+    if verdict == "unlikely":
+        basis += f" (within the decision margin of {sig(ev.margin, 2)}×)"
+    return Verdict(c.id, c.kind, c.text, verdict,
+                   Quantity(best["need"], "J m-2", f"dose for {sig(percent, 4)} %"),
+                   Quantity(best["avail"], "J m-2", "dose this lamp gives, most favourable reading"),
+                   ratio, basis, tuple(assumptions), (), ev_kind, best["reading"],
+                   {"organism_id": o.id, "medium": best["medium"], "time_s": t,
+                    "irradiance_W_m2": best["e"], "place": best["place"]})
+
+
+def _coverage(c: Any, ev: Evidence) -> Verdict:
+    """'for rooms up to 20 m²': the listing's own inactivation claim over that room, else the
+    benchmark of :data:`COVERAGE_BENCHMARK`."""
+    missing = c.missing()
+    if missing:
+        return _na(c, ev, "no area or room volume stated", missing)
+    from uvcheck.io.listing import Claim
+
+    kill = next((k for k in ev.listing.claims if k.kind == "inactivation" and k.time_s
+                 and (k.reduction_fraction is not None or k.log_reduction is not None)), None)
+    if kill is not None:
+        probe = replace(kill, id=c.id, text=c.text, kind="inactivation", distance_m=None,
+                        area_m2=c.area_m2, volume_m3=c.volume_m3)
+        how = f"the listing's own claim '{kill.text or kill.id}' applied to the whole room"
+    else:
+        p, t = COVERAGE_BENCHMARK
+        probe = Claim(id=c.id, kind="inactivation", text=c.text, reduction_fraction=p / 100,
+                      log_reduction=-math.log10(1 - p / 100), organism="germs",
+                      organism_generic=True, time_s=t, area_m2=c.area_m2, volume_m3=c.volume_m3)
+        how = (f"uvcheck's benchmark for a room claim: {p:g} % of the most susceptible relevant "
+               f"organism within {format_duration(t)} (not a standard)")
+    v = _inactivation(probe, ev)
+    return replace(v, kind="coverage", text=c.text,
+                   assumptions=(f"judged as {how}",) + v.assumptions)
+
+
+# --- ozone ------------------------------------------------------------------------------------
+
+def _ozone(c: Any, ev: Evidence) -> Verdict:
+    r = ev.likely()
+    if r is None:
+        return _na(c, ev, "no reading of the lamp", ("a spectrum or the lamp technology",))
+    oz = r.germicidal_at(None).to_dict().get("ozone") or {}
+    status = oz.get("status")
+    note = oz.get("note") or oz.get("basis") or ""
+    ev_kind = r.evidence
+    if status == "absent":
+        what = (f"the nominal model of this technology ({r.technology}) has no output below "
+                "240 nm" if r.evidence != "measured" else f"no output below 240 nm: {note}")
+        return Verdict(c.id, c.kind, c.text, "holds", None, None, None, what, (), (), ev_kind,
+                       r.label)
+    if status == "present":
+        return Verdict(c.id, c.kind, c.text, "cannot-hold", None, None, None,
+                       f"output below 240 nm, which makes ozone from air: {note}", (), (),
+                       ev_kind, r.label)
+    return Verdict(c.id, c.kind, c.text, "not-assessable", None, None, None,
+                   f"cannot be known from the data: {note}", (),
+                   ("a measurement down to 180 nm, or the lamp glass (ozone-free doped quartz)",),
+                   ev_kind, r.label)
+
+
+# --- safety -----------------------------------------------------------------------------------
+
+def _safety(c: Any, ev: Evidence) -> Verdict:
+    missing = c.missing()
+    if missing:
+        return _na(c, ev, "the claim does not say who or what it is safe for", missing)
+    r = ev.likely()
+    if r is None or not r.spectrum.is_absolute:
+        return _na(c, ev, "no absolute reading of the lamp: exposure cannot be worked out",
+                   ("a scaled spectrum, or lamp.optical_power / lamp.electrical_power",))
+    t = c.time_s or WORKDAY_S
+    assumptions = []
+    if c.time_s is None:
+        assumptions.append("exposure for a full 8-h day (no time stated)")
+    who = ", ".join(c.safe_for)
+    if "pets" in c.safe_for or "animals" in c.safe_for:
+        assumptions.append("no exposure limits exist for animals; the human limits are used as a "
+                           "proxy (common practice)")
+    occupied = "occupied-rooms" in c.safe_for
+    box = _room_box(c, ev.listing) if occupied else None
+    if occupied and box is not None:
+        room = r.room(box[0], "ceiling")
+        occ = room.occupant
+        tl = occ.get("time_to_limit_s")
+        assumptions += box[1] + ["lamp at the ceiling centre; occupant's eyes at "
+                                 f"{sig(occ.get('eye_height_m'))} m facing the lamp (worst case)"]
+        if tl is None:
+            return _na(c, ev, "the occupant exposure could not be evaluated", (), assumptions)
+        ratio = tl / t
+        verdict = "holds" if ratio >= 1 else "cannot-hold"
+        if verdict == "holds" and occ.get("effective_S_is_lower_bound"):
+            verdict = "not-assessable"
+        basis = (f"an occupant reaches the daily actinic UV limit in {format_duration(tl)} "
+                 f"(needs at least {format_duration(t)})")
+        return Verdict(c.id, c.kind, c.text, verdict, Quantity(t, "s", "exposure time"),
+                       Quantity(tl, "s", "time to the exposure limit at eye height"), ratio,
+                       basis, tuple(assumptions), (), r.evidence, r.label)
+    d = c.distance_m or ev.listing.use_distance_m
+    if d is None:
+        d = 0.2
+        assumptions.append("no distance stated: judged at 0.2 m, the IEC 62471 assessment distance")
+    if r.d_ref is None:
+        return _na(c, ev, "the measurement distance is unknown, so exposure at a distance of use "
+                          "cannot be worked out", ("--distance",), assumptions)
+    hz = r.hazards_at(d).get("hazards") or {}
+    worst = None
+    open_h = []
+    for hid in ("actinic_uv", "near_uv", "blue_light", "retinal_thermal", "ir_eye"):
+        h = hz.get(hid)
+        if not h:
+            continue
+        if h.get("status") in ("not-assessable", "partial"):
+            open_h.append(h.get("symbol") or hid)
+        tm = h.get("t_max_s")
+        if tm is not None and (worst is None or tm < worst[0]):
+            worst = (tm, h)
+    if worst is not None and worst[0] < t:
+        tm, h = worst
+        lower = h.get("status") == "partial"
+        basis = (f"at {sig(d)} m the {h.get('name') or h.get('symbol')} limit ({h.get('symbol')}) "
+                 f"is reached in {format_duration(tm)}, against {format_duration(t)} of exposure"
+                 + (" (from partial data: the true time is shorter)" if lower else ""))
+        return Verdict(c.id, c.kind, c.text, "cannot-hold", Quantity(t, "s", "exposure time"),
+                       Quantity(tm, "s", f"t_max ({h.get('symbol')})"), tm / t, basis,
+                       tuple(assumptions), (), r.evidence, r.label,
+                       {"hazard": h.get("symbol"), "distance_m": d, "for": who})
+    if open_h:
+        return _na(c, ev, f"within the limits so far, but {', '.join(open_h)} could not be fully "
+                          "assessed, so safety cannot be confirmed",
+                   ("a spectrum covering 200–1400 nm", "the source size (--source-size)"), assumptions)
+    tm = worst[0] if worst else None
+    return Verdict(c.id, c.kind, c.text, "holds", Quantity(t, "s", "exposure time"),
+                   Quantity(tm, "s", "shortest t_max") if tm else None,
+                   (tm / t) if tm else None,
+                   f"at {sig(d)} m every assessed hazard stays within its limit for {format_duration(t)}",
+                   tuple(assumptions), (), r.evidence, r.label, {"distance_m": d, "for": who})
+
+
+# --- optical power and efficiency ------------------------------------------------------------
+
+def _flux_upper_bound(r: Reading, band: tuple[float, float] | None) -> float | None:
+    """Largest flux consistent with the irradiance at d_ref: isotropic emission, Φ = 4πd²E
+    (a directional lamp emits less for the same on-axis irradiance). [W]"""
+    if r.d_ref is None or not r.spectrum.is_absolute:
+        return None
+    lo, hi = band if band else r.spectrum.range_nm
+    e = integrate(r.spectrum, lo, hi).value
+    return 4.0 * math.pi * r.d_ref ** 2 * e
+
+
+def _optical_power(c: Any, ev: Evidence) -> Verdict:
+    if c.power_W is None:
+        return _na(c, ev, "no power stated", c.missing())
+    f = ev.plausibility.by_id(f"optical-vs-electrical:{c.id}") if ev.plausibility else None
+    if not ev.measured:
+        if f is not None:
+            return Verdict(c.id, c.kind, c.text, f.status if f.status in VERDICTS else "not-assessable",
+                           _q(f.needed), _q(f.available), f.ratio, f.message, tuple(f.assumptions),
+                           tuple(f.missing), "listing", None)
+        return _na(c, ev, "a stated optical power can only be checked against a measurement or "
+                          "the electrical power", ("a spectrum with --distance", "lamp.electrical_power"))
+    r = ev.readings[0]
+    ub = _flux_upper_bound(r, c.band_nm)
+    if ub is None:
+        return _na(c, ev, "needs an absolute spectrum and its measurement distance", ("--distance",))
+    ratio = ub / c.power_W
+    verdict = _by_ratio(ratio, ev.margin)
+    return Verdict(c.id, c.kind, c.text, verdict, Quantity(c.power_W, "W", "stated optical power"),
+                   Quantity(ub, "W", "largest flux consistent with the measurement"), ratio,
+                   f"the measured irradiance at {sig(r.d_ref)} m allows at most {sig(ub)} W "
+                   f"(all-round emission, Φ = 4πd²E) against the stated {sig(c.power_W)} W: {_short(ratio)}",
+                   ("a directional lamp emits less than this bound",), (), "measured", r.label)
+
+
+def _efficiency(c: Any, ev: Evidence) -> Verdict:
+    f = ev.plausibility.by_id(f"efficiency:{c.id}") if ev.plausibility else None
+    if f is None:
+        return _na(c, ev, "the technology is not known, so the efficiency cannot be checked",
+                   ("lamp.technology",) if c.efficiency_fraction is not None else c.missing())
+    return Verdict(c.id, c.kind, c.text, f.status if f.status in VERDICTS else "not-assessable",
+                   _q(f.needed), _q(f.available), f.ratio, f.message, tuple(f.assumptions),
+                   tuple(f.missing), "listing", None)
+
+
+_JUDGES = {"emission": _emission, "inactivation": _inactivation, "coverage": _coverage,
+           "ozone-free": _ozone, "safety": _safety, "optical-power": _optical_power,
+           "efficiency": _efficiency}
+
+
+# ---------------------------------------------------------------------------------------------
+# Entry points
+# ---------------------------------------------------------------------------------------------
+
+@dataclass(frozen=True)
+class ClaimsResult:
+    """Verdicts and the evidence summary (the ``claims`` and ``listing`` JSON blocks)."""
+
+    verdicts: tuple[Verdict, ...]
+    listing: Any
+    plausibility: Any
+    readings: tuple[str, ...]
+    decision_rule: str
+
+    def counts(self) -> dict[str, int]:
+        out = {v: 0 for v in VERDICTS}
+        for x in self.verdicts:
+            out[x.verdict] += 1
+        return out
+
+    def to_dict(self) -> dict[str, Any]:
+        return {"claims": [v.to_dict() for v in self.verdicts],
+                "claims_summary": {"counts": self.counts(), "readings": list(self.readings),
+                                   "decision_rule": self.decision_rule},
+                "listing": self.listing.to_dict(),
+                "plausibility": None if self.plausibility is None else self.plausibility.to_dict()}
+
+
+def decision_rule_text(margin: float = MARGIN) -> str:
+    return (f"efficacy claims: benefit of the doubt (most favourable reading); 'cannot-hold' only "
+            f"when that reading falls short by more than {sig(margin, 2)}×, 'unlikely' within it. "
+            "Safety claims: fail as soon as the most likely reading exceeds an exposure limit.")
+
+
+def judge(listing: Any, readings: Iterable[Reading], measured: bool,
+          margin: float = MARGIN) -> ClaimsResult:
+    """Verdicts for a listing's claims over the given readings (see the module docstring)."""
+    from uvcheck.plausibility import screen_listing
+
+    pl = screen_listing(listing)
+    ev = Evidence(listing, tuple(readings), pl, measured, margin)
+    verdicts = tuple(evaluate_claims(ev))
+    return ClaimsResult(verdicts, listing, pl, tuple(r.label for r in ev.readings),
+                        decision_rule_text(margin))
