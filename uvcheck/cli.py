@@ -317,8 +317,12 @@ def apply_scaling(spec: Any, scale_band: str | None, scale_lux: str | None,
 
 from uvcheck.cli_room import organisms_command, room_command  # noqa: E402  (typer only)
 
+from uvcheck.cli_note import demo_command, note_command  # noqa: E402  (typer only)
+
 app.command("room")(guarded(room_command))
 app.command("organisms")(guarded(organisms_command))
+app.command("note")(guarded(note_command))
+app.command("demo")(guarded(demo_command))
 
 
 def main() -> None:

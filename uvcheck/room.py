@@ -673,6 +673,7 @@ def evaluate_room(room: Box, lamp: RoomLamp, *, reflectance: float = DEFAULT_REF
         "max_W_m2": q(float(plane_per_W.max())),
         "uniformity_min_mean": float(plane_per_W.min() / mean_fine) if mean_fine > 0 else None,
         "p10_per_W_m2": p10,  # geometry alone: irradiance at p10 per watt of flux [m⁻²]
+        "grid": _coarse_grid(room, pts, plane_per_W, nx, ny, f if phi_254 else None),
         "grid_step_m": [room.width_m / (nx - 1), room.length_m / (ny - 1)],
         "percentile_error_rel": abs(p10 - p10_c) / p10 if p10 > 0 else None,
         "mean_error_rel": abs(mean_fine - mean_coarse) / mean_fine if mean_fine > 0 else None,
@@ -747,6 +748,20 @@ def evaluate_room(room: Box, lamp: RoomLamp, *, reflectance: float = DEFAULT_REF
                       fluence_rate_avg_W_m2=e_avg, fluence_rate_avg_uvc_W_m2=e_avg_uvc,
                       air=air, air_most_susceptible=ms, occupant=occupant, method=method,
                       germicidal=g, flux_eq=phi_254, notes=tuple(notes))
+
+
+def _coarse_grid(room: Box, pts: np.ndarray, per_W: np.ndarray, nx: int, ny: int,
+                 flux: float | None, max_nodes: int = 41) -> dict | None:
+    """The work-plane map thinned to at most ``max_nodes`` a side, for figures. [m], [W m⁻²]"""
+    if flux is None:
+        return None
+    grid = per_W.reshape(nx, ny) * flux
+    sx = max(1, int(math.ceil(nx / max_nodes)))
+    sy = max(1, int(math.ceil(ny / max_nodes)))
+    xs = pts[:, 0].reshape(nx, ny)[::sx, 0]
+    ys = pts[:, 1].reshape(nx, ny)[0, ::sy]
+    return {"x_m": [float(v) for v in xs], "y_m": [float(v) for v in ys],
+            "values_W_m2": [[float(v) for v in row] for row in grid[::sx, ::sy]]}
 
 
 def _grid_weights(room: Box, nx: int, ny: int) -> tuple[None, np.ndarray, int, int]:

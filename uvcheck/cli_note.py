@@ -1,0 +1,403 @@
+"""Command functions for ``uvcheck note`` and ``uvcheck demo`` (registered in cli.py).
+
+Thin: read the inputs, build the assessment exactly as ``uvcheck assess --claims`` (or
+``uvcheck screen`` for a listing alone) does, then hand ``Assessment.to_dict()`` to the note's
+renderers (:mod:`uvcheck.report.note`, :mod:`uvcheck.report.html`, :mod:`uvcheck.report.pdf`,
+:mod:`uvcheck.report.figures`). Only typer and the standard library are imported at module
+level, so ``uvcheck --help`` stays fast. Errors are :class:`~uvcheck.errors.UvcheckError`
+subclasses, which the CLI prints as one line with exit status 2. Nothing is overwritten
+without ``--force``; files are written atomically and only after everything was rendered.
+"""
+
+from __future__ import annotations
+
+import time
+from pathlib import Path
+from typing import Annotated, Any, Optional
+
+import typer
+
+#: The demo scenario, relative to a source checkout (next to the package, or the current folder).
+SCENARIO_RELPATH = Path("examples") / "demo" / "scenario.toml"
+
+
+def find_scenario() -> Path:
+    """The demo scenario: shipped in the wheel as ``uvcheck/examples/demo/scenario.toml``, or
+    ``examples/demo/scenario.toml`` beside the package in a source checkout."""
+    pkg = Path(__file__).resolve().parent
+    for cand in (pkg / "examples" / "demo" / "scenario.toml", pkg.parent / SCENARIO_RELPATH):
+        if cand.exists():
+            return cand
+    return Path.cwd() / SCENARIO_RELPATH
+
+
+# ---------------------------------------------------------------------------------------------
+# Building the result (the same calls as `uvcheck assess --claims` and `uvcheck screen`)
+# ---------------------------------------------------------------------------------------------
+
+def note_result(spectrum_file: Path | None, listing_file: Path | None, *, read_opts: Any = None,
+                distance: str | None = None, scale_band: str | None = None,
+                scale_lux: str | None = None, scale_total: str | None = None,
+                source_size: str | None = None, alpha: float | None = None,
+                use_distance: str | None = None, general_lighting: bool = False,
+                exposure_time: str = "8 h", limits: str = "iec62471_2006",
+                electrical_power: str | None = None,
+                room: dict[str, Any] | None = None) -> tuple[dict[str, Any], Any]:
+    """(``Assessment.to_dict()`` made strict-JSON, the spectrum it was computed from).
+
+    With a spectrum: the measured assessment, with the listing's claims judged against it.
+    With a listing only: the listing screening (nominal spectra, an ESTIMATE).
+    room : ``{"size": "4 x 5 x 2.7 m", "lamp_at": ..., "pattern": ..., "tube_length": ...}``
+        to add the room model's result as the ``room`` section.
+    """
+    from uvcheck.assessment import AssessOptions, assess
+    from uvcheck.cli import _length, apply_scaling, conditions_from_options
+    from uvcheck.errors import ConfigurationError
+    from uvcheck.report.jsonout import clean
+
+    if spectrum_file is None and listing_file is None:
+        raise ConfigurationError("give a spectrum file, a --listing file, or both",
+                                 todo="e.g. 'uvcheck note lamp.csv --listing lamp.toml --out note.html'")
+    if sum(x is not None for x in (scale_band, scale_lux, scale_total)) > 1:
+        raise ConfigurationError("give only one of --scale-band, --scale-lux, --scale-total")
+    listing = None
+    if listing_file is not None:
+        from uvcheck.io.listing import read_listing
+
+        listing = read_listing(listing_file)
+    if spectrum_file is None:
+        from uvcheck.screening import screen_listing_file
+
+        a = screen_listing_file(listing, limit_set=limits)
+        d = a.to_dict()
+        spec, cond = a.spectrum, a.conditions
+    else:
+        from uvcheck.io.reader import read_spectrum
+
+        spec, report = read_spectrum(spectrum_file, read_opts)
+        spec = apply_scaling(spec, scale_band, scale_lux, scale_total)
+        d0 = _length(distance, "--distance") if distance else report.measurement_distance_m
+        cond = conditions_from_options(d0, source_size, alpha, use_distance, general_lighting,
+                                       exposure_time, listing=listing,
+                                       electrical_power=electrical_power)
+        verdicts = None
+        if listing is not None:
+            from uvcheck.claims import judge, readings_from_measurement
+
+            verdicts = judge(listing, readings_from_measurement(spec, cond), measured=True)
+        d = assess(spec, cond, report, AssessOptions(limit_set=limits), claims=verdicts).to_dict()
+    if room:
+        # TODO(lead): the room result is added here, next to the assessment, because assess()
+        # has no room section yet; move it into assess() when it gets one.
+        d["room"] = room_result(spec, cond, room)
+    return clean(d), spec
+
+
+def room_result(spec: Any, cond: Any, room: dict[str, Any]) -> dict[str, Any]:
+    """The room model's dict for a spectrum measured at ``cond.measurement_distance_m``."""
+    from uvcheck.cli_room import PATTERN_NAMES, _triple
+    from uvcheck.errors import ConfigurationError
+    from uvcheck.room import Box, LampGeometry, evaluate_room, lamp_from_spectrum
+    from uvcheck.units import parse_quantity
+
+    w, l, h = _triple(str(room["size"]), "room size")
+    box = Box(w, l, h)
+    pos = _triple(str(room["lamp_at"]), "lamp position") if room.get("lamp_at") else (
+        w / 2, l / 2, max(h - 0.3, h / 2))
+    pattern = str(room.get("pattern", "isotropic"))
+    if pattern not in PATTERN_NAMES:
+        raise ConfigurationError(f"unknown pattern {pattern!r}", "room pattern",
+                                 "use isotropic, lambertian-down or cylinder")
+    tl = parse_quantity(str(room["tube_length"]), "length", "tube length").value_si \
+        if room.get("tube_length") else 0.0
+    geom = LampGeometry(pos, PATTERN_NAMES[pattern], tl, str(room.get("axis", "x")))
+    if spec.quantity == "flux":
+        lamp = lamp_from_spectrum(spec, geom)
+    else:
+        lamp = lamp_from_spectrum(spec, geom, cond.measurement_distance_m)
+    return evaluate_room(box, lamp).to_dict()
+
+
+# ---------------------------------------------------------------------------------------------
+# Rendering and writing
+# ---------------------------------------------------------------------------------------------
+
+def output_paths(out_html: Path, pdf: bool) -> tuple[Path, Path | None]:
+    out_html = Path(out_html)
+    if out_html.suffix.lower() not in (".html", ".htm"):
+        from uvcheck.errors import ConfigurationError
+
+        raise ConfigurationError(f"the note is written as HTML: {out_html.name!r} does not end "
+                                 "in .html", "--out", "give a name like 'note.html'")
+    return out_html, (out_html.with_suffix(".pdf") if pdf else None)
+
+
+def check_free(paths: list[Path | None], force: bool) -> None:
+    """Refuse before any work is done if an output exists and --force was not given."""
+    from uvcheck.errors import OutputExistsError
+
+    for p in paths:
+        if p is not None and p.exists() and not force:
+            raise OutputExistsError("the output file exists", str(p),
+                                    "give --force to replace it, or choose another name")
+
+
+def render_note(result: dict[str, Any], spectrum: Any, *, pdf: bool = True,
+                invented: bool | None = None, salt: str = "note",
+                date: str | None = None) -> tuple[str, bytes | None, dict[str, Any]]:
+    """(HTML text, PDF bytes or None, view model) for one assessment dict."""
+    from uvcheck.report import figures, html
+    from uvcheck.report.note import build_note
+
+    view = build_note(result, invented=invented, date=date)
+    if (result.get("input") or {}).get("origin") == "nominal":
+        view["title"] = view["title"] + " — screening of the stated data (ESTIMATE)"
+    figs = figures.render(result, spectrum, svg=True, png=pdf, salt=salt)
+    text = html.render_note_html(view, result, figs)
+    data = None
+    if pdf:
+        from uvcheck.report.pdf import render_note_pdf
+
+        data = render_note_pdf(view, figs)
+    return text, data, view
+
+
+def write_note(result: dict[str, Any], spectrum: Any, out_html: Path, *, pdf: bool = True,
+               force: bool = False, invented: bool | None = None, salt: str = "note"
+               ) -> tuple[Path, Path | None, dict[str, Any]]:
+    """Render and write the note (HTML, and PDF beside it); returns the paths and view."""
+    from uvcheck.report.jsonout import write_text_atomic
+
+    html_path, pdf_path = output_paths(out_html, pdf)
+    check_free([html_path, pdf_path], force)
+    text, data, view = render_note(result, spectrum, pdf=pdf, invented=invented, salt=salt)
+    write_text_atomic(html_path, text, force=force)
+    if pdf_path is not None and data is not None:
+        write_text_atomic(pdf_path, data, force=force)
+    return html_path, pdf_path, view
+
+
+# ---------------------------------------------------------------------------------------------
+# uvcheck note
+# ---------------------------------------------------------------------------------------------
+
+def note_command(
+    spectrum_file: Annotated[Optional[Path], typer.Argument(
+        help="Spectrum export (CSV, TSV or text); optional when --listing is given.")] = None,
+    listing: Annotated[Optional[Path], typer.Option(
+        "--listing", help="Listing file (TOML): the product as sold and its claims "
+                          "(see examples/listings/README.md).")] = None,
+    out: Annotated[Optional[Path], typer.Option(
+        "--out", help="Note to write, e.g. 'note.html' (the PDF goes beside it as 'note.pdf'; "
+                      "default: <input name>.note.html in the current folder).")] = None,
+    no_pdf: Annotated[bool, typer.Option("--no-pdf", help="Write the HTML note only.")] = False,
+    force: Annotated[bool, typer.Option(help="Replace existing output files.")] = False,
+    distance: Annotated[Optional[str], typer.Option(help="Measurement distance, e.g. '20 cm' "
+                                                    "(default: from the file, else none).")] = None,
+    scale_band: Annotated[Optional[str], typer.Option("--scale-band", help="Scale a relative "
+                                                      "spectrum by a radiometer reading, e.g. "
+                                                      "'UV-C=120 uW/cm2'.")] = None,
+    scale_lux: Annotated[Optional[str], typer.Option("--scale-lux", help="Scale by a lux-meter "
+                                                     "reading (says nothing about UV).")] = None,
+    scale_total: Annotated[Optional[str], typer.Option("--scale-total", help="Scale so the "
+                                                       "measured range integrates to this.")] = None,
+    source_size: Annotated[Optional[str], typer.Option("--source-size", help="Apparent source "
+                                                       "size; a bare number is mm.",
+                                                       rich_help_panel="Geometry")] = None,
+    alpha: Annotated[Optional[float], typer.Option(help="Angular subtense α of the source at "
+                                                   "the measurement position [rad].",
+                                                   rich_help_panel="Geometry")] = None,
+    use_distance: Annotated[Optional[str], typer.Option("--use-distance", help="Also evaluate "
+                                                        "at a realistic distance of use.",
+                                                        rich_help_panel="Geometry")] = None,
+    general_lighting: Annotated[bool, typer.Option("--general-lighting", help="Lamp for general "
+                                                   "lighting service (500 lx distance).",
+                                                   rich_help_panel="Geometry")] = False,
+    exposure_time: Annotated[str, typer.Option("--exposure-time", help="Exposure duration for "
+                                               "hazard distances.",
+                                               rich_help_panel="Geometry")] = "8 h",
+    limits: Annotated[str, typer.Option(help="Exposure-limit set: iec62471_2006 (default), "
+                                        "icnirp_2013 or acgih_2022_far_uvc.")] = "iec62471_2006",
+    electrical_power: Annotated[Optional[str], typer.Option("--electrical-power", help="Electrical "
+                                                            "input power, e.g. '8 W'.")] = None,
+    room: Annotated[Optional[str], typer.Option("--room", help="Also model the lamp in a room "
+                                                "'W x L x H m' (uvcheck room's model).",
+                                                rich_help_panel="Room")] = None,
+    lamp_at: Annotated[Optional[str], typer.Option("--lamp-at", help="Lamp position in the room "
+                                                   "'x, y, z m' (default: centre, 0.3 m below "
+                                                   "the ceiling).", rich_help_panel="Room")] = None,
+    pattern: Annotated[str, typer.Option(help="Emission pattern in the room: isotropic, "
+                                         "lambertian-down or cylinder.",
+                                         rich_help_panel="Room")] = "isotropic",
+    quiet: Annotated[bool, typer.Option(help="Print nothing but errors.")] = False,
+    encoding: Annotated[Optional[str], typer.Option(help="Text encoding (default: detected).",
+                                                    rich_help_panel="Reading the file")] = None,
+    delimiter: Annotated[Optional[str], typer.Option(help="Field delimiter (default: detected).",
+                                                     rich_help_panel="Reading the file")] = None,
+    decimal: Annotated[Optional[str], typer.Option(help="Decimal mark: '.' or ','.",
+                                                   rich_help_panel="Reading the file")] = None,
+    column: Annotated[Optional[str], typer.Option(help="Value column: name or number (from 1).",
+                                                  rich_help_panel="Reading the file")] = None,
+    wavelength_column: Annotated[Optional[str], typer.Option("--wavelength-column",
+                                                             help="Wavelength column.",
+                                                             rich_help_panel="Reading the file")] = None,
+    wavelength_unit: Annotated[Optional[str], typer.Option("--wavelength-unit",
+                                                           help="Wavelength unit: nm, um, m or cm-1.",
+                                                           rich_help_panel="Reading the file")] = None,
+    unit: Annotated[Optional[str], typer.Option(help="Unit of the values, e.g. 'uW/cm2/nm'.",
+                                                rich_help_panel="Reading the file")] = None,
+    block: Annotated[Optional[int], typer.Option(help="Data block to read (from 1).",
+                                                 rich_help_panel="Reading the file")] = None,
+    data_start: Annotated[Optional[int], typer.Option("--data-start", help="Line where the data "
+                                                      "rows start (from 1).",
+                                                      rich_help_panel="Reading the file")] = None,
+) -> None:
+    """Write the consumer-safety note (self-contained HTML and PDF) for a spectrum and/or a
+    listing: the product as sold, a plain-language finding, the claims with verdicts, the
+    hazards, germicidal output, cautions and provenance. A screening assessment, not a
+    certification."""
+    from uvcheck.cli import read_options
+    from uvcheck.errors import ConfigurationError
+
+    if spectrum_file is None and listing is None:
+        raise ConfigurationError("give a spectrum file, a --listing file, or both",
+                                 todo="e.g. 'uvcheck note lamp.csv --listing lamp.toml --out note.html'")
+    stem = (spectrum_file or listing).stem  # type: ignore[union-attr]
+    html_path, pdf_path = output_paths(out or Path(f"{stem}.note.html"), not no_pdf)
+    check_free([html_path, pdf_path], force)
+    opts = read_options(encoding, delimiter, decimal, column, wavelength_column, wavelength_unit,
+                        unit, block, data_start)
+    room_d = None if room is None else {"size": room, "lamp_at": lamp_at, "pattern": pattern}
+    result, spec = note_result(spectrum_file, listing, read_opts=opts, distance=distance,
+                               scale_band=scale_band, scale_lux=scale_lux, scale_total=scale_total,
+                               source_size=source_size, alpha=alpha, use_distance=use_distance,
+                               general_lighting=general_lighting, exposure_time=exposure_time,
+                               limits=limits, electrical_power=electrical_power, room=room_d)
+    h, p, _ = write_note(result, spec, html_path, pdf=not no_pdf, force=force, salt=stem)
+    if not quiet:
+        typer.echo(f"wrote {h}" + (f"\nwrote {p}" if p else ""))
+
+
+# ---------------------------------------------------------------------------------------------
+# uvcheck demo
+# ---------------------------------------------------------------------------------------------
+
+def load_scenario(path: Path | None = None) -> dict[str, Any]:
+    """The demo scenario (TOML), with file names resolved against its folder."""
+    import tomllib
+
+    from uvcheck.errors import InputFormatError
+
+    path = path or find_scenario()
+    if not path.exists():
+        raise InputFormatError("the demo scenario is not installed", str(path),
+                               "run the demo from a source checkout (examples/demo/scenario.toml)")
+    with open(path, "rb") as fh:
+        try:
+            sc = tomllib.load(fh)
+        except tomllib.TOMLDecodeError as exc:
+            raise InputFormatError(f"not valid TOML: {exc}", str(path)) from None
+    import os
+
+    base = path.parent
+    for p in sc.get("products", []):
+        for k in ("spectrum", "listing"):
+            if p.get(k):
+                full = (base / p[k]).resolve()
+                try:  # keep the recorded path short and free of the user's folders
+                    p[k] = Path(os.path.relpath(full))
+                except ValueError:
+                    p[k] = full
+    return sc
+
+
+def _demo_product(job: tuple[dict[str, Any], bool, str]) -> tuple[str, bytes | None, dict, dict]:
+    """One demo product: (HTML, PDF bytes, result dict, view model). Runs in a worker."""
+    p, pdf, date = job
+    result, spec = note_result(p.get("spectrum"), p.get("listing"), distance=p.get("distance"),
+                               use_distance=p.get("use_distance"), room=p.get("room"))
+    text, data, view = render_note(result, spec, pdf=pdf, invented=True, salt=p["id"], date=date)
+    return text, data, result, view
+
+
+def _map(fn: Any, jobs: list[Any]) -> list[Any]:
+    """Map over the jobs on every core (processes); serially where processes are not available."""
+    import os
+
+    workers = min(len(jobs), os.cpu_count() or 1)
+    if workers > 1:
+        # load the heavy modules once, before forking, so the workers share them
+        import matplotlib.pyplot  # noqa: F401
+        import fpdf  # noqa: F401
+
+        from uvcheck.report import figures, html, pdf  # noqa: F401
+        try:
+            import concurrent.futures as cf
+            import multiprocessing as mp
+
+            ctx = mp.get_context("fork") if "fork" in mp.get_all_start_methods() else None
+            with cf.ProcessPoolExecutor(max_workers=workers, mp_context=ctx) as ex:
+                return list(ex.map(fn, jobs))
+        except (OSError, ImportError, cf.process.BrokenProcessPool):  # type: ignore[attr-defined]
+            pass
+    return [fn(j) for j in jobs]
+
+
+def demo_command(
+    out: Annotated[Path, typer.Option("--out", help="Folder for the demo notes (created if "
+                                                    "missing).")] = Path("uvcheck-demo"),
+    force: Annotated[bool, typer.Option(help="Replace existing demo files.")] = False,
+    no_pdf: Annotated[bool, typer.Option("--no-pdf", help="Write the HTML notes only.")] = False,
+) -> None:
+    """Run the whole tool on the bundled, INVENTED scenario (a veterinary clinic checks three
+    lamps before buying): one note per product plus an overview. Products and data are
+    invented."""
+    from uvcheck.report.html import render_overview_html
+    from uvcheck.report.jsonout import dumps, write_text_atomic
+    from uvcheck.report.note import generated_date
+
+    t0 = time.perf_counter()
+    sc = load_scenario()
+    out = Path(out)
+    products = sc.get("products", [])
+    planned: list[Path | None] = [out / "index.html", None if no_pdf else out / "index.pdf"]
+    for p in products:
+        planned += [out / f"{p['id']}.html", None if no_pdf else out / f"{p['id']}.pdf",
+                    out / f"{p['id']}.json"]
+    check_free(planned, force)
+    out.mkdir(parents=True, exist_ok=True)
+    date = generated_date()
+    jobs = [(p, not no_pdf, date) for p in products]
+    rendered = _map(_demo_product, jobs)
+    items = []
+    tool = ""
+    for p, (text, data, result, view) in zip(products, rendered):
+        write_text_atomic(out / f"{p['id']}.html", text, force=force)
+        if data is not None:
+            write_text_atomic(out / f"{p['id']}.pdf", data, force=force)
+        write_text_atomic(out / f"{p['id']}.json", dumps(result), force=force)
+        tool = view["provenance"]["tool"]
+        items.append({"id": p["id"], "title": view["title"], "finding": view["finding"],
+                      "risk": (view["risk"] or {}).get("headline", "—"),
+                      "claims_summary": view["claims_summary"],
+                      "verdicts": [{"text": c["text"], "verdict": c["verdict"],
+                                    "verdict_text": c["verdict_text"]} for c in view["claims"] or []],
+                      "html": f"{p['id']}.html", "pdf": None if no_pdf else f"{p['id']}.pdf"})
+    title = sc.get("title", "uvcheck demonstration")
+    intro = sc.get("intro", "")
+    write_text_atomic(out / "index.html", render_overview_html(title, items, invented=True,
+                                                                intro=intro, date=date, tool=tool),
+                      force=force)
+    if not no_pdf:
+        from uvcheck.report.pdf import render_overview_pdf
+
+        write_text_atomic(out / "index.pdf", render_overview_pdf(title, items, invented=True,
+                                                                 intro=intro, date=date, tool=tool),
+                          force=force)
+    typer.echo("INVENTED DEMONSTRATION: the products and data are made up.")
+    for it in items:
+        typer.echo(f"  {it['title']}: {it['risk']}; {it['claims_summary'] or 'no claims'}")
+        typer.echo(f"    {out / it['html']}" + (f"\n    {out / it['pdf']}" if it["pdf"] else ""))
+    typer.echo(f"overview: {out / 'index.html'}" + ("" if no_pdf else f" and {out / 'index.pdf'}"))
+    typer.echo(f"done in {time.perf_counter() - t0:.1f} s. Screening assessments, not "
+               "certifications; local codes and licensed practice take precedence.")

@@ -1,0 +1,434 @@
+"""The note as PDF, from the same view model as the HTML (fpdf2; no browser at run time).
+
+Why fpdf2: it is pure Python and already a dependency, so the PDF is made the same way on any
+machine, offline, without a headless browser or an external program; the note's content comes
+from :func:`uvcheck.report.note.build_note`, the same view model the HTML template renders, so
+the two cannot drift apart. Text is set in DejaVu Sans, which matplotlib ships
+(``matplotlib.get_data_path()/fonts/ttf``), so µ, ², λ, σ, ≥ and → print correctly. Figures are
+the PNG renderings of the same matplotlib figures the HTML shows as SVG.
+
+fpdf2 and matplotlib are imported inside the functions (start-up budget).
+"""
+
+from __future__ import annotations
+
+import io
+from pathlib import Path
+from typing import Any, Mapping, Sequence
+
+A4_W_MM = 210.0
+MARGIN_MM = 14.0
+BODY_W_MM = A4_W_MM - 2 * MARGIN_MM
+INK = (27, 27, 27)
+MUTED = (90, 90, 90)
+VERDICT_COLOURS = {"holds": (46, 107, 46), "cannot-hold": (166, 27, 27), "unlikely": (154, 90, 0),
+                   "not-assessable": (85, 85, 85), "info": (85, 85, 85)}
+
+
+def font_dir() -> Path:
+    """Folder of the DejaVu TTF fonts bundled with matplotlib."""
+    import matplotlib
+
+    return Path(matplotlib.get_data_path()) / "fonts" / "ttf"
+
+
+def _pdf_class() -> Any:
+    from fpdf import FPDF
+
+    class NotePDF(FPDF):  # type: ignore[misc, valid-type]
+        """A4 portrait with the screening line and page numbers in the footer."""
+
+        footer_text = ""
+
+        def footer(self) -> None:
+            self.set_y(-11)
+            self.set_font("DejaVu", "", 7)
+            self.set_text_color(*MUTED)
+            self.cell(0, 4, f"{self.footer_text}   page {self.page_no()} of {{nb}}", align="C")
+            self.set_text_color(*INK)
+
+    return NotePDF
+
+
+def _new(footer: str, title: str) -> Any:
+    pdf = _pdf_class()(orientation="P", unit="mm", format="A4")
+    fd = font_dir()
+    pdf.add_font("DejaVu", "", str(fd / "DejaVuSans.ttf"))
+    pdf.add_font("DejaVu", "B", str(fd / "DejaVuSans-Bold.ttf"))
+    pdf.add_font("DejaVu", "I", str(fd / "DejaVuSans-Oblique.ttf"))
+    pdf.set_margins(MARGIN_MM, MARGIN_MM, MARGIN_MM)
+    pdf.set_auto_page_break(True, margin=16)
+    pdf.footer_text = footer
+    pdf.set_title(title)
+    pdf.set_creator("uvcheck")
+    pdf.alias_nb_pages()
+    pdf.add_page()
+    pdf.set_font("DejaVu", "", 9)
+    return pdf
+
+
+# ---------------------------------------------------------------------------------------------
+# Building blocks
+# ---------------------------------------------------------------------------------------------
+
+def _para(pdf: Any, text: str, size: float = 9, style: str = "", color: tuple = INK,
+          h: float | None = None, align: str = "L") -> None:
+    pdf.set_font("DejaVu", style, size)
+    pdf.set_text_color(*color)
+    pdf.set_x(pdf.l_margin)
+    pdf.multi_cell(BODY_W_MM, h or size * 0.46, text, align=align, new_x="LMARGIN", new_y="NEXT")
+    pdf.set_text_color(*INK)
+
+
+def _subheading(pdf: Any, text: str, size: float = 9.5, min_space_mm: float = 32) -> None:
+    """A bold line kept with what follows (a new page when little room is left)."""
+    if pdf.get_y() > pdf.h - pdf.b_margin - min_space_mm:
+        pdf.add_page()
+    pdf.ln(1)
+    _para(pdf, text, size=size, style="B")
+
+
+def _heading(pdf: Any, text: str, size: float = 12, min_space_mm: float = 35) -> None:
+    if pdf.get_y() > pdf.h - pdf.b_margin - min_space_mm:
+        pdf.add_page()
+    pdf.ln(3)
+    pdf.set_font("DejaVu", "B", size)
+    pdf.set_x(pdf.l_margin)
+    pdf.cell(BODY_W_MM, size * 0.5, text, new_x="LMARGIN", new_y="NEXT")
+    y = pdf.get_y() + 0.6
+    pdf.set_draw_color(*INK)
+    pdf.set_line_width(0.5 if size >= 12 else 0.2)
+    pdf.line(pdf.l_margin, y, pdf.l_margin + BODY_W_MM, y)
+    pdf.set_line_width(0.2)
+    pdf.ln(2)
+
+
+def _box(pdf: Any, title: str | None, text: str, fill: tuple, border: tuple, size: float = 9,
+         bold_lead: str | None = None, dashed: bool = False) -> None:
+    """A shaded box with an optional small-caps title and a bold lead-in."""
+    pad = 2.5
+    pdf.set_font("DejaVu", "", size)
+    body = f"**{_md_escape(bold_lead)}** {_md_escape(text)}" if bold_lead else text
+    lines = pdf.multi_cell(BODY_W_MM - 2 * pad, size * 0.46, body, dry_run=True, output="LINES",
+                           markdown=bool(bold_lead), align="L")
+    h = len(lines) * size * 0.46 + 2 * pad + (4.5 if title else 0)
+    if pdf.get_y() + h > pdf.h - pdf.b_margin:
+        pdf.add_page()
+    x, y = pdf.l_margin, pdf.get_y()
+    pdf.set_fill_color(*fill)
+    pdf.set_draw_color(*border)
+    pdf.set_line_width(0.6 if not dashed else 0.4)
+    if dashed:
+        pdf.set_dash_pattern(dash=1.5, gap=1.0)
+    pdf.rect(x, y, BODY_W_MM, h, style="DF")
+    pdf.set_dash_pattern()
+    pdf.set_line_width(0.2)
+    pdf.set_xy(x + pad, y + pad)
+    if title:
+        pdf.set_font("DejaVu", "B", 7)
+        pdf.set_text_color(*MUTED)
+        pdf.cell(BODY_W_MM - 2 * pad, 3.5, title.upper(), new_x="LMARGIN", new_y="NEXT")
+        pdf.set_text_color(*INK)
+        pdf.set_x(x + pad)
+        pdf.ln(1)
+        pdf.set_x(x + pad)
+    pdf.set_font("DejaVu", "", size)
+    if bold_lead:
+        pdf.multi_cell(BODY_W_MM - 2 * pad, size * 0.46, body, markdown=True, align="L",
+                       new_x="LMARGIN", new_y="NEXT")
+    else:
+        pdf.multi_cell(BODY_W_MM - 2 * pad, size * 0.46, text, align="L", new_x="LMARGIN",
+                       new_y="NEXT")
+    pdf.set_y(y + h + 2.5)
+
+
+def _md_escape(text: str) -> str:
+    """Keep user text literal when a cell is rendered with fpdf2's markdown (** __ --)."""
+    for tok in ("\\", "**", "__", "--", "~~"):
+        text = text.replace(tok, "\\" + tok if tok != "\\" else "\\\\")
+    return text
+
+
+def _table(pdf: Any, headings: Sequence[str] | None, rows: Sequence[Sequence[str]],
+           widths: Sequence[float], size: float = 7.6, verdict_col: int | None = None,
+           verdicts: Sequence[str] | None = None, bold_col: int | None = None) -> None:
+    from fpdf.fonts import FontFace
+
+    pdf.set_font("DejaVu", "", size)
+    pdf.set_draw_color(200, 200, 200)
+    pdf.set_fill_color(255, 255, 255)
+    head = FontFace(emphasis="BOLD", fill_color=(236, 236, 232), size_pt=size)
+    with pdf.table(col_widths=tuple(widths), width=BODY_W_MM, text_align="LEFT",
+                   line_height=size * 0.45, padding=(1.0, 1.2, 1.0, 1.2), headings_style=head,
+                   borders_layout="HORIZONTAL_LINES", repeat_headings=1,
+                   first_row_as_headings=headings is not None, cell_fill_mode="NONE",
+                   v_align="TOP") as t:
+        if headings is not None:
+            r = t.row()
+            for h in headings:
+                r.cell(h)
+        for i, row in enumerate(rows):
+            r = t.row()
+            for j, cell in enumerate(row):
+                style = None
+                if verdict_col is not None and j == verdict_col and verdicts:
+                    style = FontFace(emphasis="BOLD", color=VERDICT_COLOURS.get(verdicts[i], INK))
+                elif bold_col is not None and j == bold_col:
+                    style = FontFace(emphasis="BOLD")
+                r.cell(str(cell), style=style)
+    pdf.ln(1.5)
+
+
+def _facts(pdf: Any, facts: Sequence[Mapping[str, str]], size: float = 8) -> None:
+    if not facts:
+        return
+    _table(pdf, None, [(f["label"], f["value"]) for f in facts], (34, 66), size=size)
+
+
+def _figure(pdf: Any, fig: Mapping[str, Any]) -> None:
+    from PIL import Image
+
+    png = fig.get("png")
+    if not png:
+        return
+    with Image.open(io.BytesIO(png)) as im:
+        w_px, h_px = im.size
+    w_mm = BODY_W_MM
+    h_mm = w_mm * h_px / w_px
+    room = pdf.h - pdf.b_margin - pdf.get_y() - 12  # keep space for the caption
+    if h_mm > room:
+        if room >= 0.72 * h_mm:      # shrink a little rather than leave half a page empty
+            w_mm, h_mm = w_mm * room / h_mm, room
+        else:
+            pdf.add_page()
+    pdf.image(io.BytesIO(png), x=pdf.l_margin + (BODY_W_MM - w_mm) / 2, w=w_mm,
+              alt_text=fig.get("title"))
+    _para(pdf, f"{fig['title']}. {fig['caption']}", size=7, color=MUTED)
+    pdf.ln(2)
+
+
+# ---------------------------------------------------------------------------------------------
+# The note
+# ---------------------------------------------------------------------------------------------
+
+def render_note_pdf(view: Mapping[str, Any], figures: Sequence[Mapping[str, Any]] = ()) -> bytes:
+    """The note as PDF bytes, from the view model and the figures' PNG renderings."""
+    v = view
+    figs = {f["id"]: f for f in figures if f.get("png")}
+    footer = "uvcheck screening note - not a certification" + (" - INVENTED DEMONSTRATION" if v["invented"] else "")
+    pdf = _new(footer, f"{v['title']} - {v['subtitle']}")
+    if v["invented"]:
+        _box(pdf, None, v["invented_text"], (255, 244, 220), (122, 75, 0), size=8.5, dashed=True)
+    _para(pdf, f"{v['subtitle']} · {v['provenance']['date']}", size=8, color=MUTED)
+    _para(pdf, v["title"], size=15, style="B", h=7)
+    pdf.ln(1)
+    _box(pdf, None, v["local_codes"], (238, 242, 247), (47, 79, 127), size=8.5,
+         bold_lead=v["screening_title"] + ".")
+    _box(pdf, "Finding", v["finding"], (245, 245, 242), (212, 212, 212), size=9.5)
+    if v.get("risk"):
+        rk = v["risk"]
+        _box(pdf, "Overall risk group (IEC 62471)", f"{rk['detail']} Assessed at {rk['distance']}.",
+             (255, 255, 255), (120, 120, 120), size=8.5, bold_lead=rk["headline"] + ".")
+    kc = v["key_caution"]
+    _box(pdf, "Most important caution", kc["text"], (255, 245, 243), (166, 27, 27), size=8.5,
+         bold_lead=kc["title"] + ".")
+    p = v.get("product")
+    if p:
+        _heading(pdf, "The product as sold", 11)
+        _para(pdf, p["name"], size=9, style="B")
+        if p.get("listing_text"):
+            _para(pdf, f"“{p['listing_text']}”", size=8.5, style="I")
+        if p.get("seller_note"):
+            _para(pdf, p["seller_note"], size=8, color=MUTED)
+        pdf.ln(1)
+        _facts(pdf, p.get("facts") or [])
+    if v.get("claims"):
+        _heading(pdf, "Claims and verdicts", 11)
+        _para(pdf, (v.get("claims_summary") or "") + " " + (
+            f"Decision rule: {v['decision_rule']}" if v.get("decision_rule") else
+            "A claim “cannot hold” only when even the most favourable reading of the data falls "
+            "short; the margin says by how much."), size=7.5)
+        rows = [(f"“{c['text']}”", c["verdict_text"],
+                 f"needed: {c['needed']}\navailable: {c['available']}" if c["needed"] != "—"
+                 or c["available"] != "—" else "—", c["ratio"],
+                 c["basis"] + (f"\nAssumed: {'; '.join(c['assumptions'])}" if c["assumptions"] else ""))
+                for c in v["claims"]]
+        _table(pdf, ("Claim as sold", "Verdict", "Needed → available", "Margin", "Basis"), rows,
+               (19, 11, 25, 10, 35), verdict_col=1, verdicts=[c["verdict"] for c in v["claims"]],
+               bold_col=0, size=7.2)
+    elif v.get("listed_claims"):
+        _heading(pdf, "Claims as sold", 11)
+        for c in v["listed_claims"]:
+            _para(pdf, f"•  “{c}”", size=8.5)
+        _para(pdf, "No verdicts are part of this result.", size=8, color=MUTED)
+
+    if v.get("bands") or figs.get("spectrum"):
+        _heading(pdf, "What it emits")
+        if v.get("bands"):
+            _table(pdf, ("Band", "Range", "Irradiance", "Share", "Coverage", "Status"),
+                   [(b["band"], b["range"], b["value"], b["fraction"], b["coverage"], b["status"])
+                    for b in v["bands"]], (18, 14, 30, 10, 10, 18))
+            if v.get("band_convention"):
+                _para(pdf, v["band_convention"], size=7, color=MUTED)
+        if v.get("spectral"):
+            _facts(pdf, v["spectral"])
+        if figs.get("spectrum"):
+            _figure(pdf, figs["spectrum"])
+    if v.get("hazards"):
+        _heading(pdf, "Photobiological hazards (IEC 62471)")
+        rk = v.get("risk") or {}
+        _para(pdf, f"Assessed at {rk.get('distance', '—')}"
+              + (f" — {v['hazard_note']}" if v.get("hazard_note") else "") + ". “Limit” is the "
+              "Exempt limit of IEC 62471:2006 Table 6.1 (skin thermal: its 10 s exposure limit, no "
+              "risk groups); “max. exposure” is the permissible time at this distance; “coverage” "
+              "is the share of the hazard's weighting range that was measured.", size=7.5)
+        _table(pdf, ("Hazard", "Value", "Limit", "Value / limit", "Max. exposure", "Group",
+                     "At", "Cov."),
+               [(f"{h['name']} ({h['symbol']})", h["value"], h["limit"], h["ratio_text"], h["t_max"],
+                 h["group"], h["distance"], h["coverage"]) for h in v["hazards"]],
+               (21, 18, 16, 9, 15, 11, 5, 5), size=7.2, bold_col=5)
+        ud = rk.get("use_distance")
+        if ud:
+            _subheading(pdf, f"At the distance of use, {ud['distance']}")
+            _table(pdf, ("Hazard", "Value", "Max. exposure", "Group"),
+                   [(f"{h['name']} ({h['symbol']})", h["value"], h["t_max"], h["group"]) for h in ud["rows"]],
+                   (35, 30, 25, 10), size=7.2)
+        if figs.get("hazards"):
+            _figure(pdf, figs["hazards"])
+    g = v.get("germicidal")
+    if g:
+        _heading(pdf, "Germicidal output")
+        _para(pdf, g.get("statement") or "", size=8.5)
+        pdf.ln(1)
+        facts = [{"label": "UV-C (200–280 nm)", "value": g["uvc"]},
+                 {"label": "Far-UVC (200–235 nm)", "value": g["far_uvc"]}]
+        if g.get("violet_blue"):
+            facts.append({"label": "Violet-blue (about 405 nm), weighted", "value": g["violet_blue"]})
+        facts.append({"label": "Where", "value": f"{g['position']} ({g['distance']})"})
+        if g.get("technology"):
+            facts.append({"label": "Emitter type", "value": f"{g['technology']} — {g['technology_basis']}"})
+        facts.append({"label": "Ozone (output below 240 nm)",
+                      "value": f"{g['ozone']['status']}: {g['ozone']['note']}"})
+        _facts(pdf, facts)
+        if g.get("artefacts"):
+            _box(pdf, None, "; ".join(g["artefacts"]) + ".", (255, 249, 232), (192, 138, 0),
+                 size=8, bold_lead="Suspect signal.")
+        if g.get("spectra"):
+            _table(pdf, ("Action spectrum", "Effective irradiance", "254-nm-equivalent"),
+                   [(s["id"] + (" (from memory)" if s["from_memory"] else ""), s["value"], s["equivalent"])
+                    for s in g["spectra"]], (30, 40, 30), size=7.5)
+        if g.get("highlight"):
+            _subheading(pdf, f"Times to 90 % and 99.9 % ({g['pathway']})")
+            _table(pdf, ("", "Organism", "Medium", "Data at", "Lamp, equivalent", "90 %", "99.9 %", "Reliability"),
+                   [(o["label"], o["organism"], o["medium"], o["wavelength"], o["irradiance"],
+                     o["t90"] + (f" ({o['t90_range']})" if o["t90_range"] else ""),
+                     o["t999"] + (f" ({o['t999_range']})" if o["t999_range"] else ""), o["reliability"])
+                    for o in g["highlight"]], (16, 18, 10, 8, 18, 11, 11, 9), size=7.2)
+            _para(pdf, f"Times at {g['distance']} from the lamp, using the lamp's irradiance weighted to "
+                  "the wavelength at which each organism was measured (the most favourable action "
+                  "spectrum; ≥: the lamp's figure is only an upper bound). Real surfaces, shadows and "
+                  "soil slow this down; the most susceptible organism is not a typical germ.",
+                  size=7, color=MUTED)
+        if g.get("organisms"):
+            _subheading(pdf, f"All {len(g['organisms'])} organisms in uvcheck's table for this "
+                        "pathway (fastest first)", size=8.5)
+            _table(pdf, ("Organism", "Medium", "Data at", "90 %", "99.9 %", "Reliability", "Source"),
+                   [(o["organism"], o["medium"], o["wavelength"], o["t90"], o["t999"], o["reliability"],
+                     o["source"] or "") for o in g["organisms"]], (22, 10, 8, 10, 12, 9, 29), size=6.6)
+    r = v.get("room")
+    if r:
+        _heading(pdf, "In the room")
+        _facts(pdf, [{"label": "Room", "value": f"{r['size']} ({r['volume']}), wall reflectance {r['reflectance']}"},
+                     {"label": "Lamp", "value": f"at {r['lamp_at']}, {r['pattern']}; UV-C flux {r['uvc_flux']} ({r['flux_basis']})"},
+                     {"label": "Air: volume-average fluence rate", "value": r["fluence_avg"]}])
+        if r.get("plane"):
+            _subheading(pdf, f"Work plane at {r['plane_height']}")
+            _table(pdf, [p["label"] for p in r["plane"]], [[p["value"] for p in r["plane"]]],
+                   [1] * len(r["plane"]), size=7.5)
+        if r.get("air"):
+            _table(pdf, ("Organism (air)", "eACH [1/h]", "90 %", "99.9 %"),
+                   [(a["organism"] + (" (bound)" if a["bound"] else ""), a["each"], a["t90"], a["t999"])
+                    for a in r["air"]], (40, 20, 20, 20), size=7.5)
+        o = r["occupant"]
+        _box(pdf, None, f"UV-C {o['uvc']}, E_S {o['e_s']}; 8-hour actinic limit reached in {o['t_limit']}"
+             + (" — exceeds the 8-hour limit" if o["exceeds"] else "") + f". {o['limit']}. {o['note']}",
+             (255, 249, 232) if o["exceeds"] else (255, 255, 255), (192, 138, 0), size=8,
+             bold_lead=f"Occupant at eye height {o['eye_height']}:")
+        if figs.get("room"):
+            _figure(pdf, figs["room"])
+        for n in r.get("notes") or []:
+            _para(pdf, f"•  {n}", size=7.5, color=MUTED)
+    if v.get("plausibility"):
+        _heading(pdf, "Checks on the stated data")
+        _table(pdf, ("What was checked", "Result", "Why"),
+               [(f["subject"] or "", f["status_text"], f"{f['message']} ({f['basis']})") for f in v["plausibility"]],
+               (30, 14, 56), verdict_col=1, verdicts=[f["status"] for f in v["plausibility"]], size=7.5)
+    _heading(pdf, "What could not be assessed")
+    if v["not_assessed"]:
+        for n in v["not_assessed"]:
+            _para(pdf, f"•  {n['what']}: {n['why']}", size=8.3)
+    else:
+        _para(pdf, "Everything this check covers could be assessed from the data.", size=8.5)
+    _heading(pdf, "Cautions")
+    for c in v["cautions"]:
+        pdf.set_x(pdf.l_margin)
+        pdf.set_font("DejaVu", "", 8.5)
+        pdf.multi_cell(BODY_W_MM, 4.0, f"•  **{_md_escape(c['title'])}.** {_md_escape(c['text'])}",
+                       markdown=True, align="L", new_x="LMARGIN", new_y="NEXT")
+        _para(pdf, f"    Shown because {c['reason']}.", size=7, style="I", color=MUTED)
+        pdf.ln(0.8)
+    pdf.ln(1)
+    _box(pdf, "What this check does not cover", v["does_not_cover"] + " " + v["local_codes"],
+         (238, 242, 247), (47, 79, 127), size=8.5)
+    _heading(pdf, "Method and provenance")
+    pv = v["provenance"]
+    facts = list(pv["inputs"]) + [{"label": "Tool", "value": pv["tool"] + (f" (result schema {pv['schema']})" if pv.get("schema") else "")},
+                                  {"label": "Date of this note", "value": pv["date"]}]
+    _facts(pdf, facts, size=7.5)
+    if pv.get("references"):
+        _subheading(pdf, "Reference tables used")
+        _table(pdf, ("Table", "Source and edition", "Digits from"),
+               [(f"{x['name']} ({x['id']})" + (f"\ndata/{x['file']}" if x.get("file") else "")
+                 + (f"\nsha256 {x['sha256'][:16]}…" if x.get("sha256") else ""),
+                 (x.get("source") or "") + (f"\nEdition: {x['edition']}" if x.get("edition") else "")
+                 + (f"\nFrom memory: {x['from_memory']}" if x.get("from_memory") and x["from_memory"] != "none" else ""),
+                 x.get("digits_from") or "") for x in pv["references"]], (32, 40, 28), size=6.8)
+    if pv.get("assumptions"):
+        _subheading(pdf, "Assumptions", min_space_mm=20)
+        for a in pv["assumptions"]:
+            _para(pdf, f"•  {a}", size=7.2)
+    if pv.get("warnings"):
+        _subheading(pdf, "Warnings from the import", min_space_mm=20)
+        for w in pv["warnings"]:
+            _para(pdf, f"•  {w}", size=7.2)
+    pdf.ln(1)
+    _para(pdf, pv["pdf_choice"], size=7, color=MUTED)
+    return bytes(pdf.output())
+
+
+def render_overview_pdf(title: str, items: Sequence[Mapping[str, Any]], *, invented: bool,
+                        intro: str, date: str, tool: str) -> bytes:
+    """The demo overview as PDF (one row per product)."""
+    from uvcheck.report.note import DOES_NOT_COVER, INVENTED_TEXT, LOCAL_CODES, SCREENING_TITLE
+
+    pdf = _new("uvcheck screening overview - not a certification"
+               + (" - INVENTED DEMONSTRATION" if invented else ""), title)
+    if invented:
+        _box(pdf, None, INVENTED_TEXT, (255, 244, 220), (122, 75, 0), size=8.5, dashed=True)
+    _para(pdf, f"Overview · {date}", size=8, color=MUTED)
+    _para(pdf, title, size=15, style="B", h=7)
+    _box(pdf, None, LOCAL_CODES, (238, 242, 247), (47, 79, 127), size=8.5,
+         bold_lead=SCREENING_TITLE + ".")
+    _para(pdf, intro, size=9)
+    pdf.ln(2)
+    rows = []
+    for it in items:
+        verdicts = "\n".join(f"{c['verdict_text']}: “{c['text']}”" for c in it.get("verdicts") or []) \
+            or (it.get("claims_summary") or "—")
+        rows.append((it["title"], it["finding"], it["risk"], verdicts, Path(it["html"]).name))
+    _table(pdf, ("Product", "Finding", "Risk group", "Claims", "Note"), rows, (18, 42, 9, 21, 10),
+           size=7.2, bold_col=0)
+    _box(pdf, "What this check does not cover", DOES_NOT_COVER + " " + LOCAL_CODES,
+         (238, 242, 247), (47, 79, 127), size=8.5)
+    _para(pdf, tool, size=7, color=MUTED)
+    return bytes(pdf.output())
