@@ -70,7 +70,9 @@ def test_rendered_dom_shows_verdicts_and_escaped_text(written, tmp_path):
     assert "&lt;i&gt;Lamp&lt;/i&gt;" in dom
     for c in written["result"]["claims"]:
         assert f'data-verdict="{c["verdict"]}"' in dom
-    assert dom.count('data-figure="') == 2          # spectrum, hazards (no room grid in the dict)
+    # spectrum and hazards, plus the work-plane map when the result has a room with a grid
+    has_map = bool(((written["result"].get("room") or {}).get("plane") or {}).get("grid"))
+    assert dom.count('data-figure="') == 2 + has_map
 
 
 @pytest.mark.skipif(not POPPLER, reason="poppler-utils (pdftoppm, pdftotext) not installed")
