@@ -182,6 +182,10 @@ def assess(
 
     if sum(x is not None for x in (scale_band, scale_lux, scale_total)) > 1:
         raise ConfigurationError("give only one of --scale-band, --scale-lux, --scale-total")
+    if json_out and json_out != "-" and Path(json_out).is_dir():
+        from uvcheck.errors import UvcheckError
+
+        raise UvcheckError("the output path is a folder", json_out, "give a file name")
     if json_out and json_out != "-" and Path(json_out).exists() and not force:
         from uvcheck.errors import OutputExistsError
 
@@ -257,6 +261,10 @@ def screen(
     from uvcheck.screening import screen_listing_file
 
     _check_fail_on(fail_on)
+    if json_out and json_out != "-" and Path(json_out).is_dir():
+        from uvcheck.errors import UvcheckError
+
+        raise UvcheckError("the output path is a folder", json_out, "give a file name")
     if json_out and json_out != "-" and Path(json_out).exists() and not force:
         from uvcheck.errors import OutputExistsError
 

@@ -343,9 +343,10 @@ def parse_quantity(text: str | float | int, kind: str | tuple[str, ...], where: 
     for k in kinds:
         if k in KINDS and KINDS[k] == key:
             return Quantity(number * parsed.scale, k, raw_text)
-    wanted = " or ".join(kinds)
-    raise UnitError(f"{raw_text!r} is not a {wanted}", place,
-                    f"give a {wanted} such as {_example_for(kinds[0])!r}")
+    wanted = " or ".join(k.replace("_", " ") for k in kinds)
+    article = "an" if wanted[:1] in "aeiou" else "a"
+    raise UnitError(f"{raw_text!r} is not {article} {wanted}", place,
+                    f"give {article} {wanted} such as {_example_for(kinds[0])!r}")
 
 
 def _example_for(kind: str) -> str:

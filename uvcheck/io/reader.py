@@ -65,6 +65,9 @@ _WL_NAME = re.compile(r"(?i)(wave\s*length|wavelength|wellenl|longueur|lambda|λ
 _INDEX_NAME = re.compile(r"(?i)^\s*(pixel|pix|index|idx|#|no\.?|n|i|channel|ch|row)\s*(\[.*\]|\(.*\))?\s*$")
 _RAMAN = re.compile(r"(?i)raman")
 _WAVENUMBER = re.compile(r"(?i)wave\s*number|cm\s*-\s*1|cm⁻¹|1/cm")
+#: Largest magnitude accepted for a value. No measurement comes near it; the bound keeps every
+#: later product, square and sum finite in float64 (largest ≈ 1.8e308; IEEE 754 binary64).
+MAX_ABS_VALUE = 1e100
 
 
 # ---------------------------------------------------------------------------------------------
@@ -298,10 +301,37 @@ def _choose_format(lines: list[str], opts: ReadOptions, where: str) -> tuple[str
         if best is None or score > best[0]:
             best = (score, d, dec, bl)
     if best is None:
-        raise InputFormatError("no rows of numbers found", where,
-                               "the file must hold a table of wavelength and value columns; "
-                               "check the export, or give --delimiter and --decimal")
+        raise _no_rows_error(lines, first, where)
     return best[1], best[2], best[3]
+
+
+def _no_rows_error(lines: list[str], first: int, where: str) -> InputFormatError:
+    """Why no data rows were found, naming the first line that starts like a number."""
+    todo = ("the file must hold a table of wavelength and value columns; "
+            "check the export, or give --delimiter and --decimal")
+    text = [(i, ln) for i, ln in enumerate(lines) if i >= first and ln.strip()]
+    if any("\x00" in ln for _, ln in text[:200]):
+        return InputFormatError("no rows of numbers found, and the text holds NUL characters",
+                                where, "wrong encoding? give --encoding (utf-16, utf-8, latin-1)")
+    numeric = next(((i, ln) for i, ln in text if _STARTS_NUMERIC.match(ln)), None)
+    if numeric is None:
+        first_text = text[0][1].strip()[:50] if text else ""
+        return InputFormatError(f"no rows of numbers found ({len(text)} line(s) of text, none "
+                                f"starting with a number; the first: {first_text!r})", where, todo)
+    i, ln = numeric
+    dot, comma = _Num("."), _Num(",")
+    toks = max((_split(ln, d) for d in DELIMITERS), key=len)
+    if len(toks) < 2:
+        if dot(toks[0] if toks else "") is not None or comma(toks[0] if toks else "") is not None:
+            return InputFormatError("only one column of numbers", f"{where} line {i + 1}",
+                                    "a spectrum needs a wavelength column and a value column")
+        return InputFormatError(f"{ln.strip()[:40]!r} is not a row of numbers",
+                                f"{where} line {i + 1}", todo)
+    for k, t in enumerate(toks):
+        if dot(t) is None and comma(t) is None:
+            return InputFormatError(f"no rows of numbers found: {t[:30]!r} is not a number",
+                                    f"{where} line {i + 1}, column {k + 1}", todo)
+    return InputFormatError("no rows of numbers found", f"{where} line {i + 1}", todo)
 
 
 # ---------------------------------------------------------------------------------------------
@@ -399,7 +429,7 @@ def _meta_lookup(meta: dict[str, str], *patterns: str) -> tuple[str, str] | None
 
 def _col_ref(ref: str, names: list[str], what: str, where: str) -> int:
     r = ref.strip()
-    if r.isdigit():
+    if r.isascii() and r.isdigit():
         i = int(r) - 1
         if 0 <= i < len(names):
             return i
@@ -450,34 +480,42 @@ _FAST_LINE = re.compile(r"^\s*$|^\s*[-+]?(\d|[.,]\d|nan|inf)", re.I)
 
 
 def _fast_block(path: Path, decoded: Decoded, delim: str, decimal: str, start: int, ncols: int
-                ) -> tuple[np.ndarray, int, int | None] | None:
+                ) -> tuple[np.ndarray, int, int | None, array.array] | None:
     """Parse the clean leading part of a data block with numpy's C parser.
 
     Returns (rows, index of the last row line, index of the first line not consumed or None
-    at end of file), or None when the block is not clean enough (ragged rows, thousands
-    separators, mixed decimals, stray text…), in which case the tolerant row-by-row parser
-    reads it instead. Both give the same numbers for a clean block.
+    at end of file, the line index of every row), or None when the block is not clean enough
+    (ragged rows, thousands separators, mixed decimals, stray text…), in which case the
+    tolerant row-by-row parser reads it instead. Both give the same numbers for a clean block
+    (tests/test_fuzz_reader.py checks this).
     """
     state = {"last": start, "stop": None}
     comma_decimal = decimal == "," and delim != "comma"
+    at = array.array("I")  # 0-based line index of every row
 
     def lines() -> Iterator[str]:
         for i, line in enumerate(islice(iter_lines(path, decoded), start, None), start=start):
-            if not _FAST_LINE.match(line):
+            # with a decimal comma, '1.234' is a thousands separator: the slow parser reads it
+            if not _FAST_LINE.match(line) or (comma_decimal and "." in line):
                 state["stop"] = i
                 return
             if line.strip():
                 state["last"] = i
+                at.append(i)
             yield line.replace(",", ".") if comma_decimal else line
 
+    import warnings as pywarnings
+
     try:
-        arr = np.loadtxt(lines(), delimiter=DELIMITERS[delim], dtype=np.float64, ndmin=2,
-                         comments=None, quotechar='"', encoding=None)
+        with pywarnings.catch_warnings():
+            pywarnings.simplefilter("ignore")  # "input contained no data": the slow path decides
+            arr = np.loadtxt(lines(), delimiter=DELIMITERS[delim], dtype=np.float64, ndmin=2,
+                             comments=None, quotechar='"', encoding=None)
     except (ValueError, IndexError):
         return None
-    if arr.shape[0] < 1 or arr.shape[1] != ncols:
+    if arr.shape[0] < 1 or arr.shape[1] != ncols or arr.shape[0] != len(at):
         return None
-    return arr, state["last"], state["stop"]
+    return arr, state["last"], state["stop"], at
 
 
 def _look_for_more_blocks(path: Path, decoded: Decoded, delim: str, num: _Num, start: int,
@@ -491,6 +529,7 @@ def _look_for_more_blocks(path: Path, decoded: Decoded, delim: str, num: _Num, s
         if _is_data(_split(line, delim), num):
             first = i if run == 0 else first
             run += 1
+            stats.setdefault("stray_rows", []).append(i)
             if run >= 3:
                 stats["later_block"] = first
                 return
@@ -518,30 +557,52 @@ def read_spectrum(path: str | Path, options: ReadOptions | None = None, **overri
     with open(p, "rb") as fh:
         head_bytes = fh.read(HEAD_BYTES)
     decoded = sniff_encoding(head_bytes, opts.encoding, where)
-    warnings: list[str] = []
+    base = [decoded.guess] if decoded.guess else []
     try:
-        return _read(p, decoded, opts, warnings)
-    except UnicodeDecodeError:
-        if opts.encoding:
-            raise
+        return _read(p, decoded, opts, list(base))
+    except UnicodeError as exc:  # iter_lines converts these; kept as a safety net
+        if opts.encoding or decoded.encoding != "utf-8":
+            raise InputFormatError(f"the file is not valid {decoded.encoding} text ({exc})",
+                                   where, "give the encoding with --encoding (e.g. latin-1)"
+                                   ) from None
     except InputFormatError as exc:
-        if "not valid" not in exc.what or opts.encoding:
+        if (opts.encoding or decoded.encoding != "utf-8"
+                or not exc.what.startswith("the file is not valid ")):
             raise
-    warnings.append("the file mixes encodings (valid UTF-8 at the start, other bytes later); "
-                    "read as Latin-1 / Windows-1252: check µ, ² and ° in the units")
+    warnings = ["the file mixes encodings (valid UTF-8 at the start, other bytes later); "
+                "read as Latin-1 / Windows-1252: check µ, ² and ° in the units"]
     return _read(p, Decoded("cp1252", "mixed: fell back to Latin-1 / Windows-1252", False),
                  opts, warnings)
 
 
 def _read(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
           ) -> tuple[Spectrum, ImportReport]:
+    # Every number is checked (finite, in range) before it is used, so floating-point overflow
+    # while analysing the columns of an absurd file (values near 1e308) must not reach the
+    # user's terminal as numpy RuntimeWarnings.
+    with np.errstate(all="ignore"):
+        return _read_file(p, decoded, opts, warnings)
+
+
+def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
+               ) -> tuple[Spectrum, ImportReport]:
     where = str(p)
-    head = list(islice(iter_lines(p, decoded), HEAD_LINES))
+    n_head = HEAD_LINES if not opts.data_start else max(HEAD_LINES, opts.data_start + 200)
+    head = list(islice(iter_lines(p, decoded), n_head))
     if not any(line.strip() for line in head):
         raise InputFormatError("the file is empty (no text)", where, "export the spectrum again")
+    if opts.data_start is not None:
+        if opts.data_start < 1:
+            raise InputFormatError(f"--data-start {opts.data_start} is not a line number", where,
+                                   "lines are numbered from 1")
+        if opts.data_start > len(head):
+            raise InputFormatError(f"--data-start {opts.data_start} is past the end of the file "
+                                   f"({len(head)} lines)", where)
     # Decide the format on a sample: everything up to the first line that starts like a
     # number, plus 60 lines (the rest of the file is streamed with that format).
     first_num = next((k for k, ln in enumerate(head) if _STARTS_NUMERIC.match(ln)), 0)
+    if opts.data_start:
+        first_num = max(first_num, opts.data_start - 1)
     sample = head[:first_num + 60]
     delim, decimal, blocks = _choose_format(sample, opts, where)
     big = [b for b in blocks if b.end - b.start + 1 - len(b.bad) >= 3]
@@ -607,6 +668,12 @@ def _read(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
                 header_line = above[0]
             hdr = cells(header_line)[:ncols]
             names = [h if h else f"column {k + 1}" for k, h in enumerate(hdr)] + names[len(hdr):]
+    hint = ""
+    if above and header_line is None and delim == "comma":
+        t0 = cells(above[0])
+        if 2 <= len(t0) < ncols and not _is_data(t0, num):
+            hint = (f"; the header (line {above[0] + 1}) names only {len(t0)}: decimal commas "
+                    "in a comma-separated file? Those need ';' or tab as the delimiter")
     meta_end = header_line if header_line is not None else block.start
     meta, _other = _metadata((k, head[k]) for k in range(0, meta_end))
     # ---- stream the data ------------------------------------------------------------
@@ -614,19 +681,22 @@ def _read(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
     cols = [array.array("d") for _ in range(ncols)]
     first_lines: list[int] = []
     n_rows = 0
+    row_lines = array.array("I")  # 0-based line index of every data row, for error places
     resume_at = block.start
     fast = _fast_block(p, decoded, delim, decimal, block.start, ncols) if not block.bad else None
     if fast is not None:
-        arr, last_fast, stop = fast
+        arr, last_fast, stop, row_lines = fast
         for k in range(ncols):
             cols[k].frombytes(np.ascontiguousarray(arr[:, k]).tobytes())
         n_rows = arr.shape[0]
         stats["last_line"] = last_fast
         resume_at = stop
+        del arr
     if resume_at is not None:
         for i, vals in _stream_rows(p, decoded, delim, num, resume_at, ncols, stats):
             for c, v in zip(cols, vals):
                 c.append(v)
+            row_lines.append(i)
             if n_rows < 3:
                 first_lines.append(i)
             n_rows += 1
@@ -643,9 +713,13 @@ def _read(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
         for k, v in fmeta.items():
             meta.setdefault(f"footer/{k}", v)
         sample = stats.get("footer_sample", [""])[0]
-        if re.match(r"^\s*[-+]?\d", sample) and len(_split(sample, delim)) < ncols:
-            warnings.append(f"line {footer_start + 1} looks like a truncated data row "
+        if re.match(r"^\s*[-+]?\d", sample):
+            warnings.append(f"line {footer_start + 1} looks like a truncated or damaged data row "
                             f"({sample[:40]!r}); it was not used")
+    if stats.get("stray_rows"):
+        sr = stats["stray_rows"]
+        warnings.append(f"{len(sr)} row(s) of numbers after the end of the data not used "
+                        f"(line(s) {', '.join(str(j + 1) for j in sr[:3])})")
     if stats.get("bad_rows"):
         bl = sorted(set(stats["bad_rows"]))
         warnings.append(f"{len(bl)} unreadable line(s) inside the data skipped: line(s) "
@@ -664,11 +738,12 @@ def _read(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
         warnings.append(f"{num.thousands_seen} number(s) with thousands separators "
                         f"('{thousands}') were read")
     if n_rows < 2:
-        raise InputFormatError(f"only {n_rows} data row found (line {block.start + 1})", where,
+        raise InputFormatError(f"only {n_rows} data row found", f"{where} line {block.start + 1}",
                                "a spectrum needs at least two rows of wavelength and value")
     data = [np.frombuffer(c, dtype=np.float64) for c in cols]
+    line_no = np.frombuffer(row_lines, dtype=np.dtype(f"u{row_lines.itemsize}"))
     # ---- choose columns -------------------------------------------------------------
-    wl_idx, val_idx, idx_note = _pick_columns(names, data, opts, where, block.start)
+    wl_idx, val_idx, idx_note = _pick_columns(names, data, opts, where, block.start, hint)
     if idx_note:
         warnings.append(idx_note)
     wl_raw = data[wl_idx]
@@ -704,7 +779,17 @@ def _read(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
             wl_unit_text = cand
             if wl_how == "given with --wavelength-unit":
                 wl_how = "from the header" if units_line is None else "from the units row"
-    wl_nm, wl_label, wl_how = _to_nm(wl_raw, wl_unit_text, wl_how, where, warnings)
+    col_place = f"{where} line {block.start + 1}, column {wl_idx + 1}"
+    if wl_unit_text is not None and wl_how in ("from the header", "from the units row"):
+        hl = units_line if units_line is not None else header_line
+        if hl is not None:
+            col_place = f"{where} line {hl + 1}, column {wl_idx + 1}"
+
+    def row_place(k: int, col: int = wl_idx) -> str:
+        return f"{where} line {int(line_no[k]) + 1}, column {col + 1}"
+
+    wl_nm, wl_label, wl_how = _to_nm(wl_raw, wl_unit_text, wl_how, where, warnings,
+                                     col_place, row_place)
     # ---- value unit -----------------------------------------------------------------
     unit_text = opts.unit
     unit_how = "given with --unit"
@@ -721,18 +806,24 @@ def _read(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
                              r"(irradiance|radiance|intensity|y|data)[\s_]*units?")
         if found:
             cands.append((found[1], f"from metadata {found[0]!r}"))
+        unusable: list[str] = []
         for text, how in cands:
             try:
                 parse_spectral_unit(text)
                 unit_text, unit_how = text, how
                 break
-            except UnitError:
+            except UnitError as exc:
+                if how != "from the header" or (header_line is not None
+                                                and text.strip() != names[val_idx].strip()):
+                    unusable.append(f"{text!r} {how}: {exc.what}")
                 continue
     if unit_text is None:
         su = parse_spectral_unit("relative")
         unit_label = "relative"
         unit_how = "no recognisable unit in the header, units row or metadata: treated as relative"
-        warnings.append("no unit found for the values: the spectrum is treated as RELATIVE "
+        found_text = (f"no usable unit for the values ({unusable[0]})" if unusable
+                      else "no unit found for the values")
+        warnings.append(f"{found_text}: the spectrum is treated as RELATIVE "
                         "(shape only); give --unit, or scale it (--scale-band / --scale-lux)")
     else:
         try:
@@ -757,18 +848,30 @@ def _read(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
     if n_drop:
         bad_at = np.nonzero(~finite)[0][:3]
         warnings.append(f"{n_drop} row(s) with NaN, inf or missing values dropped "
-                        f"(data row(s) {', '.join(str(int(b) + 1) for b in bad_at)}"
+                        f"(line(s) {', '.join(str(int(line_no[b]) + 1) for b in bad_at)}"
                         f"{' …' if n_drop > 3 else ''})")
-    wl_nm, values = wl_nm[finite], values[finite]
+        wl_nm, values, line_no = wl_nm[finite], values[finite], line_no[finite]
     if wl_nm.size < 2:
-        raise InputFormatError("fewer than two rows with finite wavelength and value", where,
+        raise InputFormatError("fewer than two rows with finite wavelength and value",
+                               f"{where} column {val_idx + 1}",
                                "check the value column (--column) and the number format")
     if np.any(wl_nm <= 0):
         k = int(np.nonzero(wl_nm <= 0)[0][0])
-        raise InputFormatError(f"wavelength {wl_nm[k]:g} nm is zero or negative "
-                               f"(data row {k + 1}, column {wl_idx + 1})", where,
+        raise InputFormatError(f"wavelength {wl_nm[k]:g} nm is zero or negative", row_place(k),
                                "the wavelength column must hold wavelengths; "
                                "choose it with --wavelength-column")
+    if np.any(wl_nm > 1e5):
+        k = int(np.nonzero(wl_nm > 1e5)[0][0])
+        raise InputFormatError(f"wavelength {wl_nm[k]:g} nm is not optical radiation "
+                               f"(read as {wl_label}, {wl_how})", row_place(k),
+                               "wrong wavelength unit? give --wavelength-unit (nm, um, m, cm-1)")
+    if np.any(np.abs(values) > MAX_ABS_VALUE):
+        k = int(np.nonzero(np.abs(values) > MAX_ABS_VALUE)[0][0])
+        raw = v_raw[np.nonzero(finite)[0][k]]
+        raise InputFormatError(f"value {raw:g} is too large to be a measurement (limit "
+                               f"{MAX_ABS_VALUE:g} {_spectral_unit_text(su)})",
+                               row_place(k, val_idx),
+                               "the row is corrupt or the column is not a spectrum; repair the file")
     d = np.diff(wl_nm)
     if np.all(d > 0):
         order = "ascending"
@@ -786,10 +889,14 @@ def _read(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
         wl_nm = uniq
         warnings.append(f"{n_dup} duplicated wavelength(s): their values were averaged")
     if wl_nm.size < 2:
-        raise InputFormatError("all rows have the same wavelength", where)
-    if wl_nm[-1] > 1e5:
-        raise InputFormatError(f"wavelengths up to {wl_nm[-1]:g} nm are not optical radiation", where,
-                               "wrong wavelength unit? give --wavelength-unit (nm, um, m, cm-1)")
+        raise InputFormatError(f"all rows have the same wavelength ({wl_nm[0]:g} nm)",
+                               f"{where} lines {int(line_no.min()) + 1}–{int(line_no.max()) + 1}, "
+                               f"column {wl_idx + 1}",
+                               "the wavelength column must hold wavelengths; "
+                               "choose it with --wavelength-column")
+    if not np.any(values):
+        warnings.append("all values are zero: was the lamp off, or is this the wrong column? "
+                        "(--column)")
     steps = np.diff(wl_nm)
     gaps = _gaps(wl_nm, steps)
     if gaps:
@@ -838,6 +945,12 @@ def _read(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
     return spec, report
 
 
+def _spectral_unit_text(su: Any) -> str:
+    """The SI spectral unit a value of this kind is checked in (for messages)."""
+    return {"irradiance": "W m⁻² nm⁻¹", "radiance": "W m⁻² sr⁻¹ nm⁻¹", "flux": "W nm⁻¹"}.get(
+        su.quantity, "relative units")
+
+
 def _instrument_notes(meta: dict[str, str]) -> dict[str, str]:
     keys = r"(instrument|spectrometer|model|serial|device|integration|exposure|averag|calibrat|date|time|operator|detector|dark|boxcar|sensor|distance|lamp|sample)"
     rx = re.compile(keys, re.I)
@@ -845,7 +958,7 @@ def _instrument_notes(meta: dict[str, str]) -> dict[str, str]:
 
 
 def _pick_columns(names: list[str], data: list[np.ndarray], opts: ReadOptions, where: str,
-                  start: int) -> tuple[int, int, str | None]:
+                  start: int, hint: str = "") -> tuple[int, int, str | None]:
     n = len(names)
     usable = [k for k in range(n) if np.isfinite(data[k]).any()]
     note = None
@@ -887,14 +1000,21 @@ def _pick_columns(names: list[str], data: list[np.ndarray], opts: ReadOptions, w
     if second_wl:
         raise InputFormatError(
             f"the file holds spectra side by side (wavelength columns {wl_idx + 1} and "
-            f"{second_wl[0] + 1})", where,
+            f"{second_wl[0] + 1})", f"{where} line {start + 1}",
             "choose one pair with --wavelength-column N and --column M")
     if not cands:
+        empty = [k for k in range(n) if k != wl_idx and k not in usable]
+        if empty:
+            raise InputFormatError(f"column {empty[0] + 1} ({names[empty[0]]!r}) holds no numbers "
+                                   "(every value is missing: NaN, empty or a placeholder)",
+                                   f"{where} line {start + 1}, column {empty[0] + 1}",
+                                   "export the spectrum again, or choose another --column")
         raise InputFormatError("no value column next to the wavelengths", f"{where} line {start + 1}",
                                "the file needs a wavelength column and a value column")
     if len(cands) > 1:
         listing = ", ".join(f"{k + 1} {names[k]!r}" for k in cands)
-        raise InputFormatError(f"{len(cands)} value columns ({listing})", where,
+        raise InputFormatError(f"{len(cands)} value columns ({listing}){hint}",
+                               f"{where} line {start + 1}",
                                "choose one with --column NAME or --column NUMBER")
     return wl_idx, cands[0], note
 
@@ -924,21 +1044,51 @@ def _same_axis(wl: np.ndarray, other: np.ndarray) -> bool:
 
 
 def _to_nm(wl: np.ndarray, unit_text: str | None, how: str, where: str,
-           warnings: list[str]) -> tuple[np.ndarray, str, str]:
+           warnings: list[str], col_place: str | None = None,
+           row_place: Any = None) -> tuple[np.ndarray, str, str]:
+    """Wavelengths in nm from the column as read, with the unit given, or inferred from the values.
+
+    wl : the wavelength column as read (NaN for missing). [unit of the file]
+    col_place, row_place : the place of the column, and a function giving the place of row k,
+        named in errors.
+    """
+    col_place = col_place or where
+    row_place = row_place or (lambda k: f"{where} data row {k + 1}")
+    fin = wl[np.isfinite(wl)]
+    if fin.size == 0:
+        raise InputFormatError("the wavelength column holds no numbers", col_place,
+                               "choose the wavelength column with --wavelength-column")
+    lo, hi = float(fin.min()), float(fin.max())
     if unit_text is not None:
         try:
             kind, factor = parse_wavelength_unit(unit_text)
         except UnitError as exc:
-            raise InputFormatError(exc.what, where, exc.todo) from None
+            raise InputFormatError(exc.what, col_place, exc.todo) from None
         if kind == "wavenumber":
-            with np.errstate(divide="ignore"):
-                out = 1e7 / (wl * factor)
-            warnings.append("wavenumbers (cm⁻¹) converted to wavelengths: λ[nm] = 10⁷ / ν[cm⁻¹]")
+            if lo <= 0:
+                k = int(np.nonzero(wl <= 0)[0][0])
+                raise InputFormatError(f"wavenumber {wl[k]:g} cm⁻¹ is zero or negative", row_place(k),
+                                       "wavenumbers must be positive; check --wavelength-unit")
+            out = 1e7 / (wl * factor)
+            warnings.append("wavenumbers (cm⁻¹) converted to wavelengths: λ[nm] = 10⁷ / ν[cm⁻¹]; "
+                            "the values are used as they are (a density per cm⁻¹ is not "
+                            "converted to per nm)")
             return out, unit_text, how
-        return wl * factor, unit_text, how
-    fin = wl[np.isfinite(wl)]
-    lo, hi = float(fin.min()), float(fin.max())
+        out = wl * factor
+        if hi * factor < 100.0:
+            raise InputFormatError(f"wavelengths {lo * factor:g}–{hi * factor:g} nm (unit "
+                                   f"{unit_text!r}, {how}) lie below 100 nm: not optical radiation",
+                                   col_place, "wrong wavelength unit? give --wavelength-unit "
+                                   "(nm, um, m, cm-1)")
+        return out, unit_text, how
     if lo >= 100 and hi <= 20000:
+        if lo >= 3000:
+            raise InputFormatError(
+                f"the wavelength column runs {lo:g}–{hi:g} with no unit: as nm it lies wholly "
+                f"beyond 3 µm (no UV, visible or near infrared); as wavenumbers in cm⁻¹ it would "
+                f"be {1e7 / hi:.4g}–{1e7 / lo:.4g} nm", col_place,
+                "give the unit with --wavelength-unit (cm-1 for wavenumbers, nm for wavelengths)")
+        warnings.append(f"wavelength unit not stated: {lo:g}–{hi:g} read as nm")
         return wl, "nm", "inferred from the values (100–20 000 → nm)"
     if 0.1 <= lo and hi <= 20:
         warnings.append(f"wavelengths {lo:g}–{hi:g} read as µm (no unit given)")
@@ -948,10 +1098,13 @@ def _to_nm(wl: np.ndarray, unit_text: str | None, how: str, where: str,
         return wl * 1e9, "m", "inferred from the values (1e-7–2e-5 → m)"
     if lo <= 0:
         k = int(np.nonzero(wl <= 0)[0][0])
-        raise InputFormatError(f"wavelength {wl[k]:g} is zero or negative (data row {k + 1})", where,
+        raise InputFormatError(f"wavelength {wl[k]:g} is zero or negative", row_place(k),
                                "the wavelength column must hold wavelengths; check --wavelength-column")
+    as_wn = ""
+    if 100.0 <= 1e7 / hi and 1e7 / lo <= 1e5:
+        as_wn = f"; as wavenumbers in cm⁻¹ they would be {1e7 / hi:.4g}–{1e7 / lo:.4g} nm"
     raise InputFormatError(f"the wavelength column runs {lo:g}–{hi:g}, which is no wavelength range "
-                           "in nm, µm or m", where,
+                           f"in nm, µm or m{as_wn}", col_place,
                            "give the unit with --wavelength-unit (nm, um, m, cm-1)")
 
 

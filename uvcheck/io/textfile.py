@@ -22,6 +22,7 @@ class Decoded:
     encoding: str          # codec name used
     how: str               # how it was decided
     bom: bool
+    guess: str | None = None  # a warning for the import report when the encoding was guessed
 
 
 def sniff_encoding(head: bytes, forced: str | None = None, where: str = "file") -> Decoded:
@@ -32,10 +33,13 @@ def sniff_encoding(head: bytes, forced: str | None = None, where: str = "file") 
     """
     if forced:
         try:
-            codecs.lookup(forced)
+            info = codecs.lookup(forced)
         except LookupError:
-            raise InputFormatError(f"unknown encoding {forced!r}", where,
+            raise InputFormatError(f"unknown encoding {forced!r} (--encoding)", where,
                                    "use utf-8, utf-16, latin-1 or cp1252") from None
+        if not getattr(info, "_is_text_encoding", True):  # rot13, base64, zlib …
+            raise InputFormatError(f"{forced!r} is not a text encoding (--encoding)", where,
+                                   "use utf-8, utf-16, latin-1 or cp1252")
         return Decoded(forced, "given with --encoding", False)
     if not head:
         raise InputFormatError("the file is empty", where, "export the spectrum again")
@@ -48,24 +52,33 @@ def sniff_encoding(head: bytes, forced: str | None = None, where: str = "file") 
     if nul:
         even = sample[0::2].count(b"\x00")
         odd = sample[1::2].count(b"\x00")
+        guess = ("text encoding guessed as UTF-16 from the NUL bytes (no byte-order mark); "
+                 "give --encoding if the text looks wrong")
         if odd > 0.4 * len(sample) / 2 and even < 0.05 * len(sample) / 2:
-            return Decoded("utf-16-le", "NUL bytes in every second position (UTF-16 LE, no BOM)", False)
+            return Decoded("utf-16-le", "NUL bytes in every second position (UTF-16 LE, no BOM)",
+                           False, guess)
         if even > 0.4 * len(sample) / 2 and odd < 0.05 * len(sample) / 2:
-            return Decoded("utf-16-be", "NUL bytes in every second position (UTF-16 BE, no BOM)", False)
-        raise InputFormatError("this is a binary file, not a text export", where,
+            return Decoded("utf-16-be", "NUL bytes in every second position (UTF-16 BE, no BOM)",
+                           False, guess)
+        first_nul = sample.find(b"\x00")
+        raise InputFormatError(f"this is a binary file, not a text export (NUL byte at byte "
+                               f"{first_nul})", where,
                                "export the spectrum from the instrument software as text "
                                "(CSV or tab-separated)")
-    control = sum(1 for b in sample if b < 9 or 13 < b < 32)
-    if control > 0.01 * len(sample) + 2:
-        raise InputFormatError("this is a binary file, not a text export", where,
-                               "export the spectrum as text (CSV or tab-separated)")
+    control = [k for k, b in enumerate(sample) if b < 9 or 13 < b < 32]
+    if len(control) > 0.01 * len(sample) + 2:
+        raise InputFormatError(f"this is a binary file, not a text export ({len(control)} control "
+                               f"bytes in the first {len(sample)}, the first at byte {control[0]})",
+                               where, "export the spectrum as text (CSV or tab-separated)")
     try:
         head.decode("utf-8")
         return Decoded("utf-8", "valid UTF-8", False)
     except UnicodeDecodeError as exc:
         if exc.start >= len(head) - 4:  # a multi-byte character cut by the head boundary
             return Decoded("utf-8", "valid UTF-8", False)
-    return Decoded("cp1252", "not valid UTF-8: read as Latin-1 / Windows-1252", False)
+    return Decoded("cp1252", "not valid UTF-8: read as Latin-1 / Windows-1252", False,
+                   "text encoding guessed: not valid UTF-8, read as Latin-1 / Windows-1252; "
+                   "check µ, ² and ° in the units, or give --encoding")
 
 
 def file_sha256(path: Path) -> str:
@@ -77,13 +90,19 @@ def file_sha256(path: Path) -> str:
 
 
 def iter_lines(path: Path, decoded: Decoded) -> Iterator[str]:
-    """Stream the decoded lines (without line endings) of a file."""
+    """Stream the decoded lines (without line endings) of a file.
+
+    A decoding error names the line it happened in (the line after the last one yielded).
+    """
     errors = "replace" if decoded.encoding == "cp1252" else "strict"
+    n = 0
     with open(path, "r", encoding=decoded.encoding, errors=errors, newline=None) as fh:
         try:
             for line in fh:
+                n += 1
                 yield line.rstrip("\r\n")
-        except UnicodeDecodeError as exc:
+        except UnicodeError as exc:  # also "UTF-16 stream does not start with BOM"
+            reason = exc.reason if isinstance(exc, UnicodeDecodeError) else str(exc)
             raise InputFormatError(f"the file is not valid {decoded.encoding} text "
-                                   f"({exc.reason} at byte {exc.start})", str(path),
+                                   f"({reason})", f"{path} line {n + 1}",
                                    "give the encoding with --encoding (e.g. latin-1)") from None

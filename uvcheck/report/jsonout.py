@@ -12,7 +12,7 @@ import json
 import math
 import os
 import sys
-import tempfile
+import secrets
 from pathlib import Path
 from typing import Any
 
@@ -57,16 +57,27 @@ def write_text_atomic(path: Path, text: str | bytes, force: bool = False) -> Pat
     Raises OutputExistsError if ``path`` exists and ``force`` is False.
     """
     path = Path(path)
+    if path.is_dir():
+        raise UvcheckError("the output path is a folder", str(path), "give a file name")
     if path.exists() and not force:
         raise OutputExistsError("the output file exists", str(path),
                                 "give --force to replace it, or choose another name")
-    if path.exists() and path.is_dir():
-        raise UvcheckError("the output path is a folder", str(path))
     folder = path.parent if str(path.parent) else Path(".")
     if not folder.exists():
         raise UvcheckError("the output folder does not exist", str(folder), "create it first")
     data = text.encode("utf-8") if isinstance(text, str) else text
-    fd, tmp = tempfile.mkstemp(prefix=f".{path.name}.", suffix=".part", dir=folder)
+    # The temporary file is created like any new file (mode 0o666 less the umask), not with
+    # mkstemp's 0o600, so colleagues can read the result as they could any other file.
+    for _ in range(100):
+        tmp = str(folder / f".{path.name}.{secrets.token_hex(4)}.part")
+        try:
+            fd = os.open(tmp, os.O_WRONLY | os.O_CREAT | os.O_EXCL | getattr(os, "O_BINARY", 0),
+                         0o666)
+            break
+        except FileExistsError:
+            continue
+    else:  # pragma: no cover - 100 collisions of 32 random bits
+        raise UvcheckError("cannot create a temporary file", str(folder))
     try:
         with os.fdopen(fd, "wb") as fh:
             fh.write(data)
