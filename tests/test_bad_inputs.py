@@ -44,6 +44,10 @@ GENERATORS: dict[str, Callable[[Path], Path]] = {"million_rows": _million_rows}
 
 def _get(d: Any, dotted: str) -> Any:
     for part in dotted.split("."):
+        if isinstance(d, list) and part.isdigit():
+            assert int(part) < len(d), f"no {dotted!r} in the JSON (list too short at {part!r})"
+            d = d[int(part)]
+            continue
         assert isinstance(d, dict) and part in d, f"no {dotted!r} in the JSON (stopped at {part!r})"
         d = d[part]
     return d

@@ -11,7 +11,7 @@ from __future__ import annotations
 
 import re
 from pathlib import Path
-from typing import Annotated, Optional
+from typing import Any, Annotated, Optional
 
 import typer
 
@@ -160,29 +160,29 @@ def room_command(
         raise OutputExistsError("the output file exists", json_out,
                                 "give --force to replace it, or choose another name")
     w, l, h = _triple(size, "--size")
-    room = Box(w, l, h)
+    room = _placed("--size", Box, w, l, h)
     pos = _triple(lamp_at, "--lamp-at") if lamp_at else (w / 2, l / 2, max(h - 0.3, h / 2))
     if pattern not in PATTERN_NAMES:
         raise ConfigurationError(f"unknown pattern {pattern!r}", "--pattern",
                                  "use isotropic, lambertian-down or cylinder")
     tl = _length(tube_length, "--tube-length") if tube_length else 0.0
-    geom = LampGeometry(pos, PATTERN_NAMES[pattern], tl, axis)
+    geom = _placed("--lamp-at", LampGeometry, pos, PATTERN_NAMES[pattern], tl, axis)
     rho = parse_quantity(reflectance, "fraction", "--reflectance").value_si
     if uvc_flux is not None:
         flux = parse_quantity(uvc_flux, "power", "--uvc-flux").value_si
         wl_nm = parse_quantity(wavelength, "length", "--wavelength", default_unit="nm").value_si * 1e9
-        lamp = lamp_from_uvc_flux(flux, geom, wl_nm)
+        lamp = _placed("--uvc-flux", lamp_from_uvc_flux, flux, geom, wl_nm)
     else:
         from uvcheck.io.reader import ReadOptions, read_spectrum
 
         spec, report = read_spectrum(spectrum_file, ReadOptions(unit=unit, column=column))
         d0 = _length(distance, "--distance") if distance else report.measurement_distance_m
-        lamp = lamp_from_spectrum(spec, geom, d0)
+        lamp = _placed("--distance", lamp_from_spectrum, spec, geom, d0)
     dose = parse_quantity(target_dose, "dose", "--target-dose").value_si if target_dose else None
-    result = evaluate_room(room, lamp, reflectance=rho,
-                           work_plane_m=_length(work_plane, "--work-plane"),
-                           eye_height_m=_length(eye_height, "--eye-height"),
-                           target_dose_J_m2=dose, organisms=organism or None)
+    result = _placed("--lamp-at", evaluate_room, room, lamp, reflectance=rho,
+                     work_plane_m=_length(work_plane, "--work-plane"),
+                     eye_height_m=_length(eye_height, "--eye-height"),
+                     target_dose_J_m2=dose, organisms=organism or None)
     d = result.to_dict()
     if json_out:
         from uvcheck.report.jsonout import write_json
@@ -190,6 +190,18 @@ def room_command(
         write_json(json_out, {"room": d}, force=force)
     if not quiet and json_out != "-":
         typer.echo(render_room(d), nl=False)
+
+
+def _placed(option: str, fn: Any, *args: Any, **kwargs: Any) -> Any:
+    """Call ``fn``; an error without a place is reported at the option it came from."""
+    from uvcheck.errors import UvcheckError
+
+    try:
+        return fn(*args, **kwargs)
+    except UvcheckError as exc:
+        if exc.where is None:
+            raise type(exc)(exc.what, option, exc.todo) from None
+        raise
 
 
 def render_organisms(rows: list[dict]) -> str:

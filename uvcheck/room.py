@@ -83,7 +83,8 @@ class Box:
         for n in ("width_m", "length_m", "height_m"):
             v = getattr(self, n)
             if not (math.isfinite(v) and v > 0):
-                raise ConfigurationError(f"room {n[:-2]} must be positive, got {v}")
+                raise ConfigurationError(f"the room {n[:-2]} must be positive, got {v:g} m",
+                                         todo="give width x length x height, e.g. '4 x 5 x 2.7 m'")
 
     @property
     def extent(self) -> np.ndarray:
@@ -322,7 +323,8 @@ def _check_inside(shape: Box | Sphere, lamp: LampGeometry) -> None:
     pts, _ = lamp.sources()
     for p in pts:
         if not shape.contains(p):
-            raise ConfigurationError(f"the lamp (or part of the tube) at {tuple(np.round(p, 3))} m "
+            at = ", ".join(f"{float(v):.3g}" for v in p)
+            raise ConfigurationError(f"the lamp (or part of the tube) at ({at}) m "
                                      "lies outside the room",
                                      todo="give a lamp position inside the room")
 

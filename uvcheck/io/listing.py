@@ -602,6 +602,9 @@ def parse_listing(text: str, name: str = "<listing>") -> Listing:
     if "name" not in product:
         raise ctx.fail("product", "the listing has no product name",
                        "add [product] with name = \"…\"")
+    if not str(product["name"]).strip():
+        raise ctx.fail("product.name", "the product name is empty",
+                       "write the name as sold, e.g. name = \"UV-C wand (invented)\"")
 
     def get(t: str, k: str, conv: Any, *args: Any) -> Any:
         tab = tables[t]
@@ -822,13 +825,19 @@ def read_listing(path: str | Path) -> Listing:
     The file's name and sha256 are kept in the result (``source``, ``sha256``).
     """
     p = Path(path)
+    if not p.is_file():
+        raise InputFormatError("listing file not found" if not p.exists() else "not a file",
+                               str(p), "check the path")
     raw = p.read_bytes()
+    if b"\x00" in raw:
+        raise InputFormatError("this is a binary file, not a TOML listing", str(p),
+                               "write the listing as UTF-8 text (see examples/listings/README.md)")
     try:
         text = raw.decode("utf-8-sig")
     except UnicodeDecodeError as exc:
         raise InputFormatError(f"not UTF-8 text (byte {exc.start})", str(p),
                                "save the listing as UTF-8") from None
-    listing = parse_listing(text, p.name)
+    listing = parse_listing(text, str(p))
     return replace(listing, source=str(p), sha256=hashlib.sha256(raw).hexdigest())
 
 
