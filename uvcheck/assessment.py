@@ -38,6 +38,8 @@ class AssessOptions:
     limit_set: str = "iec62471_2006"
     technology: str | None = None
     uncertainty: bool = True
+    uncertainty_inputs: Any = None      # uvcheck.uncertainty.UncertaintyInputs; None = defaults
+    draws: int | None = None            # Monte Carlo draws; None = the default (4000)
 
 
 @dataclass(frozen=True)
@@ -74,6 +76,8 @@ class Assessment:
         }
         extra_notes: list[str] = []
         for k, v in self.sections.items():
+            if k == "uncertainty":
+                continue  # merged last, into the hazard entries as well
             part = v.to_dict() if hasattr(v, "to_dict") else v
             if k in ("hazards", "claims"):
                 # these evaluations contribute several top-level keys of the contract
@@ -85,6 +89,10 @@ class Assessment:
         d["warnings"] = list(self.warnings)
         notes = list(self.notes) + [n for n in extra_notes if n not in self.notes]
         d["notes"] = notes + ([SCREENING_NOTICE] if SCREENING_NOTICE not in notes else [])
+        if "uncertainty" in self.sections:
+            from uvcheck.uncertainty import merge_into
+
+            merge_into(d, self.sections["uncertainty"])
         return d
 
 
@@ -125,15 +133,22 @@ def input_section(spectrum: Spectrum, report: Any | None) -> dict[str, Any]:
 
 def assess(spectrum: Spectrum, conditions: Conditions | None = None, report: Any | None = None,
            options: AssessOptions | None = None, claims: Any | None = None,
-           extra: dict[str, Any] | None = None) -> Assessment:
+           extra: dict[str, Any] | None = None, listing: Any | None = None) -> Assessment:
     """Evaluate a spectrum: bands, features, photometry, hazards, germicidal output.
 
     spectrum : the spectrum at the measurement position (absolute or relative).
     conditions : distances, source size, exposure time (defaults: none given).
     report : the reader's ImportReport, copied into the ``input`` block.
     options : :class:`AssessOptions`.
-    claims : a :class:`uvcheck.claims.ClaimsResult` (verdicts on a listing's claims).
+    claims : a :class:`uvcheck.claims.ClaimsResult` (verdicts on a listing's claims) judged
+        elsewhere (a listing screening).
     extra : further JSON sections (e.g. ``nominal`` for a listing screening).
+    listing : a :class:`uvcheck.io.listing.Listing` whose claims are judged against this
+        spectrum, using the uncertainty intervals and the decision rule.
+
+    The Monte Carlo uncertainty evaluation (:mod:`uvcheck.uncertainty`) runs by default for
+    absolute spectra (``options.uncertainty``); it adds intervals to every hazard and the
+    ``uncertainty`` section.
     """
     conditions = conditions or Conditions()
     options = options or AssessOptions()
@@ -150,8 +165,22 @@ def assess(spectrum: Spectrum, conditions: Conditions | None = None, report: Any
     sections: dict[str, Any] = {}
     hz = evaluate_hazards(spectrum, conditions, limit_set=options.limit_set)
     sections["hazards"] = hz
-    sections["germicidal"] = evaluate_germicidal(spectrum, conditions,
-                                                 technology=options.technology)
+    g = evaluate_germicidal(spectrum, conditions, technology=options.technology)
+    sections["germicidal"] = g
+    unc = None
+    if options.uncertainty and spectrum.is_absolute:
+        from uvcheck.uncertainty import evaluate_uncertainty
+
+        unc = evaluate_uncertainty(spectrum, conditions, hz, g, options.uncertainty_inputs,
+                                   draws=options.draws)
+        sections["uncertainty"] = unc
+    if listing is not None and claims is None:
+        from uvcheck.claims import judge, readings_from_measurement
+
+        udict = unc.to_dict() if unc is not None else None
+        rule = (udict or {}).get("decision_rule", {}).get("rule", "simple") if udict else "simple"
+        claims = judge(listing, readings_from_measurement(spectrum, conditions, options.technology),
+                       measured=True, uncertainty=udict, rule=rule)
     if claims is not None:
         sections["claims"] = claims
     for k, v in (extra or {}).items():

@@ -127,6 +127,30 @@ class Verdict:
                 "details": dict(self.details)}
 
 
+_EFFICACY = {"simple": {"pass": "holds", "conditional pass": "holds",
+                        "conditional fail": "unlikely", "fail": "cannot-hold"},
+             "guarded": {"pass": "holds", "conditional pass": "unlikely",
+                         "conditional fail": "unlikely", "fail": "cannot-hold"}}
+_SAFETY = {"simple": {"pass": "holds", "conditional pass": "holds",
+                      "conditional fail": "cannot-hold", "fail": "cannot-hold"},
+           "guarded": {"pass": "holds", "conditional pass": "unlikely",
+                       "conditional fail": "cannot-hold", "fail": "cannot-hold"}}
+
+
+def _decide(needed: float, value: float, rel: tuple[float, float], rule: str,
+            table: dict[str, dict[str, str]], fmt: Any = sig) -> tuple[str, str]:
+    """Verdict and a basis fragment from the 95 % interval value·rel under a decision rule
+    (:func:`uvcheck.uncertainty.decide`, ILAC-G8:09/2019)."""
+    from uvcheck.uncertainty import decide
+
+    lo, hi = value * rel[0], value * rel[1]
+    d = decide(needed, (lo, hi), rule=rule, direction="at_least", measured=value)
+    verdict = table[rule][d.statement]
+    frag = (f"95 % interval {fmt(lo)} to {fmt(hi)}; {d.statement} under {rule} acceptance, "
+            f"probability of meeting it {sig(100 * d.probability, 2)} %")
+    return verdict, frag
+
+
 def _by_ratio(ratio: float | None, margin: float = MARGIN) -> str:
     if ratio is None:
         return "not-assessable"
@@ -240,6 +264,22 @@ class Evidence:
     plausibility: Any
     measured: bool
     margin: float = MARGIN
+    uncertainty: dict[str, Any] | None = None   # the assessment's ``uncertainty`` section
+    rule: str = "simple"                        # decision rule: simple | guarded
+
+    def relative_interval(self, *path: str) -> tuple[float, float] | None:
+        """(low/value, high/value) of a 95 % interval in the uncertainty section, or None."""
+        u = self.uncertainty
+        if not u or u.get("status") != "evaluated":
+            return None
+        node: Any = u
+        for p in path:
+            node = (node or {}).get(p) if isinstance(node, dict) else None
+        if not node or not node.get("interval_95") or not node.get("value"):
+            return None
+        lo, hi = node["interval_95"]
+        v = node["value"]
+        return (lo / v, hi / v) if v > 0 else None
 
     def favourable(self) -> list[Reading]:
         r = [x for x in self.readings if x.favourable and not x.refuted and x.spectrum.is_absolute]
@@ -638,6 +678,10 @@ def _inactivation(c: Any, ev: Evidence) -> Verdict:
     o = best["organism"]
     ratio = best["ratio"]
     verdict = _by_ratio(ratio, ev.margin)
+    rel = ev.relative_interval("germicidal", "equivalent_254", "most_favourable") if ev.measured else None
+    decision = None
+    if rel is not None:
+        verdict, decision = _decide(best["need"], best["avail"], rel, ev.rule, _EFFICACY, _mj_cm2)
     who = (f"the most susceptible relevant organism in uvcheck's table ({o.organism}, {o.medium} data)"
            if (c.organism is None or c.organism_generic) else o.organism)
     if c.organism is None or c.organism_generic:
@@ -645,7 +689,9 @@ def _inactivation(c: Any, ev: Evidence) -> Verdict:
     basis = (f"{sig(percent, 4)} % of {who} needs {_mj_cm2(best['need'])} in {format_duration(t)} "
              f"{best['place']}; this lamp gives at most {_mj_cm2(best['avail'])} there "
              f"({_uw_cm2(best['e'])} × {format_duration(t)}): {_short(ratio)}")
-    if verdict == "unlikely":
+    if decision is not None:
+        basis += f" (dose {decision})"
+    elif verdict == "unlikely":
         basis += f" (within the decision margin of {sig(ev.margin, 2)}×)"
     return Verdict(c.id, c.kind, c.text, verdict,
                    Quantity(best["need"], "J m-2", f"dose for {sig(percent, 4)} %"),
@@ -762,13 +808,24 @@ def _safety(c: Any, ev: Evidence) -> Verdict:
         tm = h.get("t_max_s")
         if tm is not None and (worst is None or tm < worst[0]):
             worst = (tm, h)
-    if worst is not None and worst[0] < t:
+    decision = None
+    verdict_u = None
+    if worst is not None and ev.measured:
+        hid_w = next((k for k, v in hz.items() if v is worst[1]), None)
+        rel = ev.relative_interval("hazards", hid_w) if hid_w else None
+        if rel is not None and rel[0] > 0:
+            # t_max scales as 1/value: its interval is t_max·(1/high, 1/low)
+            verdict_u, decision = _decide(t, worst[0], (1.0 / rel[1], 1.0 / rel[0]), ev.rule,
+                                          _SAFETY, format_duration)
+    if worst is not None and (worst[0] < t or verdict_u in ("cannot-hold", "unlikely")):
         tm, h = worst
         lower = h.get("status") == "partial"
+        verdict = verdict_u or "cannot-hold"
         basis = (f"at {sig(d)} m the {h.get('name') or h.get('symbol')} limit ({h.get('symbol')}) "
                  f"is reached in {format_duration(tm)}, against {format_duration(t)} of exposure"
-                 + (" (from partial data: the true time is shorter)" if lower else ""))
-        return Verdict(c.id, c.kind, c.text, "cannot-hold", Quantity(t, "s", "exposure time"),
+                 + (" (from partial data: the true time is shorter)" if lower else "")
+                 + (f" (t_max {decision})" if decision else ""))
+        return Verdict(c.id, c.kind, c.text, verdict, Quantity(t, "s", "exposure time"),
                        Quantity(tm, "s", f"t_max ({h.get('symbol')})"), tm / t, basis,
                        tuple(assumptions), (), r.evidence, r.label,
                        {"hazard": h.get("symbol"), "distance_m": d, "for": who})
@@ -863,19 +920,37 @@ class ClaimsResult:
                 "plausibility": None if self.plausibility is None else self.plausibility.to_dict()}
 
 
-def decision_rule_text(margin: float = MARGIN) -> str:
-    return (f"efficacy claims: benefit of the doubt (most favourable reading); 'cannot-hold' only "
-            f"when that reading falls short by more than {sig(margin, 2)}×, 'unlikely' within it. "
-            "Safety claims: fail as soon as the most likely reading exceeds an exposure limit.")
+def decision_rule_text(margin: float = MARGIN, rule: str | None = None) -> str:
+    head = ("efficacy claims: benefit of the doubt (most favourable reading, most susceptible "
+            "organism, lowest dose across studies). Safety claims: fail as soon as the most "
+            "likely reading exceeds an exposure limit. ")
+    if rule is None:
+        return head + (f"Without measurement uncertainty: 'cannot-hold' only when the favourable "
+                       f"reading falls short by more than {sig(margin, 2)}×, 'unlikely' within it.")
+    if rule == "simple":
+        return head + ("Simple acceptance on the 95 % interval (ILAC-G8:09/2019): decided on the "
+                       "measured value; 'unlikely' when only the upper end of the interval meets "
+                       "the need, 'cannot-hold' when even the upper end falls short.")
+    return head + ("Guarded acceptance on the 95 % interval (ILAC-G8:09/2019, guard band U): "
+                   "'holds' only when the whole interval meets the need (for safety: stays within "
+                   "the limit); 'cannot-hold' when even the upper end falls short (for safety: "
+                   "when the measured value exceeds the limit); otherwise 'unlikely'.")
 
 
 def judge(listing: Any, readings: Iterable[Reading], measured: bool,
-          margin: float = MARGIN) -> ClaimsResult:
-    """Verdicts for a listing's claims over the given readings (see the module docstring)."""
+          margin: float = MARGIN, uncertainty: dict[str, Any] | None = None,
+          rule: str = "simple") -> ClaimsResult:
+    """Verdicts for a listing's claims over the given readings (see the module docstring).
+
+    uncertainty : the assessment's ``uncertainty`` section; with it, measured efficacy and
+        safety verdicts are decided on the 95 % intervals under ``rule`` (``simple`` or
+        ``guarded`` acceptance) instead of the fixed :data:`MARGIN`.
+    """
     from uvcheck.plausibility import screen_listing
 
     pl = screen_listing(listing)
-    ev = Evidence(listing, tuple(readings), pl, measured, margin)
+    ev = Evidence(listing, tuple(readings), pl, measured, margin, uncertainty, rule)
     verdicts = tuple(evaluate_claims(ev))
+    evaluated = bool(uncertainty and uncertainty.get("status") == "evaluated" and measured)
     return ClaimsResult(verdicts, listing, pl, tuple(r.label for r in ev.readings),
-                        decision_rule_text(margin))
+                        decision_rule_text(margin, rule if evaluated else None))

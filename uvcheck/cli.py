@@ -166,13 +166,35 @@ def assess(
     electrical_power: Annotated[Optional[str], typer.Option("--electrical-power", help="Electrical "
                                                             "input power, e.g. '8 W' (for the UV-C "
                                                             "conversion efficiency).")] = None,
+    no_uncertainty: Annotated[bool, typer.Option("--no-uncertainty", help="Skip the Monte Carlo "
+                                                 "uncertainty evaluation.",
+                                                 rich_help_panel="Uncertainty")] = False,
+    calibration_uncertainty: Annotated[Optional[str], typer.Option(
+        "--calibration-uncertainty", help="Standard uncertainty of the spectral calibration, e.g. "
+        "'7 %' or 'UV=10 %,visible=3 %' (default by band, common practice).",
+        rich_help_panel="Uncertainty")] = None,
+    wavelength_uncertainty: Annotated[Optional[str], typer.Option(
+        "--wavelength-uncertainty", help="Wavelength-scale uncertainty, e.g. '±0.5 nm'.",
+        rich_help_panel="Uncertainty")] = None,
+    distance_uncertainty: Annotated[Optional[str], typer.Option(
+        "--distance-uncertainty", help="Uncertainty of the measurement distance, e.g. '5 mm'.",
+        rich_help_panel="Uncertainty")] = None,
+    stray_light: Annotated[Optional[str], typer.Option(
+        "--stray-light", help="UV stray-light allowance, e.g. '0.01 %' of the spectral peak.",
+        rich_help_panel="Uncertainty")] = None,
+    decision_rule: Annotated[Optional[str], typer.Option(
+        "--decision-rule", help="How verdicts use the 95 % intervals: simple or guarded "
+        "acceptance (ILAC-G8).", rich_help_panel="Uncertainty")] = None,
+    draws: Annotated[Optional[int], typer.Option(help="Monte Carlo draws (default 4000).",
+                                                 rich_help_panel="Uncertainty")] = None,
     quiet: Annotated[bool, typer.Option(help="Print nothing but errors.")] = False,
     encoding: Encoding = None, delimiter: Delimiter = None, decimal: Decimal = None,
     column: Column = None, wavelength_column: WlColumn = None, wavelength_unit: WlUnit = None,
     unit: Unit = None, block: Block = None, data_start: DataStart = None,
 ) -> None:
-    """Assess a measured spectrum: band breakdown, peak, photometry (and hazards, germicidal
-    output and claims as they apply)."""
+    """Assess a measured spectrum: band breakdown, peak, photometry, IEC 62471 hazards,
+    germicidal output, measurement uncertainty, and the verdicts on a listing's claims
+    (--claims)."""
     from uvcheck.assessment import AssessOptions
     from uvcheck.assessment import assess as run_assess
     from uvcheck.errors import ConfigurationError
@@ -205,18 +227,40 @@ def assess(
     cond = conditions_from_options(d0, source_size, alpha, use_distance, general_lighting,
                                    exposure_time, listing=listing,
                                    electrical_power=electrical_power)
-    verdicts = None
-    if listing is not None:
-        from uvcheck.claims import judge, readings_from_measurement
-
-        verdicts = judge(listing, readings_from_measurement(spec, cond), measured=True)
-    result = run_assess(spec, cond, report, AssessOptions(limit_set=limits),
-                        claims=verdicts).to_dict()
+    options = assess_options(limits, no_uncertainty, calibration_uncertainty,
+                             wavelength_uncertainty, distance_uncertainty, stray_light,
+                             decision_rule, draws)
+    result = run_assess(spec, cond, report, options, listing=listing).to_dict()
     if json_out:
         write_json(json_out, result, force=force)
     if not quiet and json_out != "-":
         typer.echo(render_assessment(result), nl=False)
     _exit_for(result, fail_on)
+
+
+def assess_options(limits: str, no_uncertainty: bool = False, calibration: str | None = None,
+                   wavelength: str | None = None, distance: str | None = None,
+                   stray_light: str | None = None, decision_rule: str | None = None,
+                   draws: int | None = None) -> Any:
+    """AssessOptions from the command-line texts (uncertainty inputs parsed at the edge)."""
+    from uvcheck.assessment import AssessOptions
+    from uvcheck.errors import ConfigurationError
+
+    if draws is not None and not 100 <= draws <= 1_000_000:
+        raise ConfigurationError(f"--draws must be between 100 and 1 000 000, got {draws}")
+    given = (calibration, wavelength, distance, stray_light, decision_rule)
+    if no_uncertainty:
+        if any(x is not None for x in given):
+            raise ConfigurationError("uncertainty options were given with --no-uncertainty")
+        return AssessOptions(limit_set=limits, uncertainty=False)
+    inputs = None
+    if any(x is not None for x in given):
+        from uvcheck.uncertainty import uncertainty_options_from_cli
+
+        inputs = uncertainty_options_from_cli(calibration, wavelength, distance, stray_light,
+                                              decision_rule)
+    return AssessOptions(limit_set=limits, uncertainty=True, uncertainty_inputs=inputs,
+                         draws=draws)
 
 
 FAIL_ON = ("cannot-hold", "unlikely", "not-assessable")

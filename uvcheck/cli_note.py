@@ -71,6 +71,8 @@ def note_result(spectrum_file: Path | None, listing_file: Path | None, *, read_o
         a = screen_listing_file(listing, limit_set=limits)
         d = a.to_dict()
         spec, cond = a.spectrum, a.conditions
+        if room:
+            d["room"] = room_result(spec, cond, room)
     else:
         from uvcheck.io.reader import read_spectrum
 
@@ -80,16 +82,9 @@ def note_result(spectrum_file: Path | None, listing_file: Path | None, *, read_o
         cond = conditions_from_options(d0, source_size, alpha, use_distance, general_lighting,
                                        exposure_time, listing=listing,
                                        electrical_power=electrical_power)
-        verdicts = None
-        if listing is not None:
-            from uvcheck.claims import judge, readings_from_measurement
-
-            verdicts = judge(listing, readings_from_measurement(spec, cond), measured=True)
-        d = assess(spec, cond, report, AssessOptions(limit_set=limits), claims=verdicts).to_dict()
-    if room:
-        # TODO(lead): the room result is added here, next to the assessment, because assess()
-        # has no room section yet; move it into assess() when it gets one.
-        d["room"] = room_result(spec, cond, room)
+        extra = {"room": room_result(spec, cond, room)} if room else None
+        d = assess(spec, cond, report, AssessOptions(limit_set=limits), extra=extra,
+                   listing=listing).to_dict()
     return clean(d), spec
 
 

@@ -299,7 +299,14 @@ def render_claims(claims: list, d: dict) -> list[str]:
 
 
 #: Renderers for later sections (room …), keyed by JSON section name; claims come first.
-SECTION_RENDERERS: dict[str, Any] = {"hazards": render_hazards, "germicidal": render_germicidal}
+def render_uncertainty(u: dict, d: dict) -> list[str]:
+    from uvcheck.uncertainty import render_uncertainty_lines
+
+    return render_uncertainty_lines(u, d)
+
+
+SECTION_RENDERERS: dict[str, Any] = {"hazards": render_hazards, "germicidal": render_germicidal,
+                                     "uncertainty": render_uncertainty}
 
 
 def duration(seconds: float | None) -> str:
