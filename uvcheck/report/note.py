@@ -387,8 +387,53 @@ def hazard_rows(result: Result) -> list[dict[str, Any]] | None:
             "distance": distance(ev.get("distance_m")),
             "coverage": percent(h.get("coverage")), "status": h.get("status"),
             "reason": h.get("reason"),
+            "interval": _interval_text(h),
+            "borderline": bool(h.get("borderline")),
+            "group_probability": _probability_text(h.get("risk_group_probability")),
         })
     return rows
+
+
+def _interval_text(h: Mapping[str, Any]) -> str | None:
+    """'95 %: 4.72–5.77 W/m²' from the uncertainty fields merged into a hazard entry."""
+    iv = h.get("interval_95")
+    if not iv or iv[0] is None or iv[1] is None:
+        return None
+    v, dl = h.get("value"), h.get("detection_limit")
+    if h.get("status") not in ("complete", "partial") or v is None or iv[0] < 0 or (
+            dl is not None and v < dl):
+        return None  # an interval of noise around a detection limit tells a reader nothing
+    unit = unit_label(h.get("unit"))
+    pre = "≥ " if h.get("status") == "partial" else ""
+    return f"95 %: {pre}{sig(iv[0])}–{sig(iv[1])} {unit}"
+
+
+def _probability_text(p: Mapping[str, float] | None) -> str | None:
+    if not p:
+        return None
+    parts = [f"{g} {100 * v:.0f} %" for g, v in p.items() if v and v >= 0.005]
+    return ", ".join(parts) or None
+
+
+def uncertainty_block(result: Result) -> dict[str, Any] | None:
+    """The note's uncertainty paragraph: method and inputs, overall group probabilities,
+    borderline hazards and the decision rule (issue 9)."""
+    u = result.get("uncertainty")
+    if not u:
+        return None
+    if u.get("status") != "evaluated":
+        return {"evaluated": False, "text": f"Measurement uncertainty was not evaluated: "
+                                            f"{u.get('reason') or 'no absolute spectrum'}."}
+    from uvcheck.uncertainty import uncertainty_note
+
+    ov = u.get("overall") or {}
+    hz = result.get("hazards") or {}
+    border = [hz[k].get("symbol") or k for k in hz if hz[k].get("borderline")]
+    rule = (u.get("decision_rule") or {})
+    return {"evaluated": True, "text": uncertainty_note(u),
+            "overall": _probability_text(ov.get("risk_group_probability")),
+            "overall_by_rule": ov.get("risk_group_by_rule"),
+            "borderline": border, "rule": rule.get("name"), "rule_text": rule.get("statement")}
 
 
 def open_hazards_text(result: Result) -> str:
@@ -982,6 +1027,7 @@ def build_note(result: Result, listing: Mapping[str, Any] | None = None, *,
         "band_convention": result.get("band_convention"),
         "spectral": spectral_facts(result),
         "hazards": hazard_rows(result),
+        "uncertainty": uncertainty_block(result),
         "hazard_note": (result.get("evaluation") or {}).get("distance_rule"),
         "germicidal": germicidal_block(result),
         "room": room_block(result),

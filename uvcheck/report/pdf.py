@@ -284,8 +284,11 @@ def render_note_pdf(view: Mapping[str, Any], figures: Sequence[Mapping[str, Any]
               "is the share of the hazard's weighting range that was measured.", size=7.5)
         _table(pdf, ("Hazard", "Value", "Limit", "Value / limit", "Max. exposure", "Group",
                      "At", "Cov."),
-               [(f"{h['name']} ({h['symbol']})", h["value"], h["limit"], h["ratio_text"], h["t_max"],
-                 h["group"], h["distance"], h["coverage"]) for h in v["hazards"]],
+               [(f"{h['name']} ({h['symbol']})",
+                 h["value"] + (f"\n{h['interval']}" if h.get("interval") else ""), h["limit"],
+                 h["ratio_text"], h["t_max"],
+                 h["group"] + ("\nborderline" if h.get("borderline") else ""), h["distance"],
+                 h["coverage"]) for h in v["hazards"]],
                (21, 18, 16, 9, 15, 11, 5, 5), size=7.2, bold_col=5)
         ud = rk.get("use_distance")
         if ud:
@@ -293,6 +296,19 @@ def render_note_pdf(view: Mapping[str, Any], figures: Sequence[Mapping[str, Any]
             _table(pdf, ("Hazard", "Value", "Max. exposure", "Group"),
                    [(f"{h['name']} ({h['symbol']})", h["value"], h["t_max"], h["group"]) for h in ud["rows"]],
                    (35, 30, 25, 10), size=7.2)
+        u = v.get("uncertainty")
+        if u:
+            _subheading(pdf, "Measurement uncertainty")
+            _para(pdf, u["text"], size=7.2)
+            if u.get("evaluated"):
+                _para(pdf, f"Probability of each overall risk group: {u.get('overall') or '—'}"
+                      + (f"; under the decision rule ({u['rule']}): {u['overall_by_rule']}"
+                         if u.get("overall_by_rule") else "") + ". "
+                      + (f"Borderline (the 95 % interval spans a group boundary): "
+                         f"{', '.join(u['borderline'])}." if u.get("borderline") else
+                         "No hazard is borderline."), size=7.2)
+                if u.get("rule_text"):
+                    _para(pdf, u["rule_text"], size=7.2, color=MUTED)
         if figs.get("hazards"):
             _figure(pdf, figs["hazards"])
     g = v.get("germicidal")
