@@ -69,31 +69,13 @@ def guarded(fn: Callable[..., Any]) -> Callable[..., Any]:
 
 
 # ---------------------------------------------------------------------------------------------
-# Shared options
+# Shared options (defined once in uvcheck.cli_options)
 # ---------------------------------------------------------------------------------------------
 
-Encoding = Annotated[Optional[str], typer.Option(help="Text encoding (default: detected).",
-                                                 rich_help_panel="Reading the file")]
-Delimiter = Annotated[Optional[str], typer.Option(help="Field delimiter: tab, semicolon, comma, "
-                                                  "pipe or space (default: detected).",
-                                                  rich_help_panel="Reading the file")]
-Decimal = Annotated[Optional[str], typer.Option(help="Decimal mark: '.' or ',' (default: detected).",
-                                                rich_help_panel="Reading the file")]
-Column = Annotated[Optional[str], typer.Option(help="Value column: name or number (from 1).",
-                                               rich_help_panel="Reading the file")]
-WlColumn = Annotated[Optional[str], typer.Option("--wavelength-column",
-                                                 help="Wavelength column: name or number.",
-                                                 rich_help_panel="Reading the file")]
-WlUnit = Annotated[Optional[str], typer.Option("--wavelength-unit",
-                                               help="Wavelength unit: nm, um, m or cm-1.",
-                                               rich_help_panel="Reading the file")]
-Unit = Annotated[Optional[str], typer.Option(help="Unit of the values, e.g. 'uW/cm2/nm', "
-                                             "'W/m2/sr/nm', 'W/nm' or 'relative'.",
-                                             rich_help_panel="Reading the file")]
-Block = Annotated[Optional[int], typer.Option(help="Data block to read when a file holds several "
-                                              "(from 1).", rich_help_panel="Reading the file")]
-DataStart = Annotated[Optional[int], typer.Option("--data-start", help="Line where the data rows "
-                                                  "start (from 1).", rich_help_panel="Reading the file")]
+from uvcheck.cli_options import (  # noqa: E402  (typer only)
+    Alpha, Block, Column, DataStart, Decimal, Delimiter, Distance, ElectricalPower, Encoding,
+    ExposureTime, Force, GeneralLighting, Limits, Quiet, ScaleBand, ScaleLux, ScaleTotal,
+    SourceSize, Unit, UseDistance, WlColumn, WlUnit)
 
 
 def read_options(encoding: str | None, delimiter: str | None, decimal: str | None,
@@ -129,43 +111,23 @@ def assess(
     spectrum_file: Annotated[Path, typer.Argument(help="Spectrum export (CSV, TSV or text).")],
     json_out: Annotated[Optional[str], typer.Option("--json", help="Write the full result as "
                                                     "JSON to this path ('-' for stdout).")] = None,
-    force: Annotated[bool, typer.Option(help="Replace existing output files.")] = False,
-    distance: Annotated[Optional[str], typer.Option(help="Measurement distance, e.g. '20 cm' "
-                                                    "(default: from the file, else none).")] = None,
-    scale_band: Annotated[Optional[str], typer.Option("--scale-band", help="Scale a relative "
-                                                      "spectrum by a radiometer reading, e.g. "
-                                                      "'UV-C=120 uW/cm2'.")] = None,
-    scale_lux: Annotated[Optional[str], typer.Option("--scale-lux", help="Scale by a lux-meter "
-                                                     "reading (says nothing about UV).")] = None,
-    scale_total: Annotated[Optional[str], typer.Option("--scale-total", help="Scale so the "
-                                                       "measured range integrates to this, e.g. "
-                                                       "'12 W/m2'.")] = None,
-    source_size: Annotated[Optional[str], typer.Option("--source-size", help="Apparent source "
-                                                       "size (largest luminous dimension); a bare "
-                                                       "number is mm, e.g. '30' or '3 cm'.",
-                                                       rich_help_panel="Geometry")] = None,
-    alpha: Annotated[Optional[float], typer.Option(help="Angular subtense α of the source at the "
-                                                   "measurement position [rad] (instead of "
-                                                   "--source-size).", rich_help_panel="Geometry")] = None,
-    use_distance: Annotated[Optional[str], typer.Option("--use-distance", help="Also evaluate at a "
-                                                        "realistic distance of use, e.g. '1.5 m'.",
-                                                        rich_help_panel="Geometry")] = None,
-    general_lighting: Annotated[bool, typer.Option("--general-lighting", help="Lamp for general "
-                                                   "lighting service: assessed at the 500 lx "
-                                                   "distance (never under 200 mm).",
-                                                   rich_help_panel="Geometry")] = False,
-    exposure_time: Annotated[str, typer.Option("--exposure-time", help="Exposure duration for "
-                                               "hazard distances.", rich_help_panel="Geometry")] = "8 h",
-    limits: Annotated[str, typer.Option(help="Exposure-limit set: iec62471_2006 (default), "
-                                        "icnirp_2013 or acgih_2022_far_uvc.")] = "iec62471_2006",
+    force: Force = False,
+    distance: Distance = None,
+    scale_band: ScaleBand = None,
+    scale_lux: ScaleLux = None,
+    scale_total: ScaleTotal = None,
+    source_size: SourceSize = None,
+    alpha: Alpha = None,
+    use_distance: UseDistance = None,
+    general_lighting: GeneralLighting = False,
+    exposure_time: ExposureTime = "8 h",
+    limits: Limits = "iec62471_2006",
     claims: Annotated[Optional[Path], typer.Option("--claims", help="Listing file (TOML) whose "
                                                    "claims are judged against the measurement.")] = None,
     fail_on: Annotated[Optional[str], typer.Option("--fail-on", help="Exit with status 1 when a "
                                                    "claim gets this verdict (cannot-hold, unlikely, "
                                                    "not-assessable).")] = None,
-    electrical_power: Annotated[Optional[str], typer.Option("--electrical-power", help="Electrical "
-                                                            "input power, e.g. '8 W' (for the UV-C "
-                                                            "conversion efficiency).")] = None,
+    electrical_power: ElectricalPower = None,
     no_uncertainty: Annotated[bool, typer.Option("--no-uncertainty", help="Skip the Monte Carlo "
                                                  "uncertainty evaluation.",
                                                  rich_help_panel="Uncertainty")] = False,
@@ -187,7 +149,7 @@ def assess(
         "acceptance (ILAC-G8).", rich_help_panel="Uncertainty")] = None,
     draws: Annotated[Optional[int], typer.Option(help="Monte Carlo draws (default 4000).",
                                                  rich_help_panel="Uncertainty")] = None,
-    quiet: Annotated[bool, typer.Option(help="Print nothing but errors.")] = False,
+    quiet: Quiet = False,
     encoding: Encoding = None, delimiter: Delimiter = None, decimal: Decimal = None,
     column: Column = None, wavelength_column: WlColumn = None, wavelength_unit: WlUnit = None,
     unit: Unit = None, block: Block = None, data_start: DataStart = None,

@@ -17,6 +17,11 @@ from typing import Annotated, Any, Optional
 
 import typer
 
+from uvcheck.cli_options import (Alpha, Block, Column, DataStart, Decimal, Delimiter, Distance,
+                                 ElectricalPower, Encoding, ExposureTime, Force, GeneralLighting,
+                                 Limits, Quiet, ScaleBand, ScaleLux, ScaleTotal, SourceSize, Unit,
+                                 UseDistance, WlColumn, WlUnit)
+
 #: The demo scenario, relative to a source checkout (next to the package, or the current folder).
 SCENARIO_RELPATH = Path("examples") / "demo" / "scenario.toml"
 
@@ -186,35 +191,18 @@ def note_command(
         "--out", help="Note to write, e.g. 'note.html' (the PDF goes beside it as 'note.pdf'; "
                       "default: <input name>.note.html in the current folder).")] = None,
     no_pdf: Annotated[bool, typer.Option("--no-pdf", help="Write the HTML note only.")] = False,
-    force: Annotated[bool, typer.Option(help="Replace existing output files.")] = False,
-    distance: Annotated[Optional[str], typer.Option(help="Measurement distance, e.g. '20 cm' "
-                                                    "(default: from the file, else none).")] = None,
-    scale_band: Annotated[Optional[str], typer.Option("--scale-band", help="Scale a relative "
-                                                      "spectrum by a radiometer reading, e.g. "
-                                                      "'UV-C=120 uW/cm2'.")] = None,
-    scale_lux: Annotated[Optional[str], typer.Option("--scale-lux", help="Scale by a lux-meter "
-                                                     "reading (says nothing about UV).")] = None,
-    scale_total: Annotated[Optional[str], typer.Option("--scale-total", help="Scale so the "
-                                                       "measured range integrates to this.")] = None,
-    source_size: Annotated[Optional[str], typer.Option("--source-size", help="Apparent source "
-                                                       "size; a bare number is mm.",
-                                                       rich_help_panel="Geometry")] = None,
-    alpha: Annotated[Optional[float], typer.Option(help="Angular subtense α of the source at "
-                                                   "the measurement position [rad].",
-                                                   rich_help_panel="Geometry")] = None,
-    use_distance: Annotated[Optional[str], typer.Option("--use-distance", help="Also evaluate "
-                                                        "at a realistic distance of use.",
-                                                        rich_help_panel="Geometry")] = None,
-    general_lighting: Annotated[bool, typer.Option("--general-lighting", help="Lamp for general "
-                                                   "lighting service (500 lx distance).",
-                                                   rich_help_panel="Geometry")] = False,
-    exposure_time: Annotated[str, typer.Option("--exposure-time", help="Exposure duration for "
-                                               "hazard distances.",
-                                               rich_help_panel="Geometry")] = "8 h",
-    limits: Annotated[str, typer.Option(help="Exposure-limit set: iec62471_2006 (default), "
-                                        "icnirp_2013 or acgih_2022_far_uvc.")] = "iec62471_2006",
-    electrical_power: Annotated[Optional[str], typer.Option("--electrical-power", help="Electrical "
-                                                            "input power, e.g. '8 W'.")] = None,
+    force: Force = False,
+    distance: Distance = None,
+    scale_band: ScaleBand = None,
+    scale_lux: ScaleLux = None,
+    scale_total: ScaleTotal = None,
+    source_size: SourceSize = None,
+    alpha: Alpha = None,
+    use_distance: UseDistance = None,
+    general_lighting: GeneralLighting = False,
+    exposure_time: ExposureTime = "8 h",
+    limits: Limits = "iec62471_2006",
+    electrical_power: ElectricalPower = None,
     room: Annotated[Optional[str], typer.Option("--room", help="Also model the lamp in a room "
                                                 "'W x L x H m' (uvcheck room's model).",
                                                 rich_help_panel="Room")] = None,
@@ -224,28 +212,10 @@ def note_command(
     pattern: Annotated[str, typer.Option(help="Emission pattern in the room: isotropic, "
                                          "lambertian-down or cylinder.",
                                          rich_help_panel="Room")] = "isotropic",
-    quiet: Annotated[bool, typer.Option(help="Print nothing but errors.")] = False,
-    encoding: Annotated[Optional[str], typer.Option(help="Text encoding (default: detected).",
-                                                    rich_help_panel="Reading the file")] = None,
-    delimiter: Annotated[Optional[str], typer.Option(help="Field delimiter (default: detected).",
-                                                     rich_help_panel="Reading the file")] = None,
-    decimal: Annotated[Optional[str], typer.Option(help="Decimal mark: '.' or ','.",
-                                                   rich_help_panel="Reading the file")] = None,
-    column: Annotated[Optional[str], typer.Option(help="Value column: name or number (from 1).",
-                                                  rich_help_panel="Reading the file")] = None,
-    wavelength_column: Annotated[Optional[str], typer.Option("--wavelength-column",
-                                                             help="Wavelength column.",
-                                                             rich_help_panel="Reading the file")] = None,
-    wavelength_unit: Annotated[Optional[str], typer.Option("--wavelength-unit",
-                                                           help="Wavelength unit: nm, um, m or cm-1.",
-                                                           rich_help_panel="Reading the file")] = None,
-    unit: Annotated[Optional[str], typer.Option(help="Unit of the values, e.g. 'uW/cm2/nm'.",
-                                                rich_help_panel="Reading the file")] = None,
-    block: Annotated[Optional[int], typer.Option(help="Data block to read (from 1).",
-                                                 rich_help_panel="Reading the file")] = None,
-    data_start: Annotated[Optional[int], typer.Option("--data-start", help="Line where the data "
-                                                      "rows start (from 1).",
-                                                      rich_help_panel="Reading the file")] = None,
+    quiet: Quiet = False,
+    encoding: Encoding = None, delimiter: Delimiter = None, decimal: Decimal = None,
+    column: Column = None, wavelength_column: WlColumn = None, wavelength_unit: WlUnit = None,
+    unit: Unit = None, block: Block = None, data_start: DataStart = None,
 ) -> None:
     """Write the consumer-safety note (self-contained HTML and PDF) for a spectrum and/or a
     listing: the product as sold, a plain-language finding, the claims with verdicts, the

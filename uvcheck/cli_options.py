@@ -1,0 +1,72 @@
+"""Command-line options shared by several commands (assess, note, batch), defined once.
+
+Typer only: importing this module loads nothing heavy.
+"""
+
+from __future__ import annotations
+
+from typing import Annotated, Optional
+
+import typer
+
+_READ = "Reading the file"
+_GEO = "Geometry"
+_UNC = "Uncertainty"
+
+# --- reading a spectrum file ------------------------------------------------------------------
+Encoding = Annotated[Optional[str], typer.Option(help="Text encoding (default: detected).",
+                                                 rich_help_panel=_READ)]
+Delimiter = Annotated[Optional[str], typer.Option(help="Field delimiter: tab, semicolon, comma, "
+                                                  "pipe or space (default: detected).",
+                                                  rich_help_panel=_READ)]
+Decimal = Annotated[Optional[str], typer.Option(help="Decimal mark: '.' or ',' (default: detected).",
+                                                rich_help_panel=_READ)]
+Column = Annotated[Optional[str], typer.Option(help="Value column: name or number (from 1).",
+                                               rich_help_panel=_READ)]
+WlColumn = Annotated[Optional[str], typer.Option("--wavelength-column",
+                                                 help="Wavelength column: name or number.",
+                                                 rich_help_panel=_READ)]
+WlUnit = Annotated[Optional[str], typer.Option("--wavelength-unit",
+                                               help="Wavelength unit: nm, um, m or cm-1.",
+                                               rich_help_panel=_READ)]
+Unit = Annotated[Optional[str], typer.Option(help="Unit of the values, e.g. 'uW/cm2/nm', "
+                                             "'W/m2/sr/nm', 'W/nm' or 'relative'.",
+                                             rich_help_panel=_READ)]
+Block = Annotated[Optional[int], typer.Option(help="Data block to read when a file holds several "
+                                              "(from 1).", rich_help_panel=_READ)]
+DataStart = Annotated[Optional[int], typer.Option("--data-start", help="Line where the data rows "
+                                                  "start (from 1).", rich_help_panel=_READ)]
+
+# --- scaling and geometry -----------------------------------------------------------------------
+Distance = Annotated[Optional[str], typer.Option(help="Measurement distance, e.g. '20 cm' "
+                                                 "(default: from the file, else none).")]
+ScaleBand = Annotated[Optional[str], typer.Option("--scale-band", help="Scale a relative spectrum "
+                                                  "by a radiometer reading, e.g. "
+                                                  "'UV-C=120 uW/cm2'.")]
+ScaleLux = Annotated[Optional[str], typer.Option("--scale-lux", help="Scale by a lux-meter reading "
+                                                 "(says nothing about UV).")]
+ScaleTotal = Annotated[Optional[str], typer.Option("--scale-total", help="Scale so the measured "
+                                                   "range integrates to this, e.g. '12 W/m2'.")]
+SourceSize = Annotated[Optional[str], typer.Option("--source-size", help="Apparent source size "
+                                                   "(largest luminous dimension); a bare number "
+                                                   "is mm, e.g. '30' or '3 cm'.",
+                                                   rich_help_panel=_GEO)]
+Alpha = Annotated[Optional[float], typer.Option(help="Angular subtense α of the source at the "
+                                                "measurement position [rad] (instead of "
+                                                "--source-size).", rich_help_panel=_GEO)]
+UseDistance = Annotated[Optional[str], typer.Option("--use-distance", help="Also evaluate at a "
+                                                    "realistic distance of use, e.g. '1.5 m'.",
+                                                    rich_help_panel=_GEO)]
+GeneralLighting = Annotated[bool, typer.Option("--general-lighting", help="Lamp for general "
+                                               "lighting service: assessed at the 500 lx "
+                                               "distance (never under 200 mm).",
+                                               rich_help_panel=_GEO)]
+ExposureTime = Annotated[str, typer.Option("--exposure-time", help="Exposure duration for hazard "
+                                           "distances.", rich_help_panel=_GEO)]
+Limits = Annotated[str, typer.Option(help="Exposure-limit set: iec62471_2006 (default), "
+                                     "icnirp_2013 or acgih_2022_far_uvc.")]
+ElectricalPower = Annotated[Optional[str], typer.Option("--electrical-power", help="Electrical "
+                                                        "input power, e.g. '8 W' (for the UV-C "
+                                                        "conversion efficiency).")]
+Force = Annotated[bool, typer.Option(help="Replace existing output files.")]
+Quiet = Annotated[bool, typer.Option(help="Print nothing but errors.")]
