@@ -136,3 +136,14 @@ def test_hazard_sections_in_json(lamp_file, tmp_path):
     assert d["risk_group"]["group"] == "RG3" and d["risk_group"]["governing"] == "actinic_uv"
     r = runner.invoke(app, ["assess", str(lamp_file), "--source-size", "20", "--distance", "1 m", "--json", "-"])
     assert json.loads(r.stdout)["hazards"]["blue_light"]["symbol"] == "L_B"
+
+
+def test_debug_shows_the_traceback(tmp_path):
+    # DESIGN.md errors: one line without --debug, the traceback with it
+    p = tmp_path / "empty.csv"
+    p.write_text("")
+    r = subprocess.run([sys.executable, "-m", "uvcheck", "--debug", "assess", str(p)],
+                       capture_output=True, text=True)
+    assert r.returncode != 0 and "Traceback" in r.stderr and "InputFormatError" in r.stderr
+    r = subprocess.run([sys.executable, "-m", "uvcheck", "assess", str(p)], capture_output=True, text=True)
+    assert r.returncode == 2 and "Traceback" not in r.stderr

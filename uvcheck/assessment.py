@@ -167,6 +167,10 @@ def assess(spectrum: Spectrum, conditions: Conditions | None = None, report: Any
     sections["hazards"] = hz
     g = evaluate_germicidal(spectrum, conditions, technology=options.technology)
     sections["germicidal"] = g
+    if g.artefacts:
+        notes.append("The UV-C signal looks like stray light or noise (see germicidal.artefacts); "
+                     "the actinic UV hazard E_S still counts it, which can only overstate that "
+                     "hazard, never understate it.")
     unc = None
     if options.uncertainty and spectrum.is_absolute:
         from uvcheck.uncertainty import evaluate_uncertainty

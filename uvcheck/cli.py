@@ -333,10 +333,13 @@ from uvcheck.cli_room import organisms_command, room_command  # noqa: E402  (typ
 
 from uvcheck.cli_note import demo_command, note_command  # noqa: E402  (typer only)
 
+from uvcheck.cli_batch import batch_command  # noqa: E402  (typer only)
+
 app.command("room")(guarded(room_command))
 app.command("organisms")(guarded(organisms_command))
 app.command("note")(guarded(note_command))
 app.command("demo")(guarded(demo_command))
+app.command("batch")(guarded(batch_command))
 
 
 def main() -> None:

@@ -17,13 +17,13 @@ The larger of the two is kept when both apply. A noise-free synthetic spectrum g
 from __future__ import annotations
 
 import math
-from dataclasses import asdict, dataclass
+from dataclasses import dataclass, fields
 from functools import lru_cache
 
 import numpy as np
 
 from uvcheck.data_files import read_table
-from uvcheck.spectrum import Spectrum
+from uvcheck.spectrum import Spectrum, median, quantile, remembered
 
 
 @dataclass(frozen=True)
@@ -42,7 +42,7 @@ class NoiseEstimate:
     n_negative: int
 
     def to_dict(self) -> dict:
-        return asdict(self)
+        return {f.name: getattr(self, f.name) for f in fields(self)}  # flat: as asdict
 
 
 def estimate_noise(values: np.ndarray) -> NoiseEstimate:
@@ -67,10 +67,10 @@ def estimate_noise(values: np.ndarray) -> NoiseEstimate:
     if n >= 12:
         d2 = v[:-2] - 2 * v[1:-1] + v[2:]
         mid = v[1:-1]
-        low = mid <= np.quantile(mid, 0.25)
+        low = mid <= quantile(mid, 0.25)
         sel = d2[low]
         if sel.size >= 4:
-            mad = float(np.median(np.abs(sel - np.median(sel))))
+            mad = median(np.abs(sel - median(sel)))
             estimates.append((1.4826 * mad / math.sqrt(6.0), "second-difference", int(sel.size)))
     if not estimates:
         return NoiseEstimate(None, "none", 0, int(neg.size))
@@ -94,21 +94,21 @@ class PeakInfo:
     fwhm_nm: float | None
 
     def to_dict(self) -> dict:
-        return asdict(self)
+        return {f.name: getattr(self, f.name) for f in fields(self)}  # flat: as asdict
 
 
 def _fwhm(wl: np.ndarray, v: np.ndarray, i: int) -> float | None:
     half = v[i] / 2.0
     if not half > 0:
         return None
-    j = i
-    while j > 0 and v[j] > half:
-        j -= 1
+    # j: the last sample at or before i that is not above half (else 0); k: the first at or
+    # after i (else the last sample) -- what walking outwards from i one sample at a time finds
+    left = np.flatnonzero(v[:i + 1] <= half)
+    j = int(left[-1]) if left.size else 0
     if v[j] > half:
         return None
-    k = i
-    while k < v.size - 1 and v[k] > half:
-        k += 1
+    right = np.flatnonzero(v[i:] <= half)
+    k = i + int(right[0]) if right.size else v.size - 1
     if v[k] > half:
         return None
     left = wl[j] + (half - v[j]) * (wl[j + 1] - wl[j]) / (v[j + 1] - v[j]) if v[j + 1] != v[j] else wl[j]
@@ -126,6 +126,10 @@ def peak_info(spectrum: Spectrum) -> PeakInfo:
     >>> p = peak_info(s); (p.peak_nm, round(p.fwhm_nm, 1))
     (400.0, 11.8)
     """
+    return remembered(spectrum, ("peak_info",), lambda: _peak_info(spectrum))
+
+
+def _peak_info(spectrum: Spectrum) -> PeakInfo:
     wl, v = spectrum.wavelength_nm, spectrum.values
     if wl.size >= 2 and np.any(v > 0):
         i = int(np.argmax(v))
@@ -171,7 +175,7 @@ class DetectedLine:
     identified_as: str | None
 
     def to_dict(self) -> dict:
-        return asdict(self)
+        return {f.name: getattr(self, f.name) for f in fields(self)}  # flat: as asdict
 
 
 def find_lines(spectrum: Spectrum, min_snr: float = 5.0, min_relative: float = 0.01,
@@ -187,6 +191,13 @@ def find_lines(spectrum: Spectrum, min_snr: float = 5.0, min_relative: float = 0
     (within ±20 nm). Identification: the nearest known line within max(1 nm, 1.5 × the
     sample spacing). Nominal line sources report their lines directly.
     """
+    key = ("find_lines", float(min_snr), float(min_relative), int(max_lines))
+    return list(remembered(spectrum, key, lambda: tuple(
+        _find_lines(spectrum, min_snr, min_relative, max_lines))))
+
+
+def _find_lines(spectrum: Spectrum, min_snr: float, min_relative: float,
+                max_lines: int) -> list[DetectedLine]:
     if spectrum.lines and spectrum.wavelength_nm.size == 0:
         return [DetectedLine(ln.wavelength_nm, ln.value, None, None,
                              _identify(ln.wavelength_nm, 1.0)) for ln in spectrum.lines]
@@ -199,25 +210,49 @@ def find_lines(spectrum: Spectrum, min_snr: float = 5.0, min_relative: float = 0
     cand = np.where((v[1:-1] >= v[:-2]) & (v[1:-1] > v[2:]))[0] + 1
     # a peak's baseline is at least the global minimum: drop candidates that cannot qualify
     cand = cand[v[cand] - float(v.min()) >= thr]
+    if cand.size == 0:
+        return []
+    # prominence of every candidate at once: the lower of the minima within ±20 nm
+    lo = np.searchsorted(wl, wl[cand] - 20.0)
+    hi = np.searchsorted(wl, wl[cand] + 20.0, side="right")
+    base = np.maximum(_window_min(v, lo, cand + 1), _window_min(v, cand, hi))
+    prom = v[cand] - base
+    keep = ~(prom < thr)
+    cand, prom = cand[keep], prom[keep]
+    # parabolic refinement of the positions
+    y0, y1, y2 = v[cand - 1], v[cand], v[cand + 1]
+    den = y0 - 2 * y1 + y2
+    with np.errstate(divide="ignore", invalid="ignore"):
+        shift = np.where(den != 0, 0.5 * (y0 - y2) / den, 0.0)
+    pos = wl[cand] + shift * (wl[cand + 1] - wl[cand - 1]) / 2
+    # the strongest max_lines (a stable sort, as the list of found lines was sorted)
+    top = np.argsort(-prom, kind="stable")[:max_lines]
     found = []
-    for i in cand:
-        lo = int(np.searchsorted(wl, wl[i] - 20.0))
-        hi = int(np.searchsorted(wl, wl[i] + 20.0, side="right"))
-        base = max(float(v[lo:i + 1].min()), float(v[i:hi].min()))
-        prom = float(v[i] - base)
-        if prom < thr:
-            continue
-        # parabolic refinement of the position
-        y0, y1, y2 = v[i - 1], v[i], v[i + 1]
-        den = y0 - 2 * y1 + y2
-        shift = 0.5 * (y0 - y2) / den if den != 0 else 0.0
-        pos = float(wl[i] + shift * (wl[i + 1] - wl[i - 1]) / 2)
+    for k in top:
+        i = int(cand[k])
+        p = float(prom[k])
         step = float(wl[min(i + 1, wl.size - 1)] - wl[i - 1]) / 2
-        found.append(DetectedLine(pos, prom, _fwhm(wl, v, int(i)),
-                                  prom / sigma if sigma > 0 else None,
-                                  _identify(pos, max(1.0, 1.5 * step))))
-    found.sort(key=lambda d: -d.height)
-    return sorted(found[:max_lines], key=lambda d: d.wavelength_nm)
+        found.append(DetectedLine(float(pos[k]), p, _fwhm(wl, v, i),
+                                  p / sigma if sigma > 0 else None,
+                                  _identify(float(pos[k]), max(1.0, 1.5 * step))))
+    return sorted(found, key=lambda d: d.wavelength_nm)
+
+
+def _window_min(v: np.ndarray, start: np.ndarray, stop: np.ndarray) -> np.ndarray:
+    """min(v[start[k]:stop[k]]) for every k (stop > start), from a table of minima over
+    windows of 2^j samples (a sparse table): two look-ups per window, exact."""
+    length = stop - start
+    levels = [v]
+    j_of = np.frexp(length.astype(float))[1] - 1  # floor(log2(length)), exact for integers
+    for j in range(1, int(j_of.max()) + 1):
+        h = 1 << (j - 1)
+        levels.append(np.minimum(levels[-1][:-h], levels[-1][h:]))
+    out = np.empty(length.size)
+    for j in sorted(set(j_of.tolist())):  # (numpy.unique would import numpy.ma)
+        sel = j_of == j
+        t = levels[int(j)]
+        out[sel] = np.minimum(t[start[sel]], t[stop[sel] - (1 << int(j))])
+    return out
 
 
 def _identify(wavelength_nm: float, tol_nm: float) -> str | None:

@@ -45,7 +45,8 @@ from uvcheck.geometry import (distance_scaling, far_field_deviation, flux_from_i
 from uvcheck.inactivation import (InactivationEstimate, Organism, estimate, get_organism,
                                   most_susceptible)
 from uvcheck.inactivation import organisms as organism_table
-from uvcheck.spectrum import Integral, Spectrum, integrate, restricted, scaled, total_integral
+from uvcheck.spectrum import (Integral, Spectrum, integrate, median, restricted, scaled,
+                              total_integral)
 from uvcheck.units import sig, to_trade
 from uvcheck.weighting import Weighting, constant_weighting, get_weighting
 
@@ -109,7 +110,7 @@ def action_spectrum(action_id: str) -> Weighting:
 
 
 def _weight_at(w: Weighting, wavelength_nm: float) -> float:
-    return float(w(np.array([float(wavelength_nm)]))[0])
+    return w.at(wavelength_nm)
 
 
 def _from_memory(w: Weighting) -> bool:
@@ -524,7 +525,7 @@ def uvc_artefacts(spectrum: Spectrum, sigma: float | None = None) -> tuple[Artef
         out.append(Artefact("noise-floor", f"no UV-C sample rises {FEATURE_SNR:g} σ above zero "
                             f"(highest {vmax / sigma:.1f} σ, σ = {sig(sigma)} {spectrum.spectral_unit})"))
         return tuple(out)
-    med = float(np.median(v))
+    med = median(v)
     wv, vv = _band_samples(spectrum, 380.0, 780.0)
     vis_peak = float(vv.max()) if vv.size else 0.0
     if med > 0 and vmax < PEDESTAL_FLATNESS * med and vis_peak > 0 \
@@ -810,14 +811,22 @@ def evaluate_germicidal(spectrum: Spectrum, conditions: Conditions | None = None
     irr = spec.quantity == "irradiance"
     no_distance = position.distance_m is None
 
+    by_key: dict[tuple[str, float], float | None] = {}  # the same rows are asked many times
+
     def irradiance_for(o: Organism) -> float | None:
         if not irr:
             return None
+        key = (o.pathway, o.wavelength_nm)
+        if key in by_key:
+            return by_key[key]
         if o.pathway == "violet_blue":
-            return vb.equivalent_at(o.wavelength_nm)
-        vals = [e.equivalent_at(o.wavelength_nm) for e in effective]
-        vals = [v for v in vals if v is not None and v > 0]
-        return max(vals) if vals else None
+            out = vb.equivalent_at(o.wavelength_nm)
+        else:
+            vals = [e.equivalent_at(o.wavelength_nm) for e in effective]
+            vals = [v for v in vals if v is not None and v > 0]
+            out = max(vals) if vals else None
+        by_key[key] = out
+        return out
 
     def times_are(o: Organism) -> str:
         rd = vb.reading if o.pathway == "violet_blue" else uvc

@@ -309,6 +309,18 @@ class Organism:
         return max(n for n, _ in self.log_doses_J_m2) if self.log_doses_J_m2 else None
 
     # --- doses -------------------------------------------------------------------------------
+    def _remembered(self, what: str, n_log: float, compute: Callable[[float], Any]) -> Any:
+        """``compute(n)`` remembered per row (the row is immutable and its answers depend on
+        the table alone; estimates ask for the same few reductions for every lamp)."""
+        memo = self.__dict__.get("_memo")
+        if memo is None:
+            memo = {}
+            object.__setattr__(self, "_memo", memo)
+        key = (what, float(n_log))
+        if key not in memo:
+            memo[key] = compute(n_log)
+        return memo[key]
+
     def dose_for_log(self, n_log: float) -> float | None:
         """Dose for an n-log reduction. [J m⁻²]
 
@@ -324,6 +336,9 @@ class Organism:
         n = float(n_log)
         if not n > 0:
             raise ConfigurationError(f"a log reduction must be positive, got {n}")
+        return self._remembered("dose", n, self._dose_for_log)
+
+    def _dose_for_log(self, n: float) -> float | None:
         if self.model == "two_population":
             k1 = (self.k_published or 0.0) * M2_J_PER_CM2_MJ
             k2 = (self.k2_published or 0.0) * M2_J_PER_CM2_MJ
@@ -364,6 +379,9 @@ class Organism:
     def dose_range_for_log(self, n_log: float) -> tuple[float, float] | None:
         """Range of the n-log dose across the studies behind this row and its sibling rows
         (same organism, pathway and wavelength). [J m⁻²]"""
+        return self._remembered("range", n_log, self._dose_range_for_log)
+
+    def _dose_range_for_log(self, n_log: float) -> tuple[float, float] | None:
         vals: list[float] = []
         for o in siblings(self):
             d = o.dose_for_log(n_log)
@@ -509,6 +527,13 @@ def select(medium: str | None = None, pathway: str | None = None,
     """
     if ids is not None:
         return tuple(get_organism(i) for i in ids)
+    return _select(medium, pathway, tuple(exclude_groups))
+
+
+@lru_cache(maxsize=256)
+def _select(medium: str | None, pathway: str | None,
+            exclude_groups: tuple[str, ...]) -> tuple[Organism, ...]:
+    """:func:`select` without ids (the table is loaded once, so the answer never changes)."""
     if medium is not None and medium not in RELEVANT_MEDIA:
         raise ConfigurationError(f"unknown medium {medium!r}; available: "
                                  f"{', '.join(RELEVANT_MEDIA)}")

@@ -13,7 +13,7 @@ source that is mainly visible.
 from __future__ import annotations
 
 import math
-from dataclasses import asdict, dataclass
+from dataclasses import dataclass, fields
 from functools import lru_cache
 
 import numpy as np
@@ -85,7 +85,7 @@ class Photometry:
     cct_note: str | None
 
     def to_dict(self) -> dict:
-        return asdict(self)
+        return {f.name: getattr(self, f.name) for f in fields(self)}  # flat: as asdict
 
 
 def luminous_value(spectrum: Spectrum) -> tuple[float, float]:

@@ -16,12 +16,47 @@ Only the standard library is used here, so the command line can import it cheapl
 
 from __future__ import annotations
 
+import functools
 import math
 import re
 from dataclasses import dataclass
 from types import MappingProxyType
+from typing import Any
 
 from uvcheck.errors import UnitError
+
+
+def _remembered(default_place: str) -> Any:
+    """Remember a unit parser's answer per text, as it depends on the text alone: the parsed
+    unit (immutable), or the error's what and todo, raised again with the caller's place
+    (``where``, else ``default_place``, as the parser itself names it). Readers ask for the
+    same few unit texts for every file of a batch."""
+
+    def decorate(fn: Any) -> Any:
+        memo: dict[str, tuple[bool, Any]] = {}
+
+        @functools.wraps(fn)
+        def parse(text: str, where: str | None = None) -> Any:
+            hit = memo.get(text) if type(text) is str else None
+            if hit is None:
+                try:
+                    hit = (True, fn(text, where))
+                except UnitError as exc:
+                    if exc.where != (where or default_place) or len(memo) >= 4096:
+                        raise
+                    memo[text] = (False, (exc.what, exc.todo))
+                    raise
+                if len(memo) < 4096 and type(text) is str:
+                    memo[text] = hit
+                return hit[1]
+            if hit[0]:
+                return hit[1]
+            what, todo = hit[1]
+            raise UnitError(what, where or default_place, todo)
+
+        return parse
+
+    return decorate
 
 # ---------------------------------------------------------------------------------------------
 # Text normalisation
@@ -384,6 +419,7 @@ class SpectralUnit:
     text: str
 
 
+@_remembered("unit")
 def parse_spectral_unit(text: str, where: str | None = None) -> SpectralUnit:
     """Read a spectral unit as written in a header, a units row or a column name.
 
@@ -465,6 +501,7 @@ def _balanced(text: str) -> bool:
     return depth == 0
 
 
+@_remembered("wavelength unit")
 def parse_wavelength_unit(text: str, where: str | None = None) -> tuple[str, float]:
     """Read a wavelength-axis unit: returns ``("length", factor_to_nm)`` or ``("wavenumber", factor_to_per_cm)``.
 

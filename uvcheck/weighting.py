@@ -71,6 +71,7 @@ class Weighting:
         object.__setattr__(self, "wavelength_nm", wl)
         object.__setattr__(self, "value", v)
         object.__setattr__(self, "_log", np.log10(v) if self.interpolation == "log-linear" else None)
+        object.__setattr__(self, "_at_memo", {})
         if not isinstance(self.provenance, MappingProxyType):
             object.__setattr__(self, "provenance", MappingProxyType(dict(self.provenance)))
 
@@ -84,6 +85,25 @@ class Weighting:
         else:
             w = np.interp(x, self.wavelength_nm, self.value)
         return np.where(inside, w, 0.0)
+
+    def at(self, wavelength_nm: float) -> float:
+        """W(λ) at one wavelength: ``float(self(np.array([λ]))[0])``, remembered per weighting
+        (the table is immutable, so the value never changes; claims and organism tables ask
+        for the same few wavelengths many times). [-]
+
+        Examples
+        --------
+        >>> get_weighting("S_actinic").at(270.0)
+        1.0
+        """
+        key = float(wavelength_nm)
+        memo: dict[float, float] = self._at_memo  # type: ignore[attr-defined]
+        v = memo.get(key)
+        if v is None:
+            v = float(self(np.array([key]))[0])
+            if len(memo) < 4096:
+                memo[key] = v
+        return v
 
     def describe(self) -> dict[str, Any]:
         """Provenance record for reports and ``uvcheck references``."""

@@ -26,9 +26,10 @@ and the numbers go straight into compact arrays, so a million-row file needs lit
 from __future__ import annotations
 
 import array
+import hashlib
 import math
 import re
-from dataclasses import asdict, dataclass, field
+from dataclasses import dataclass, field, fields
 from itertools import islice
 from pathlib import Path
 from typing import Any, Iterable, Iterator
@@ -37,8 +38,9 @@ import numpy as np
 
 from uvcheck.errors import InputFormatError, UnitError
 from uvcheck.features import estimate_noise
-from uvcheck.io.textfile import HEAD_BYTES, Decoded, file_sha256, iter_lines, sniff_encoding
-from uvcheck.spectrum import Spectrum
+from uvcheck.io.textfile import (HEAD_BYTES, Decoded, decode_lines, file_sha256, iter_lines,
+                                 sniff_encoding)
+from uvcheck.spectrum import Spectrum, median
 from uvcheck.units import parse_quantity, parse_spectral_unit, parse_wavelength_unit
 
 #: Lines of the file examined to decide the format (the rest is streamed).
@@ -52,8 +54,8 @@ _MISSING = {"", "na", "n/a", "nan", "-nan", "+nan", "--", "-", "null", "none", "
             "1.#qnan", "-1.#ind", "1.#ind", "#value!", "#div/0!"}
 _INF = {"inf", "+inf", "infinity", "+infinity", "1.#inf"}
 _NINF = {"-inf", "-infinity", "-1.#inf"}
-_NUM_DOT = re.compile(r"^[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?$")
-_NUM_COMMA = re.compile(r"^[-+]?(\d+,?\d*|,\d+)([eE][-+]?\d+)?$")
+_NUM_DOT = re.compile(r"^[-+]?(\d+(?:\.\d*)?|\.\d+)([eE][-+]?\d+)?$")
+_NUM_COMMA = re.compile(r"^[-+]?(\d+(?:,\d*)?|,\d+)([eE][-+]?\d+)?$")
 _THOUS_DOT = re.compile(r"^[-+]?[1-9]\d{0,2}(,\d{3})+(\.\d*)?$")      # 1,234.5
 _THOUS_COMMA = re.compile(r"^[-+]?[1-9]\d{0,2}(\.\d{3})+(,\d*)?$")    # 1.234,5
 _STARTS_NUMERIC = re.compile(r"^\s*[-+]?(\d|[.,]\d)")
@@ -124,7 +126,11 @@ class ImportReport:
     warnings: tuple[str, ...] = field(default_factory=tuple)
 
     def to_dict(self) -> dict:
-        d = asdict(self)
+        # as dataclasses.asdict, whose deep copies cost more than the rest of this: every
+        # field is a scalar, a tuple (listed below) or a dict of scalars (copied)
+        d = {f.name: getattr(self, f.name) for f in fields(self)}
+        for k in ("step_nm", "noise", "metadata"):
+            d[k] = dict(d[k])
         d["data_lines"] = list(self.data_lines)
         d["gaps_nm"] = [list(g) for g in self.gaps_nm]
         d["columns"] = list(self.columns)
@@ -136,7 +142,19 @@ class ImportReport:
 # Tokenising and numbers
 # ---------------------------------------------------------------------------------------------
 
+#: A line holding none of these needs no stripping of its tokens (for tab-separated lines the
+#: tab itself does not count: no token holds one).
+_STRIP_CHARS = re.compile(r"[\s\"']")
+_STRIP_CHARS_TAB = re.compile(r"[^\S\t]|[\"']")
+
+
 def _split(line: str, delim: str) -> list[str]:
+    if delim != "space" and not (_STRIP_CHARS_TAB if delim == "tab" else _STRIP_CHARS).search(line):
+        # no whitespace and no quotes: every strip below would change nothing
+        toks = line.split(DELIMITERS[delim])
+        while toks and toks[-1] == "":
+            toks.pop()  # trailing delimiter
+        return toks
     if delim == "space":
         toks = line.split()
     else:
@@ -166,6 +184,12 @@ class _Num:
     def __call__(self, tok: str) -> float | None:
         """The token's value; NaN for a missing-value token; None if not a number."""
         t = tok.strip()
+        # a plain number first (no missing-value or infinity word matches these patterns)
+        if self.decimal == ".":
+            if _NUM_DOT.match(t):
+                return float(t)
+        elif _NUM_COMMA.match(t):
+            return float(t.replace(",", "."))
         low = t.lower()
         if low in _MISSING:
             return math.nan
@@ -226,6 +250,38 @@ class _Block:
     bad: list[int]    # non-data lines inside the block
 
 
+# as _NUM_DOT and _NUM_COMMA; written so that a digit run splits one way only (``\d+\.?\d*``
+# would let the engine try every split of every number of a long line that fails at its end)
+_NUM_DOT_TEXT = r"[-+]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?"
+_NUM_COMMA_TEXT = r"[-+]?(?:\d+(?:,\d*)?|,\d+)(?:[eE][-+]?\d+)?"
+_CLEAN_ROWS: dict[tuple[str, str], re.Pattern] = {}
+
+
+def _clean_row(delim: str, decimal: str) -> re.Pattern:
+    """A line of plain numbers (two or more) in this format, and nothing else: for such a
+    line :func:`_split` gives exactly those numbers (no quotes, no empty or trailing cell) and
+    :func:`_row_values` reads every one on its first pattern, so it is a data row with as many
+    columns as numbers; other lines take the general test."""
+    key = (delim, decimal)
+    if key not in _CLEAN_ROWS:
+        num = _NUM_DOT_TEXT if decimal == "." else _NUM_COMMA_TEXT
+        if delim != "space" and DELIMITERS[delim] == decimal:
+            pat = r"(?!)"  # the delimiter is the decimal mark: no line is plain (never tried)
+        elif delim == "space":
+            pat = rf"^\s*{num}(?:\s+{num})+\s*$"
+        else:
+            ch = re.escape(DELIMITERS[delim])
+            ws = r"[^\S\t]*" if delim == "tab" else r"\s*"
+            pat = rf"^{ws}{num}{ws}(?:{ch}{ws}{num}{ws})+$"
+        _CLEAN_ROWS[key] = re.compile(pat)
+    return _CLEAN_ROWS[key]
+
+
+def _row_width(line: str, delim: str) -> int:
+    """The number of numbers on a line that :func:`_clean_row` matched."""
+    return len(line.split()) if delim == "space" else line.count(DELIMITERS[delim]) + 1
+
+
 def _blocks(lines: list[str], delim: str, decimal: str, first: int = 0
             ) -> tuple[list[_Block], _Num]:
     """Runs of data rows (allowing up to 2 stray lines inside a run), and the number parser
@@ -234,15 +290,23 @@ def _blocks(lines: list[str], delim: str, decimal: str, first: int = 0
     blocks: list[_Block] = []
     cur: _Block | None = None
     pending: list[int] = []
+    n_toks: dict[int, int] = {}  # tokens per line, for the column count below
+    clean = _clean_row(delim, decimal)
     for i in range(first, len(lines)):
         line = lines[i]
         if not line.strip():
             if cur is not None:
                 pending.append(i)
             continue
-        toks = _split(line, delim)
-        if _is_data(toks, num):
-            n = len(toks)
+        if clean.match(line):
+            is_data = True
+            n_toks[i] = _row_width(line, delim)
+        else:
+            toks = _split(line, delim)
+            n_toks[i] = len(toks)
+            is_data = _is_data(toks, num)
+        if is_data:
+            n = n_toks[i]
             if cur is not None and len([p for p in pending if lines[p].strip()]) <= 2:
                 cur.bad.extend(p for p in pending if lines[p].strip())
                 cur.end = i
@@ -266,11 +330,27 @@ def _blocks(lines: list[str], delim: str, decimal: str, first: int = 0
         counts: dict[int, int] = {}
         for j in range(b.start, min(b.end + 1, b.start + 500)):
             if lines[j].strip() and j not in b.bad:
-                n = len(_split(lines[j], delim))
+                n = n_toks[j] if j in n_toks else len(_split(lines[j], delim))
                 counts[n] = counts.get(n, 0) + 1
         if counts:
             b.ncols = max(counts, key=lambda k: (counts[k], k))
     return blocks, num
+
+
+def _may_hold_rows(lines: list[str], delim: str, decimal: str, first: int) -> bool:
+    """Whether any line from ``first`` on is a data row for this delimiter and decimal mark
+    (the test :func:`_blocks` applies to each line); if none is, :func:`_blocks` finds no
+    block, so the format need not be tried. Lines that cannot split into two tokens are
+    passed over without tokenising: :func:`_split` gives one token to a line without the
+    delimiter character (and ``str.split()``'s count for whitespace)."""
+    num = _Num(decimal)
+    ch = None if delim == "space" else DELIMITERS[delim]
+    clean = _clean_row(delim, decimal)
+    for ln in islice(lines, first, None):
+        if (ch in ln) if ch is not None else len(ln.split()) > 1:
+            if clean.match(ln) or (ln.strip() and _is_data(_split(ln, delim), num)):
+                return True
+    return False
 
 
 def _choose_format(lines: list[str], opts: ReadOptions, where: str) -> tuple[str, str, list[_Block]]:
@@ -289,6 +369,8 @@ def _choose_format(lines: list[str], opts: ReadOptions, where: str) -> tuple[str
             continue
         if d == "comma" and dec == ",":
             continue
+        if not _may_hold_rows(lines, d, dec, first):
+            continue  # not one data row with this delimiter and decimal mark
         bl, num = _blocks(lines, d, dec, first)
         if not bl:
             continue
@@ -442,11 +524,20 @@ def _col_ref(ref: str, names: list[str], what: str, where: str) -> int:
                            "columns: " + ", ".join(f"{i + 1} {n!r}" for i, n in enumerate(names)))
 
 
+def _lines_from(path: Path, decoded: Decoded, start: int, whole: list[str] | None
+                ) -> Iterator[tuple[int, str]]:
+    """(0-based index, line) from line ``start`` on: from ``whole`` (the file's lines, when it
+    was read whole) or streamed from the file."""
+    src = whole if whole is not None else iter_lines(path, decoded)
+    return enumerate(islice(src, start, None), start=start)
+
+
 def _stream_rows(path: Path, decoded: Decoded, delim: str, num: _Num, start: int, ncols: int,
-                 stats: dict[str, Any]) -> Iterator[tuple[int, list[float]]]:
+                 stats: dict[str, Any], whole: list[str] | None = None
+                 ) -> Iterator[tuple[int, list[float]]]:
     """Data rows from line ``start`` on, until the block ends (3 non-data lines in a row)."""
     run_bad: list[tuple[int, str]] = []
-    for i, line in enumerate(islice(iter_lines(path, decoded), start, None), start=start):
+    for i, line in _lines_from(path, decoded, start, whole):
         if not line.strip():
             continue
         toks = _split(line, delim)
@@ -456,7 +547,7 @@ def _stream_rows(path: Path, decoded: Decoded, delim: str, num: _Num, start: int
             if len(run_bad) > 2:
                 stats["footer_start"] = run_bad[0][0]
                 stats["footer_sample"] = [t for _, t in run_bad[:3]]
-                _look_for_more_blocks(path, decoded, delim, num, i + 1, stats)
+                _look_for_more_blocks(path, decoded, delim, num, i + 1, stats, whole)
                 return
             continue
         if run_bad:
@@ -479,7 +570,8 @@ def _stream_rows(path: Path, decoded: Decoded, delim: str, num: _Num, start: int
 _FAST_LINE = re.compile(r"^\s*$|^\s*[-+]?(\d|[.,]\d|nan|inf)", re.I)
 
 
-def _fast_block(path: Path, decoded: Decoded, delim: str, decimal: str, start: int, ncols: int
+def _fast_block(path: Path, decoded: Decoded, delim: str, decimal: str, start: int, ncols: int,
+                whole: list[str] | None = None
                 ) -> tuple[np.ndarray, int, int | None, array.array] | None:
     """Parse the clean leading part of a data block with numpy's C parser.
 
@@ -494,7 +586,7 @@ def _fast_block(path: Path, decoded: Decoded, delim: str, decimal: str, start: i
     at = array.array("I")  # 0-based line index of every row
 
     def lines() -> Iterator[str]:
-        for i, line in enumerate(islice(iter_lines(path, decoded), start, None), start=start):
+        for i, line in _lines_from(path, decoded, start, None):
             # with a decimal comma, '1.234' is a thousands separator: the slow parser reads it
             if not _FAST_LINE.match(line) or (comma_decimal and "." in line):
                 state["stop"] = i
@@ -504,12 +596,14 @@ def _fast_block(path: Path, decoded: Decoded, delim: str, decimal: str, start: i
                 at.append(i)
             yield line.replace(",", ".") if comma_decimal else line
 
+    rows: Iterable[str] = (lines() if whole is None
+                           else _clean_lines(whole, start, comma_decimal, state, at))
     import warnings as pywarnings
 
     try:
         with pywarnings.catch_warnings():
             pywarnings.simplefilter("ignore")  # "input contained no data": the slow path decides
-            arr = np.loadtxt(lines(), delimiter=DELIMITERS[delim], dtype=np.float64, ndmin=2,
+            arr = np.loadtxt(rows, delimiter=DELIMITERS[delim], dtype=np.float64, ndmin=2,
                              comments=None, quotechar='"', encoding=None)
     except (ValueError, IndexError):
         return None
@@ -518,12 +612,60 @@ def _fast_block(path: Path, decoded: Decoded, delim: str, decimal: str, start: i
     return arr, state["last"], state["stop"], at
 
 
+def _digit_led_lines(text: str) -> int:
+    """How many leading lines of ``text`` start with an ASCII digit (so match ``_FAST_LINE``
+    and are not blank), found with numpy on the bytes: a UTF-8 byte 0x30-0x39 is always
+    the character itself, never part of a multi-byte character."""
+    try:
+        b = np.frombuffer(text.encode("utf-8"), dtype=np.uint8)
+    except UnicodeError:
+        return 0
+    if b.size == 0:
+        return 0
+    firsts = np.concatenate(([0], np.flatnonzero(b == 10) + 1))  # where each line starts
+    ch = b[np.minimum(firsts, b.size - 1)]
+    good = (firsts < b.size) & (ch >= 48) & (ch <= 57)
+    bad = np.flatnonzero(~good)
+    return int(bad[0]) if bad.size else int(firsts.size)
+
+
+def _clean_lines(whole: list[str], start: int, comma_decimal: bool, state: dict[str, Any],
+                 at: array.array) -> list[str]:
+    """What ``_fast_block``'s line generator yields, for a file held as a list of lines, with
+    ``state`` and ``at`` filled the same way: the lines from ``start`` up to the first that is
+    not clean. The leading lines that start with a digit are found at once; the line-by-line
+    test then goes on from the first line that does not."""
+    part = whole[start:]
+    text = "\n".join(part)
+    k = _digit_led_lines(text)
+    n = k
+    for line in islice(part, k, None):
+        if not _FAST_LINE.match(line):
+            break
+        n += 1
+    if comma_decimal:
+        # with a decimal comma, '1.234' is a thousands separator: stop at the first '.'
+        dot = text.find(".")
+        if dot >= 0:
+            n = min(n, text.count("\n", 0, dot))
+    if n < len(part):
+        state["stop"] = start + n
+    m = min(k, n)
+    at.extend(range(start, start + m))
+    at.extend(i for i, line in enumerate(islice(part, m, n), start=start + m) if line.strip())
+    if at:
+        state["last"] = at[-1]
+    if comma_decimal:
+        return [line.replace(",", ".") for line in part[:n]]
+    return part[:n]
+
+
 def _look_for_more_blocks(path: Path, decoded: Decoded, delim: str, num: _Num, start: int,
-                          stats: dict[str, Any]) -> None:
+                          stats: dict[str, Any], whole: list[str] | None = None) -> None:
     """After the footer: note where another run of ≥ 3 data rows starts, if any."""
     run = 0
     first = None
-    for i, line in enumerate(islice(iter_lines(path, decoded), start, None), start=start):
+    for i, line in _lines_from(path, decoded, start, whole):
         if not line.strip():
             continue
         if _is_data(_split(line, delim), num):
@@ -558,8 +700,10 @@ def read_spectrum(path: str | Path, options: ReadOptions | None = None, **overri
         head_bytes = fh.read(HEAD_BYTES)
     decoded = sniff_encoding(head_bytes, opts.encoding, where)
     base = [decoded.guess] if decoded.guess else []
+    # a file shorter than the head is held whole: decoded once, hashed from the same bytes
+    raw = head_bytes if len(head_bytes) < HEAD_BYTES else None
     try:
-        return _read(p, decoded, opts, list(base))
+        return _read(p, decoded, opts, list(base), raw)
     except UnicodeError as exc:  # iter_lines converts these; kept as a safety net
         if opts.encoding or decoded.encoding != "utf-8":
             raise InputFormatError(f"the file is not valid {decoded.encoding} text ({exc})",
@@ -572,23 +716,25 @@ def read_spectrum(path: str | Path, options: ReadOptions | None = None, **overri
     warnings = ["the file mixes encodings (valid UTF-8 at the start, other bytes later); "
                 "read as Latin-1 / Windows-1252: check µ, ² and ° in the units"]
     return _read(p, Decoded("cp1252", "mixed: fell back to Latin-1 / Windows-1252", False),
-                 opts, warnings)
+                 opts, warnings, raw)
 
 
-def _read(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
-          ) -> tuple[Spectrum, ImportReport]:
+def _read(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str],
+          raw: bytes | None = None) -> tuple[Spectrum, ImportReport]:
     # Every number is checked (finite, in range) before it is used, so floating-point overflow
     # while analysing the columns of an absurd file (values near 1e308) must not reach the
     # user's terminal as numpy RuntimeWarnings.
     with np.errstate(all="ignore"):
-        return _read_file(p, decoded, opts, warnings)
+        return _read_file(p, decoded, opts, warnings, raw)
 
 
-def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
-               ) -> tuple[Spectrum, ImportReport]:
+def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str],
+               raw: bytes | None = None) -> tuple[Spectrum, ImportReport]:
+    """raw : the whole file's bytes when it was read whole (then it is not read again)."""
     where = str(p)
     n_head = HEAD_LINES if not opts.data_start else max(HEAD_LINES, opts.data_start + 200)
-    head = list(islice(iter_lines(p, decoded), n_head))
+    whole = None if raw is None else decode_lines(raw, decoded)
+    head = whole[:n_head] if whole is not None else list(islice(iter_lines(p, decoded), n_head))
     if not any(line.strip() for line in head):
         raise InputFormatError("the file is empty (no text)", where, "export the spectrum again")
     if opts.data_start is not None:
@@ -683,7 +829,8 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
     n_rows = 0
     row_lines = array.array("I")  # 0-based line index of every data row, for error places
     resume_at = block.start
-    fast = _fast_block(p, decoded, delim, decimal, block.start, ncols) if not block.bad else None
+    fast = (_fast_block(p, decoded, delim, decimal, block.start, ncols, whole)
+            if not block.bad else None)
     if fast is not None:
         arr, last_fast, stop, row_lines = fast
         for k in range(ncols):
@@ -693,7 +840,7 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
         resume_at = stop
         del arr
     if resume_at is not None:
-        for i, vals in _stream_rows(p, decoded, delim, num, resume_at, ncols, stats):
+        for i, vals in _stream_rows(p, decoded, delim, num, resume_at, ncols, stats, whole):
             for c, v in zip(cols, vals):
                 c.append(v)
             row_lines.append(i)
@@ -880,10 +1027,12 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
     else:
         order = "unsorted (sorted)"
         warnings.append("wavelengths were not in order; rows sorted")
-    idx = np.argsort(wl_nm, kind="stable")
-    wl_nm, values = wl_nm[idx], values[idx]
-    uniq, inv, counts = np.unique(wl_nm, return_inverse=True, return_counts=True)
-    n_dup = int((counts > 1).sum())
+    n_dup = 0
+    if order != "ascending":  # (strictly ascending: already sorted, no duplicates)
+        idx = np.argsort(wl_nm, kind="stable")
+        wl_nm, values = wl_nm[idx], values[idx]
+        uniq, inv, counts = np.unique(wl_nm, return_inverse=True, return_counts=True)
+        n_dup = int((counts > 1).sum())
     if n_dup:
         values = np.bincount(inv, weights=values) / counts
         wl_nm = uniq
@@ -923,9 +1072,11 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
         except UnitError:
             dist = None
             warnings.append(f"metadata {found[0]} = {found[1]!r} could not be read as a distance")
-    sha = file_sha256(p)
-    step = {"median": float(np.median(steps)), "min": float(steps.min()), "max": float(steps.max()),
-            "uniform": bool(np.allclose(steps, steps[0], rtol=1e-3, atol=1e-6))}
+    sha = file_sha256(p) if raw is None else hashlib.sha256(raw).hexdigest()
+    step = {"median": median(steps), "min": float(steps.min()), "max": float(steps.max()),
+            # numpy.allclose(steps, steps[0], rtol=1e-3, atol=1e-6) for finite steps, its
+            # formula written out (allclose's checks cost more than the test itself)
+            "uniform": bool(np.all(np.abs(steps - steps[0]) <= 1e-6 + 1e-3 * abs(steps[0])))}
     report = ImportReport(
         path=str(p), sha256=sha, encoding=decoded.encoding, encoding_how=decoded.how,
         delimiter=delim, decimal=decimal, thousands=thousands,
@@ -960,6 +1111,13 @@ def _instrument_notes(meta: dict[str, str]) -> dict[str, str]:
 def _pick_columns(names: list[str], data: list[np.ndarray], opts: ReadOptions, where: str,
                   start: int, hint: str = "") -> tuple[int, int, str | None]:
     n = len(names)
+    seen: dict[int, bool] = {}
+
+    def is_index(k: int) -> bool:  # column k looks like a row or pixel index (tested once)
+        if k not in seen:
+            seen[k] = _is_index(names[k], data[k])
+        return seen[k]
+
     usable = [k for k in range(n) if np.isfinite(data[k]).any()]
     note = None
     if opts.wavelength_column:
@@ -967,7 +1125,7 @@ def _pick_columns(names: list[str], data: list[np.ndarray], opts: ReadOptions, w
     else:
         named = [k for k in usable if _WL_NAME.search(names[k]) or _WAVENUMBER.search(names[k])
                  or _RAMAN.search(names[k])]
-        index_cols = [k for k in usable if _is_index(names[k], data[k])]
+        index_cols = [k for k in usable if is_index(k)]
         if named:
             wl_idx = named[0]
             if index_cols and index_cols[0] < wl_idx:
@@ -985,7 +1143,7 @@ def _pick_columns(names: list[str], data: list[np.ndarray], opts: ReadOptions, w
             wl_idx = rest[0]
             if index_cols and index_cols[0] < wl_idx:
                 note = f"column {index_cols[0] + 1} ({names[index_cols[0]]!r}) looks like a row or pixel index and was ignored"
-        if _is_index(names[wl_idx], data[wl_idx]) and not named:
+        if is_index(wl_idx) and not named:
             raise InputFormatError("the wavelength column looks like a pixel index (0, 1, 2, …)",
                                    f"{where} line {start + 1}, column {wl_idx + 1}",
                                    "export with the wavelength calibration")
@@ -995,7 +1153,7 @@ def _pick_columns(names: list[str], data: list[np.ndarray], opts: ReadOptions, w
             raise InputFormatError("the value column is the wavelength column", where,
                                    "choose another --column")
         return wl_idx, val_idx, note
-    cands = [k for k in usable if k != wl_idx and not _is_index(names[k], data[k])]
+    cands = [k for k in usable if k != wl_idx and not is_index(k)]
     second_wl = [k for k in cands if _WL_NAME.search(names[k]) or _same_axis(data[wl_idx], data[k])]
     if second_wl:
         raise InputFormatError(
@@ -1124,7 +1282,7 @@ def _isolated_spikes(v: np.ndarray) -> list[int]:
         return []
     a = np.abs(v)
     nb = np.maximum(np.concatenate(([a[1]], a[:-1])), np.concatenate((a[1:], [a[-2]])))
-    scale = float(np.median(a)) or float(a.max()) * 1e-12
+    scale = median(a) or float(a.max()) * 1e-12
     spikes = np.nonzero((a > 1000.0 * np.maximum(nb, scale * 10)) & (a > 0))[0]
     return [int(k) for k in spikes]
 

@@ -15,6 +15,13 @@ from typing import Iterator
 from uvcheck.errors import InputFormatError
 
 HEAD_BYTES = 256 * 1024
+#: Every byte value that is not a control byte (below 9, or 14-31), for counting those.
+_NOT_CONTROL = bytes(b for b in range(256) if not (b < 9 or 13 < b < 32))
+#: Codecs whose one-shot decoding of a whole file gives the same text as reading the file
+#: line by line in text mode (incremental decoding). "utf-16" only with its byte-order mark:
+#: without one, bytes.decode assumes the machine's byte order where a text file refuses.
+_WHOLE_FILE_CODECS = {"utf-8", "utf-8-sig", "cp1252", "latin-1", "iso8859-1", "ascii",
+                      "utf-16-le", "utf-16-be"}
 
 
 @dataclass(frozen=True)
@@ -65,8 +72,9 @@ def sniff_encoding(head: bytes, forced: str | None = None, where: str = "file") 
                                f"{first_nul})", where,
                                "export the spectrum from the instrument software as text "
                                "(CSV or tab-separated)")
-    control = [k for k, b in enumerate(sample) if b < 9 or 13 < b < 32]
-    if len(control) > 0.01 * len(sample) + 2:
+    # count the control bytes in C (bytes.translate), and list them only for the message
+    if len(sample.translate(None, _NOT_CONTROL)) > 0.01 * len(sample) + 2:
+        control = [k for k, b in enumerate(sample) if b < 9 or 13 < b < 32]
         raise InputFormatError(f"this is a binary file, not a text export ({len(control)} control "
                                f"bytes in the first {len(sample)}, the first at byte {control[0]})",
                                where, "export the spectrum as text (CSV or tab-separated)")
@@ -106,3 +114,38 @@ def iter_lines(path: Path, decoded: Decoded) -> Iterator[str]:
             raise InputFormatError(f"the file is not valid {decoded.encoding} text "
                                    f"({reason})", f"{path} line {n + 1}",
                                    "give the encoding with --encoding (e.g. latin-1)") from None
+
+
+def decode_lines(data: bytes, decoded: Decoded) -> list[str] | None:
+    """The lines :func:`iter_lines` would yield for a file holding ``data``, decoded at once.
+
+    For a file read whole (smaller than :data:`HEAD_BYTES`) this avoids reading it again line
+    by line. Universal newlines as in text mode: ``\\r\\n`` and ``\\r`` end a line like ``\\n``.
+    Returns None where the result could differ from :func:`iter_lines` (a decoding error,
+    which the streaming reader reports with its line number, or a codec not known to decode
+    the same way at once); the caller then streams the file.
+
+    Examples
+    --------
+    >>> decode_lines(b"a,1\\r\\nb,2\\rc,3\\n", Decoded("utf-8", "valid UTF-8", False))
+    ['a,1', 'b,2', 'c,3']
+    """
+    try:
+        name = codecs.lookup(decoded.encoding).name
+    except LookupError:
+        return None
+    if name == "utf-16" and data.startswith((codecs.BOM_UTF16_LE, codecs.BOM_UTF16_BE)):
+        pass
+    elif name not in _WHOLE_FILE_CODECS:
+        return None
+    errors = "replace" if decoded.encoding == "cp1252" else "strict"
+    try:
+        text = data.decode(decoded.encoding, errors)
+    except (UnicodeError, LookupError):
+        return None
+    if "\r" in text:
+        text = text.replace("\r\n", "\n").replace("\r", "\n")
+    lines = text.split("\n")
+    if lines[-1] == "":
+        lines.pop()
+    return lines

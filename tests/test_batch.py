@@ -1,0 +1,653 @@
+"""Batch screening (issue 8): products from folders and manifests, rows derived from the same
+result as ``uvcheck assess --json``, error rows, order, resume, neutralised CSV; and the speed
+paths of issue 8 (each must give exactly what the plain path gives).
+
+Every spectrum here is invented test data, written by the tests. Expected numbers are either
+analytic (a flat spectrum integrates exactly under the trapezoid rule) or the numbers the
+``assess`` command itself writes for the same file (the point of those tests is that batch and
+assess agree, not the values).
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import json
+import math
+import threading
+from pathlib import Path
+from unittest import mock
+
+import numpy as np
+import pytest
+from conftest import gaussian
+from typer.testing import CliRunner
+
+from uvcheck import batch as B
+from uvcheck.cli import app
+from uvcheck.errors import InputFormatError, OutputExistsError, UnitError, UvcheckError
+
+runner = CliRunner()
+EXAMPLES = Path(__file__).resolve().parents[1] / "examples"
+
+
+def write_spectrum(path: Path, wl: np.ndarray, v: np.ndarray,
+                   unit: str = "W/m2/nm") -> Path:
+    path.write_text(f"Wavelength (nm),Irradiance ({unit})\n"
+                    + "\n".join(f"{a:.3f},{b:.9e}" for a, b in zip(wl, v)) + "\n",
+                    encoding="utf-8")
+    return path
+
+
+def flat_uvc(path: Path, level: float = 1e-3) -> Path:
+    """1e-3 W m⁻² nm⁻¹ from 200 to 300 nm, zero up to 800 nm (invented)."""
+    wl = np.arange(200.0, 801.0, 1.0)
+    return write_spectrum(path, wl, np.where(wl <= 300.0, level, 0.0))
+
+
+def blue_led(path: Path, seed: int = 0) -> Path:
+    """A blue LED on a small noisy floor, 200-1100 nm (invented)."""
+    wl = np.linspace(200.0, 1100.0, 1800)
+    rng = np.random.default_rng(seed)
+    v = gaussian(wl, 450.0 + seed, 10.0, 0.5) + 1e-6 + rng.normal(0, 2e-7, wl.size)
+    return write_spectrum(path, wl, v)
+
+
+def read_rows(path: Path) -> list[dict[str, str]]:
+    text = path.read_bytes().decode("utf-8")
+    return list(csv.DictReader(io.StringIO(text, newline="")))
+
+
+def read_jsonl(path: Path) -> list[dict]:
+    return [json.loads(x) for x in path.read_text(encoding="utf-8").splitlines()]
+
+
+def settings(**kw) -> B.BatchSettings:
+    return B.BatchSettings(**kw)
+
+
+# ---------------------------------------------------------------------------------------------
+# Products: folders and manifests
+# ---------------------------------------------------------------------------------------------
+
+def test_folder_pairs_spectra_and_listings_by_stem(tmp_path):
+    d = tmp_path / "in"
+    d.mkdir()
+    blue_led(d / "b.csv")
+    blue_led(d / "a.txt")
+    (d / "a.toml").write_text((EXAMPLES / "listings" / "wand_395nm_sold_as_uvc.toml").read_text(
+        encoding="utf-8"), encoding="utf-8")
+    (d / "c.toml").write_text("", encoding="utf-8")
+    (d / ".hidden.csv").write_text("x", encoding="utf-8")
+    (d / "notes.md").write_text("not a spectrum", encoding="utf-8")
+    blue_led(d / "dup.csv")
+    blue_led(d / "dup.tsv")
+    ps = B.scan_folder(d, exclude=[d / "b.csv"])
+    assert [p.product_id for p in ps] == ["a", "c", "dup"]      # sorted stems; b.csv excluded
+    a, c, dup = ps
+    assert (a.spectrum.name, a.listing.name) == ("a.txt", "a.toml")
+    assert c.spectrum is None and c.listing.name == "c.toml"  # a listing screening
+    assert dup.problem and "dup.csv, dup.tsv" in dup.problem
+
+
+def test_manifest_columns_comments_and_paths(tmp_path):
+    (tmp_path / "sp").mkdir()
+    m = tmp_path / "m.csv"
+    m.write_text("\ufeff# products of the invented shop\n"
+                 "Spectrum;Listing;Distance;id\n"
+                 "sp/one.csv;;20 cm;first\n"
+                 "\n"
+                 ";lst/two.toml;;\n"
+                 "sp/three.csv;;;\n", encoding="utf-8")
+    ps = B.read_manifest(m)
+    assert [p.product_id for p in ps] == ["first", "two", "three"]
+    assert ps[0].spectrum == tmp_path / "sp" / "one.csv" and ps[0].options == {"distance": "20 cm"}
+    assert ps[1].spectrum is None and ps[1].listing == tmp_path / "lst" / "two.toml"
+    assert ps[0].spectrum_label == "sp/one.csv"
+
+
+@pytest.mark.parametrize("text, message", [
+    ("spectrum,colour\na.csv,red\n", "line 1: unknown manifest column 'colour'. The columns are"),
+    ("spectrum\na.csv\na.csv\n", "product id 'a' appears twice .lines 2 and 3."),
+    ("id,distance\nx,1 m\n", "neither a 'spectrum' nor a 'listing' column"),
+    ("# only a comment\n", "the manifest is empty"),
+    ("spectrum,id\na.csv,x,extra\n", "line 2: 3 cells but 2 columns"),
+])
+def test_manifest_errors_name_the_line(tmp_path, text, message):
+    m = tmp_path / "m.csv"
+    m.write_text(text, encoding="utf-8")
+    with pytest.raises(InputFormatError, match=message):
+        B.read_manifest(m)
+
+
+def test_note_names_are_safe_and_unique(tmp_path):
+    ps = [B.Product("a/b", None, None), B.Product("a_b", None, None), B.Product('x:"y"', None, None)]
+    names = [p.note.name for p in B.assign_notes(ps, tmp_path)]
+    assert names == ["a_b.html", "a_b-2.html", "x__y_.html"]
+
+
+# ---------------------------------------------------------------------------------------------
+# Rows
+# ---------------------------------------------------------------------------------------------
+
+def test_flat_uvc_row_is_the_analytic_integral(tmp_path):
+    # analytic: 1e-3 W m^-2 nm^-1 over 200-280 nm is 0.08 W m^-2 (trapezoid exact on a flat
+    # spectrum); the peak is the first sample of the flat top (numpy.argmax takes the first)
+    p = B.Product("flat", flat_uvc(tmp_path / "flat.csv"), None, "flat.csv",
+                  options={"distance": "1 m"})
+    row = B.run_product(p, settings())
+    assert row["status"] == "ok" and row["error"] is None
+    assert row["uvc_W_m2"] == pytest.approx(0.08, rel=1e-6)
+    assert row["uvc_status"] == "complete" and row["peak_nm"] == 200.0
+    assert row["origin"] == "measured"
+    assert row["claims_holds"] is None  # no listing: no counts (not zeros)
+
+
+def test_row_equals_what_assess_json_writes(tmp_path):
+    # the row must carry the numbers `uvcheck assess --json` writes for the same inputs
+    spec = EXAMPLES / "spectra" / "wand_395nm_led.csv"
+    lst = EXAMPLES / "listings" / "wand_395nm_sold_as_uvc.toml"
+    out = tmp_path / "a.json"
+    r = runner.invoke(app, ["assess", str(spec), "--claims", str(lst), "--json", str(out),
+                            "--distance", "10 cm", "--no-uncertainty", "--quiet"])
+    assert r.exit_code == 0, r.output
+    d = json.loads(out.read_text(encoding="utf-8"))
+    row = B.run_product(B.Product("wand", spec, lst, "w.csv", "w.toml", {"distance": "10 cm"}),
+                        settings())
+    assert row["peak_nm"] == d["spectral"]["peak_nm"]
+    assert row["uvc_status"] == d["germicidal"]["uvc"]["status"]
+    assert row["uvc_W_m2"] == d["germicidal"]["uvc"]["value"]
+    assert row["risk_group"] == d["risk_group"]["group"]
+    assert row["risk_group_is_lower_bound"] == d["risk_group"]["is_lower_bound"]
+    assert row["governing_hazard"] == d["risk_group"]["governing"]
+    counts = d["claims_summary"]["counts"]
+    assert (row["claims_holds"], row["claims_unlikely"], row["claims_cannot_hold"],
+            row["claims_not_assessable"]) == (counts["holds"], counts["unlikely"],
+                                              counts["cannot-hold"], counts["not-assessable"])
+    worst = B.worst_claim(d["claims"])
+    assert (row["worst_claim_id"], row["worst_claim_verdict"], row["worst_claim_ratio"]) == (
+        worst["id"], worst["verdict"], worst["ratio"])
+    assert row["worst_claim_verdict"] == "cannot-hold"  # the listing's "254 nm" cannot hold
+
+
+def test_listing_only_row_is_marked_nominal(tmp_path):
+    lst = EXAMPLES / "listings" / "uvc_box_48_leds_8w.toml"
+    row = B.run_product(B.Product("box", None, lst, "", "box.toml"), settings())
+    assert row["status"] == "ok" and row["origin"] == "nominal"
+    assert row["worst_claim_verdict"] in B.VERDICT_ORDER
+
+
+def test_worst_claim_order():
+    claims = [{"id": "h", "verdict": "holds", "ratio": 0.9},
+              {"id": "n", "verdict": "not-assessable", "ratio": None},
+              {"id": "u1", "verdict": "unlikely", "ratio": 0.7},
+              {"id": "u2", "verdict": "unlikely", "ratio": 0.6},
+              {"id": "u3", "verdict": "unlikely", "ratio": 0.6}]
+    assert B.worst_claim(claims)["id"] == "u2"   # worst verdict, smallest ratio, first listed
+    assert B.worst_claim(claims[:2])["id"] == "n"
+    assert B.worst_claim([]) is None
+
+
+def test_a_bad_file_is_an_error_row_and_the_batch_goes_on(tmp_path):
+    d = tmp_path / "in"
+    d.mkdir()
+    blue_led(d / "good.csv")
+    (d / "bad.csv").write_text("this is no spectrum\n", encoding="utf-8")
+    (d / "binary.dat").write_bytes(bytes(range(256)) * 4)
+    s = B.run_batch(d, tmp_path / "s.csv", settings(), jobs=1)
+    rows = {r["product_id"]: r for r in read_rows(tmp_path / "s.csv")}
+    assert (s.products, s.errors) == (3, 2)
+    assert rows["good"]["status"] == "ok" and rows["good"]["error"] == ""
+    assert rows["bad"]["status"] == "error" and "no rows of numbers found" in rows["bad"]["error"]
+    assert "binary file" in rows["binary"]["error"]
+
+
+def test_unexpected_exception_becomes_an_error_row(tmp_path):
+    p = B.Product("x", blue_led(tmp_path / "x.csv"), None, "x.csv")
+    with mock.patch.object(B, "assess_product", side_effect=ZeroDivisionError("boom")):
+        row = B.run_product(p, settings())
+    assert row["status"] == "error" and "internal error (ZeroDivisionError: boom)" in row["error"]
+
+
+# ---------------------------------------------------------------------------------------------
+# Output: neutralised CSV, JSON lines, order, resume, no overwriting
+# ---------------------------------------------------------------------------------------------
+
+def test_formulas_are_neutralised_in_csv_not_in_json(tmp_path):
+    d = tmp_path / "in"
+    d.mkdir()
+    blue_led(d / "=HYPERLINK(1).csv")
+    blue_led(d / "@SUM.csv")
+    B.run_batch(d, tmp_path / "s.csv", settings(), jobs=1)
+    raw = (tmp_path / "s.csv").read_bytes().decode("utf-8")
+    cells = list(csv.reader(io.StringIO(raw, newline="")))
+    ids = [c[0] for c in cells[1:]]
+    assert ids == ["'=HYPERLINK(1)", "'@SUM"]   # OWASP CSV injection: leading apostrophe
+    assert cells[0] == list(B.SUMMARY_COLUMNS) and raw.count("\r\n") == 3   # RFC 4180 CRLF
+    assert [r["product_id"] for r in read_jsonl(tmp_path / "s.jsonl")] == ["=HYPERLINK(1)", "@SUM"]
+
+
+def test_output_does_not_depend_on_the_number_of_processes(tmp_path):
+    d = tmp_path / "in"
+    d.mkdir()
+    for k in range(7):
+        blue_led(d / f"lamp{k}.csv", seed=k)
+    (d / "broken.csv").write_text("1,2\n", encoding="utf-8")
+    B.run_batch(d, tmp_path / "one.csv", settings(), jobs=1)
+    B.run_batch(d, tmp_path / "two.csv", settings(), jobs=2)
+    assert (tmp_path / "one.csv").read_bytes() == (tmp_path / "two.csv").read_bytes()
+    assert (tmp_path / "one.jsonl").read_bytes() == (tmp_path / "two.jsonl").read_bytes()
+    assert [r["product_id"] for r in read_jsonl(tmp_path / "one.jsonl")] == [
+        "broken"] + [f"lamp{k}" for k in range(7)]
+    assert not list(tmp_path.glob("*.part"))
+
+
+def test_existing_summary_is_not_replaced_without_force(tmp_path):
+    d = tmp_path / "in"
+    d.mkdir()
+    blue_led(d / "a.csv")
+    out = tmp_path / "s.csv"
+    out.write_text("precious", encoding="utf-8")
+    with pytest.raises(OutputExistsError, match="exists.*--resume.*--force"):
+        B.run_batch(d, out, settings(), jobs=1)
+    assert out.read_text(encoding="utf-8") == "precious"
+    with pytest.raises(UvcheckError, match="not both"):
+        B.run_batch(d, out, settings(), jobs=1, force=True, resume=True)
+    with pytest.raises(UvcheckError, match="does not end in .csv"):
+        B.run_batch(d, tmp_path / "s.txt", settings(), jobs=1)
+
+
+def test_resume_keeps_finished_rows_and_redoes_the_rest(tmp_path):
+    d = tmp_path / "in"
+    d.mkdir()
+    for k in range(4):
+        blue_led(d / f"l{k}.csv", seed=k)
+    (d / "l4.csv").write_text("broken\n", encoding="utf-8")
+    fresh = tmp_path / "fresh.csv"
+    B.run_batch(d, fresh, settings(), jobs=1)
+    # an interrupted run: two rows finished, the third cut short, nothing renamed yet
+    out = tmp_path / "s.csv"
+    lines = fresh.read_bytes().split(b"\r\n")
+    B.part_path(out).write_bytes(b"\r\n".join(lines[:3]) + b"\r\n" + lines[3][:20])
+    jl = (tmp_path / "fresh.jsonl").read_text(encoding="utf-8").splitlines(True)
+    B.part_path(B.jsonl_path(out)).write_text("".join(jl[:2]) + jl[2][:30], encoding="utf-8")
+    calls = []
+    real = B.run_product
+
+    def counting(p, s):
+        calls.append(p.product_id)
+        return real(p, s)
+
+    with mock.patch.object(B, "run_product", counting):
+        s = B.run_batch(d, out, settings(), jobs=1, resume=True)
+    assert calls == ["l2", "l3", "l4"] and s.kept == 2
+    assert out.read_bytes() == fresh.read_bytes()
+    assert B.jsonl_path(out).read_bytes() == (tmp_path / "fresh.jsonl").read_bytes()
+    # again: every ok row is kept, the error row is tried again (the file may be fixed now)
+    calls.clear()
+    with mock.patch.object(B, "run_product", counting):
+        B.run_batch(d, out, settings(), jobs=1, resume=True)
+    assert calls == ["l4"]
+
+
+def test_resume_redoes_a_row_whose_files_changed(tmp_path):
+    d = tmp_path / "in"
+    d.mkdir()
+    blue_led(d / "a.csv")
+    out = tmp_path / "s.csv"
+    B.run_batch(d, out, settings(), jobs=1)
+    (d / "a.toml").write_text((EXAMPLES / "listings" / "wand_395nm_sold_as_uvc.toml").read_text(
+        encoding="utf-8"), encoding="utf-8")
+    s = B.run_batch(d, out, settings(), jobs=1, resume=True)
+    assert s.kept == 0 and read_rows(out)[0]["listing_file"] == "a.toml"
+
+
+def test_resume_refuses_a_file_that_is_not_a_summary(tmp_path):
+    d = tmp_path / "in"
+    d.mkdir()
+    blue_led(d / "a.csv")
+    out = tmp_path / "s.csv"
+    out.write_text("name,value\nx,1\n", encoding="utf-8")
+    with pytest.raises(InputFormatError, match="not a uvcheck batch summary"):
+        B.run_batch(d, out, settings(), jobs=1, resume=True)
+    assert out.read_text(encoding="utf-8") == "name,value\nx,1\n"
+
+
+def test_ordered_map_keeps_order_and_bounds_work_in_flight():
+    consumed = []
+    lock = threading.Lock()
+
+    def jobs():
+        for k in range(40):
+            with lock:
+                consumed.append(k)
+            yield [k]
+
+    it = B.ordered_map(_square, jobs(), workers=2, window=3)
+    first = next(it)
+    # at most window x workers jobs were taken before the first result, plus its successor
+    assert first == [0] and len(consumed) <= 3 * 2 + 1
+    assert [r[0] for r in it] == [k * k for k in range(1, 40)]
+
+
+def _square(job):
+    return [job[0] * job[0]]
+
+
+# ---------------------------------------------------------------------------------------------
+# The command
+# ---------------------------------------------------------------------------------------------
+
+def test_command_with_manifest_notes_and_fail_on(tmp_path):
+    sp = tmp_path / "sp"
+    sp.mkdir()
+    flat_uvc(sp / "flat.csv")
+    m = tmp_path / "manifest.csv"
+    m.write_text("id,spectrum,listing,distance\n"
+                 f"wand,{EXAMPLES / 'spectra' / 'wand_395nm_led.csv'},"
+                 f"{EXAMPLES / 'listings' / 'wand_395nm_sold_as_uvc.toml'},10 cm\n"
+                 "flat,sp/flat.csv,,1 m\n", encoding="utf-8")
+    out = tmp_path / "summary.csv"
+    notes = tmp_path / "notes"
+    r = runner.invoke(app, ["batch", str(m), "--out", str(out), "--notes", str(notes),
+                            "--no-pdf", "--fail-on", "cannot-hold", "--jobs", "1"])
+    assert r.exit_code == 1, r.output          # the wand's claims cannot hold
+    assert "2 product(s): 2 ok, 0 error(s)" in r.output and "not certifications" in r.output
+    assert "\x1b[" not in r.output              # no progress bar when not on a terminal
+    rows = read_rows(out)
+    assert [x["product_id"] for x in rows] == ["wand", "flat"]
+    assert float(rows[1]["uvc_W_m2"]) == pytest.approx(0.08, rel=1e-6)  # analytic, see above
+    html = Path(rows[0]["note_path"])
+    assert html.parent == notes and html.name == "wand.html" and html.exists()
+    assert "<html" in html.read_text(encoding="utf-8").lower()
+    # a second run refuses to overwrite, and --resume keeps both rows
+    r = runner.invoke(app, ["batch", str(m), "--out", str(out), "--jobs", "1"])
+    assert r.exit_code == 2 and "--resume" in r.output
+    r = runner.invoke(app, ["batch", str(m), "--out", str(out), "--resume", "--notes",
+                            str(notes), "--no-pdf", "--jobs", "1"])
+    assert r.exit_code == 0 and "2 kept from the earlier run" in r.output
+
+
+def test_command_help_describes_the_manifest():
+    r = runner.invoke(app, ["batch", "--help"])
+    assert r.exit_code == 0
+    for word in ("manifest", "spectrum", "listing", "distance", "source_size", "--resume",
+                 "product_id", "worst_claim_ratio", "uncertainty"):
+        assert word in r.output
+
+
+def test_command_rejects_an_unknown_limit_set(tmp_path):
+    d = tmp_path / "in"
+    d.mkdir()
+    r = runner.invoke(app, ["batch", str(d), "--out", str(tmp_path / "s.csv"),
+                            "--limits", "nonsense"])
+    assert r.exit_code == 2 and "unknown limit set 'nonsense'" in r.output
+
+
+# ---------------------------------------------------------------------------------------------
+# Speed paths give exactly what the plain paths give
+# ---------------------------------------------------------------------------------------------
+
+DIALECTS = [
+    "Wavelength (nm),Irradiance (W/m2/nm)\n{rows}",
+    "# exported\nInstrument: invented\n\nnm;W/m2/nm\n{rows_semicolon_comma}",
+    "wl\tE (uW/cm2/nm)\r\n{rows_tab_crlf}",
+    "{rows}\nend of data\ntotal: 3\n",
+    "{rows}\n\n\n",
+    "Wavelength (nm),Irradiance (W/m2/nm)\n{rows_blank_inside}",
+    "Wavelength (nm),Irradiance (W/m2/nm)\n{rows_dot_in_comma}",
+]
+
+
+def _dialect_files(tmp_path: Path) -> list[Path]:
+    wl = np.arange(250.0, 300.0, 0.5)
+    v = gaussian(wl, 270.0, 3.0, 1e-2) + 1e-6
+    rows = [f"{a:.1f},{b:.6e}" for a, b in zip(wl, v)]
+    fill = {"rows": "\n".join(rows),
+            "rows_semicolon_comma": "\n".join(r.replace(",", ";").replace(".", ",") for r in rows),
+            "rows_tab_crlf": "\r\n".join(r.replace(",", "\t") for r in rows),
+            "rows_blank_inside": "\n".join(rows[:40] + ["", "   "] + rows[40:]),
+            "rows_dot_in_comma": "\n".join(rows[:30] + ["  -1.5e-3,2"] + rows[30:])}
+    out = []
+    for k, t in enumerate(DIALECTS):
+        p = tmp_path / f"d{k}.txt"
+        p.write_bytes(t.format(**fill).encode("utf-8"))
+        out.append(p)
+    p = tmp_path / "latin1.csv"
+    p.write_bytes(("Wavelength (nm);E (µW/cm²/nm)\n" + "\n".join(
+        r.replace(",", ";").replace(".", ",") for r in rows)).encode("cp1252"))
+    out.append(p)
+    p = tmp_path / "utf16.csv"
+    p.write_bytes(("Wavelength (nm)\tIrradiance (W/m2/nm)\n" + "\n".join(
+        r.replace(",", "\t") for r in rows)).encode("utf-16"))
+    out.append(p)
+    return out
+
+
+def test_reading_a_file_whole_equals_streaming_it(tmp_path):
+    from uvcheck.io import reader
+
+    def read(p):
+        try:
+            s, r = reader.read_spectrum(p)
+        except UvcheckError as exc:
+            return str(exc)
+        return s.wavelength_nm.tolist(), s.values.tolist(), r
+
+    outcomes = set()
+    for p in _dialect_files(tmp_path):
+        fast = read(p)
+        with mock.patch.object(reader, "decode_lines", lambda *a, **k: None):
+            slow = read(p)
+        assert fast == slow, p.name
+        outcomes.add(type(fast))
+    assert outcomes == {str, tuple}  # both read spectra and errors were compared
+
+
+def test_decode_lines_matches_text_mode_reading(tmp_path):
+    from uvcheck.io.textfile import Decoded, decode_lines, iter_lines
+
+    samples = [b"a\r\nb\rc\n\nd", b"", b"x\n", b"\xef\xbb\xbfbom\r\n", "µ²\n".encode("cp1252"),
+               "utf16\r\nz".encode("utf-16")]
+    encs = ["utf-8", "utf-8", "utf-8", "utf-8-sig", "cp1252", "utf-16"]
+    for k, (data, enc) in enumerate(zip(samples, encs)):
+        p = tmp_path / f"s{k}"
+        p.write_bytes(data)
+        dec = Decoded(enc, "test", False)
+        assert decode_lines(data, dec) == list(iter_lines(p, dec))
+    # undecodable text and a BOM-less "utf-16" are left to the streaming reader
+    assert decode_lines(b"\xff\xfe\x00", Decoded("utf-8", "t", False)) is None
+    assert decode_lines(b"a\x00b\x00", Decoded("utf-16", "t", False)) is None
+
+
+def test_median_is_numpys():
+    from uvcheck.spectrum import median
+
+    rng = np.random.default_rng(3)
+    for n in range(1, 60):
+        for a in (rng.normal(size=n), rng.choice([-0.0, 0.0, 2.0], size=n)):
+            m, r = median(a), float(np.median(a))
+            assert m == r and math.copysign(1, m) == math.copysign(1, r)
+    assert math.isnan(median([1.0, float("nan"), 2.0]))
+
+
+def test_quantile_is_numpys():
+    from uvcheck.spectrum import quantile
+
+    rng = np.random.default_rng(4)
+    for n in range(1, 50):
+        for a in (rng.normal(size=n), rng.choice([-0.0, 0.0, 1.5, np.inf], size=n)):
+            for q in (0.1, 0.25, 0.5, 0.75, 1.0):
+                with np.errstate(all="ignore"):  # inf - inf: both warn alike
+                    m, r = quantile(a, q), float(np.quantile(a, q))
+                assert (m == r and math.copysign(1, m) == math.copysign(1, r)) or (
+                    math.isnan(m) and math.isnan(r)), (n, q)
+    assert math.isnan(quantile([1.0, float("nan")], 0.25))
+
+
+def test_assessing_without_uncertainty_does_not_import_numpy_ma():
+    # numpy.median, numpy.quantile and numpy.unique import numpy.ma (about 20 ms) on first use
+    import subprocess
+    import sys
+
+    code = ("import sys; from uvcheck.io.reader import read_spectrum; "
+            "from uvcheck.assessment import assess, AssessOptions; "
+            "s, r = read_spectrum(sys.argv[1]); "
+            "assess(s, None, r, AssessOptions(uncertainty=False)).to_dict(); "
+            "print('numpy.ma' in sys.modules)")
+    out = subprocess.run([sys.executable, "-c", code, str(EXAMPLES / "spectra" / "wand_395nm_led.csv")],
+                         capture_output=True, text=True, check=True).stdout
+    assert out.strip() == "False"
+
+
+def _find_lines_loop(spectrum, min_snr=5.0, min_relative=0.01, max_lines=20):
+    """The candidate loop find_lines had before it was vectorised (issue 8), kept here as
+    the reference the vectorised version must reproduce exactly."""
+    from uvcheck.features import DetectedLine, _identify
+
+    wl, v = spectrum.wavelength_nm, spectrum.values
+    if wl.size < 5 or not np.any(v > 0):
+        return []
+    vmax = float(v.max())
+    sigma = spectrum.noise_floor or 0.0
+    thr = max(min_snr * sigma, min_relative * vmax)
+    cand = np.where((v[1:-1] >= v[:-2]) & (v[1:-1] > v[2:]))[0] + 1
+    cand = cand[v[cand] - float(v.min()) >= thr]
+    found = []
+    for i in cand:
+        lo = int(np.searchsorted(wl, wl[i] - 20.0))
+        hi = int(np.searchsorted(wl, wl[i] + 20.0, side="right"))
+        base = max(float(v[lo:i + 1].min()), float(v[i:hi].min()))
+        prom = float(v[i] - base)
+        if prom < thr:
+            continue
+        y0, y1, y2 = v[i - 1], v[i], v[i + 1]
+        den = y0 - 2 * y1 + y2
+        shift = 0.5 * (y0 - y2) / den if den != 0 else 0.0
+        pos = float(wl[i] + shift * (wl[i + 1] - wl[i - 1]) / 2)
+        step = float(wl[min(i + 1, wl.size - 1)] - wl[i - 1]) / 2
+        found.append(DetectedLine(pos, prom, _fwhm_loop(wl, v, int(i)),
+                                  prom / sigma if sigma > 0 else None,
+                                  _identify(pos, max(1.0, 1.5 * step))))
+    found.sort(key=lambda d: -d.height)
+    return sorted(found[:max_lines], key=lambda d: d.wavelength_nm)
+
+
+def _fwhm_loop(wl, v, i):
+    half = v[i] / 2.0
+    if not half > 0:
+        return None
+    j = i
+    while j > 0 and v[j] > half:
+        j -= 1
+    if v[j] > half:
+        return None
+    k = i
+    while k < v.size - 1 and v[k] > half:
+        k += 1
+    if v[k] > half:
+        return None
+    left = wl[j] + (half - v[j]) * (wl[j + 1] - wl[j]) / (v[j + 1] - v[j]) if v[j + 1] != v[j] else wl[j]
+    right = wl[k - 1] + (v[k - 1] - half) * (wl[k] - wl[k - 1]) / (v[k - 1] - v[k]) if v[k - 1] != v[k] else wl[k]
+    return float(right - left)
+
+
+def test_vectorised_find_lines_equals_the_loop():
+    from uvcheck.features import _fwhm, find_lines
+    from uvcheck.spectrum import Spectrum
+
+    rng = np.random.default_rng(8)
+    for t in range(300):
+        n = int(rng.integers(5, 600))
+        wl = np.unique(np.sort(rng.uniform(200, 1100, n)) if t % 2 else
+                       np.linspace(200, 200 + rng.uniform(10, 900), n))
+        if wl.size < 5:
+            continue
+        v = np.zeros(wl.size)
+        for _ in range(int(rng.integers(0, 4))):
+            v += gaussian(wl, rng.uniform(200, 1100), rng.uniform(0.2, 50), 10 ** rng.uniform(-3, 0))
+        v += rng.normal(0, 10 ** rng.uniform(-7, -3), wl.size) * (t % 5 != 0)
+        if t % 7 == 0:
+            v = np.round(v, 3)  # plateaus and ties
+        s = Spectrum(wl, v, "irradiance", noise_floor=None if t % 3 else 1e-5)
+        assert find_lines(s) == _find_lines_loop(s), t
+        i = int(np.argmax(v))
+        assert _fwhm(wl, v, i) == _fwhm_loop(wl, v, i), t
+
+
+def test_integrals_are_the_same_from_the_caches():
+    from uvcheck import spectrum as S
+    from uvcheck.weighting import get_weighting
+
+    wl = np.arange(200.0, 500.0, 0.7)
+    a = S.Spectrum(wl, gaussian(wl, 300.0, 20.0, 1.0), "irradiance", noise_floor=1e-4)
+    b = S.Spectrum(wl, gaussian(wl, 310.0, 5.0, 2.0), "irradiance", noise_floor=1e-4)
+    w = get_weighting("S_actinic")
+    S._COEF_CACHE.clear()
+    cold = [S.integrate(x, 200.0, 400.0, w) for x in (a, b)]
+    S._COEF_CACHE.clear()
+    for x in (a, b):
+        x.__dict__.pop("_integrals", None)
+    S.integrate(a, 200.0, 400.0, w)                  # fills the grid cache
+    warm = [S.integrate(x, 200.0, 400.0, w) for x in (a, b)]   # b: grid cache; a: its own
+    assert warm == cold
+    # a weight that is not a tabulated Weighting is never cached
+    f = lambda x: np.ones_like(x)  # noqa: E731
+    assert S.integrate(a, 250.0, 260.0, f).value == S.integrate(a, 250.0, 260.0).value
+    assert all(k[3] is not f for k in S._COEF_CACHE)
+
+
+def test_weighting_at_equals_calling_it():
+    from uvcheck.weighting import get_weighting
+
+    for wid in ("S_actinic", "B_blue", "R_thermal"):
+        w = get_weighting(wid)
+        for x in (180.0, 253.7, 270.0, 299.99, 405.0, 1e4):
+            assert w.at(x) == float(w(np.array([x]))[0]) == w.at(x)
+
+
+def test_remembered_unit_errors_name_the_callers_place():
+    from uvcheck.units import parse_spectral_unit
+
+    for where in ("a.csv line 1", "b.csv line 9", None):
+        with pytest.raises(UnitError) as e:
+            parse_spectral_unit("furlongs per fortnight", where)
+        assert e.value.where == (where or "unit")
+    assert parse_spectral_unit("uW/cm2/nm") is parse_spectral_unit("uW/cm2/nm")
+
+
+def _read_both(tmp: Path, data: bytes) -> None:
+    """Read ``data`` held whole and streamed; both must give the same spectrum, report and
+    error (the same message)."""
+    from uvcheck.io import reader
+
+    p = tmp / "case.csv"
+    p.write_bytes(data)
+
+    def read():
+        try:
+            s, r = reader.read_spectrum(p)
+        except UvcheckError as exc:
+            return str(exc)
+        return s.wavelength_nm.tobytes(), s.values.tobytes(), s.noise_floor, r
+
+    fast = read()
+    with mock.patch.object(reader, "decode_lines", lambda *a, **k: None):
+        assert read() == fast
+
+
+def test_whole_file_reading_equals_streaming_on_generated_files(tmp_path_factory):
+    # the generated tables and damaged files of the reader's fuzz tests (tests/test_fuzz_reader.py)
+    from hypothesis import given, settings as hsettings
+    from hypothesis import strategies as st
+
+    import test_fuzz_reader as fz
+
+    tmp = tmp_path_factory.mktemp("whole")
+
+    @hsettings(max_examples=150, database=None, **fz.COMMON)
+    @given(st.one_of(fz.table_file(), fz.mutated_file()))
+    def check(data):
+        _read_both(tmp, data)
+
+    check()

@@ -1,0 +1,713 @@
+"""Batch screening: a folder of spectra and listings, or a manifest, in one run.
+
+``run_batch(source, out, settings) -> BatchSummary`` assesses every product of a folder or a
+manifest and writes one summary row per product to a CSV file (cells a spreadsheet would read
+as formulas neutralised, :mod:`uvcheck.report.csvout`) and the same rows as JSON lines beside
+it (``summary.csv`` -> ``summary.jsonl``).
+
+How a product is assessed: exactly as ``uvcheck assess SPECTRUM --claims LISTING`` does
+(:func:`assess_product`: the same reader, scaling, conditions and :func:`uvcheck.assessment.assess`
+calls), or, for a listing without a spectrum, as ``uvcheck screen LISTING`` does. The summary
+row is read from ``Assessment.to_dict()`` made strict JSON (:func:`uvcheck.report.jsonout.clean`),
+so its numbers are the numbers ``assess --json`` writes (:func:`summary_row`). The Monte Carlo
+uncertainty evaluation is off unless asked for (``BatchSettings.uncertainty``); a listing
+screening runs as ``uvcheck screen`` runs it.
+
+Products
+--------
+A *folder*: every spectrum file in it (``.csv``, ``.tsv``, ``.txt``, ``.dat``, ``.asc``; not
+in subfolders; hidden files and the batch's own outputs left out) and every listing
+(``.toml``), paired by file stem: ``lamp7.csv`` with ``lamp7.toml``. A stem with a listing
+only is a listing screening; two spectrum files with one stem make an error row. Products
+are taken in the order of their stems (sorted by code point, so on every system alike).
+
+A *manifest*: a CSV file (comma, semicolon or tab; UTF-8, with or without byte-order mark)
+with a header row naming its columns (:data:`MANIFEST_COLUMNS`); ``#`` lines and blank lines
+are skipped; paths are relative to the manifest's folder; an empty cell leaves the batch
+option in force. Products are taken in the manifest's order. An unknown column or a repeated
+product id is an error for the whole manifest (exit status 2, nothing written); a missing or
+unreadable file is an error row for that product only.
+
+Running
+-------
+Products are assessed on every core (a process pool; ``BatchSettings.jobs``), in chunks,
+with at most a few chunks in flight, and the rows are written in product order as they
+arrive: the output does not depend on the number of processes, and memory does not grow
+with the number of products. A product that cannot be assessed gets an error row (what is
+wrong, where, what to do) and the batch goes on. Rows are written to ``<summary>.part`` and
+``<jsonl>.part`` as they come and renamed over the targets at the end; ``resume`` keeps the
+rows with status ``ok`` of an earlier run (finished or interrupted) whose product id and
+files are unchanged, and assesses the others again.
+
+A screening assessment, not a certification: each row is what the tool's screening of that
+product found; exposure decisions defer to local codes and licensed practice.
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import json
+import os
+import re
+from collections import deque
+from dataclasses import dataclass, field, replace
+from pathlib import Path
+from typing import Any, Callable, Iterable, Iterator, Mapping, Sequence
+
+from uvcheck.errors import ConfigurationError, InputFormatError, OutputExistsError, UvcheckError
+
+#: Summary columns, in this order (our own names). ``uvc_W_m2`` is the UV-C (200–280 nm)
+#: irradiance where the spectrum is an irradiance and the value is established; its status
+#: says why it is empty otherwise (``below-detection``, ``likely-stray-light``,
+#: ``not-covered``, ``shape-only``, …): an empty cell is never a zero. ``origin`` is
+#: ``measured``, or ``nominal`` for a listing screened without a spectrum (every figure of
+#: such a row is an ESTIMATE from the stated data).
+SUMMARY_COLUMNS = (
+    "product_id", "spectrum_file", "listing_file", "status", "error",
+    "peak_nm", "uvc_W_m2", "uvc_status",
+    "risk_group", "risk_group_is_lower_bound", "governing_hazard",
+    "claims_holds", "claims_unlikely", "claims_cannot_hold", "claims_not_assessable",
+    "worst_claim_id", "worst_claim_verdict", "worst_claim_ratio",
+    "note_path", "origin",
+)
+
+#: Manifest columns: ``spectrum`` and/or ``listing`` name the files; ``id`` the product (default:
+#: the spectrum's file stem, else the listing's); the others are per-product options with the
+#: meaning of the ``uvcheck assess`` options of the same name.
+MANIFEST_COLUMNS = ("id", "spectrum", "listing", "distance", "source_size", "use_distance",
+                    "exposure_time", "electrical_power", "general_lighting", "scale_band",
+                    "scale_lux", "scale_total", "unit", "column", "wavelength_unit")
+
+#: The per-product options (manifest columns that are not files or ids).
+OPTION_KEYS = MANIFEST_COLUMNS[3:]
+
+SPECTRUM_SUFFIXES = (".csv", ".tsv", ".txt", ".dat", ".asc")
+LISTING_SUFFIXES = (".toml",)
+
+#: Verdicts from best to worst (the order ``--fail-on`` uses).
+VERDICT_ORDER = ("holds", "not-assessable", "unlikely", "cannot-hold")
+_COUNT_COLUMNS = {"holds": "claims_holds", "unlikely": "claims_unlikely",
+                  "cannot-hold": "claims_cannot_hold", "not-assessable": "claims_not_assessable"}
+
+_TRUE = {"yes", "true", "1", "y", "on"}
+_FALSE = {"no", "false", "0", "n", "off", ""}
+
+
+# ---------------------------------------------------------------------------------------------
+# Products
+# ---------------------------------------------------------------------------------------------
+
+@dataclass(frozen=True)
+class Product:
+    """One row of the batch: a spectrum, a listing, or both, with per-product options.
+
+    product_id : the id in the summary (file stem or manifest ``id``).
+    spectrum, listing : the files (absolute or relative to the working folder), or None.
+    spectrum_label, listing_label : the files as the summary shows them (relative to the
+        folder or manifest, so the summary does not depend on where it was run).
+    options : per-product options (keys of :data:`OPTION_KEYS`), as text.
+    problem : set when the product cannot be assessed as it stands (e.g. two spectrum files
+        for one stem); it becomes an error row.
+    note : the note to write for this product (HTML), or None.
+    """
+
+    product_id: str
+    spectrum: Path | None
+    listing: Path | None
+    spectrum_label: str = ""
+    listing_label: str = ""
+    options: Mapping[str, str] = field(default_factory=dict)
+    problem: str | None = None
+    note: Path | None = None
+
+
+def scan_folder(folder: Path, exclude: Iterable[Path] = ()) -> list[Product]:
+    """Products of a folder: spectra and listings paired by file stem (see the module notes).
+
+    exclude : files to leave out (the batch's own outputs).
+    """
+    folder = Path(folder)
+    skip = {_same(p) for p in exclude}
+    spectra: dict[str, list[Path]] = {}
+    listings: dict[str, list[Path]] = {}
+    for p in sorted(folder.iterdir(), key=lambda q: q.name):
+        if p.name.startswith(".") or not p.is_file() or _same(p) in skip:
+            continue
+        suffix = p.suffix.lower()
+        if suffix in SPECTRUM_SUFFIXES:
+            spectra.setdefault(p.stem, []).append(p)
+        elif suffix in LISTING_SUFFIXES:
+            listings.setdefault(p.stem, []).append(p)
+    out = []
+    for stem in sorted(set(spectra) | set(listings)):
+        sp, ls = spectra.get(stem, []), listings.get(stem, [])
+        problem = None
+        if len(sp) > 1:
+            problem = (f"{len(sp)} spectrum files share the name {stem!r} "
+                       f"({', '.join(q.name for q in sp)}): rename one, or give a manifest")
+        out.append(Product(product_id=stem, spectrum=sp[0] if sp else None,
+                           listing=ls[0] if ls else None,
+                           spectrum_label=", ".join(q.name for q in sp),
+                           listing_label=ls[0].name if ls else "", problem=problem))
+    return out
+
+
+def read_manifest(path: Path) -> list[Product]:
+    """Products of a manifest file (the format is in the module notes and ``uvcheck batch
+    --help``). Raises :class:`InputFormatError` naming the line for a manifest that cannot be
+    read as a whole (no header, an unknown column, a repeated id)."""
+    path = Path(path)
+    where = str(path)
+    try:
+        text = path.read_bytes().decode("utf-8-sig")
+    except FileNotFoundError:
+        raise InputFormatError("manifest not found", where, "check the path") from None
+    except UnicodeDecodeError as exc:
+        raise InputFormatError(f"the manifest is not UTF-8 text ({exc.reason})", where,
+                               "save it as UTF-8 CSV") from None
+    lines = [(k + 1, ln) for k, ln in enumerate(text.splitlines())
+             if ln.strip() and not ln.lstrip().startswith("#")]
+    if not lines:
+        raise InputFormatError("the manifest is empty", where,
+                               "write a header row, e.g. 'spectrum,listing,distance'")
+    head_no, head = lines[0]
+    delim = max((",", ";", "\t"), key=head.count)
+    rows = list(csv.reader([ln for _, ln in lines], delimiter=delim))
+    names = [c.strip().lower().replace(" ", "_").replace("-", "_") for c in rows[0]]
+    unknown = [n for n in names if n not in MANIFEST_COLUMNS]
+    if unknown:
+        raise InputFormatError(f"unknown manifest column {unknown[0]!r}", f"{where} line {head_no}",
+                               f"the columns are: {', '.join(MANIFEST_COLUMNS)}")
+    if "spectrum" not in names and "listing" not in names:
+        raise InputFormatError("the manifest has neither a 'spectrum' nor a 'listing' column",
+                               f"{where} line {head_no}", "name the files in those columns")
+    if len(set(names)) != len(names):
+        dup = next(n for n in names if names.count(n) > 1)
+        raise InputFormatError(f"the manifest names the column {dup!r} twice",
+                               f"{where} line {head_no}")
+    base = path.parent
+    out: list[Product] = []
+    seen: dict[str, int] = {}
+    for (line_no, _), cells in zip(lines[1:], rows[1:]):
+        if len(cells) > len(names) and any(c.strip() for c in cells[len(names):]):
+            raise InputFormatError(f"{len(cells)} cells but {len(names)} columns",
+                                   f"{where} line {line_no}", "check the delimiters in this row")
+        row = {n: (cells[k].strip() if k < len(cells) else "") for k, n in enumerate(names)}
+        sp, ls = row.get("spectrum", ""), row.get("listing", "")
+        pid = row.get("id", "") or (Path(sp).stem if sp else Path(ls).stem if ls else "")
+        problem = None
+        if not sp and not ls:
+            problem = "the row names neither a spectrum nor a listing"
+            pid = pid or f"line {line_no}"
+        if pid in seen:
+            raise InputFormatError(f"product id {pid!r} appears twice (lines {seen[pid]} and "
+                                   f"{line_no})", f"{where} line {line_no}",
+                                   "give each row its own 'id'")
+        seen[pid] = line_no
+        gl = row.get("general_lighting", "").lower()
+        if gl not in _TRUE | _FALSE:
+            problem = problem or (f"general_lighting {row['general_lighting']!r} (line {line_no}) "
+                                  "is not yes or no")
+        opts = {k: row[k] for k in OPTION_KEYS if row.get(k)}
+        out.append(Product(product_id=pid, spectrum=(base / sp) if sp else None,
+                           listing=(base / ls) if ls else None, spectrum_label=sp,
+                           listing_label=ls, options=opts, problem=problem))
+    return out
+
+
+def products_from(source: Path, exclude: Iterable[Path] = ()) -> list[Product]:
+    """The products of a folder or of a manifest file."""
+    source = Path(source)
+    if source.is_dir():
+        return scan_folder(source, exclude)
+    if not source.exists():
+        raise InputFormatError("no such folder or manifest", str(source), "check the path")
+    return read_manifest(source)
+
+
+def assign_notes(products: list[Product], folder: Path) -> list[Product]:
+    """Give each product a note file ``<folder>/<id>.html`` (file-name-safe and unique)."""
+    used: set[str] = set()
+    out = []
+    for p in products:
+        base = _safe_name(p.product_id) or "product"
+        name, k = base, 1
+        while name.lower() in used:
+            k += 1
+            name = f"{base}-{k}"
+        used.add(name.lower())
+        out.append(replace(p, note=Path(folder) / f"{name}.html"))
+    return out
+
+
+def _safe_name(text: str) -> str:
+    """A file name from a product id: path separators, characters Windows forbids and
+    control characters become '_'."""
+    s = re.sub(r'[\x00-\x1f<>:"/\\|?*]', "_", text).strip().strip(".")
+    return s[:120]
+
+
+def _same(p: Path) -> str:
+    try:
+        return str(Path(p).resolve())
+    except OSError:
+        return str(Path(p).absolute())
+
+
+# ---------------------------------------------------------------------------------------------
+# One product
+# ---------------------------------------------------------------------------------------------
+
+@dataclass(frozen=True)
+class BatchSettings:
+    """Options that hold for every product (a manifest cell overrides the per-product ones).
+
+    defaults : per-product options (keys of :data:`OPTION_KEYS`) from the command line.
+    limits : exposure-limit set id.
+    uncertainty : run the Monte Carlo uncertainty evaluation (slow; off by default).
+    pdf : write a PDF beside each HTML note.
+    force_notes : replace existing notes.
+    """
+
+    defaults: Mapping[str, str] = field(default_factory=dict)
+    limits: str = "iec62471_2006"
+    uncertainty: bool = False
+    pdf: bool = True
+    force_notes: bool = False
+
+
+def assess_product(product: Product, settings: BatchSettings) -> tuple[dict[str, Any], Any]:
+    """(``Assessment.to_dict()``, the spectrum) for one product, by the calls ``uvcheck
+    assess`` makes (``uvcheck screen`` for a listing without a spectrum). The dict is as
+    ``to_dict`` gives it; :func:`uvcheck.report.jsonout.clean` makes it the strict JSON that
+    ``assess --json`` writes (:func:`summary_row` cleans the values it takes)."""
+    from uvcheck.assessment import AssessOptions, assess
+    from uvcheck.cli import _length, apply_scaling, conditions_from_options, read_options
+
+    if product.problem:
+        raise ConfigurationError(product.problem)
+    o = {**settings.defaults, **product.options}
+    if sum(bool(o.get(k)) for k in ("scale_band", "scale_lux", "scale_total")) > 1:
+        raise ConfigurationError("give only one of scale_band, scale_lux, scale_total")
+    listing = None
+    if product.listing is not None:
+        from uvcheck.io.listing import read_listing
+
+        listing = read_listing(product.listing)
+    if product.spectrum is None:
+        from uvcheck.screening import screen_listing_file
+
+        a = screen_listing_file(listing, limit_set=settings.limits)
+        return a.to_dict(), a.spectrum
+    from uvcheck.io.reader import read_spectrum
+
+    opts = read_options(None, None, None, o.get("column"), None, o.get("wavelength_unit"),
+                        o.get("unit"), None, None)
+    spec, report = read_spectrum(product.spectrum, opts)
+    spec = apply_scaling(spec, o.get("scale_band"), o.get("scale_lux"), o.get("scale_total"))
+    d0 = _length(o["distance"], "distance") if o.get("distance") else report.measurement_distance_m
+    gl = str(o.get("general_lighting", "")).lower() in _TRUE
+    cond = conditions_from_options(d0, o.get("source_size"), None, o.get("use_distance"), gl,
+                                   o.get("exposure_time") or "8 h", listing=listing,
+                                   electrical_power=o.get("electrical_power"))
+    options = AssessOptions(limit_set=settings.limits, uncertainty=settings.uncertainty)
+    return assess(spec, cond, report, options, listing=listing).to_dict(), spec
+
+
+def summary_row(product: Product, result: Mapping[str, Any] | None, error: str | None = None,
+                note: str | None = None) -> dict[str, Any]:
+    """The summary row of one product, from its ``Assessment.to_dict()`` (None for an error
+    row). Keys: :data:`SUMMARY_COLUMNS`. Every value goes through
+    :func:`uvcheck.report.jsonout.clean`, so a number in the row is the number ``uvcheck
+    assess --json`` writes (rounded the same way), whether or not the dict was cleaned first.
+
+    Examples
+    --------
+    >>> p = Product("lamp 1", None, None, "lamp 1.csv")
+    >>> r = summary_row(p, None, error="lamp 1.csv: file not found. Check the path.")
+    >>> r["status"], r["error"][:10], r["peak_nm"]
+    ('error', 'lamp 1.csv', None)
+    """
+    from uvcheck.report.jsonout import clean
+
+    row: dict[str, Any] = dict.fromkeys(SUMMARY_COLUMNS)
+    row.update(product_id=product.product_id, spectrum_file=product.spectrum_label or None,
+               listing_file=product.listing_label or None, note_path=note)
+    if result is None:
+        row.update(status="error", error=error or "unknown error")
+        return row
+    _fill(row, result)
+    return {k: clean(v) for k, v in row.items()}
+
+
+def _fill(row: dict[str, Any], result: Mapping[str, Any]) -> None:
+    row["status"] = "ok"
+    row["origin"] = (result.get("input") or {}).get("origin")
+    spectral = result.get("spectral") or {}
+    row["peak_nm"] = spectral.get("peak_nm")
+    uvc = (result.get("germicidal") or {}).get("uvc") or {}
+    row["uvc_W_m2"] = uvc.get("value") if uvc.get("unit") == "W m-2" else None
+    row["uvc_status"] = uvc.get("status")
+    rg = result.get("risk_group") or {}
+    row["risk_group"] = rg.get("group")
+    row["risk_group_is_lower_bound"] = rg.get("is_lower_bound")
+    row["governing_hazard"] = rg.get("governing")
+    claims = result.get("claims")
+    if claims is not None:
+        counts = (result.get("claims_summary") or {}).get("counts") or {}
+        for verdict, col in _COUNT_COLUMNS.items():
+            row[col] = int(counts.get(verdict, sum(c.get("verdict") == verdict for c in claims)))
+        worst = worst_claim(claims)
+        if worst is not None:
+            row["worst_claim_id"] = worst.get("id")
+            row["worst_claim_verdict"] = worst.get("verdict")
+            row["worst_claim_ratio"] = worst.get("ratio")
+
+
+def worst_claim(claims: Sequence[Mapping[str, Any]]) -> Mapping[str, Any] | None:
+    """The claim with the worst verdict (cannot-hold, then unlikely, not-assessable, holds);
+    among those, the smallest ratio of available to needed (a claim without a ratio after
+    those with one), then the first listed.
+
+    Examples
+    --------
+    >>> worst_claim([{"id": "a", "verdict": "unlikely", "ratio": 0.6},
+    ...              {"id": "b", "verdict": "cannot-hold", "ratio": None},
+    ...              {"id": "c", "verdict": "cannot-hold", "ratio": 0.01}])["id"]
+    'c'
+    """
+    best = None
+    best_key = None
+    for k, c in enumerate(claims):
+        sev = VERDICT_ORDER.index(c["verdict"]) if c.get("verdict") in VERDICT_ORDER else 0
+        r = c.get("ratio")
+        key = (-sev, 0 if isinstance(r, (int, float)) else 1,
+               r if isinstance(r, (int, float)) else 0.0, k)
+        if best_key is None or key < best_key:
+            best, best_key = c, key
+    return best
+
+
+def run_product(product: Product, settings: BatchSettings) -> dict[str, Any]:
+    """Assess one product and return its summary row; any failure becomes an error row."""
+    try:
+        result, spec = assess_product(product, settings)
+        note = None
+        if product.note is not None:
+            from uvcheck.cli_note import write_note
+            from uvcheck.report.jsonout import clean
+
+            result = clean(result)  # the notes are rendered from strict JSON (as note_result's)
+            html_path, _, _ = write_note(result, spec, product.note, pdf=settings.pdf,
+                                         force=settings.force_notes,
+                                         salt=product.product_id)
+            note = str(html_path)
+        return summary_row(product, result, note=note)
+    except UvcheckError as exc:
+        return summary_row(product, None, error=exc.one_line())
+    except (OSError, MemoryError, RecursionError) as exc:
+        return summary_row(product, None, error=f"{type(exc).__name__}: {exc}")
+    except Exception as exc:  # a bug must not stop a batch of thousands; the row says so
+        return summary_row(product, None, error=f"internal error ({type(exc).__name__}: "
+                           f"{exc}); please report it with the file")
+
+
+def _run_chunk(job: tuple[list[Product], BatchSettings]) -> list[dict[str, Any]]:
+    products, settings = job
+    return [run_product(p, settings) for p in products]
+
+
+# ---------------------------------------------------------------------------------------------
+# Running many: processes, order, memory
+# ---------------------------------------------------------------------------------------------
+
+def default_jobs() -> int:
+    """The number of cores this process may use."""
+    try:
+        return max(1, len(os.sched_getaffinity(0)))
+    except (AttributeError, OSError):
+        return max(1, os.cpu_count() or 1)
+
+
+def warm_up(settings: BatchSettings) -> None:
+    """Import the science modules and load the reference tables (once per process); with
+    the fork start method the workers inherit them."""
+    import numpy.ma  # noqa: F401  (numpy.quantile and numpy.unique import it on first use)
+
+    from uvcheck import assessment, claims, screening  # noqa: F401
+    from uvcheck.germicidal import ACTION_SPECTRA, VIOLET_BLUE_ID, action_spectrum, technologies
+    from uvcheck.features import known_lines
+    from uvcheck.inactivation import organisms
+    from uvcheck.io import listing, reader  # noqa: F401
+    from uvcheck.limits import get_limit_set
+    from uvcheck.photometry import _locus, cmfs, v_lambda
+    from uvcheck.report import jsonout  # noqa: F401
+
+    lset = get_limit_set(settings.limits)
+    for e in lset.entries.values():
+        e.weight()
+    for a in ACTION_SPECTRA + (VIOLET_BLUE_ID,):
+        action_spectrum(a)
+    technologies(), known_lines(), organisms(), v_lambda(), cmfs(), _locus()
+
+
+def _worker_start() -> None:
+    """In each worker: what it inherited lives as long as the process, so keep it out of the
+    cyclic collector's scans (``gc.freeze`` moves it aside at once, touching no object)."""
+    import gc
+
+    gc.freeze()
+
+
+def ordered_map(fn: Callable[[Any], list[Any]], jobs: Iterable[Any], workers: int,
+                window: int = 4) -> Iterator[list[Any]]:
+    """``fn`` over ``jobs`` on ``workers`` processes, results in job order, with at most
+    ``window × workers`` jobs in flight (so memory stays flat however many jobs there are).
+    One process: in this process, no pool."""
+    if workers <= 1:
+        for j in jobs:
+            yield fn(j)
+        return
+    import concurrent.futures as cf
+    import multiprocessing as mp
+
+    # fork: the workers start with the modules and tables this process has loaded
+    ctx = mp.get_context("fork") if "fork" in mp.get_all_start_methods() else None
+    it = iter(jobs)
+    ex = cf.ProcessPoolExecutor(max_workers=workers, mp_context=ctx, initializer=_worker_start)
+    finished = False
+    try:
+        pending: deque[cf.Future] = deque()
+        for j in it:
+            pending.append(ex.submit(fn, j))
+            if len(pending) >= window * workers:
+                break
+        while pending:
+            done = pending.popleft().result()
+            nxt = next(it, None)
+            if nxt is not None:
+                pending.append(ex.submit(fn, nxt))
+            yield done
+        finished = True
+    finally:
+        # on an interruption or an error, do not wait for the chunks still in flight
+        ex.shutdown(wait=finished, cancel_futures=not finished)
+
+
+def _chunks(items: Sequence[Any], size: int) -> Iterator[list[Any]]:
+    for k in range(0, len(items), size):
+        yield list(items[k:k + size])
+
+
+# ---------------------------------------------------------------------------------------------
+# Output: CSV and JSON lines, streamed, resumable
+# ---------------------------------------------------------------------------------------------
+
+def jsonl_path(out_csv: Path) -> Path:
+    """The JSON-lines file beside the summary: ``summary.csv`` -> ``summary.jsonl``."""
+    return Path(out_csv).with_suffix(".jsonl")
+
+
+def part_path(path: Path) -> Path:
+    """Where rows go while the batch runs (renamed over ``path`` at the end)."""
+    return Path(path).with_name(Path(path).name + ".part")
+
+
+def row_cells(row: Mapping[str, Any]) -> list[Any]:
+    return [row.get(c) for c in SUMMARY_COLUMNS]
+
+
+def json_line(row: Mapping[str, Any]) -> str:
+    """One JSON line (strict JSON, keys in :data:`SUMMARY_COLUMNS` order)."""
+    return json.dumps({c: row.get(c) for c in SUMMARY_COLUMNS}, ensure_ascii=False,
+                      allow_nan=False, separators=(",", ":")) + "\n"
+
+
+@dataclass
+class _Previous:
+    """Rows of an earlier run that ``resume`` may keep: CSV cells (text as written) and the
+    JSON line, by product id."""
+
+    csv: dict[str, list[str]] = field(default_factory=dict)
+    jsonl: dict[str, str] = field(default_factory=dict)
+
+    def keep(self, p: Product) -> tuple[list[str], str] | None:
+        cells = self.csv.get(p.product_id)
+        line = self.jsonl.get(p.product_id)
+        if cells is None or line is None:
+            return None
+        d = dict(zip(SUMMARY_COLUMNS, cells))
+        if (d.get("status") != "ok" or d.get("spectrum_file", "") != p.spectrum_label
+                or d.get("listing_file", "") != p.listing_label):
+            return None
+        if p.note is not None and not d.get("note_path"):
+            return None  # notes are asked for now, and that row has none
+        return cells, line
+
+
+def read_previous(out_csv: Path) -> _Previous:
+    """The rows of an earlier run: the finished summary and any rows of an interrupted one
+    (``.part``); a row cut short by the interruption is left out."""
+    prev = _Previous()
+    for path in (Path(out_csv), part_path(out_csv)):
+        if not path.is_file():
+            continue
+        text = path.read_bytes().decode("utf-8-sig", errors="replace")
+        complete = text if text.endswith("\n") else text[:text.rfind("\n") + 1]
+        rows = list(csv.reader(io.StringIO(complete, newline="")))
+        if not rows or tuple(rows[0]) != SUMMARY_COLUMNS:
+            raise InputFormatError("this is not a uvcheck batch summary (unexpected header)",
+                                   str(path), "give another --out, or leave out --resume")
+        for cells in rows[1:]:
+            if len(cells) == len(SUMMARY_COLUMNS):
+                prev.csv[_unneutralised(cells[0])] = cells
+    for path in (jsonl_path(out_csv), part_path(jsonl_path(out_csv))):
+        if not path.is_file():
+            continue
+        for line in path.read_text(encoding="utf-8", errors="replace").splitlines(True):
+            if not line.endswith("\n"):
+                continue  # cut short
+            try:
+                rec = json.loads(line)
+            except ValueError:
+                continue
+            if isinstance(rec, dict) and isinstance(rec.get("product_id"), str):
+                prev.jsonl[rec["product_id"]] = line
+    return prev
+
+
+def _unneutralised(cell: str) -> str:
+    """The text of a summary cell before formula neutralisation (the product id)."""
+    from uvcheck.report.csvout import neutralise
+
+    if cell.startswith("'") and neutralise(cell[1:]) == cell:
+        return cell[1:]
+    return cell
+
+
+@dataclass(frozen=True)
+class BatchSummary:
+    """What a batch did: rows written, how many were kept from an earlier run, errors, and
+    the files."""
+
+    products: int
+    kept: int
+    errors: int
+    worst_verdict: str | None
+    csv_path: Path
+    jsonl_path: Path
+
+
+def check_outputs(out_csv: Path, force: bool, resume: bool) -> None:
+    """Refuse before any work: an existing summary without --force or --resume, a folder, a
+    name not ending in .csv, a missing output folder, or --force with --resume."""
+    out_csv = Path(out_csv)
+    if force and resume:
+        raise ConfigurationError("give --force (start again) or --resume (keep finished rows), "
+                                 "not both")
+    if out_csv.suffix.lower() != ".csv":
+        raise ConfigurationError(f"the summary is written as CSV: {out_csv.name!r} does not "
+                                 "end in .csv", "--out", "give a name like 'summary.csv'")
+    if out_csv.is_dir():
+        raise UvcheckError("the output path is a folder", str(out_csv), "give a file name")
+    folder = out_csv.parent if str(out_csv.parent) else Path(".")
+    if not folder.is_dir():
+        raise UvcheckError("the output folder does not exist", str(folder), "create it first")
+    for p in (out_csv, jsonl_path(out_csv)):
+        if p.exists() and not (force or resume):
+            raise OutputExistsError("the output file exists", str(p),
+                                    "give --resume to keep its finished rows, --force to start "
+                                    "again, or choose another name")
+
+
+def run_batch(source: Path, out_csv: Path, settings: BatchSettings, *, jobs: int | None = None,
+              resume: bool = False, force: bool = False, notes: Path | None = None,
+              progress: Callable[[int, int], None] | None = None,
+              products: list[Product] | None = None) -> BatchSummary:
+    """Assess every product of ``source`` (a folder or a manifest) and write the summary.
+
+    out_csv : the summary (CSV); the JSON lines go to :func:`jsonl_path` of it.
+    jobs : processes (default: every core this process may use).
+    resume : keep the finished rows of an earlier run (see the module notes).
+    notes : a folder for one note per product (HTML, and PDF unless ``settings.pdf`` is off).
+    progress : called with (rows done, rows in all) after each chunk.
+
+    Raises :class:`UvcheckError` (nothing written) for a manifest that cannot be read or an
+    output that exists without ``force``/``resume``; a product that fails is an error row.
+    """
+    from uvcheck.report.csvout import csv_text
+
+    out_csv = Path(out_csv)
+    out_jsonl = jsonl_path(out_csv)
+    check_outputs(out_csv, force, resume)
+    if products is None:
+        products = products_from(source, exclude=[out_csv, out_jsonl, part_path(out_csv),
+                                                  part_path(out_jsonl)])
+    if notes is not None:
+        notes = Path(notes)
+        if notes.exists() and not notes.is_dir():
+            raise UvcheckError("the notes path is not a folder", str(notes), "give a folder")
+        notes.mkdir(parents=True, exist_ok=True)
+        products = assign_notes(products, notes)
+        settings = replace(settings, force_notes=settings.force_notes or force or resume)
+    prev = read_previous(out_csv) if resume else _Previous()
+    kept = {p.product_id: prev.keep(p) for p in products}
+    todo = [p for p in products if kept[p.product_id] is None]
+    workers = min(jobs or default_jobs(), max(1, len(todo)))
+    size = max(1, min(32, len(todo) // (workers * 8) or 1))
+    if todo:
+        warm_up(settings)
+    part_csv, part_jsonl = part_path(out_csv), part_path(out_jsonl)
+    n_err = 0
+    worst = -1
+    done = 0
+    total = len(products)
+    results = ordered_map(_run_chunk, ((c, settings) for c in _chunks(todo, size)), workers)
+    with open(part_csv, "w", encoding="utf-8", newline="") as fc, \
+            open(part_jsonl, "w", encoding="utf-8", newline="\n") as fj:
+        fc.write(csv_text([], header=SUMMARY_COLUMNS))
+        pending_rows: deque[dict[str, Any]] = deque()
+        for p in products:
+            k = kept[p.product_id]
+            if k is not None:
+                fc.write(csv_text([k[0]]))
+                fj.write(k[1])
+                cells = dict(zip(SUMMARY_COLUMNS, k[0]))
+                worst = max(worst, _severity(cells.get("worst_claim_verdict")))
+            else:
+                if not pending_rows:
+                    pending_rows.extend(next(results))
+                row = pending_rows.popleft()
+                fc.write(csv_text([row_cells(row)]))
+                fj.write(json_line(row))
+                n_err += row["status"] == "error"
+                worst = max(worst, _severity(row.get("worst_claim_verdict")))
+            done += 1
+            if not pending_rows:  # a chunk is written (or a kept row): make it visible
+                fc.flush()
+                fj.flush()
+                if progress is not None:
+                    progress(done, total)
+        fc.flush()
+        fj.flush()
+        os.fsync(fc.fileno())
+        os.fsync(fj.fileno())
+    os.replace(part_csv, out_csv)
+    os.replace(part_jsonl, out_jsonl)
+    return BatchSummary(products=total, kept=sum(v is not None for v in kept.values()),
+                        errors=n_err, worst_verdict=VERDICT_ORDER[worst] if worst >= 0 else None,
+                        csv_path=out_csv, jsonl_path=out_jsonl)
+
+
+def _severity(verdict: Any) -> int:
+    return VERDICT_ORDER.index(verdict) if verdict in VERDICT_ORDER else -1
+
+
+def defaults_from_options(**options: str | None) -> dict[str, str]:
+    """The per-product defaults from command-line option texts (None: not given)."""
+    unknown = set(options) - set(OPTION_KEYS)
+    if unknown:  # pragma: no cover - a programming error in the command layer
+        raise ConfigurationError(f"unknown batch option {sorted(unknown)[0]!r}")
+    return {k: str(v) for k, v in options.items() if v not in (None, "")}
+

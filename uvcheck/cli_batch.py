@@ -1,0 +1,156 @@
+"""Command function for ``uvcheck batch`` (registered in cli.py).
+
+Thin: parse the options, hand them to :func:`uvcheck.batch.run_batch`, show progress and a
+one-line summary. Only typer and the standard library are imported at module level (no
+``from __future__ import annotations`` either: typer would have to evaluate every annotation
+string at start-up), so ``uvcheck --help`` stays fast. Errors are
+:class:`~uvcheck.errors.UvcheckError` subclasses, which the CLI prints as one line with exit
+status 2.
+"""
+
+import sys
+from pathlib import Path
+from typing import Annotated, Any, Optional
+
+import typer
+
+from uvcheck.cli_options import (Distance, ElectricalPower, ExposureTime, Force,
+                                 GeneralLighting, Limits, Quiet, SourceSize, Unit, UseDistance)
+
+
+def batch_command(
+    source: Annotated[Path, typer.Argument(
+        help="A folder of spectra and listings (paired by file stem), or a manifest (CSV).",
+        show_default=False)],
+    out: Annotated[Path, typer.Option(
+        "--out", help="Summary table to write (CSV); the same rows go beside it as JSON lines "
+                      "(summary.csv -> summary.jsonl).", show_default=False)],
+    resume: Annotated[bool, typer.Option(
+        "--resume", help="Keep the rows with status ok of an earlier run (finished or "
+                         "interrupted) and assess the others.")] = False,
+    force: Force = False,
+    jobs: Annotated[Optional[int], typer.Option(
+        "--jobs", help="Processes to use (default: every core).", min=1)] = None,
+    notes: Annotated[Optional[Path], typer.Option(
+        "--notes", help="Also write a safety note per product into this folder "
+                        "(<id>.html and <id>.pdf; slow).")] = None,
+    no_pdf: Annotated[bool, typer.Option("--no-pdf", help="Notes in HTML only.")] = False,
+    uncertainty: Annotated[bool, typer.Option(
+        "--uncertainty", help="Run the Monte Carlo uncertainty evaluation for every measured "
+                              "spectrum, as 'uvcheck assess' does by default (off in a batch: "
+                              "it costs about 0.1 s per product).")] = False,
+    limits: Limits = "iec62471_2006",
+    distance: Distance = None,
+    source_size: SourceSize = None,
+    use_distance: UseDistance = None,
+    general_lighting: GeneralLighting = False,
+    exposure_time: ExposureTime = "8 h",
+    electrical_power: ElectricalPower = None,
+    unit: Unit = None,
+    fail_on: Annotated[Optional[str], typer.Option(
+        "--fail-on", help="Exit with status 1 when a product has a claim with this verdict "
+                          "or a worse one (cannot-hold, unlikely, not-assessable).")] = None,
+    quiet: Quiet = False,
+) -> None:
+    """Screen many products at once: one summary row per product (CSV, and JSON lines beside
+    it), assessed on every core, in a fixed order. A product that cannot be assessed gets an
+    error row and the batch goes on; cells a spreadsheet would read as formulas are
+    neutralised. Each row is derived from the same result as 'uvcheck assess --json' (or
+    'uvcheck screen' for a listing without a spectrum). Screening assessments, not
+    certifications.
+
+    \b
+    A folder: every spectrum file (.csv .tsv .txt .dat .asc) and listing (.toml)
+    in it, paired by file stem (lamp7.csv with lamp7.toml).
+
+    \b
+    A manifest: a CSV file (comma, semicolon or tab; UTF-8) with a header row.
+    Columns (any order; all optional but spectrum or listing):
+      id                product id (default: the spectrum's file stem)
+      spectrum          spectrum file, relative to the manifest's folder
+      listing           listing file (TOML) whose claims are judged
+      distance          measurement distance, e.g. '20 cm'
+      source_size       apparent source size; a bare number is mm
+      use_distance      a distance of use, e.g. '1.5 m'
+      exposure_time     e.g. '8 h'
+      electrical_power  e.g. '8 W'
+      general_lighting  yes or no
+      scale_band | scale_lux | scale_total   scaling of a relative spectrum
+      unit | column | wavelength_unit        reading the spectrum file
+    Lines starting with # are skipped; an empty cell keeps the option given
+    on the command line (--distance, --source-size, ...), which applies to
+    every product.
+    Example:  id,spectrum,listing,distance
+              wand-A,spectra/wand.csv,listings/wand.toml,10 cm
+
+    \b
+    Summary columns: product_id, spectrum_file, listing_file, status (ok |
+    error), error, peak_nm, uvc_W_m2, uvc_status, risk_group,
+    risk_group_is_lower_bound, governing_hazard, claims_holds, claims_unlikely,
+    claims_cannot_hold, claims_not_assessable, worst_claim_id,
+    worst_claim_verdict, worst_claim_ratio, note_path, origin (measured, or
+    nominal: a listing without a spectrum, every figure an ESTIMATE).
+    """
+    from uvcheck.batch import BatchSettings, check_outputs, defaults_from_options, run_batch
+    from uvcheck.cli import FAIL_ON, _check_fail_on
+
+    _check_fail_on(fail_on)
+    check_outputs(out, force, resume)
+    settings = BatchSettings(
+        defaults=defaults_from_options(
+            distance=distance, source_size=source_size, use_distance=use_distance,
+            exposure_time=exposure_time, electrical_power=electrical_power, unit=unit,
+            general_lighting="yes" if general_lighting else None),
+        limits=limits, uncertainty=uncertainty, pdf=not no_pdf)
+    from uvcheck.limits import available_limit_sets
+
+    if limits not in available_limit_sets():
+        from uvcheck.errors import ConfigurationError
+
+        raise ConfigurationError(f"unknown limit set {limits!r}",
+                                 todo=f"use one of: {', '.join(available_limit_sets())}")
+    with _progress(quiet) as progress:
+        summary = run_batch(source, out, settings, jobs=jobs, resume=resume, force=force,
+                            notes=notes, progress=progress)
+    if not quiet:
+        kept = f", {summary.kept} kept from the earlier run" if summary.kept else ""
+        typer.echo(f"{summary.products} product(s): {summary.products - summary.errors} ok, "
+                   f"{summary.errors} error(s){kept}; {summary.csv_path} and "
+                   f"{summary.jsonl_path}. Screening assessments, not certifications.")
+    if fail_on is not None and summary.worst_verdict is not None:
+        order = ("holds",) + FAIL_ON
+        if order.index(summary.worst_verdict) >= order.index(fail_on):
+            raise typer.Exit(1)
+
+
+class _progress:
+    """A rich progress bar on a terminal (stderr); nothing when stderr is not a terminal or
+    with --quiet. Used as ``with _progress(quiet) as update: update(done, total)``."""
+
+    def __init__(self, quiet: bool) -> None:
+        self.bar: Any = None
+        self.task: Any = None
+        if not quiet and sys.stderr.isatty():
+            from rich.console import Console
+            from rich.progress import (BarColumn, MofNCompleteColumn, Progress, TextColumn,
+                                       TimeElapsedColumn, TimeRemainingColumn)
+
+            self.bar = Progress(TextColumn("uvcheck batch"), BarColumn(), MofNCompleteColumn(),
+                                TimeElapsedColumn(), TimeRemainingColumn(),
+                                console=Console(stderr=True), transient=True,
+                                auto_refresh=False)  # no refresh thread: workers are forked
+
+    def __enter__(self) -> Any:
+        if self.bar is None:
+            return None
+        self.bar.start()
+        return self.update
+
+    def update(self, done: int, total: int) -> None:
+        if self.task is None:
+            self.task = self.bar.add_task("products", total=total)
+        self.bar.update(self.task, completed=done, total=total, refresh=True)
+
+    def __exit__(self, *exc: Any) -> None:
+        if self.bar is not None:
+            self.bar.stop()
