@@ -312,6 +312,27 @@ def _grid_key(spectrum: Spectrum) -> bytes:
     return key
 
 
+def trapezoid_weights(x: np.ndarray, weight: Weight | None = None) -> np.ndarray:
+    """Coefficients c with Σ c·y = the trapezoid rule for ∫ y·W dλ on the nodes ``x`` (half
+    the spacing on each side of a node, times the weighting there). [nm]
+
+    The one integration rule of the project: :func:`integrate` and the uncertainty
+    evaluation's coefficient vectors (:func:`uvcheck.uncertainty.integral_coefficients`) use it.
+
+    Examples
+    --------
+    >>> trapezoid_weights(np.array([0.0, 1.0, 3.0])).tolist()
+    [0.5, 1.5, 1.0]
+    """
+    w = np.ones_like(x) if weight is None else np.asarray(weight(x), dtype=float)
+    dx = np.diff(x)
+    c = np.zeros_like(x)
+    c[:-1] += dx / 2
+    c[1:] += dx / 2
+    c *= w
+    return c
+
+
 def integrate(spectrum: Spectrum, lo_nm: float, hi_nm: float,
               weight: Weight | None = None) -> Integral:
     """∫ E(λ)·W(λ) dλ over [lo, hi] on the spectrum's grid, with coverage. [integrated unit]
@@ -367,13 +388,7 @@ def integrate(spectrum: Spectrum, lo_nm: float, hi_nm: float,
                 if hit is None:
                     i0 = int(np.searchsorted(wl, a_d, side="right"))
                     i1 = int(np.searchsorted(wl, b_d, side="left"))
-                    x = np.concatenate(([a_d], wl[i0:i1], [b_d]))
-                    w = np.ones_like(x) if weight is None else np.asarray(weight(x), dtype=float)
-                    dx = np.diff(x)
-                    c = np.zeros_like(x)
-                    c[:-1] += dx / 2
-                    c[1:] += dx / 2
-                    c *= w
+                    c = trapezoid_weights(np.concatenate(([a_d], wl[i0:i1], [b_d])), weight)
                     hit = (i0, i1, c, float(np.dot(c, c)))
                     if key is not None:
                         c.setflags(write=False)

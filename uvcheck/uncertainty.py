@@ -88,7 +88,7 @@ from uvcheck.data_files import read_toml
 from uvcheck.errors import ConfigurationError
 from uvcheck.geometry import scale_factor
 from uvcheck.limits import GROUPS, HazardLimits, get_limit_set, solid_angle_sr
-from uvcheck.spectrum import Spectrum
+from uvcheck.spectrum import Spectrum, trapezoid_weights
 from uvcheck.units import format_duration, parse_quantity, sig
 
 DEFAULTS_FILE = "uncertainty_defaults.toml"
@@ -577,13 +577,7 @@ def integral_coefficients(spectrum: Spectrum, lo_nm: float, hi_nm: float,
             if b_d > a_d:
                 i0 = int(np.searchsorted(wl, a_d, side="right"))
                 i1 = int(np.searchsorted(wl, b_d, side="left"))
-                x = np.concatenate(([a_d], wl[i0:i1], [b_d]))
-                w = np.ones_like(x) if weight is None else np.asarray(weight(x), dtype=float)
-                dx = np.diff(x)
-                t = np.zeros_like(x)
-                t[:-1] += dx / 2
-                t[1:] += dx / 2
-                t *= w
+                t = trapezoid_weights(np.concatenate(([a_d], wl[i0:i1], [b_d])), weight)
                 c[i0:i1] += t[1:-1]
                 for xe, te in ((a_d, t[0]), (b_d, t[-1])):
                     j = min(max(int(np.searchsorted(wl, xe, side="right")) - 1, 0), n - 2)
