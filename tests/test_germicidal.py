@@ -252,3 +252,25 @@ def test_small_api_for_claims():
     far = evaluate_germicidal(line(253.7, 1.0), Conditions(measurement_distance_m=1.0), distance_m=3.0)
     assert far.equivalent_irradiance() == pytest.approx(r.equivalent_irradiance() / 9)
     assert evaluate_germicidal(line(253.7, 1.0, quantity="flux")).estimate_for() is None
+
+
+def test_narrow_unknown_uvc_line_without_a_stray_light_source_is_emission():
+    # A 270 nm line, FWHM 2.4 nm, no visible light at all (a filtered lamp or a narrow LED):
+    # not a known line and narrower than an LED band, but with nothing out of band to scatter
+    # it cannot be stray light (audit issue 6 #1). Synthetic data; thresholds are uvcheck's.
+    rng = np.random.default_rng(7)
+    only = Spectrum(WL, gauss(270, 2.4, 0.01) + rng.normal(0, 1e-7, WL.size), "irradiance")
+    r = evaluate_germicidal(only, Conditions(measurement_distance_m=0.2))
+    assert r.artefacts == () and r.status == "germicidal-uvc"
+    assert r.uvc.value == pytest.approx(0.01, rel=0.01)      # the line's area (construction)
+    # the same line beside a modest visible source (UV-C a third of the output): still emission
+    both = Spectrum(WL, gauss(270, 2.4, 0.01) + gauss(450, 20, 0.02)
+                    + rng.normal(0, 1e-7, WL.size), "irradiance")
+    assert uvc_artefacts(both) == ()
+    # ... but next to a strong white source (out of band > 100× the UV-C) it is read as stray
+    # light: the same feature now has a source to come from
+    white = gauss(450, 20, 3.0) + gauss(560, 100, 7.0)
+    strong = Spectrum(WL, white + gauss(270, 2.4, 0.01) + rng.normal(0, 1e-7, WL.size),
+                      "irradiance")
+    art = uvc_artefacts(strong)
+    assert [a.kind for a in art] == ["no-emitter"] and "out-of-band" in art[0].detail

@@ -553,3 +553,49 @@ def test_removing_range_never_gives_a_better_group(lamp, lo, hi, size):
             assert hc.value <= hf.value * (1 + 1e-9) + 1e-300, hf.id
     if cut.risk_group.upper_bound and full.risk_group.upper_bound:
         assert GROUPS.index(cut.risk_group.upper_bound) >= GROUPS.index(full.risk_group.upper_bound)
+
+
+# --- blue-light boundary distances for an extended source (audit issue 3) -------------------
+# A line at 450 nm measured at 0.2 m from a 10 mm source (invented). B(450) = 0.9 (ICNIRP/IEC
+# 62471 B(λ) table, as shipped in data/weightings). L_B limits (IEC 62471:2006 Table 6.1, L_B
+# row, read in the document): Exempt 100, RG1 10 000, RG2 4·10⁶ W m⁻² sr⁻¹, fields 0.1, 0.011
+# and 0.0017 rad (from memory); E_B small source (α < 0.011 rad, from memory): RG1 1 W m⁻².
+
+def _blue_at(irradiance_W_m2):
+    return evaluate_hazards(line_source(450.0, irradiance_W_m2),
+                            Conditions(measurement_distance_m=0.2, source_size_m=0.01))
+
+
+def test_blue_light_distances_follow_the_field_of_view():
+    e_b = 2.0                                       # L ≈ 920 W m⁻² sr⁻¹: between Exempt and RG1
+    d = _blue_at(e_b).to_dict()["hazard_distances"]["blue_light"]
+    reg = d["regimes"]
+    # derived: the source (s = 10 mm) fills a field γ within s / (2 tan(γ/2))
+    assert reg["fills_field_within_m"]["Exempt"] == pytest.approx(0.01 / (2 * math.tan(0.05)))
+    assert reg["small_source_beyond_m"] == pytest.approx(0.01 / (2 * math.tan(0.0055)))
+    b_w = float(get_weighting("B_blue")(np.array([450.0]))[0])
+    l_src = e_b * b_w / solid_angle_sr(2 * math.atan(0.01 / 0.4))   # L = E/Ω(α at 0.2 m)
+    assert reg["source_radiance"] == pytest.approx(l_src, rel=1e-6)
+    # L < 10 000: RG1 holds at every distance (the radiance does not fall while the field is
+    # filled) -> no RG1 distance, and the note says why
+    assert d["boundaries_m"]["RG1"] is None
+    assert d["boundary_notes"]["RG1"].startswith("RG1 or lower at every distance")
+    # Exempt: beyond 0.1 m the source underfills the 0.1 rad field; the average L·Ω(α)/Ω(0.1)
+    # meets 100 W m⁻² sr⁻¹ at the boundary (derived)
+    dx = d["boundaries_m"]["Exempt"]
+    assert reg["fills_field_within_m"]["Exempt"] < dx < reg["small_source_beyond_m"]
+    avg = l_src * solid_angle_sr(2 * math.atan(0.01 / (2 * dx))) / solid_angle_sr(0.1)
+    assert avg == pytest.approx(100.0, rel=1e-6)
+    assert "does not fall with distance" in d["meaning"]
+
+
+def test_bright_blue_source_gets_an_rg1_distance_in_the_small_source_regime():
+    e_b = 60.0                                      # L ≈ 2.8·10⁴ > 10 000 W m⁻² sr⁻¹: RG2 close by
+    d = _blue_at(e_b).to_dict()["hazard_distances"]["blue_light"]
+    b_w = float(get_weighting("B_blue")(np.array([450.0]))[0])
+    # RG1 is reached only where the source is small (E_B, inverse square from 0.2 m):
+    # E_B·(0.2/d)² = 1 W m⁻²  ->  d = 0.2·√(E_B)  (derived)
+    d_rg1 = d["boundaries_m"]["RG1"]
+    assert d_rg1 == pytest.approx(0.2 * math.sqrt(e_b * b_w), rel=1e-6)
+    assert d_rg1 > d["regimes"]["small_source_beyond_m"]
+    assert d["boundary_notes"]["RG2"].startswith("RG2 or lower at every distance")

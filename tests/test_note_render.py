@@ -35,9 +35,11 @@ def written(tmp_path_factory):
     lst.write_text(LISTING.read_text(encoding="utf-8").replace(
         'name = "Germicidal tube lamp for kennels and stables (invented example)"',
         f"name = {json.dumps(HOSTILE)}"), encoding="utf-8")
+    # the demo's kennel room (examples/demo/scenario.toml): the tube along the short wall
     result, spec = note_result(SPECTRUM, lst, room={"size": "4 x 5 x 2.5 m",
                                                     "lamp_at": "0.15, 2.5, 2.2 m",
-                                                    "pattern": "cylinder"})
+                                                    "pattern": "cylinder",
+                                                    "tube_length": "0.55 m", "axis": "y"})
     html_path, pdf_path, view = write_note(result, spec, d / "tube.html", pdf=True)
     return {"dir": d, "html": html_path, "pdf": pdf_path, "result": result, "view": view}
 

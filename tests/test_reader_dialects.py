@@ -174,3 +174,72 @@ def test_noise_floor_from_negatives(tmp_path):
     spec, rep = read_spectrum(write(tmp_path, "n.csv", text))
     assert rep.noise["method"] == "negative-samples"
     assert spec.noise_floor == pytest.approx(1e-6, rel=0.15)
+
+
+# ---------------------------------------------------------------------------------------------
+# Thousands separators: ambiguous '10.000' among integers, and '1.002.000' deciding the mark
+# (invented counts; the expected numbers follow from how the file was written)
+# ---------------------------------------------------------------------------------------------
+
+def _counts_rows(sep: str, thousands: str, top: int = 20000, centre: float = 395.0,
+                 pedestal: int = 0):
+    wl = np.arange(250.0, 800.0 + 1e-9, 5.0)
+    n = pedestal + np.round(top * np.exp(-0.5 * ((wl - centre) / 6.0) ** 2)).astype(int)
+    return wl, n, "\n".join(f"{a:.0f}{sep}" + f"{int(b):,}".replace(",", thousands)
+                            for a, b in zip(wl, n))
+
+
+def test_ambiguous_thousands_separator_is_flagged(tmp_path):
+    _, _, body = _counts_rows(";", ".")
+    spec, rep = read_spectrum(write(tmp_path, "t.csv", "nm;counts\n" + body + "\n"))
+    assert rep.decimal == "."
+    w = [x for x in rep.warnings if "may be a thousands separator" in x]
+    assert len(w) == 1
+    assert "column 'counts' (column 2)" in w[0] and "--decimal ','" in w[0]
+    assert "'4.987' on line 29" in w[0]  # 4987 counts at 385 nm, written '4.987'
+
+
+def test_ambiguous_thousands_not_flagged_when_decimal_given(tmp_path):
+    _, _, body = _counts_rows(";", ".")
+    spec, rep = read_spectrum(write(tmp_path, "t.csv", "nm;counts\n" + body + "\n"), decimal=",")
+    assert rep.thousands == "." and float(spec.values.max()) == 20000.0
+    assert not any("may be a thousands separator" in x for x in rep.warnings)
+
+
+def test_ambiguous_thousands_in_comma_file_says_re_export(tmp_path):
+    # with ',' as the delimiter the decimal mark cannot be ','; the warning says what to do
+    _, _, body = _counts_rows(",", ".")
+    _, rep = read_spectrum(write(tmp_path, "t.csv", "nm,counts\n" + body + "\n"))
+    w = [x for x in rep.warnings if "may be a thousands separator" in x]
+    assert len(w) == 1 and "re-export" in w[0]
+
+
+def test_three_decimals_without_integers_is_not_flagged(tmp_path):
+    text = "nm;W/m2/nm\n" + "\n".join(f"{a:.3f};{b:.3f}" for a, b in
+                                      zip(np.arange(250.0, 400.0, 0.125), np.linspace(1, 2, 1200)))
+    _, rep = read_spectrum(write(tmp_path, "t.csv", text + "\n"))
+    assert not any("thousands" in x for x in rep.warnings)
+
+
+def test_dot_groups_decide_the_decimal_mark(tmp_path):
+    # the only number that shows the separator, '1.200.000', is on line 92: past the lines the
+    # format is first decided on
+    wl, n, body = _counts_rows(";", ".", top=1_200_000, centre=700.0)
+    spec, rep = read_spectrum(write(tmp_path, "t.csv", "nm;counts\n" + body + "\n"))
+    assert rep.decimal == "," and rep.thousands == "."
+    assert rep.rows_used == wl.size
+    assert np.array_equal(spec.values, n.astype(float))
+    assert any("'.' is a thousands separator in this file ('1.200.000' on line 92)" in x
+               for x in rep.warnings)
+
+
+def test_comma_groups_decide_the_decimal_mark(tmp_path):
+    # the mirror case: ',' between thousands in a semicolon file. A pedestal of 2000 counts
+    # puts a ',' in every value, so the first lines read best with ',' as the decimal mark
+    # ('2,000'); '1,202,000' on line 92 shows it is a thousands separator
+    wl, n, body = _counts_rows(";", ",", top=1_200_000, centre=700.0, pedestal=2000)
+    spec, rep = read_spectrum(write(tmp_path, "t.csv", "nm;counts\n" + body + "\n"))
+    assert rep.decimal == "." and rep.thousands == ","
+    assert np.array_equal(spec.values, n.astype(float))
+    assert any("',' is a thousands separator in this file ('1,202,000' on line 92)" in x
+               for x in rep.warnings)

@@ -232,3 +232,65 @@ def test_small_api_and_far_uvc_note():
     # a 222 nm line: the most favourable 222-nm equivalent is the flux itself (unweighted UV-C)
     assert r.equivalent_fluence_rate(222.0) == pytest.approx(r.fluence.total_per_W)
     assert "ACGIH 2022" in r.occupant["note"]
+
+
+# --- stray light, noise and the tube length (audit issues 4 and 6 #3) ----------------------
+
+WL_R = np.arange(200.0, 800.01, 0.5)
+
+
+def _gauss(c, fwhm, area):
+    s = fwhm / 2.3548
+    return area / (s * np.sqrt(2 * np.pi)) * np.exp(-0.5 * ((WL_R - c) / s) ** 2)
+
+
+def _white_with_pedestal():
+    # invented white lamp with a flat stray-light level under UV-C (germicidal's pedestal rule)
+    rng = np.random.default_rng(3)
+    v = _gauss(450, 20, 3.0) + _gauss(560, 100, 7.0) + 2e-4 + rng.normal(0, 1e-5, WL_R.size)
+    return Spectrum(WL_R, v, "irradiance")
+
+
+def test_stray_light_is_not_room_output():
+    lamp = lamp_from_spectrum(_white_with_pedestal(), LampGeometry((2.0, 2.5, 2.4)), 0.3)
+    r = evaluate_room(ROOM, lamp, target_dose_J_m2=100.0)
+    d = json.loads(json.dumps(r.to_dict(), allow_nan=False))
+    st = d["status"]
+    assert st["figures_are"] == "upper_bound" and st["uvc_status"] == "likely-stray-light"
+    assert [a["kind"] for a in st["artefacts"]] == ["pedestal"]
+    assert d["notes"][0].startswith("No germicidal UV-C")        # said first
+    # nothing is presented as delivered ...
+    assert d["lamp"]["uvc_flux_W"] is None and d["lamp"]["equivalent_254_flux_W"] is None
+    assert d["fluence_rate_avg_W_m2"] is None and d["plane"]["p10_W_m2"] is None
+    assert d["plane"]["grid"] is None and d["plane"]["time_to_target_at_p10_s"] is None
+    assert d["occupant"]["irradiance_W_m2"] is None
+    assert all(a["each_per_h"] is None and a["time_to_99_9_s"] is None for a in d["air"])
+    assert all(v is None for v in d["each_per_h"].values())
+    # ... and the bounds are there under their own names
+    assert d["lamp"]["uvc_flux_upper_bound_W"] > 0
+    assert all(a["each_per_h_upper_bound"] > 0 for a in d["air"] if a["k_e_m2_per_J"])
+    assert d["air_most_susceptible"]["note"].startswith("an upper bound only")
+    # claims still get the benefit of the doubt (favourable = the upper bound)
+    assert r.air_time_s("hcov_oc43_air_222_buonanno2020") > 0
+    text = __import__("uvcheck.cli_room", fromlist=["render_room"]).render_room(d)
+    assert text.startswith("NO GERMICIDAL UV-C OUTPUT")
+    assert "eACH /h" not in text and "Work plane" not in text and "at most" in text
+
+
+def test_real_uvc_keeps_its_room_figures():
+    s = Spectrum(WL_R, _gauss(253.7, 1.2, 0.01) + np.random.default_rng(4).normal(0, 1e-7, WL_R.size),
+                 "irradiance")
+    d = evaluate_room(ROOM, lamp_from_spectrum(s, LampGeometry((2.0, 2.5, 2.4)), 1.0)).to_dict()
+    assert d["status"]["figures_are"] == "estimate" and d["status"]["artefacts"] == []
+    assert d["lamp"]["uvc_flux_W"] > 0 and d["lamp"]["uvc_flux_upper_bound_W"] is None
+    assert all(a["each_per_h"] for a in d["air"] if a["k_e_m2_per_J"])
+    assert d["fluence_rate_avg_upper_bound_W_m2"] is None and d["warnings"] == []
+
+
+def test_cylinder_without_tube_length_warns(tmp_path):
+    short = evaluate_room(ROOM, lamp_from_uvc_flux(1.0, LampGeometry((2.0, 2.5, 2.4), "cylinder")))
+    assert any("tube length" in w for w in short.to_dict()["warnings"])
+    tube = evaluate_room(ROOM, lamp_from_uvc_flux(1.0, LampGeometry((2.0, 2.5, 2.4), "cylinder", 0.9)))
+    assert tube.to_dict()["warnings"] == []
+    res = CliRunner().invoke(_app(), ["room", "--uvc-flux", "1 W", "--pattern", "cylinder"])
+    assert res.exit_code == 0 and res.output.startswith("Warning: cylinder pattern without a tube length")

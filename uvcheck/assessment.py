@@ -93,6 +93,10 @@ class Assessment:
             from uvcheck.uncertainty import merge_into
 
             merge_into(d, self.sections["uncertainty"])
+        elif d.get("risk_group") is not None:
+            from uvcheck.uncertainty import apply_rule_to_risk_group
+
+            apply_rule_to_risk_group(d["risk_group"], None)   # the same keys, None
         return d
 
 

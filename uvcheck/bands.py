@@ -14,10 +14,22 @@ Each band reports its value, its fraction of the measured total, its coverage (s
 band inside the measured range), and a status:
 
 * ``complete``: fully measured;
-* ``partial``: partly measured, the value is a lower bound;
+* ``partial``: partly measured, the value is a lower bound; when the measured part is
+  under its detection limit the value is None and ``below_detection`` is true: the measured
+  part reads "< detection limit so far" and the unmeasured part is unknown (a band with 3 %
+  coverage is never reported as if it had been checked);
 * ``not-covered``: not measured at all, the value is None (never 0);
-* ``below-detection``: under the detection limit (3 σ of the band integral from the
-  noise floor), reported as "< detection limit", not as a number.
+* ``below-detection``: fully measured and under the detection limit (3 σ of the band
+  integral from the noise floor), reported as "< detection limit", not as a number.
+
+The noise floor, and so the detection limit, is never below the dynamic-range floor of
+:func:`uvcheck.features.estimate_noise` (1e-6 of the peak, common practice): noise-free data
+do not turn 1e-270 W m⁻² into a measured value.
+
+``detection_limit`` (3 σ) is the same number that :mod:`uvcheck.germicidal` gives for UV-C
+and far-UVC over the same range (both integrate with :func:`uvcheck.spectrum.integrate`);
+germicidal readings add an ``upper_bound`` (apparent value + 3 σ, the favourable reading
+for claims), which is a different quantity. Bands give the same ``upper_bound``.
 """
 
 from __future__ import annotations
@@ -57,7 +69,12 @@ class BandResult:
         spectra, where the fraction is the only result). [-]
     coverage : share of the band inside the measured range. [-]
     status : ``complete`` | ``partial`` | ``not-covered`` | ``below-detection``.
-    detection_limit : 3 σ of the band integral, same unit as value (None if unknown).
+    detection_limit : 3 σ of the band integral over the measured part, same unit as value
+        (None if unknown).
+    below_detection : the measured part is under the detection limit (status
+        ``below-detection``, or ``partial`` with value None).
+    upper_bound : where below detection: max(apparent value, 0) + detection limit, the
+        highest value the measured part allows (as germicidal readings). [unit of value]
     """
 
     name: str
@@ -68,6 +85,8 @@ class BandResult:
     coverage: float
     status: str
     detection_limit: float | None
+    below_detection: bool = False
+    upper_bound: float | None = None
 
     @property
     def is_lower_bound(self) -> bool:
@@ -76,12 +95,14 @@ class BandResult:
     def to_dict(self) -> dict:
         trade, label = to_trade(self.value, self.unit)
         dl_trade, _ = to_trade(self.detection_limit, self.unit)
+        ub_trade, _ = to_trade(self.upper_bound, self.unit)
         return {"range_nm": list(self.range_nm), "value": self.value, "unit": self.unit,
                 "fraction": self.fraction, "coverage": self.coverage, "status": self.status,
                 "detection_limit": self.detection_limit,
+                "below_detection": self.below_detection, "upper_bound": self.upper_bound,
                 "is_lower_bound": self.is_lower_bound,
                 "value_trade": trade, "detection_limit_trade": dl_trade,
-                "trade_unit": label}
+                "upper_bound_trade": ub_trade, "trade_unit": label}
 
 
 def band_breakdown(spectrum: Spectrum) -> dict[str, BandResult]:
@@ -101,20 +122,26 @@ def band_breakdown(spectrum: Spectrum) -> dict[str, BandResult]:
     for name, lo, hi, _part, _desc in BANDS:
         r = integrate(spectrum, lo, hi)
         dl = r.detection_limit
+        below, ub = False, None
         if r.coverage <= 0.0:
             status, value, frac = "not-covered", None, None
         elif dl is not None and r.value < dl:
-            status, value, frac = "below-detection", None, None
+            # under the detection limit; a partly covered band stays partial (a lower bound
+            # with nothing detected in the measured part), never "checked and below detection"
+            status = "below-detection" if r.complete else "partial"
+            value, frac, below = None, None, True
+            ub = max(r.value, 0.0) + dl
         else:
             status = "complete" if r.complete else "partial"
             value = r.value
             frac = r.value / total if total > 0 else None
         if not absolute:
             value = None
-            dl = None
+            dl = ub = None
         out[name] = BandResult(name=name, range_nm=(lo, hi), value=value,
                                unit=spectrum.integrated_unit, fraction=frac,
-                               coverage=r.coverage, status=status, detection_limit=dl)
+                               coverage=r.coverage, status=status, detection_limit=dl,
+                               below_detection=below, upper_bound=ub)
     return out
 
 

@@ -10,8 +10,9 @@ How a product is assessed: exactly as ``uvcheck assess SPECTRUM --claims LISTING
 calls), or, for a listing without a spectrum, as ``uvcheck screen LISTING`` does. The summary
 row is read from ``Assessment.to_dict()`` made strict JSON (:func:`uvcheck.report.jsonout.clean`),
 so its numbers are the numbers ``assess --json`` writes (:func:`summary_row`). The Monte Carlo
-uncertainty evaluation is off unless asked for (``BatchSettings.uncertainty``); a listing
-screening runs as ``uvcheck screen`` runs it.
+uncertainty evaluation is off unless asked for (``BatchSettings.uncertainty``, with the inputs
+and decision rule of ``BatchSettings.uncertainty_options``; the command turns it on for
+notes); a listing screening runs as ``uvcheck screen`` runs it.
 
 Products
 --------
@@ -266,6 +267,11 @@ class BatchSettings:
     defaults : per-product options (keys of :data:`OPTION_KEYS`) from the command line.
     limits : exposure-limit set id.
     uncertainty : run the Monte Carlo uncertainty evaluation (slow; off by default).
+    uncertainty_options : the uncertainty inputs and decision rule as ``uvcheck assess``
+        takes them, as texts (keys ``calibration``, ``wavelength``, ``distance``,
+        ``stray_light``, ``decision_rule``, ``draws`` of :func:`uvcheck.cli.assess_options`);
+        texts, so the settings pickle for the worker processes. For measured spectra only
+        (a listing alone is screened as ``uvcheck screen`` does).
     pdf : write a PDF beside each HTML note.
     force_notes : replace existing notes.
     """
@@ -273,8 +279,17 @@ class BatchSettings:
     defaults: Mapping[str, str] = field(default_factory=dict)
     limits: str = "iec62471_2006"
     uncertainty: bool = False
+    uncertainty_options: Mapping[str, Any] = field(default_factory=dict)
     pdf: bool = True
     force_notes: bool = False
+
+    def assess_options(self) -> Any:
+        """The :class:`uvcheck.assessment.AssessOptions` of a measured product."""
+        from uvcheck.cli import assess_options
+
+        return assess_options(self.limits, not self.uncertainty,
+                              **{k: v for k, v in self.uncertainty_options.items()
+                                 if v is not None})
 
 
 def assess_product(product: Product, settings: BatchSettings) -> tuple[dict[str, Any], Any]:
@@ -282,7 +297,7 @@ def assess_product(product: Product, settings: BatchSettings) -> tuple[dict[str,
     assess`` makes (``uvcheck screen`` for a listing without a spectrum). The dict is as
     ``to_dict`` gives it; :func:`uvcheck.report.jsonout.clean` makes it the strict JSON that
     ``assess --json`` writes (:func:`summary_row` cleans the values it takes)."""
-    from uvcheck.assessment import AssessOptions, assess
+    from uvcheck.assessment import assess
     from uvcheck.cli import _length, apply_scaling, conditions_from_options, read_options
 
     if product.problem:
@@ -311,8 +326,7 @@ def assess_product(product: Product, settings: BatchSettings) -> tuple[dict[str,
     cond = conditions_from_options(d0, o.get("source_size"), None, o.get("use_distance"), gl,
                                    o.get("exposure_time") or "8 h", listing=listing,
                                    electrical_power=o.get("electrical_power"))
-    options = AssessOptions(limit_set=settings.limits, uncertainty=settings.uncertainty)
-    return assess(spec, cond, report, options, listing=listing).to_dict(), spec
+    return assess(spec, cond, report, settings.assess_options(), listing=listing).to_dict(), spec
 
 
 def summary_row(product: Product, result: Mapping[str, Any] | None, error: str | None = None,

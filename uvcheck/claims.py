@@ -16,7 +16,15 @@ listing can be read — and every claim is judged over them:
   wavelength) is not used as the favourable reading;
 * **safety claims** fail as soon as the *most likely* reading (the measurement; without one,
   the typical case of the most credible nominal reading) exceeds an exposure limit;
+* a *hard bound* decides ``cannot-hold`` at any shortfall, without the margin: physics (the
+  photon energy of the stated wavelength against the LED voltage, energy conservation, the
+  wall-plug limit), a cover that blocks the band, the best the technology has reached, or no
+  emission above the detection limit; checks against technology data or rules of thumb give
+  at most ``unlikely`` (:data:`HARD_BOUNDS_TEXT`);
 * ``not-assessable`` names what is missing.
+
+Each verdict's ``rule`` says which of these decided it, and the basis ends with it
+("…; decided by a hard bound, physics: …").
 
 Every verdict carries ``needed``, ``available`` and their ``ratio`` (available / needed), a
 one-line ``basis`` with the numbers ("needs 11.1 mJ/cm² in 30 min at 2 cm; this lamp gives at
@@ -97,6 +105,8 @@ class Verdict:
     missing : data that would make a ``not-assessable`` claim assessable.
     evidence : ``measured`` | ``nominal estimate`` | ``listing``.
     reading : the reading that decided (``measured``, ``as-stated/max`` …).
+    rule : the decision rule that decided the verdict, in words ("the benefit-of-the-doubt
+        margin …", "a hard physical bound …"); the engine appends it to ``basis``.
     """
 
     id: str
@@ -112,6 +122,7 @@ class Verdict:
     evidence: str = "measured"
     reading: str | None = None
     details: dict[str, Any] = field(default_factory=dict)
+    rule: str | None = None
 
     def __post_init__(self) -> None:
         if self.verdict not in VERDICTS:
@@ -124,7 +135,7 @@ class Verdict:
                 "ratio": self.ratio, "basis": self.basis,
                 "assumptions": list(self.assumptions), "missing": list(self.missing),
                 "evidence": self.evidence, "reading": self.reading,
-                "details": dict(self.details)}
+                "rule": self.rule, "details": dict(self.details)}
 
 
 _EFFICACY = {"simple": {"pass": "holds", "conditional pass": "holds",
@@ -146,7 +157,7 @@ def _decide(needed: float, value: float, rel: tuple[float, float], rule: str,
     lo, hi = value * rel[0], value * rel[1]
     d = decide(needed, (lo, hi), rule=rule, direction="at_least", measured=value)
     verdict = table[rule][d.statement]
-    frag = (f"95 % interval {fmt(lo)} to {fmt(hi)}; {d.statement} under {rule} acceptance, "
+    frag = (f"95 % interval {fmt(lo)} to {fmt(hi)}: {d.statement}, "
             f"probability of meeting it {sig(100 * d.probability, 2)} %")
     return verdict, frag
 
@@ -165,6 +176,41 @@ def _short(ratio: float) -> str:
     if ratio >= 1.0:
         return f"enough by {sig(ratio, 2)}×"
     return f"short by {sig(1.0 / ratio, 2)}×"
+
+
+# --- the rules that decide a verdict (named in every basis) ---------------------------------
+
+def rule_margin(margin: float = MARGIN) -> str:
+    """The simple rule for efficacy claims (benefit of the doubt with a margin)."""
+    return (f"the benefit-of-the-doubt rule (most favourable reading; cannot-hold only when "
+            f"short by more than {sig(margin, 2)}×)")
+
+
+def rule_interval(rule: str) -> str:
+    """A decision on the 95 % interval of a measurement."""
+    return f"{rule} acceptance on the 95 % interval (ILAC-G8:09/2019)"
+
+
+#: Rule of an emission claim against a measured spectrum.
+RULE_PRESENCE = ("the presence test (is there emission above the detection limit where the "
+                 "claim needs it; no margin applies)")
+#: Rule of a safety claim.
+RULE_SAFETY = ("the safety rule (the most likely reading against the exposure limit, no benefit "
+               "of the doubt)")
+#: Rule of an emission claim that a nominal estimate can only take at its word.
+RULE_TECHNOLOGY_EMITS = "the benefit-of-the-doubt rule (the stated technology emits there)"
+
+
+def rule_tolerance(tol_nm: float) -> str:
+    return (f"the wavelength tolerance (holds within {sig(tol_nm, 2)} nm, unlikely within a "
+            f"further {PEAK_UNLIKELY_NM:g} nm)")
+
+
+def _with_rule(v: "Verdict") -> "Verdict":
+    """The verdict with its rule named at the end of the basis (once)."""
+    if not v.rule or v.verdict == "not-assessable" or v.basis.endswith(f"decided by {v.rule}"):
+        return v
+    return replace(v, basis=f"{v.basis}; decided by {v.rule}")
 
 
 def _mj_cm2(j_m2: float) -> str:
@@ -350,7 +396,7 @@ def evaluate_claims(evidence: Evidence) -> list[Verdict]:
             v = fn(c, evidence)
         except ConfigurationError as exc:
             v = _na(c, evidence, f"cannot be evaluated: {exc.what}", ())
-        out.append(v)
+        out.append(_with_rule(v))
     return out
 
 
@@ -382,14 +428,15 @@ def _emission(c: Any, ev: Evidence) -> Verdict:
             f = refuting[0]
             return Verdict(c.id, c.kind, c.text, f.status, _q(f.needed), _q(f.available),
                            f.ratio, f.message, tuple(f.assumptions), (), "listing", None,
-                           {"finding": f.id, "basis": f.basis})
+                           {"finding": f.id, "basis": f.basis}, f.rule)
         if not fav:
             return _na(c, ev, "no power stated and no spectrum: the emission cannot be estimated",
                        ("a spectrum", "lamp.optical_power or lamp.electrical_power"))
         r = fav[0]
         return Verdict(c.id, c.kind, c.text, "holds", None, None, None,
                        f"consistent with the stated technology ({r.technology}); an estimate from "
-                       "the listing, not a measurement", (), (), ev_kind, r.label)
+                       "the listing, not a measurement", (), (), ev_kind, r.label,
+                       rule=RULE_TECHNOLOGY_EMITS)
     r = ev.readings[0]
     g = r.germicidal_at(None)
     d = g.to_dict()
@@ -408,9 +455,9 @@ def _emission(c: Any, ev: Evidence) -> Verdict:
             return Verdict(c.id, c.kind, c.text, "cannot-hold",
                            Quantity(lam, "nm", "stated peak"),
                            Quantity(pk.peak_nm, "nm", "measured peak"), None,
-                           f"stated {lam:g} nm; the lamp emits no germicidal UV-C "
-                           f"({d['statement']}); its output peaks at {sig(pk.peak_nm, 4)} nm",
-                           (), (), ev_kind, r.label, {"uvc_upper_bound_W_m2": ub})
+                           f"stated {lam:g} nm, but the output peaks at {sig(pk.peak_nm, 4)} nm "
+                           f"with no germicidal UV-C: {_no_uvc_reason(d['statement'])}",
+                           (), (), ev_kind, r.label, {"uvc_upper_bound_W_m2": ub}, RULE_PRESENCE)
         if near:
             ln = min(near, key=lambda x: abs(x.wavelength_nm - lam))
             return Verdict(c.id, c.kind, c.text, "holds", Quantity(lam, "nm", "stated peak"),
@@ -418,7 +465,7 @@ def _emission(c: Any, ev: Evidence) -> Verdict:
                            f"emission found at {sig(ln.wavelength_nm, 4)} nm"
                            + (f" ({ln.identified_as})" if ln.identified_as else "")
                            + f", within {sig(tol, 2)} nm of the stated {lam:g} nm",
-                           (), (), ev_kind, r.label)
+                           (), (), ev_kind, r.label, rule=rule_tolerance(tol))
         verdict = "unlikely" if close else "cannot-hold"
         found = ", ".join(f"{sig(x.wavelength_nm, 4)} nm" for x in lines[:5]) or "none"
         return Verdict(c.id, c.kind, c.text, verdict, Quantity(lam, "nm", "stated peak"),
@@ -426,7 +473,7 @@ def _emission(c: Any, ev: Evidence) -> Verdict:
                        f"no emission line within {sig(tol, 2)} nm of the stated {lam:g} nm; "
                        f"peaks found: {found}" + ("; the lamp does emit UV-C, at another wavelength"
                                                   if uvc_ok and in_uvc else ""),
-                       (), (), ev_kind, r.label)
+                       (), (), ev_kind, r.label, rule=rule_tolerance(tol))
     lo, hi = band
     integ = integrate(r.spectrum, lo, hi)
     tot = integrate(r.spectrum, *r.spectrum.range_nm).value
@@ -438,7 +485,8 @@ def _emission(c: Any, ev: Evidence) -> Verdict:
         return Verdict(c.id, c.kind, c.text, "cannot-hold",
                        Quantity(dl, r.spectrum.integrated_unit, f"emission in {c.band_name or 'the band'} above the detection limit"),
                        Quantity(d["uvc"].get("upper_bound"), r.spectrum.integrated_unit, "UV-C, at most"), None,
-                       d["statement"], (), (), ev_kind, r.label)
+                       _no_uvc_reason(d["statement"], capital=True), (), (), ev_kind, r.label,
+                       rule=RULE_PRESENCE)
     if integ.value > dl:
         frac = integ.value / tot if tot > 0 else None
         return Verdict(c.id, c.kind, c.text, "holds",
@@ -447,12 +495,22 @@ def _emission(c: Any, ev: Evidence) -> Verdict:
                        integ.value / dl if dl > 0 else None,
                        f"{sig(integ.value)} {r.spectrum.integrated_unit} in {lo:g}–{hi:g} nm"
                        + (f" ({sig(100 * frac, 3)} % of the measured output)" if frac else ""),
-                       (), (), ev_kind, r.label)
+                       (), (), ev_kind, r.label, rule=RULE_PRESENCE)
     return Verdict(c.id, c.kind, c.text, "cannot-hold",
                    Quantity(dl, r.spectrum.integrated_unit, "detection limit"),
                    Quantity(integ.value, r.spectrum.integrated_unit, "band output"), None,
                    f"nothing above the detection limit ({sig(dl)} {r.spectrum.integrated_unit}) in {lo:g}–{hi:g} nm",
-                   (), (), ev_kind, r.label)
+                   (), (), ev_kind, r.label, rule=RULE_PRESENCE)
+
+
+def _no_uvc_reason(statement: str, capital: bool = False) -> str:
+    """The germicidal module's no-UV-C sentence as a clause: without its leading "No germicidal
+    UV-C:" and its closing full stop (so that it can sit inside a one-line basis)."""
+    s = (statement or "").strip()
+    head = "No germicidal UV-C:"
+    if not capital and s.startswith(head):
+        s = s[len(head):].strip()
+    return s[:-1] if s.endswith(".") else s
 
 
 def _q(a: Any) -> Quantity | None:
@@ -594,8 +652,14 @@ def _inactivation(c: Any, ev: Evidence) -> Verdict:
     ev_kind = "measured" if ev.measured else "nominal estimate"
     percent, notes = _percent(c)
     missing = list(c.missing(ev.listing))
+    vague = getattr(c, "time_word", None)
+    if vague:
+        from uvcheck.io.listing import vague_time_text
+
+        notes.append(vague_time_text(vague))
     if missing:
-        return _na(c, ev, "the claim does not say " + " or ".join(missing), missing)
+        return _na(c, ev, "the claim does not say " + " or ".join(missing)
+                   + (f"; {notes[-1]}" if vague else ""), missing, notes)
     t = c.time_s
     fav = ev.favourable()
     if not fav:
@@ -686,35 +750,46 @@ def _inactivation(c: Any, ev: Evidence) -> Verdict:
            if (c.organism is None or c.organism_generic) else o.organism)
     if c.organism is None or c.organism_generic:
         assumptions.append(f"'{c.organism or 'germs'}' judged with {who}; most real pathogens need more")
-    basis = (f"{sig(percent, 4)} % of {who} needs {_mj_cm2(best['need'])} in {format_duration(t)} "
+    in_t = format_duration(t) + (f" ('{vague}', not quantified)" if vague else "")
+    basis = (f"{sig(percent, 4)} % of {who} needs {_mj_cm2(best['need'])} in {in_t} "
              f"{best['place']}; this lamp gives at most {_mj_cm2(best['avail'])} there "
              f"({_uw_cm2(best['e'])} × {format_duration(t)}): {_short(ratio)}")
     if decision is not None:
         basis += f" (dose {decision})"
-    elif verdict == "unlikely":
-        basis += f" (within the decision margin of {sig(ev.margin, 2)}×)"
     return Verdict(c.id, c.kind, c.text, verdict,
                    Quantity(best["need"], "J m-2", f"dose for {sig(percent, 4)} %"),
                    Quantity(best["avail"], "J m-2", "dose this lamp gives, most favourable reading"),
                    ratio, basis, tuple(assumptions), (), ev_kind, best["reading"],
                    {"organism_id": o.id, "medium": best["medium"], "time_s": t,
-                    "irradiance_W_m2": best["e"], "place": best["place"]})
+                    "irradiance_W_m2": best["e"], "place": best["place"]},
+                   rule_interval(ev.rule) if decision is not None else rule_margin(ev.margin))
 
 
 def _coverage(c: Any, ev: Evidence) -> Verdict:
     """'for rooms up to 20 m²': the listing's own inactivation claim over that room, else the
-    benchmark of :data:`COVERAGE_BENCHMARK`."""
+    benchmark of :data:`COVERAGE_BENCHMARK`.
+
+    The basis says what covering the room was taken to mean. When the inactivation claim is
+    itself judged over the same room (it names no place of its own and the listing's room is
+    this one), its numbers are not repeated: the basis points to that claim and gives the
+    factor.
+    """
     missing = c.missing()
     if missing:
         return _na(c, ev, "no area or room volume stated", missing)
     from uvcheck.io.listing import Claim
 
+    room = (f"{c.area_m2:g} m²" if c.area_m2 is not None else f"{c.volume_m3:g} m³")
     kill = next((k for k in ev.listing.claims if k.kind == "inactivation" and k.time_s
                  and (k.reduction_fraction is not None or k.log_reduction is not None)), None)
+    same_room = False
     if kill is not None:
         probe = replace(kill, id=c.id, text=c.text, kind="inactivation", distance_m=None,
                         area_m2=c.area_m2, volume_m3=c.volume_m3)
         how = f"the listing's own claim '{kill.text or kill.id}' applied to the whole room"
+        own = (kill.distance_m, kill.area_m2, kill.volume_m3, ev.listing.use_distance_m)
+        if all(x is None for x in own):
+            same_room = _room_box(probe, ev.listing) == _room_box(kill, ev.listing)
     else:
         p, t = COVERAGE_BENCHMARK
         probe = Claim(id=c.id, kind="inactivation", text=c.text, reduction_fraction=p / 100,
@@ -723,8 +798,21 @@ def _coverage(c: Any, ev: Evidence) -> Verdict:
         how = (f"uvcheck's benchmark for a room claim: {p:g} % of the most susceptible relevant "
                f"organism within {format_duration(t)} (not a standard)")
     v = _inactivation(probe, ev)
-    return replace(v, kind="coverage", text=c.text,
-                   assumptions=(f"judged as {how}",) + v.assumptions)
+    if v.verdict == "not-assessable":
+        basis = f"covering {room}: {v.basis}"
+    elif kill is not None and same_room:
+        basis = (f"covering {room} means doing what '{kill.text or kill.id}' says across a room of "
+                 f"that size; that claim ({kill.id}) is already judged over this same room, so "
+                 f"the numbers are the same: {_short(v.ratio)}" if v.ratio else v.basis)
+    elif kill is not None:
+        basis = (f"covering {room} means doing what '{kill.text or kill.id}' says across a room of "
+                 f"that size: {v.basis}")
+    else:
+        basis = f"covering {room} by {how}: {v.basis}"
+    return replace(v, kind="coverage", text=c.text, basis=basis,
+                   assumptions=(f"judged as {how}",) + v.assumptions,
+                   details={**v.details, "judged_as": kill.id if kill is not None else "benchmark",
+                            "same_room_as_claim": same_room})
 
 
 # --- ozone ------------------------------------------------------------------------------------
@@ -741,11 +829,12 @@ def _ozone(c: Any, ev: Evidence) -> Verdict:
         what = (f"the nominal model of this technology ({r.technology}) has no output below "
                 "240 nm" if r.evidence != "measured" else f"no output below 240 nm: {note}")
         return Verdict(c.id, c.kind, c.text, "holds", None, None, None, what, (), (), ev_kind,
-                       r.label)
+                       r.label, rule=("the technology's nominal model" if r.evidence != "measured"
+                                      else RULE_PRESENCE))
     if status == "present":
         return Verdict(c.id, c.kind, c.text, "cannot-hold", None, None, None,
                        f"output below 240 nm, which makes ozone from air: {note}", (), (),
-                       ev_kind, r.label)
+                       ev_kind, r.label, rule=RULE_PRESENCE)
     return Verdict(c.id, c.kind, c.text, "not-assessable", None, None, None,
                    f"cannot be known from the data: {note}", (),
                    ("a measurement down to 180 nm, or the lamp glass (ozone-free doped quartz)",),
@@ -788,7 +877,7 @@ def _safety(c: Any, ev: Evidence) -> Verdict:
                  f"(needs at least {format_duration(t)})")
         return Verdict(c.id, c.kind, c.text, verdict, Quantity(t, "s", "exposure time"),
                        Quantity(tl, "s", "time to the exposure limit at eye height"), ratio,
-                       basis, tuple(assumptions), (), r.evidence, r.label)
+                       basis, tuple(assumptions), (), r.evidence, r.label, rule=RULE_SAFETY)
     d = c.distance_m or ev.listing.use_distance_m
     if d is None:
         d = 0.2
@@ -828,7 +917,9 @@ def _safety(c: Any, ev: Evidence) -> Verdict:
         return Verdict(c.id, c.kind, c.text, verdict, Quantity(t, "s", "exposure time"),
                        Quantity(tm, "s", f"t_max ({h.get('symbol')})"), tm / t, basis,
                        tuple(assumptions), (), r.evidence, r.label,
-                       {"hazard": h.get("symbol"), "distance_m": d, "for": who})
+                       {"hazard": h.get("symbol"), "distance_m": d, "for": who},
+                       RULE_SAFETY if decision is None else
+                       f"{RULE_SAFETY}, with {rule_interval(ev.rule)}")
     if open_h:
         return _na(c, ev, f"within the limits so far, but {', '.join(open_h)} could not be fully "
                           "assessed, so safety cannot be confirmed",
@@ -838,7 +929,8 @@ def _safety(c: Any, ev: Evidence) -> Verdict:
                    Quantity(tm, "s", "shortest t_max") if tm else None,
                    (tm / t) if tm else None,
                    f"at {sig(d)} m every assessed hazard stays within its limit for {format_duration(t)}",
-                   tuple(assumptions), (), r.evidence, r.label, {"distance_m": d, "for": who})
+                   tuple(assumptions), (), r.evidence, r.label, {"distance_m": d, "for": who},
+                   RULE_SAFETY)
 
 
 # --- optical power and efficiency ------------------------------------------------------------
@@ -861,7 +953,8 @@ def _optical_power(c: Any, ev: Evidence) -> Verdict:
         if f is not None:
             return Verdict(c.id, c.kind, c.text, f.status if f.status in VERDICTS else "not-assessable",
                            _q(f.needed), _q(f.available), f.ratio, f.message, tuple(f.assumptions),
-                           tuple(f.missing), "listing", None)
+                           tuple(f.missing), "listing", None, {"finding": f.id, "basis": f.basis},
+                           f.rule)
         return _na(c, ev, "a stated optical power can only be checked against a measurement or "
                           "the electrical power", ("a spectrum with --distance", "lamp.electrical_power"))
     r = ev.readings[0]
@@ -874,7 +967,8 @@ def _optical_power(c: Any, ev: Evidence) -> Verdict:
                    Quantity(ub, "W", "largest flux consistent with the measurement"), ratio,
                    f"the measured irradiance at {sig(r.d_ref)} m allows at most {sig(ub)} W "
                    f"(all-round emission, Φ = 4πd²E) against the stated {sig(c.power_W)} W: {_short(ratio)}",
-                   ("a directional lamp emits less than this bound",), (), "measured", r.label)
+                   ("a directional lamp emits less than this bound",), (), "measured", r.label,
+                   rule=rule_margin(ev.margin))
 
 
 def _efficiency(c: Any, ev: Evidence) -> Verdict:
@@ -884,7 +978,7 @@ def _efficiency(c: Any, ev: Evidence) -> Verdict:
                    ("lamp.technology",) if c.efficiency_fraction is not None else c.missing())
     return Verdict(c.id, c.kind, c.text, f.status if f.status in VERDICTS else "not-assessable",
                    _q(f.needed), _q(f.available), f.ratio, f.message, tuple(f.assumptions),
-                   tuple(f.missing), "listing", None)
+                   tuple(f.missing), "listing", None, {"finding": f.id, "basis": f.basis}, f.rule)
 
 
 _JUDGES = {"emission": _emission, "inactivation": _inactivation, "coverage": _coverage,
@@ -920,21 +1014,34 @@ class ClaimsResult:
                 "plausibility": None if self.plausibility is None else self.plausibility.to_dict()}
 
 
+#: The exception to the margin, as printed with every decision rule.
+HARD_BOUNDS_TEXT = (
+    "Exception: a hard bound decides 'cannot-hold' at any shortfall, with no margin: physics "
+    "(a photon energy above what the LED voltage allows, more optical than electrical power, "
+    "the wall-plug limit EQE·hc/λ/(e·V)), a cover material that blocks the band, the best the "
+    "technology has reached, or no emission above the detection limit where the claim needs "
+    "it. Checks against technology data or rules of thumb (common practice) give at most "
+    "'unlikely'. Each verdict names the rule that decided it.")
+
+
 def decision_rule_text(margin: float = MARGIN, rule: str | None = None) -> str:
     head = ("efficacy claims: benefit of the doubt (most favourable reading, most susceptible "
             "organism, lowest dose across studies). Safety claims: fail as soon as the most "
             "likely reading exceeds an exposure limit. ")
     if rule is None:
         return head + (f"Without measurement uncertainty: 'cannot-hold' only when the favourable "
-                       f"reading falls short by more than {sig(margin, 2)}×, 'unlikely' within it.")
+                       f"reading falls short by more than {sig(margin, 2)}×, 'unlikely' within "
+                       f"it. " + HARD_BOUNDS_TEXT)
     if rule == "simple":
         return head + ("Simple acceptance on the 95 % interval (ILAC-G8:09/2019): decided on the "
                        "measured value; 'unlikely' when only the upper end of the interval meets "
-                       "the need, 'cannot-hold' when even the upper end falls short.")
+                       "the need, 'cannot-hold' when even the upper end falls short. "
+                       + HARD_BOUNDS_TEXT)
     return head + ("Guarded acceptance on the 95 % interval (ILAC-G8:09/2019, guard band U): "
                    "'holds' only when the whole interval meets the need (for safety: stays within "
                    "the limit); 'cannot-hold' when even the upper end falls short (for safety: "
-                   "when the measured value exceeds the limit); otherwise 'unlikely'.")
+                   "when the measured value exceeds the limit); otherwise 'unlikely'. "
+                   + HARD_BOUNDS_TEXT)
 
 
 def judge(listing: Any, readings: Iterable[Reading], measured: bool,

@@ -73,9 +73,10 @@ def guarded(fn: Callable[..., Any]) -> Callable[..., Any]:
 # ---------------------------------------------------------------------------------------------
 
 from uvcheck.cli_options import (  # noqa: E402  (typer only)
-    Alpha, Block, Column, DataStart, Decimal, Delimiter, Distance, ElectricalPower, Encoding,
-    ExposureTime, Force, GeneralLighting, Limits, Quiet, ScaleBand, ScaleLux, ScaleTotal,
-    SourceSize, Unit, UseDistance, WlColumn, WlUnit)
+    Alpha, Block, CalibrationUncertainty, Column, DataStart, Decimal, DecisionRule, Delimiter,
+    Distance, DistanceUncertainty, Draws, ElectricalPower, Encoding, ExposureTime, Force,
+    GeneralLighting, Limits, NoUncertainty, Quiet, ScaleBand, ScaleLux, ScaleTotal, SourceSize,
+    StrayLight, Unit, UseDistance, WavelengthUncertainty, WlColumn, WlUnit)
 
 
 def read_options(encoding: str | None, delimiter: str | None, decimal: str | None,
@@ -125,30 +126,16 @@ def assess(
     claims: Annotated[Optional[Path], typer.Option("--claims", help="Listing file (TOML) whose "
                                                    "claims are judged against the measurement.")] = None,
     fail_on: Annotated[Optional[str], typer.Option("--fail-on", help="Exit with status 1 when a "
-                                                   "claim gets this verdict (cannot-hold, unlikely, "
-                                                   "not-assessable).")] = None,
+                                                   "claim gets this verdict or a worse one "
+                                                   "(not-assessable < unlikely < cannot-hold).")] = None,
     electrical_power: ElectricalPower = None,
-    no_uncertainty: Annotated[bool, typer.Option("--no-uncertainty", help="Skip the Monte Carlo "
-                                                 "uncertainty evaluation.",
-                                                 rich_help_panel="Uncertainty")] = False,
-    calibration_uncertainty: Annotated[Optional[str], typer.Option(
-        "--calibration-uncertainty", help="Standard uncertainty of the spectral calibration, e.g. "
-        "'7 %' or 'UV=10 %,visible=3 %' (default by band, common practice).",
-        rich_help_panel="Uncertainty")] = None,
-    wavelength_uncertainty: Annotated[Optional[str], typer.Option(
-        "--wavelength-uncertainty", help="Wavelength-scale uncertainty, e.g. '±0.5 nm'.",
-        rich_help_panel="Uncertainty")] = None,
-    distance_uncertainty: Annotated[Optional[str], typer.Option(
-        "--distance-uncertainty", help="Uncertainty of the measurement distance, e.g. '5 mm'.",
-        rich_help_panel="Uncertainty")] = None,
-    stray_light: Annotated[Optional[str], typer.Option(
-        "--stray-light", help="UV stray-light allowance, e.g. '0.01 %' of the spectral peak.",
-        rich_help_panel="Uncertainty")] = None,
-    decision_rule: Annotated[Optional[str], typer.Option(
-        "--decision-rule", help="How verdicts use the 95 % intervals: simple or guarded "
-        "acceptance (ILAC-G8).", rich_help_panel="Uncertainty")] = None,
-    draws: Annotated[Optional[int], typer.Option(help="Monte Carlo draws (default 4000).",
-                                                 rich_help_panel="Uncertainty")] = None,
+    no_uncertainty: NoUncertainty = False,
+    calibration_uncertainty: CalibrationUncertainty = None,
+    wavelength_uncertainty: WavelengthUncertainty = None,
+    distance_uncertainty: DistanceUncertainty = None,
+    stray_light: StrayLight = None,
+    decision_rule: DecisionRule = None,
+    draws: Draws = None,
     quiet: Quiet = False,
     encoding: Encoding = None, delimiter: Delimiter = None, decimal: Decimal = None,
     column: Column = None, wavelength_column: WlColumn = None, wavelength_unit: WlUnit = None,
@@ -166,20 +153,15 @@ def assess(
 
     if sum(x is not None for x in (scale_band, scale_lux, scale_total)) > 1:
         raise ConfigurationError("give only one of --scale-band, --scale-lux, --scale-total")
-    if json_out and json_out != "-" and Path(json_out).is_dir():
-        from uvcheck.errors import UvcheckError
-
-        raise UvcheckError("the output path is a folder", json_out, "give a file name")
-    if json_out and json_out != "-" and Path(json_out).exists() and not force:
-        from uvcheck.errors import OutputExistsError
-
-        raise OutputExistsError("the output file exists", json_out,
-                                "give --force to replace it, or choose another name")
+    check_output_file(json_out, force)
+    _check_fail_on(fail_on)
+    options = assess_options(limits, no_uncertainty, calibration_uncertainty,
+                             wavelength_uncertainty, distance_uncertainty, stray_light,
+                             decision_rule, draws)
     opts = read_options(encoding, delimiter, decimal, column, wavelength_column, wavelength_unit,
                         unit, block, data_start)
     spec, report = read_spectrum(spectrum_file, opts)
     spec = apply_scaling(spec, scale_band, scale_lux, scale_total)
-    _check_fail_on(fail_on)
     d0 = _length(distance, "--distance") if distance else report.measurement_distance_m
     listing = None
     if claims is not None:
@@ -189,15 +171,43 @@ def assess(
     cond = conditions_from_options(d0, source_size, alpha, use_distance, general_lighting,
                                    exposure_time, listing=listing,
                                    electrical_power=electrical_power)
-    options = assess_options(limits, no_uncertainty, calibration_uncertainty,
-                             wavelength_uncertainty, distance_uncertainty, stray_light,
-                             decision_rule, draws)
     result = run_assess(spec, cond, report, options, listing=listing).to_dict()
     if json_out:
         write_json(json_out, result, force=force)
     if not quiet and json_out != "-":
         typer.echo(render_assessment(result), nl=False)
     _exit_for(result, fail_on)
+
+
+def check_output_file(path: str | Path | None, force: bool, option: str = "--json") -> None:
+    """Refuse before any work: an output that is a folder, lies in a folder that does not
+    exist, or exists without --force ('-' is stdout, None no output)."""
+    if path is None or str(path) == "-":
+        return
+    from uvcheck.errors import OutputExistsError, UvcheckError
+
+    p = Path(path)
+    if p.is_dir():
+        raise UvcheckError("the output path is a folder", str(p), "give a file name")
+    folder = p.parent if str(p.parent) else Path(".")
+    if not folder.is_dir():
+        raise UvcheckError("the output folder does not exist", str(folder),
+                           f"create it first, or give {option} a path in an existing folder")
+    if p.exists() and not force:
+        raise OutputExistsError("the output file exists", str(p),
+                                "give --force to replace it, or choose another name")
+
+
+def uncertainty_given(no_uncertainty: bool = False, calibration: str | None = None,
+                      wavelength: str | None = None, distance: str | None = None,
+                      stray_light: str | None = None, decision_rule: str | None = None,
+                      draws: int | None = None) -> list[str]:
+    """The uncertainty options given on the command line, by option name."""
+    pairs = (("--no-uncertainty", no_uncertainty or None),
+             ("--calibration-uncertainty", calibration), ("--wavelength-uncertainty", wavelength),
+             ("--distance-uncertainty", distance), ("--stray-light", stray_light),
+             ("--decision-rule", decision_rule), ("--draws", draws))
+    return [name for name, v in pairs if v is not None]
 
 
 def assess_options(limits: str, no_uncertainty: bool = False, calibration: str | None = None,
@@ -212,8 +222,11 @@ def assess_options(limits: str, no_uncertainty: bool = False, calibration: str |
         raise ConfigurationError(f"--draws must be between 100 and 1 000 000, got {draws}")
     given = (calibration, wavelength, distance, stray_light, decision_rule)
     if no_uncertainty:
-        if any(x is not None for x in given):
-            raise ConfigurationError("uncertainty options were given with --no-uncertainty")
+        named = uncertainty_given(False, calibration, wavelength, distance, stray_light,
+                                  decision_rule, draws)
+        if named:
+            raise ConfigurationError("cannot be combined with --no-uncertainty", named[0],
+                                     f"leave out --no-uncertainty or {', '.join(named)}")
         return AssessOptions(limit_set=limits, uncertainty=False)
     inputs = None
     if any(x is not None for x in given):
@@ -255,7 +268,8 @@ def screen(
                                                     "to this path ('-' for stdout).")] = None,
     force: Annotated[bool, typer.Option(help="Replace existing output files.")] = False,
     fail_on: Annotated[Optional[str], typer.Option("--fail-on", help="Exit with status 1 when a "
-                                                   "claim gets this verdict.")] = None,
+                                                   "claim gets this verdict or a worse one "
+                                                   "(not-assessable < unlikely < cannot-hold).")] = None,
     limits: Annotated[str, typer.Option(help="Exposure-limit set.")] = "iec62471_2006",
     quiet: Annotated[bool, typer.Option(help="Print nothing but errors.")] = False,
 ) -> None:
@@ -267,15 +281,7 @@ def screen(
     from uvcheck.screening import screen_listing_file
 
     _check_fail_on(fail_on)
-    if json_out and json_out != "-" and Path(json_out).is_dir():
-        from uvcheck.errors import UvcheckError
-
-        raise UvcheckError("the output path is a folder", json_out, "give a file name")
-    if json_out and json_out != "-" and Path(json_out).exists() and not force:
-        from uvcheck.errors import OutputExistsError
-
-        raise OutputExistsError("the output file exists", json_out,
-                                "give --force to replace it, or choose another name")
+    check_output_file(json_out, force)
     listing = read_listing(listing_file)
     result = screen_listing_file(listing, limit_set=limits).to_dict()
     if json_out:

@@ -14,8 +14,10 @@ from typing import Annotated, Any, Optional
 
 import typer
 
-from uvcheck.cli_options import (Distance, ElectricalPower, ExposureTime, Force,
-                                 GeneralLighting, Limits, Quiet, SourceSize, Unit, UseDistance)
+from uvcheck.cli_options import (CalibrationUncertainty, DecisionRule, Distance,
+                                 DistanceUncertainty, Draws, ElectricalPower, ExposureTime, Force,
+                                 GeneralLighting, Limits, Quiet, SourceSize, StrayLight, Unit,
+                                 UseDistance, WavelengthUncertainty)
 
 
 def batch_command(
@@ -35,10 +37,18 @@ def batch_command(
         "--notes", help="Also write a safety note per product into this folder "
                         "(<id>.html and <id>.pdf; slow).")] = None,
     no_pdf: Annotated[bool, typer.Option("--no-pdf", help="Notes in HTML only.")] = False,
-    uncertainty: Annotated[bool, typer.Option(
-        "--uncertainty", help="Run the Monte Carlo uncertainty evaluation for every measured "
-                              "spectrum, as 'uvcheck assess' does by default (off in a batch: "
-                              "it costs about 0.1 s per product).")] = False,
+    uncertainty: Annotated[Optional[bool], typer.Option(
+        "--uncertainty/--no-uncertainty", help="Run the Monte Carlo uncertainty evaluation "
+        "for every measured spectrum, as 'uvcheck assess' does by default. Default: on with "
+        "--notes or any uncertainty option below (the notes state the intervals, as 'uvcheck "
+        "note' does), else off (it costs about 0.1 s per product).",
+        rich_help_panel="Uncertainty", show_default=False)] = None,
+    calibration_uncertainty: CalibrationUncertainty = None,
+    wavelength_uncertainty: WavelengthUncertainty = None,
+    distance_uncertainty: DistanceUncertainty = None,
+    stray_light: StrayLight = None,
+    decision_rule: DecisionRule = None,
+    draws: Draws = None,
     limits: Limits = "iec62471_2006",
     distance: Distance = None,
     source_size: SourceSize = None,
@@ -92,16 +102,23 @@ def batch_command(
     nominal: a listing without a spectrum, every figure an ESTIMATE).
     """
     from uvcheck.batch import BatchSettings, check_outputs, defaults_from_options, run_batch
-    from uvcheck.cli import FAIL_ON, _check_fail_on
+    from uvcheck.cli import FAIL_ON, _check_fail_on, uncertainty_given
 
     _check_fail_on(fail_on)
     check_outputs(out, force, resume)
+    unc = {"calibration": calibration_uncertainty, "wavelength": wavelength_uncertainty,
+           "distance": distance_uncertainty, "stray_light": stray_light,
+           "decision_rule": decision_rule, "draws": draws}
+    if uncertainty is None:
+        uncertainty = notes is not None or bool(uncertainty_given(**unc))
     settings = BatchSettings(
         defaults=defaults_from_options(
             distance=distance, source_size=source_size, use_distance=use_distance,
             exposure_time=exposure_time, electrical_power=electrical_power, unit=unit,
             general_lighting="yes" if general_lighting else None),
-        limits=limits, uncertainty=uncertainty, pdf=not no_pdf)
+        limits=limits, uncertainty=uncertainty,
+        uncertainty_options={k: v for k, v in unc.items() if v is not None}, pdf=not no_pdf)
+    settings.assess_options()   # a wrong text (or one with --no-uncertainty) fails before any work
     from uvcheck.limits import available_limit_sets
 
     if limits not in available_limit_sets():

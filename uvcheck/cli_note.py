@@ -17,10 +17,13 @@ from typing import Annotated, Any, Optional
 
 import typer
 
-from uvcheck.cli_options import (Alpha, Block, Column, DataStart, Decimal, Delimiter, Distance,
-                                 ElectricalPower, Encoding, ExposureTime, Force, GeneralLighting,
-                                 Limits, Quiet, ScaleBand, ScaleLux, ScaleTotal, SourceSize, Unit,
-                                 UseDistance, WlColumn, WlUnit)
+from uvcheck.cli_options import (Alpha, Block, CalibrationUncertainty, Column, DataStart, Decimal,
+                                 DecisionRule, Delimiter, Distance, DistanceUncertainty, Draws,
+                                 ElectricalPower, Encoding, ExposureTime, EyeHeight, Force,
+                                 GeneralLighting, LampAt, Limits, NoUncertainty, Quiet,
+                                 Reflectance, RoomPattern, ScaleBand, ScaleLux, ScaleTotal,
+                                 SourceSize, StrayLight, TubeAxis, TubeLength, Unit, UseDistance,
+                                 WavelengthUncertainty, WlColumn, WlUnit, WorkPlane)
 
 #: The demo scenario, relative to a source checkout (next to the package, or the current folder).
 SCENARIO_RELPATH = Path("examples") / "demo" / "scenario.toml"
@@ -47,16 +50,25 @@ def note_result(spectrum_file: Path | None, listing_file: Path | None, *, read_o
                 use_distance: str | None = None, general_lighting: bool = False,
                 exposure_time: str = "8 h", limits: str = "iec62471_2006",
                 electrical_power: str | None = None,
-                room: dict[str, Any] | None = None) -> tuple[dict[str, Any], Any]:
+                room: dict[str, Any] | None = None,
+                room_where: dict[str, str] | None = None,
+                uncertainty: dict[str, Any] | None = None) -> tuple[dict[str, Any], Any]:
     """(``Assessment.to_dict()`` made strict-JSON, the spectrum it was computed from).
 
     With a spectrum: the measured assessment, with the listing's claims judged against it.
     With a listing only: the listing screening (nominal spectra, an ESTIMATE).
-    room : ``{"size": "4 x 5 x 2.7 m", "lamp_at": ..., "pattern": ..., "tube_length": ...}``
-        to add the room model's result as the ``room`` section.
+    room : ``{"size": "4 x 5 x 2.7 m", "lamp_at": ..., "pattern": ..., "tube_length": ...,
+        "axis": ..., "reflectance": ..., "work_plane": ..., "eye_height": ...}`` (texts, as
+        ``uvcheck room`` takes them) to add the room model's result as the ``room`` section;
+        checked before anything is computed (:func:`room_spec`). room_where : where an error
+        in each key points (default: the ``note`` options, :data:`ROOM_OPTIONS`).
+    uncertainty : the uncertainty option texts, keys of :data:`UNCERTAINTY_KEYS`
+        (``no_uncertainty``, ``calibration``, ``wavelength``, ``distance``, ``stray_light``,
+        ``decision_rule``, ``draws``), as ``uvcheck assess`` takes them; they apply to a
+        measured spectrum (a listing alone is screened as ``uvcheck screen`` does).
     """
-    from uvcheck.assessment import AssessOptions, assess
-    from uvcheck.cli import _length, apply_scaling, conditions_from_options
+    from uvcheck.assessment import assess
+    from uvcheck.cli import _length, apply_scaling, assess_options, conditions_from_options
     from uvcheck.errors import ConfigurationError
     from uvcheck.report.jsonout import clean
 
@@ -65,19 +77,24 @@ def note_result(spectrum_file: Path | None, listing_file: Path | None, *, read_o
                                  todo="e.g. 'uvcheck note lamp.csv --listing lamp.toml --out note.html'")
     if sum(x is not None for x in (scale_band, scale_lux, scale_total)) > 1:
         raise ConfigurationError("give only one of --scale-band, --scale-lux, --scale-total")
+    options = assess_options(limits, **(uncertainty or {}))
     listing = None
     if listing_file is not None:
         from uvcheck.io.listing import read_listing
 
         listing = read_listing(listing_file)
+    rs = None
+    if room:
+        tube = listing.tube_length_m if listing is not None and listing.emitter == "tube" else None
+        rs = room_spec(room, room_where, tube)
     if spectrum_file is None:
         from uvcheck.screening import screen_listing_file
 
         a = screen_listing_file(listing, limit_set=limits)
         d = a.to_dict()
         spec, cond = a.spectrum, a.conditions
-        if room:
-            d["room"] = room_result(spec, cond, room)
+        if rs:
+            d["room"] = room_result(spec, cond, rs)
     else:
         from uvcheck.io.reader import read_spectrum
 
@@ -87,35 +104,105 @@ def note_result(spectrum_file: Path | None, listing_file: Path | None, *, read_o
         cond = conditions_from_options(d0, source_size, alpha, use_distance, general_lighting,
                                        exposure_time, listing=listing,
                                        electrical_power=electrical_power)
-        extra = {"room": room_result(spec, cond, room)} if room else None
-        d = assess(spec, cond, report, AssessOptions(limit_set=limits), extra=extra,
-                   listing=listing).to_dict()
+        extra = {"room": room_result(spec, cond, rs)} if rs else None
+        d = assess(spec, cond, report, options, extra=extra, listing=listing).to_dict()
     return clean(d), spec
 
 
-def room_result(spec: Any, cond: Any, room: dict[str, Any]) -> dict[str, Any]:
-    """The room model's dict for a spectrum measured at ``cond.measurement_distance_m``."""
-    from uvcheck.cli_room import PATTERN_NAMES, _triple
+#: The uncertainty options of ``note``, ``demo`` and ``batch`` (the ``assess`` options of the
+#: same meaning), as keyword names of :func:`uvcheck.cli.assess_options`.
+UNCERTAINTY_KEYS = ("no_uncertainty", "calibration", "wavelength", "distance", "stray_light",
+                    "decision_rule", "draws")
+
+#: Room keys (as ``uvcheck room`` names its options) and the ``note`` option each comes from.
+ROOM_OPTIONS = {"size": "--room", "lamp_at": "--lamp-at", "pattern": "--pattern",
+                "tube_length": "--tube-length", "axis": "--axis", "reflectance": "--reflectance",
+                "work_plane": "--work-plane", "eye_height": "--eye-height"}
+#: Defaults of the room options (those of ``uvcheck room``).
+ROOM_DEFAULTS = {"pattern": "isotropic", "axis": "x", "reflectance": "5 %",
+                 "work_plane": "0.75 m", "eye_height": "1.7 m"}
+
+
+def room_spec(room: dict[str, Any], where: dict[str, str] | None = None,
+              tube_from_listing_m: float | None = None) -> dict[str, Any]:
+    """The room, the lamp's geometry and the model's settings from the room texts, checked
+    (the lamp, and every part of a tube, inside the room) before anything is computed.
+
+    room : texts by key of :data:`ROOM_OPTIONS` (missing keys take :data:`ROOM_DEFAULTS`).
+    where : the place an error names, by key (default :data:`ROOM_OPTIONS`).
+    tube_from_listing_m : a listing's tube length: for a cylinder without ``tube_length``
+        the room's notes say how to use it (it is not used silently). [m]
+    Returns ``{"box", "geometry", "settings", "notes"}``.
+    """
+    from uvcheck.cli_room import PATTERN_NAMES, _placed, _triple
     from uvcheck.errors import ConfigurationError
-    from uvcheck.room import Box, LampGeometry, evaluate_room, lamp_from_spectrum
+    from uvcheck.room import Box, LampGeometry, _check_inside
     from uvcheck.units import parse_quantity
 
-    w, l, h = _triple(str(room["size"]), "room size")
-    box = Box(w, l, h)
-    pos = _triple(str(room["lamp_at"]), "lamp position") if room.get("lamp_at") else (
+    at = {**ROOM_OPTIONS, **(where or {})}
+    r = {**ROOM_DEFAULTS, **{k: v for k, v in room.items() if v not in (None, "")}}
+    unknown = sorted(set(r) - set(ROOM_OPTIONS))
+    if unknown:
+        raise ConfigurationError(f"unknown room key {unknown[0]!r}", at["size"],
+                                 f"the keys are: {', '.join(ROOM_OPTIONS)}")
+
+    def length(key: str) -> float:
+        v = parse_quantity(str(r[key]), "length", at[key]).value_si
+        if not (v >= 0 and v == v and v != float("inf")):
+            raise ConfigurationError(f"{r[key]!r} must be a length of 0 or more", at[key])
+        return v
+
+    w, l, h = _triple(str(r["size"]), at["size"])
+    box = _placed(at["size"], Box, w, l, h)
+    pos = _triple(str(r["lamp_at"]), at["lamp_at"]) if r.get("lamp_at") else (
         w / 2, l / 2, max(h - 0.3, h / 2))
-    pattern = str(room.get("pattern", "isotropic"))
+    pattern = str(r["pattern"])
     if pattern not in PATTERN_NAMES:
-        raise ConfigurationError(f"unknown pattern {pattern!r}", "room pattern",
+        raise ConfigurationError(f"unknown pattern {pattern!r}", at["pattern"],
                                  "use isotropic, lambertian-down or cylinder")
-    tl = parse_quantity(str(room["tube_length"]), "length", "tube length").value_si \
-        if room.get("tube_length") else 0.0
-    geom = LampGeometry(pos, PATTERN_NAMES[pattern], tl, str(room.get("axis", "x")))
+    axis = str(r["axis"])
+    if axis not in ("x", "y"):
+        raise ConfigurationError(f"unknown tube axis {axis!r}", at["axis"],
+                                 "use x (along the width) or y (along the length)")
+    notes = []
+    tl = length("tube_length") if r.get("tube_length") else 0.0
+    if not r.get("tube_length") and PATTERN_NAMES[pattern] == "cylinder" and tube_from_listing_m:
+        # said, not silently used: the tube's direction is not in the listing, and a tube
+        # that does not fit the room as placed would turn a warning into an error
+        notes.append(f"the listing states a tube length of {float(tube_from_listing_m):g} m; "
+                     f"give {at['tube_length']} (and {at['axis']} for its direction) to model "
+                     "the tube with it")
+    geom = _placed(at["lamp_at"], LampGeometry, pos, PATTERN_NAMES[pattern], tl, axis)
+    _placed(at["lamp_at"], _check_inside, box, geom)
+    rho = parse_quantity(str(r["reflectance"]), "fraction", at["reflectance"]).value_si
+    if not 0.0 <= rho < 1.0:
+        raise ConfigurationError(f"reflectance {r['reflectance']!r} must be from 0 to under "
+                                 "100 %", at["reflectance"])
+    settings = {"reflectance": rho, "work_plane_m": length("work_plane"),
+                "eye_height_m": length("eye_height")}
+    for key, v in (("work_plane", settings["work_plane_m"]), ("eye_height", settings["eye_height_m"])):
+        if not v <= h:
+            raise ConfigurationError(f"{r[key]!r} is above the ceiling ({h:g} m)", at[key])
+    return {"box": box, "geometry": geom, "settings": settings, "notes": notes,
+            "where": at}
+
+
+def room_result(spec: Any, cond: Any, rs: dict[str, Any]) -> dict[str, Any]:
+    """The room model's dict for a spectrum measured at ``cond.measurement_distance_m``
+    (``rs`` from :func:`room_spec`)."""
+    from uvcheck.cli_room import _placed
+    from uvcheck.room import evaluate_room, lamp_from_spectrum
+
+    geom = rs["geometry"]
     if spec.quantity == "flux":
-        lamp = lamp_from_spectrum(spec, geom)
+        lamp = _placed("--distance", lamp_from_spectrum, spec, geom)
     else:
-        lamp = lamp_from_spectrum(spec, geom, cond.measurement_distance_m)
-    return evaluate_room(box, lamp).to_dict()
+        lamp = _placed("--distance", lamp_from_spectrum, spec, geom, cond.measurement_distance_m)
+    d = _placed(rs["where"]["lamp_at"], evaluate_room, rs["box"], lamp,
+                **rs["settings"]).to_dict()
+    if rs["notes"]:
+        d["notes"] = list(d.get("notes") or []) + list(rs["notes"])
+    return d
 
 
 # ---------------------------------------------------------------------------------------------
@@ -140,6 +227,16 @@ def check_free(paths: list[Path | None], force: bool) -> None:
         if p is not None and p.exists() and not force:
             raise OutputExistsError("the output file exists", str(p),
                                     "give --force to replace it, or choose another name")
+
+
+def check_writable(paths: list[Path | None], force: bool, option: str = "--out") -> None:
+    """Refuse before any work: an output that is a folder, in a folder that does not exist,
+    or existing without --force (:func:`uvcheck.cli.check_output_file` for each)."""
+    from uvcheck.cli import check_output_file
+
+    for p in paths:
+        if p is not None:
+            check_output_file(p, force, option)
 
 
 def render_note(result: dict[str, Any], spectrum: Any, *, pdf: bool = True,
@@ -206,12 +303,20 @@ def note_command(
     room: Annotated[Optional[str], typer.Option("--room", help="Also model the lamp in a room "
                                                 "'W x L x H m' (uvcheck room's model).",
                                                 rich_help_panel="Room")] = None,
-    lamp_at: Annotated[Optional[str], typer.Option("--lamp-at", help="Lamp position in the room "
-                                                   "'x, y, z m' (default: centre, 0.3 m below "
-                                                   "the ceiling).", rich_help_panel="Room")] = None,
-    pattern: Annotated[str, typer.Option(help="Emission pattern in the room: isotropic, "
-                                         "lambertian-down or cylinder.",
-                                         rich_help_panel="Room")] = "isotropic",
+    lamp_at: LampAt = None,
+    pattern: RoomPattern = "isotropic",
+    tube_length: TubeLength = None,
+    axis: TubeAxis = "x",
+    reflectance: Reflectance = "5 %",
+    work_plane: WorkPlane = "0.75 m",
+    eye_height: EyeHeight = "1.7 m",
+    no_uncertainty: NoUncertainty = False,
+    calibration_uncertainty: CalibrationUncertainty = None,
+    wavelength_uncertainty: WavelengthUncertainty = None,
+    distance_uncertainty: DistanceUncertainty = None,
+    stray_light: StrayLight = None,
+    decision_rule: DecisionRule = None,
+    draws: Draws = None,
     quiet: Quiet = False,
     encoding: Encoding = None, delimiter: Delimiter = None, decimal: Decimal = None,
     column: Column = None, wavelength_column: WlColumn = None, wavelength_unit: WlUnit = None,
@@ -221,23 +326,51 @@ def note_command(
     listing: the product as sold, a plain-language finding, the claims with verdicts, the
     hazards, germicidal output, cautions and provenance. A screening assessment, not a
     certification."""
-    from uvcheck.cli import read_options
+    from uvcheck.cli import assess_options, read_options, uncertainty_given
     from uvcheck.errors import ConfigurationError
 
     if spectrum_file is None and listing is None:
         raise ConfigurationError("give a spectrum file, a --listing file, or both",
                                  todo="e.g. 'uvcheck note lamp.csv --listing lamp.toml --out note.html'")
+    # everything that can be checked is checked before any work: outputs, options, the room
     stem = (spectrum_file or listing).stem  # type: ignore[union-attr]
     html_path, pdf_path = output_paths(out or Path(f"{stem}.note.html"), not no_pdf)
-    check_free([html_path, pdf_path], force)
+    check_writable([html_path, pdf_path], force)
+    unc = dict(zip(UNCERTAINTY_KEYS, (no_uncertainty, calibration_uncertainty,
+                                      wavelength_uncertainty, distance_uncertainty, stray_light,
+                                      decision_rule, draws)))
+    given = uncertainty_given(**unc)
+    if spectrum_file is None and given:
+        raise ConfigurationError("the uncertainty options apply to a measured spectrum only",
+                                 given[0],
+                                 "give the spectrum file too, or leave the uncertainty options "
+                                 "out (a listing alone is screened as an estimate)")
+    assess_options(limits, **unc)   # parsed here, so a wrong text fails before any work
+    room_options = {"lamp_at": lamp_at, "tube_length": tube_length}
+    if room is None:
+        named = [ROOM_OPTIONS[k] for k, v in room_options.items() if v is not None]
+        named += [ROOM_OPTIONS[k] for k, v in (("pattern", pattern), ("axis", axis),
+                                               ("reflectance", reflectance),
+                                               ("work_plane", work_plane),
+                                               ("eye_height", eye_height))
+                  if v != ROOM_DEFAULTS[k]]
+        if named:
+            raise ConfigurationError("the room options need --room", named[0],
+                                     "give the room too, e.g. --room '4 x 5 x 2.7 m'")
+        room_d = None
+    else:
+        room_d = {"size": room, **room_options, "pattern": pattern, "axis": axis,
+                  "reflectance": reflectance, "work_plane": work_plane, "eye_height": eye_height}
+        room_spec(room_d)   # the lamp inside the room, before any work (the listing's tube
+        #                     length, if any, is checked again once the listing is read)
     opts = read_options(encoding, delimiter, decimal, column, wavelength_column, wavelength_unit,
                         unit, block, data_start)
-    room_d = None if room is None else {"size": room, "lamp_at": lamp_at, "pattern": pattern}
     result, spec = note_result(spectrum_file, listing, read_opts=opts, distance=distance,
                                scale_band=scale_band, scale_lux=scale_lux, scale_total=scale_total,
                                source_size=source_size, alpha=alpha, use_distance=use_distance,
                                general_lighting=general_lighting, exposure_time=exposure_time,
-                               limits=limits, electrical_power=electrical_power, room=room_d)
+                               limits=limits, electrical_power=electrical_power, room=room_d,
+                               uncertainty=unc)
     h, p, _ = write_note(result, spec, html_path, pdf=not no_pdf, force=force, salt=stem)
     if not quiet:
         typer.echo(f"wrote {h}" + (f"\nwrote {p}" if p else ""))
@@ -276,11 +409,17 @@ def load_scenario(path: Path | None = None) -> dict[str, Any]:
     return sc
 
 
-def _demo_product(job: tuple[dict[str, Any], bool, str]) -> tuple[str, bytes | None, dict, dict]:
-    """One demo product: (HTML, PDF bytes, result dict, view model). Runs in a worker."""
-    p, pdf, date = job
+def _demo_product(job: tuple[dict[str, Any], bool, str, dict[str, Any]]
+                  ) -> tuple[str, bytes | None, dict, dict]:
+    """One demo product: (HTML, PDF bytes, result dict, view model). Runs in a worker.
+
+    The job holds plain texts only (the uncertainty options as given), so it pickles."""
+    p, pdf, date, unc = job
+    where = {k: f"demo scenario, product {p.get('id')!r}, room.{k}" for k in ROOM_OPTIONS}
     result, spec = note_result(p.get("spectrum"), p.get("listing"), distance=p.get("distance"),
-                               use_distance=p.get("use_distance"), room=p.get("room"))
+                               use_distance=p.get("use_distance"), room=p.get("room"),
+                               room_where=where,
+                               uncertainty=unc if p.get("spectrum") else None)
     text, data, view = render_note(result, spec, pdf=pdf, invented=True, salt=p["id"], date=date)
     return text, data, result, view
 
@@ -313,15 +452,27 @@ def demo_command(
                                                     "missing).")] = Path("uvcheck-demo"),
     force: Annotated[bool, typer.Option(help="Replace existing demo files.")] = False,
     no_pdf: Annotated[bool, typer.Option("--no-pdf", help="Write the HTML notes only.")] = False,
+    no_uncertainty: NoUncertainty = False,
+    calibration_uncertainty: CalibrationUncertainty = None,
+    wavelength_uncertainty: WavelengthUncertainty = None,
+    distance_uncertainty: DistanceUncertainty = None,
+    stray_light: StrayLight = None,
+    decision_rule: DecisionRule = None,
+    draws: Draws = None,
 ) -> None:
     """Run the whole tool on the bundled, INVENTED scenario (a veterinary clinic checks three
     lamps before buying): one note per product plus an overview. Products and data are
-    invented."""
+    invented. The uncertainty options apply to every product, as in 'uvcheck note'."""
+    from uvcheck.cli import assess_options
     from uvcheck.report.html import render_overview_html
     from uvcheck.report.jsonout import dumps, write_text_atomic
     from uvcheck.report.note import generated_date
 
     t0 = time.perf_counter()
+    unc = dict(zip(UNCERTAINTY_KEYS, (no_uncertainty, calibration_uncertainty,
+                                      wavelength_uncertainty, distance_uncertainty, stray_light,
+                                      decision_rule, draws)))
+    assess_options("iec62471_2006", **unc)   # a wrong text fails before any work
     sc = load_scenario()
     out = Path(out)
     products = sc.get("products", [])
@@ -332,7 +483,7 @@ def demo_command(
     check_free(planned, force)
     out.mkdir(parents=True, exist_ok=True)
     date = generated_date()
-    jobs = [(p, not no_pdf, date) for p in products]
+    jobs = [(p, not no_pdf, date, unc) for p in products]
     rendered = _map(_demo_product, jobs)
     items = []
     tool = ""
@@ -343,7 +494,7 @@ def demo_command(
         write_text_atomic(out / f"{p['id']}.json", dumps(result), force=force)
         tool = view["provenance"]["tool"]
         items.append({"id": p["id"], "title": view["title"], "finding": view["finding"],
-                      "risk": (view["risk"] or {}).get("headline", "—"),
+                      "risk": (view["risk"] or {}).get("overview") or (view["risk"] or {}).get("headline", "—"),
                       "claims_summary": view["claims_summary"],
                       "verdicts": [{"text": c["text"], "verdict": c["verdict"],
                                     "verdict_text": c["verdict_text"]} for c in view["claims"] or []],

@@ -1,4 +1,5 @@
-"""Command-line options shared by several commands (assess, note, batch), defined once.
+"""Command-line options shared by several commands (assess, note, demo, batch, room), defined
+once.
 
 Typer only: importing this module loads nothing heavy.
 """
@@ -70,3 +71,43 @@ ElectricalPower = Annotated[Optional[str], typer.Option("--electrical-power", he
                                                         "conversion efficiency).")]
 Force = Annotated[bool, typer.Option(help="Replace existing output files.")]
 Quiet = Annotated[bool, typer.Option(help="Print nothing but errors.")]
+
+# --- measurement uncertainty (assess, note, demo, batch) ---------------------------------------
+NoUncertainty = Annotated[bool, typer.Option("--no-uncertainty", help="Skip the Monte Carlo "
+                                             "uncertainty evaluation.", rich_help_panel=_UNC)]
+CalibrationUncertainty = Annotated[Optional[str], typer.Option(
+    "--calibration-uncertainty", help="Standard uncertainty of the spectral calibration, e.g. "
+    "'7 %' or 'UV=10 %,visible=3 %' (default by band, common practice).", rich_help_panel=_UNC)]
+WavelengthUncertainty = Annotated[Optional[str], typer.Option(
+    "--wavelength-uncertainty", help="Wavelength-scale uncertainty, e.g. '±0.5 nm'.",
+    rich_help_panel=_UNC)]
+DistanceUncertainty = Annotated[Optional[str], typer.Option(
+    "--distance-uncertainty", help="Uncertainty of the measurement distance, e.g. '5 mm'.",
+    rich_help_panel=_UNC)]
+StrayLight = Annotated[Optional[str], typer.Option(
+    "--stray-light", help="UV stray-light allowance, e.g. '0.01 %' of the spectral peak.",
+    rich_help_panel=_UNC)]
+DecisionRule = Annotated[Optional[str], typer.Option(
+    "--decision-rule", help="How verdicts and the risk group use the 95 % intervals: simple or "
+    "guarded acceptance (ILAC-G8).", rich_help_panel=_UNC)]
+Draws = Annotated[Optional[int], typer.Option("--draws", help="Monte Carlo draws (default 4000).",
+                                              rich_help_panel=_UNC)]
+
+# --- a lamp in a room (room, note) --------------------------------------------------------------
+_ROOM = "Room"
+LampAt = Annotated[Optional[str], typer.Option(
+    "--lamp-at", help="Lamp position x, y, z from a floor corner, e.g. '2, 2.5, 2.4 m' "
+                      "(default: room centre, 0.3 m below the ceiling).", rich_help_panel=_ROOM)]
+RoomPattern = Annotated[str, typer.Option(
+    "--pattern", help="Emission pattern: isotropic, lambertian-down or cylinder (a bare "
+                      "horizontal tube).", rich_help_panel=_ROOM)]
+TubeLength = Annotated[Optional[str], typer.Option(
+    "--tube-length", help="Arc length of a cylinder lamp, e.g. '0.9 m'.", rich_help_panel=_ROOM)]
+TubeAxis = Annotated[str, typer.Option("--axis", help="Tube axis: x (width) or y (length).",
+                                       rich_help_panel=_ROOM)]
+Reflectance = Annotated[str, typer.Option("--reflectance", help="Diffuse UV reflectance of "
+                                          "walls, floor and ceiling.", rich_help_panel=_ROOM)]
+WorkPlane = Annotated[str, typer.Option("--work-plane", help="Height of the work plane.",
+                                        rich_help_panel=_ROOM)]
+EyeHeight = Annotated[str, typer.Option("--eye-height", help="Occupant eye height (standing "
+                                        "about 1.7 m, seated 1.2 m).", rich_help_panel=_ROOM)]

@@ -15,6 +15,9 @@ from typing import Any, Annotated, Optional
 
 import typer
 
+from uvcheck.cli_options import (EyeHeight, LampAt, Reflectance, RoomPattern, TubeAxis,
+                                 TubeLength, WorkPlane)
+
 PATTERN_NAMES = {"isotropic": "isotropic", "lambertian-down": "lambertian_down",
                  "lambertian_down": "lambertian_down", "cylinder": "cylinder"}
 
@@ -60,7 +63,22 @@ def render_room(d: dict) -> str:
     lamp = d["lamp"]
     pl = d["plane"]
     occ = d["occupant"]
-    lines = [
+    st = d.get("status") or {}
+    lines: list[str] = [f"Warning: {w}" for w in d.get("warnings") or []]
+    if st.get("figures_are") in ("upper_bound", "none"):
+        # not germicidal output: said first and plainly, and no delivered figure is shown
+        head = ("NO GERMICIDAL UV-C OUTPUT" if st.get("figures_are") == "upper_bound"
+                else "UV-C NOT ASSESSED")
+        lines += [f"{head}: {st.get('statement')}"]
+        lines += [f"  ! {a['kind']}: {a['detail']}" for a in st.get("artefacts") or []]
+        lines += ["  No eACH, inactivation time or work-plane dose is given: this lamp is not "
+                  "shown to deliver any.", ""]
+        lines += _room_bounds(d)
+        return "\n".join(lines) + "\n"
+    notes = list(d["notes"])
+    if st.get("germicidal_status") not in (None, "germicidal-uvc", "partial"):
+        lines += [f"Note first: {notes.pop(0) if notes else st.get('statement')}", ""]
+    lines += [
         f"Room {sig(dim['width'])} × {sig(dim['length'])} × {sig(dim['height'])} m "
         f"({sig(d['volume_m3'])} m³), wall reflectance {sig(d['reflectance'] * 100)} %",
         f"Lamp at ({', '.join(sig(v) for v in lamp['position_m'])}) m, {lamp['pattern']}"
@@ -99,9 +117,46 @@ def render_room(d: dict) -> str:
               f"  8-h actinic limit reached in {format_duration(occ['time_to_limit_s'])}"
               + ("  — EXCEEDS the 8-h limit" if occ["exceeds_8h_limit"] else ""),
               f"  {occ['note']}"]
-    if d["notes"]:
-        lines += [""] + [f"Note: {n}" for n in d["notes"]]
+    if notes:
+        lines += [""] + [f"Note: {n}" for n in notes]
     return "\n".join(lines) + "\n"
+
+
+def _room_bounds(d: dict) -> list[str]:
+    """The room, the labelled upper bounds and the occupant block for a lamp whose UV-C is
+    likely stray light or below detection (nothing here is presented as delivered)."""
+    from uvcheck.units import format_duration, sig
+
+    dim = d["dimensions_m"]
+    lamp = d["lamp"]
+    occ = d["occupant"]
+    lines = [f"Room {sig(dim['width'])} × {sig(dim['length'])} × {sig(dim['height'])} m "
+             f"({sig(d['volume_m3'])} m³); lamp at ({', '.join(sig(v) for v in lamp['position_m'])}) m, "
+             f"{lamp['pattern']}"]
+    ub = lamp.get("uvc_flux_upper_bound_W")
+    if ub is not None:
+        lines.append("Upper bound only, as if the whole apparent UV-C signal were real output "
+                     "(it is not shown to be):")
+        lines.append(f"  UV-C flux at most {_fmt(ub, 'W')}  [{lamp['flux_basis']}]")
+        ams = d.get("air_most_susceptible")
+        if ams and ams.get("each_per_h_upper_bound") is not None:
+            lines.append(f"  air, most susceptible organism in the table ({ams['organism']}): eACH "
+                         f"at most {sig(ams['each_per_h_upper_bound'])} /h; 99.9 % not before "
+                         f"{format_duration(ams.get('time_to_99_9_s_lower_bound'))}")
+        if d.get("fluence_rate_avg_upper_bound_W_m2") is not None:
+            lines.append(f"  volume-average fluence rate at most "
+                         f"{_fmt(d['fluence_rate_avg_upper_bound_W_m2'], 'W m-2')} (254-nm-equivalent)")
+    lines += ["", f"Occupant at eye height {sig(occ['eye_height_m'])} m (worst point, eyes facing the lamp):",
+              f"  E_S {_fmt(occ['effective_S_W_m2'], 'W m-2')}"
+              + (" (lower bound)" if occ["effective_S_is_lower_bound"] else "")
+              + f"; 8-h actinic limit reached in {format_duration(occ['time_to_limit_s'])}"
+              + ("  — EXCEEDS the 8-h limit" if occ["exceeds_8h_limit"] else ""),
+              f"  {occ['note']}",
+              "  UV-A and blue-light hazards of this lamp: see 'uvcheck assess'."]
+    rest = [n for n in d["notes"][1:]] if d["notes"] else []
+    if rest:
+        lines += [""] + [f"Note: {n}" for n in rest]
+    return lines
 
 
 def room_command(
@@ -116,21 +171,13 @@ def room_command(
              "(default: from the file).")] = None,
     size: Annotated[str, typer.Option(
         help="Room width x length x height, e.g. '4 x 5 x 2.7 m'.")] = "4 x 5 x 2.7 m",
-    lamp_at: Annotated[Optional[str], typer.Option(
-        "--lamp-at", help="Lamp position x, y, z from a floor corner, e.g. '2, 2.5, 2.4 m' "
-                          "(default: room centre, 0.3 m below the ceiling).")] = None,
-    pattern: Annotated[str, typer.Option(
-        help="Emission pattern: isotropic, lambertian-down or cylinder (a bare horizontal "
-             "tube).")] = "isotropic",
-    tube_length: Annotated[Optional[str], typer.Option(
-        "--tube-length", help="Arc length of a cylinder lamp, e.g. '0.9 m'.")] = None,
-    axis: Annotated[str, typer.Option(help="Tube axis: x (width) or y (length).")] = "x",
-    reflectance: Annotated[str, typer.Option(
-        help="Diffuse UV reflectance of walls, floor and ceiling.")] = "5 %",
-    work_plane: Annotated[str, typer.Option(
-        "--work-plane", help="Height of the work plane.")] = "0.75 m",
-    eye_height: Annotated[str, typer.Option(
-        "--eye-height", help="Occupant eye height (standing about 1.7 m, seated 1.2 m).")] = "1.7 m",
+    lamp_at: LampAt = None,          # room options shared with 'note' (uvcheck.cli_options)
+    pattern: RoomPattern = "isotropic",
+    tube_length: TubeLength = None,
+    axis: TubeAxis = "x",
+    reflectance: Reflectance = "5 %",
+    work_plane: WorkPlane = "0.75 m",
+    eye_height: EyeHeight = "1.7 m",
     target_dose: Annotated[Optional[str], typer.Option(
         "--target-dose", help="254-nm-equivalent dose to reach on the work plane, "
                               "e.g. '10 mJ/cm2'.")] = None,
@@ -190,6 +237,9 @@ def room_command(
         write_json(json_out, {"room": d}, force=force)
     if not quiet and json_out != "-":
         typer.echo(render_room(d), nl=False)
+    else:
+        for w in d.get("warnings") or []:
+            typer.echo(f"warning: {w}", err=True)
 
 
 def _placed(option: str, fn: Any, *args: Any, **kwargs: Any) -> Any:
@@ -208,7 +258,9 @@ def render_organisms(rows: list[dict]) -> str:
     """Plain-text table of organism rows (doses in J/m² and mJ/cm²)."""
     from uvcheck.units import sig
 
-    out = [f"{'id':<48} {'medium':<11} {'nm':>5}  {'model':<11} {'D90':>30}  {'k (published)':<18} reliability"]
+    w_src = max([len("source")] + [len(r.get("source") or "") for r in rows])
+    out = [f"{'id':<48} {'medium':<11} {'nm':>5}  {'model':<11} {'D90':>30}  {'k (published)':<20} "
+           f"{'reliability':<11} {'source':<{w_src}} from memory"]
     for r in rows:
         k = r["k_published"]
         ktxt = "—" if k is None else f"{sig(k['value'])} cm²/mJ base {k['base']}"
@@ -217,11 +269,21 @@ def render_organisms(rows: list[dict]) -> str:
         if r["dose_bound"] == "at_most" and d90 is not None:
             dtxt = "≤ " + dtxt
         out.append(f"{r['id']:<48} {r['medium']:<11} {sig(r['wavelength_nm']):>5}  "
-                   f"{r['model']:<11} {dtxt:>30}  {ktxt:<18} {r['reliability']}")
+                   f"{r['model']:<11} {dtxt:>30}  {ktxt:<20} {r['reliability']:<11} "
+                   f"{r.get('source') or '—':<{w_src}} {_memory_word(r.get('from_memory'))}")
     out.append("")
     out.append("Doses as published (mJ/cm², cm²/mJ with their log base) are in "
-               "data/organisms/organisms.csv; sources in data/organisms/organisms.toml.")
+               "data/organisms/organisms.csv; 'source' is the key of the full citation in "
+               "data/organisms/organisms.toml (also in the JSON, with what is from memory).")
     return "\n".join(out) + "\n"
+
+
+def _memory_word(text: str | None) -> str:
+    """'no', 'partly', 'yes' … : the first word of the table's from-memory entry."""
+    t = (text or "").strip()
+    if not t:
+        return "—"
+    return t.split(":")[0].split(";")[0].strip()
 
 
 def organisms_command(

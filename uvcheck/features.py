@@ -11,7 +11,16 @@ after dark subtraction half of those samples are negative. Two estimators are us
   of the samples (the second difference of white noise has variance 6σ²; 1.4826·MAD is the
   usual robust estimate of a Gaussian σ).
 
-The larger of the two is kept when both apply. A noise-free synthetic spectrum gives σ = 0.
+The larger of the two is kept when both apply.
+
+Dynamic-range floor. Noise-free data (a synthetic spectrum, a model, heavily smoothed or
+fitted data) give an estimate near zero (1e-173 is possible), which would make every tail of
+a Gaussian "measured" and give detection limits no instrument has. No spectrometer resolves
+more than about 1e-6 to 1e-9 of its own peak in one spectrum (array spectrometers far less;
+only scanning double monochromators approach 1e-8), so σ is never taken below
+:data:`DYNAMIC_RANGE_FLOOR` (1e-6, common practice) times the largest magnitude in the data.
+When the floor sets σ the method is ``dynamic-range floor`` and the estimate from the data
+is kept in ``data_sigma`` / ``data_method``. An all-zero spectrum keeps σ = 0.
 """
 
 from __future__ import annotations
@@ -31,24 +40,83 @@ class NoiseEstimate:
     """Per-sample noise of a spectrum.
 
     sigma : 1-σ noise of one sample, in the spectrum's spectral unit (None: too few samples).
-    method : ``negative-samples`` | ``second-difference`` | ``none``.
+    method : ``negative-samples`` | ``second-difference`` | ``dynamic-range floor`` | ``none``.
     n_samples : samples the estimate rests on.
     n_negative : negative samples in the spectrum.
+    data_sigma : the estimate from the data themselves, before the floor. [spectral unit]
+    data_method : the estimator that gave ``data_sigma``.
+    floor : the dynamic-range floor, ``floor_fraction`` × the largest magnitude. [spectral unit]
+    floor_fraction : :data:`DYNAMIC_RANGE_FLOOR` (common practice). [-]
+    basis : one sentence on how σ was obtained (why the floor, when it applies).
     """
 
     sigma: float | None
     method: str
     n_samples: int
     n_negative: int
+    data_sigma: float | None = None
+    data_method: str | None = None
+    floor: float | None = None
+    floor_fraction: float | None = None
+    basis: str = ""
 
     def to_dict(self) -> dict:
         return {f.name: getattr(self, f.name) for f in fields(self)}  # flat: as asdict
 
 
-def estimate_noise(values: np.ndarray) -> NoiseEstimate:
+#: Smallest per-sample noise σ, as a fraction of the largest magnitude in the spectrum (common
+#: practice: no spectrometer resolves more than about 1e-6 to 1e-9 of its peak in one
+#: spectrum; array spectrometers reach 1e-3 to 1e-5, scanning double monochromators about
+#: 1e-8; the strictest end of that range is used, so that a value is reported as measured only
+#: where an instrument could have measured it). [-]
+DYNAMIC_RANGE_FLOOR = 1e-6
+
+
+def dynamic_range_floor(values: np.ndarray, fraction: float = DYNAMIC_RANGE_FLOOR) -> float:
+    """``fraction`` × the largest finite magnitude of ``values`` (0 for an all-zero spectrum).
+    [spectral unit]
+
+    >>> dynamic_range_floor(np.array([0.0, 2.0, -0.5]))
+    2e-06
+    """
+    v = np.asarray(values, dtype=float)
+    v = v[np.isfinite(v)]
+    return float(fraction * np.max(np.abs(v))) if v.size else 0.0
+
+
+def negative_dominated(values: np.ndarray) -> tuple[int, int] | None:
+    """(negative samples, samples) when a spectrum sits below zero as a whole, else None.
+
+    Dark-subtracted noise is negative in about half of the samples where a lamp emits
+    nothing, so a narrow emitter measured over a wide range can have half its samples
+    negative; but its peak stands far above the noise. A spectrum is taken to be below zero
+    when more than half of its samples are negative *and* its deepest dip is more than 3
+    times its highest point (our own rule: a sign-flipped or swapped dark subtraction, a
+    dark taken with the lamp on, the wrong column).
+
+    Examples
+    --------
+    >>> negative_dominated(np.array([-0.1, 0.05, -0.02, 5.0, -0.03]))   # noise and a peak
+    >>> negative_dominated(-np.array([0.1, 0.05, 0.02, 5.0, 0.03]))
+    (5, 5)
+    """
+    v = np.asarray(values, dtype=float)
+    v = v[np.isfinite(v)]
+    n = int(v.size)
+    n_neg = int(np.count_nonzero(v < 0))
+    if n == 0 or 2 * n_neg <= n:
+        return None
+    if not -float(v.min()) > 3.0 * max(float(v.max()), 0.0):
+        return None
+    return n_neg, n
+
+
+def estimate_noise(values: np.ndarray, floor_fraction: float = DYNAMIC_RANGE_FLOOR) -> NoiseEstimate:
     """Estimate the per-sample noise floor from the data themselves.
 
     values : spectral values in sample order (any unit). [spectral unit]
+    floor_fraction : σ is at least this fraction of the largest magnitude in ``values``
+        (the dynamic-range floor; 0 turns it off). [-]
 
     Examples
     --------
@@ -57,6 +125,12 @@ def estimate_noise(values: np.ndarray) -> NoiseEstimate:
     >>> e = estimate_noise(v)
     >>> (e.method, round(e.sigma, 2))
     ('negative-samples', 0.01)
+
+    A noise-free Gaussian: the estimate from the data is ~0, the floor sets σ.
+
+    >>> g = estimate_noise(np.exp(-0.5 * ((np.arange(200.0, 800.0) - 450) / 10) ** 2))
+    >>> (g.method, g.sigma, g.data_method)
+    ('dynamic-range floor', 1e-06, 'second-difference')
     """
     v = np.asarray(values, dtype=float)
     n = v.size
@@ -73,9 +147,23 @@ def estimate_noise(values: np.ndarray) -> NoiseEstimate:
             mad = median(np.abs(sel - median(sel)))
             estimates.append((1.4826 * mad / math.sqrt(6.0), "second-difference", int(sel.size)))
     if not estimates:
-        return NoiseEstimate(None, "none", 0, int(neg.size))
+        return NoiseEstimate(None, "none", 0, int(neg.size),
+                             basis="too few samples to estimate the noise")
     sigma, method, used = max(estimates, key=lambda e: e[0])
-    return NoiseEstimate(sigma, method, used, int(neg.size))
+    floor = dynamic_range_floor(v, floor_fraction) if floor_fraction > 0 else 0.0
+    frac = floor_fraction if floor_fraction > 0 else None
+    if floor > 0 and sigma < floor:
+        basis = (f"the noise estimated from the data ({method}, {sigma:.3g}) is below "
+                 f"{floor_fraction:g} of the largest value, which no spectrometer resolves "
+                 f"(common practice): σ is set to that dynamic-range floor; noise-free data "
+                 f"are synthetic, modelled or smoothed")
+        return NoiseEstimate(floor, "dynamic-range floor", used, int(neg.size), data_sigma=sigma,
+                             data_method=method, floor=floor, floor_fraction=frac, basis=basis)
+    basis = f"estimated from the data ({method}, {used} samples)"
+    if floor > 0:
+        basis += f"; above the dynamic-range floor ({floor_fraction:g} of the largest value)"
+    return NoiseEstimate(sigma, method, used, int(neg.size), data_sigma=sigma, data_method=method,
+                         floor=floor if frac else None, floor_fraction=frac, basis=basis)
 
 
 @dataclass(frozen=True)

@@ -72,6 +72,10 @@ FEATURE_SNR = 5.0               # 5 σ: the threshold features.find_lines uses f
 LINE_TOLERANCE_NM = 2.0         # wavelength calibration of compact spectrometers ±1-2 nm (from memory)
 MIN_SIGNIFICANT_SHARE = 0.01    # ozone band "present": above 1 % of the UV-C (or of the total)
 CROSS_WAVELENGTH_NM = 10.0      # organism data this far from the lamp's UV-C peak are flagged
+STRAY_SOURCE_MIN_RATIO = 100.0  # stray light needs a source to scatter: a UV-C feature is read as
+                                # stray light only when the output outside UV-C is at least 100×
+                                # the apparent UV-C (ours: the reciprocal of PEDESTAL_MAX_RELATIVE,
+                                # the upper end of typical stray-light levels; from memory)
 
 SCREENING_NOTE = ("Screening assessment, not a certification: it does not establish efficacy "
                   "against a specific pathogen on a specific surface, and exposure figures "
@@ -256,7 +260,7 @@ class Ozone:
     """Output below 240 nm (where oxygen absorbs and ozone forms).
 
     status : ``present`` | ``absent`` | ``unknown``.
-    basis : ``measured`` | ``technology`` | ``not-measurable``.
+    basis : ``measured`` | ``modelled`` (a nominal spectrum) | ``technology`` | ``not-measurable``.
     below_240 : the measured integral over [data start, 240) nm (None if not covered). [unit]
     checked_nm : the wavelengths looked at. [nm]
     covers_185nm : the data reach the 184.9 nm mercury line.
@@ -505,8 +509,12 @@ def uvc_artefacts(spectrum: Spectrum, sigma: float | None = None) -> tuple[Artef
       ``PEDESTAL_MAX_RELATIVE`` (1 %) of the visible peak (380–780 nm);
     * ``no-emitter``: the UV-C maximum is a feature standing out of the band but sits at no
       known line (``data/emitters/emission_lines.csv`` and ``data/technologies.toml``, within
-      ±2 nm) and is not an LED-like band (230–290 nm, FWHM ≥ 5 nm), or it rises into the
-      200 nm edge of the data.
+      ±2 nm) and is not an LED-like band (230–290 nm, FWHM ≥ 5 nm), **and** there is a source
+      that stray light could come from: the measured output outside UV-C is at least
+      ``STRAY_SOURCE_MIN_RATIO`` (100) times the apparent UV-C. Without such a source a narrow
+      UV-C line is accepted as emission (filtered lamps, narrow LEDs, excimer or other lines
+      not in the list). Also ``no-emitter``: the signal rises into the 200 nm edge of the data
+      (noise amplified where detectors are least sensitive).
 
     Examples
     --------
@@ -561,10 +569,17 @@ def uvc_artefacts(spectrum: Spectrum, sigma: float | None = None) -> tuple[Artef
     wlo, whi = led["peak_window_nm"]
     if wlo <= lam <= whi and (fwhm is None or fwhm >= led["fwhm_nm"]["min"]):
         return tuple(out)
+    # Evidence of stray light: a strong out-of-band source whose light could scatter into UV-C.
+    uvc_apparent = integrate(spectrum, *UVC_BAND_NM).value
+    outside = total_integral(spectrum) - uvc_apparent
+    if not (uvc_apparent > 0 and outside >= STRAY_SOURCE_MIN_RATIO * uvc_apparent):
+        return tuple(out)   # no source to scatter from: a real UV-C line, even if not a known one
     out.append(Artefact("no-emitter", f"UV-C maximum at {lam:g} nm"
                         + (f" (FWHM {fwhm:.1f} nm)" if fwhm else "")
                         + ": no known line within ±" + f"{tol:g} nm and not an LED-like band "
-                        f"({wlo:g}–{whi:g} nm, FWHM ≥ {led['fwhm_nm']['min']:g} nm)"))
+                        f"({wlo:g}–{whi:g} nm, FWHM ≥ {led['fwhm_nm']['min']:g} nm), next to "
+                        f"out-of-band output {sig(outside / uvc_apparent)}× the apparent UV-C "
+                        "that stray light can come from"))
     return tuple(out)
 
 
@@ -642,15 +657,18 @@ def _ozone(spec: Spectrum, uvc: Reading, total: float, tech_id: str | None,
         tech.get("no_below_240_if_peak_above_nm") is not None and uvc_peak_nm is not None
         and uvc_peak_nm >= tech["no_below_240_if_peak_above_nm"])
     if present and not artefact:
-        return Ozone("present", "measured", below, unit, checked, covers_185,
+        return Ozone("present", "measured" if _seen(spec) == "measured" else "modelled", below, unit, checked, covers_185,
                      f"output below 240 nm is present ({sig(below)} {unit} over "
                      f"{checked[0]:g}–240 nm): the lamp can make ozone; ventilate after use")  # type: ignore[index]
     if present and artefact and not tech_no:
         return Ozone("unknown", "not-measurable", below, unit, checked, covers_185,
                      "apparent output below 240 nm, but the UV-C signal looks like stray light")
     if checked is not None and covers_185 and not present:
-        return Ozone("absent", "measured", below, unit, checked, covers_185,
-                     f"no output found below 240 nm, measured down to {lo_data:g} nm "
+        seen = _seen(spec)
+        return Ozone("absent", "measured" if seen == "measured" else "modelled", below, unit,
+                     checked, covers_185,
+                     f"no output found below 240 nm, {'measured' if seen == 'measured' else 'modelled'}"
+                     f" down to {lo_data:g} nm "
                      "(including the 184.9 nm mercury line)")
     if tech_no:
         return Ozone("absent", "technology", below, unit, checked, covers_185,
@@ -907,6 +925,13 @@ def _fmt(value: float | None, unit: str) -> str:
     return f"{sig(value)} {unit} ({sig(t)} {label})"
 
 
+def _seen(spec: Spectrum) -> str:
+    """How the spectrum's output is known, for the wording: "estimated" for a nominal
+    spectrum built from a listing's statements, else "measured"."""
+    meta = spec.meta or {}
+    return "estimated" if meta.get("estimate") or meta.get("origin") == "nominal" else "measured"
+
+
 def _status(spec: Spectrum, uvc: Reading, far: Reading, artefacts: tuple[Artefact, ...],
             position: Position, effective: tuple[EffectiveReading, ...],
             vb: EffectiveReading) -> tuple[str, str]:
@@ -917,9 +942,15 @@ def _status(spec: Spectrum, uvc: Reading, far: Reading, artefacts: tuple[Artefac
         if uvc.coverage <= 0:
             return "not-assessed", f"UV-C not assessed: the data cover {lo:g}–{hi:g} nm."
         return "shape-only", (f"Relative spectrum: UV-C is {sig((frac or 0) * 100)} % of the "
-                              "measured output; no irradiance, dose or time until it is scaled.")
+                              f"{_seen(spec)} output; no irradiance, dose or time until it is scaled.")
     if uvc.status == "not-covered":
         return "not-assessed", f"UV-C not assessed: the data cover {lo:g}–{hi:g} nm only."
+    if artefacts and uvc.coverage < 1.0 and all(a.kind == "noise-floor" for a in artefacts):
+        # nothing above the noise in the measured part: that says nothing of the part not
+        # measured, so UV-C is not ruled out (missing range is never read as zero)
+        return "not-assessed", (f"No UV-C above the noise in the measured "
+                                f"{max(lo, 200):g}–280 nm; {200:g}–{lo:g} nm was not measured, "
+                                "so UV-C cannot be ruled out.")
     if artefacts:
         reason = "; ".join(a.detail for a in artefacts)
         return "no-uvc", (f"No germicidal UV-C: the apparent UV-C ({_fmt(uvc.upper_bound, uvc.unit)}"
@@ -940,7 +971,7 @@ def _status(spec: Spectrum, uvc: Reading, far: Reading, artefacts: tuple[Artefac
         return "partial", (f"UV-C at least {_fmt(uvc.value, uvc.unit)}{where}: the data start at "
                            f"{lo:g} nm, so part of UV-C was not measured.")
     if frac < NO_UVC_FRACTION:
-        return "no-uvc", (f"No germicidal UV-C: UV-C is {sig(frac * 100)} % of the measured "
+        return "no-uvc", (f"No germicidal UV-C: UV-C is {sig(frac * 100)} % of the {_seen(spec)} "
                           f"output ({_fmt(uvc.value, uvc.unit)}{where}).")
     eqs = [e.equivalent for e in effective if e.equivalent is not None and e.equivalent > 0]
     eq_txt = ""

@@ -113,6 +113,7 @@ from uvcheck.limits import (DEFAULT_LIMIT_SET, GROUPS, HAZARD_IDS, HazardLimits,
                             available_limit_sets, get_limit_set, solid_angle_sr)
 from uvcheck.photometry import v_lambda
 from uvcheck.spectrum import Integral, Spectrum, integrate
+from uvcheck.units import sig as _sig
 from uvcheck.weighting import get_weighting
 
 #: Status values of a hazard result.
@@ -306,6 +307,13 @@ class HazardDistance:
         or a lower one. [m]
     bound : ``exact``; ``at-least`` (partial data: the true distances can be larger);
         ``at-most`` (from a detection limit); None if not computable.
+    meaning : what a boundary distance means for this hazard, in words (blue light: the
+        field-of-view and small-source regimes, see :func:`_blue_regimes`).
+    regimes : blue light with a known source size: ``source_size_m``, the distance within
+        which the source fills each group's averaging field (``fills_field_within_m``), the
+        distance beyond which it is a small source assessed by E_B
+        (``small_source_beyond_m``), and the source's own radiance
+        (``source_radiance``, W m⁻² sr⁻¹). None otherwise. [m]
     """
 
     hazard_id: str
@@ -316,12 +324,19 @@ class HazardDistance:
     boundaries_m: Mapping[str, float | None]
     boundary_notes: Mapping[str, str | None]
     bound: str | None
+    meaning: str | None = None
+    regimes: Mapping[str, Any] | None = None
 
     def to_dict(self) -> dict[str, Any]:
+        reg = None
+        if self.regimes is not None:
+            reg = {k: ({g: _num(x) for g, x in v.items()} if isinstance(v, Mapping) else _num(v))
+                   for k, v in self.regimes.items()}
         return {"symbol": self.symbol, "exposure_time_s": self.exposure_time_s,
                 "distance_m": _num(self.distance_m), "note": self.note,
                 "boundaries_m": {k: _num(v) for k, v in self.boundaries_m.items()},
-                "boundary_notes": dict(self.boundary_notes), "bound": self.bound}
+                "boundary_notes": dict(self.boundary_notes), "bound": self.bound,
+                "meaning": self.meaning, "regimes": reg}
 
 
 @dataclass(frozen=True)
@@ -456,11 +471,14 @@ class _Geo:
     input_quantity : ``irradiance`` or ``radiance`` (the measured spectrum).
     k : irradiance factor (d_meas / d)², 1 when not rescaled. [-]
     alpha : angular subtense at the evaluation distance, or None. [rad]
+    alpha_meas : angular subtense at the measurement distance (where the irradiance was
+        measured), or None. [rad]
     """
 
     input_quantity: str
     k: float
     alpha: float | None
+    alpha_meas: float | None = None
 
     def factor(self, hazard_quantity: str, fov: float | None) -> float | None:
         """Multiplier from the measured integral to the hazard quantity (None: impossible)."""
@@ -473,6 +491,13 @@ class _Geo:
         if self.input_quantity == "irradiance":
             if a is None:
                 return None
+            if self.alpha_meas is not None:
+                # L = E_meas/Ω(α_meas) is the source's radiance, the same at every distance
+                # (radiance invariance); a field wider than the source averages it down:
+                # L·Ω(α)/Ω(max(α, fov)). Equal to k/Ω(max(α, fov)) for small angles, and right
+                # close to the source, where the inverse-square law of the irradiance fails.
+                return solid_angle_sr(a) / (solid_angle_sr(self.alpha_meas)
+                                            * solid_angle_sr(max(a, fov or 0.0)))
             return self.k / solid_angle_sr(max(a, fov or 0.0))
         if a is None:
             return 1.0
@@ -503,10 +528,15 @@ class _Source:
     lum: Integral
     d_meas: float | None
     weak_stimulus: tuple[bool, str]
+    #: why the data cannot stand for the lamp's output at all (a mostly negative spectrum)
+    unusable: str | None = None
 
     def geo(self, d_eval: float | None) -> _Geo:
         k = 1.0 if d_eval is None or self.d_meas is None else (self.d_meas / d_eval) ** 2
-        return _Geo(self.quantity, k, _alpha_at(self.cond, d_eval, self.d_meas))
+        a = _alpha_at(self.cond, d_eval, self.d_meas)
+        a_meas = a if d_eval is None or self.d_meas is None else _alpha_at(self.cond, self.d_meas,
+                                                                           self.d_meas)
+        return _Geo(self.quantity, k, a, a_meas)
 
 
 # ---------------------------------------------------------------------------------------------
@@ -597,6 +627,8 @@ def _evaluate_hazard(src: _Source, hazard_id: str, geo: _Geo) -> HazardResult:
         return _not_assessable(hazard_id, entry, integ, "relative spectrum: no absolute values; "
                                "scale it to absolute (a radiometer or lux reading at a known "
                                "distance, or a radiant flux) first", assumptions)
+    if src.unusable is not None:
+        return _not_assessable(hazard_id, entry, integ, src.unusable, assumptions)
     if src.quantity == "flux":
         return _not_assessable(hazard_id, entry, integ, "radiant-flux spectrum: hazards need the "
                                "irradiance or radiance at the eye, which needs an emission model "
@@ -965,8 +997,94 @@ def _distance_for(src: _Source, hazard_id: str, exposure_s: float) -> HazardDist
     bounds, bnotes = {}, {}
     for i, g in enumerate(GROUPS[:3]):
         bounds[g], bnotes[g] = crossing(ratio_group(i))
+    meaning, regimes = _IRRADIANCE_MEANING, None
+    if len(src.lset.variants(hazard_id)) > 1:
+        meaning, regimes, bnotes = _blue_regimes(src, hazard_id, x, bounds, bnotes)
+    elif entry0.quantity == "radiance":
+        meaning = _RADIANCE_MEANING
     return HazardDistance(hazard_id, entry0.symbol, exposure_s, dist, note,
-                          MappingProxyType(bounds), MappingProxyType(bnotes), bound)
+                          MappingProxyType(bounds), MappingProxyType(bnotes), bound, meaning,
+                          None if regimes is None else MappingProxyType(regimes))
+
+
+_IRRADIANCE_MEANING = ("an irradiance falls as 1/d² from the measurement distance (point-source "
+                       "approximation): a boundary distance is where it meets that group's limit")
+_RADIANCE_MEANING = ("a radiance does not fall with distance while the source fills the "
+                     "averaging field of view")
+
+
+def _source_size_m(src: _Source) -> float | None:
+    """Apparent source size from the conditions (size, or α at the measurement distance). [m]"""
+    c = src.cond
+    if c.source_size_m is not None:
+        return c.source_size_m
+    if c.alpha_rad is not None and src.d_meas is not None:
+        return 2.0 * src.d_meas * math.tan(c.alpha_rad / 2.0)
+    return None
+
+
+def _blue_regimes(src: _Source, hazard_id: str, x: float, bounds: Mapping[str, float | None],
+                  bnotes: Mapping[str, str | None]
+                  ) -> tuple[str, dict[str, Any] | None, dict[str, str | None]]:
+    """What the blue-light boundary distances mean, and the distances where the regime changes.
+
+    L_B is a radiance: while the source's angular size α = 2·atan(s/2d) exceeds a group's
+    averaging field γ, the field sees only source, and the field-averaged radiance is the
+    source's own radiance L, whatever the distance. Beyond d = s/(2·tan(γ/2)) the source
+    underfills the field and the average falls as L·Ω(α)/Ω(γ) ∝ 1/d² [derived: Ω(α) ∝ α² for
+    small α]. Beyond α < 0.011 rad (IEC 62471:2006, small source) blue light is the irradiance
+    E_B = L·Ω(α), again ∝ 1/d². So an L_B boundary distance exists only in the underfilled
+    regime; when the source's own radiance is within a group's limit, that group holds at every
+    distance, and when it is not, it holds only from the distance where the source has become
+    small enough.
+    """
+    entries = src.lset.variants(hazard_id)
+    small = next(e for e in entries if e.small_source_below_rad is not None)
+    large = next(e for e in entries if e.small_source_below_rad is None)
+    lim_small = small.small_source_below_rad
+    size = _source_size_m(src)
+    notes = dict(bnotes)
+    if size is None:
+        if src.quantity == "irradiance":
+            return (f"no source size given: blue light is evaluated as a small source (E_B, an "
+                    f"irradiance) at every distance, {_IRRADIANCE_MEANING}; a source wider than "
+                    f"{lim_small:g} rad seen from the eye is assessed by its radiance L_B, which "
+                    "does not fall with distance while the source fills the field"), None, notes
+        return ("measured radiance with no source size: L_B is taken as filling every field at "
+                "every distance, so it does not change with distance and no boundary distance "
+                "exists"), None, notes
+
+    def d_for(angle_rad: float) -> float:
+        return size / (2.0 * math.tan(angle_rad / 2.0))
+    fields = {g: fov for g, _, _, fov in large.group_limits(None)}
+    limits = {g: lim for g, lim, _, _ in large.group_limits(None)}
+    geo0 = src.geo(src.d_meas)
+    f_own = geo0.factor("radiance", 0.0)          # no averaging: the source's own radiance
+    l_src = None if f_own is None else x * f_own
+    d_small = d_for(lim_small)
+    # a field narrower than the small-source angle stays filled until E_B takes over
+    fills = {g: (min(d_for(fov), d_small) if fov else None) for g, fov in fields.items()}
+    regimes = {"source_size_m": size, "fills_field_within_m": fills,
+               "small_source_beyond_m": d_small, "source_radiance": l_src,
+               "fields_of_view_rad": dict(fields)}
+    for g in GROUPS[:3]:
+        if bounds.get(g) is not None or l_src is None or g not in limits:
+            continue
+        note = notes.get(g) or ""
+        if note.startswith("within"):
+            notes[g] = (f"{g} or lower at every distance: even where the source fills the "
+                        f"{fields[g]:.3g} rad field (closer than {_sig(fills[g])} m), its radiance "
+                        f"{_sig(l_src)} W m-2 sr-1 is within the {g} limit {_sig(limits[g])} W m-2 sr-1")
+    meaning = (f"L_B is a radiance and does not fall with distance while the source (size "
+               f"{_sig(size)} m) fills a group's averaging field: closer than "
+               + ", ".join(f"{_sig(fills[g])} m for {g} ({fields[g]:.3g} rad)" for g in GROUPS[:3]
+                           if fills.get(g))
+               + f". Farther away the field-averaged radiance falls as 1/d², and beyond "
+               f"{_sig(d_small)} m (α < {lim_small:g} rad) blue light is the small-source "
+               f"irradiance E_B, also 1/d². A boundary distance is where the field-averaged L_B "
+               f"(or E_B) meets that group's limit; it exists only where the source underfills "
+               f"the field")
+    return meaning, regimes, notes
 
 
 def _hazard_distances(src: _Source) -> HazardDistances:
@@ -1104,6 +1222,24 @@ def _at_distance(src: _Source, d: float | None, rule: str, e_v_meas: float | Non
     return DistanceEvaluation(info, hazards, _overall(hazards))
 
 
+def _mostly_negative(spectrum: Spectrum) -> str | None:
+    """The reason a spectrum cannot stand for any lamp's output, or None: it sits below zero
+    as a whole (:func:`uvcheck.features.negative_dominated`: a sign-flipped or swapped dark
+    subtraction, or the wrong column). Every hazard is then not assessable: a "below
+    detection" reading of such data would read as Exempt while the lamp's real output is
+    unknown."""
+    from uvcheck.features import negative_dominated
+
+    found = negative_dominated(spectrum.values)
+    if found is None:
+        return None
+    n_neg, n = found
+    return (f"the spectrum sits below zero ({n_neg} of {n} samples negative, its deepest dip "
+            "more than 3 times its highest point): a sign-flipped or swapped dark "
+            "subtraction, or the wrong column? No hazard is computed from it; check the "
+            "export, --column and the unit")
+
+
 def evaluate_hazards(spectrum: Spectrum, conditions: Conditions | None = None,
                      limit_set: str = DEFAULT_LIMIT_SET,
                      illuminance_lx: float | None = None) -> HazardEvaluation:
@@ -1150,7 +1286,8 @@ def evaluate_hazards(spectrum: Spectrum, conditions: Conditions | None = None,
     lum = integrate(spectrum, 360.0, 830.0, v_lambda())
     src = _Source(quantity=spectrum.quantity, range_nm=spectrum.range_nm, cond=cond, lset=lset,
                   integrals=MappingProxyType(integrals), lum=lum, d_meas=d_meas,
-                  weak_stimulus=_weak_stimulus(spectrum, cond, lset, lum, d_meas))
+                  weak_stimulus=_weak_stimulus(spectrum, cond, lset, lum, d_meas),
+                  unusable=_mostly_negative(spectrum))
     absolute = spectrum.quantity in ("irradiance", "radiance")
     e_v_meas, e_v_from = _luminous_at_measurement(src, illuminance_lx) if absolute else (None, None)
     if absolute:

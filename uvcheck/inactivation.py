@@ -576,6 +576,28 @@ class InactivationEstimate:
     def time_s(self, percent: float) -> float | None:
         return self.times_s.get(float(percent))
 
+    def missing_reason(self, percent: float) -> str | None:
+        """Why there is no time for ``percent`` (None when there is one).
+
+        Examples
+        --------
+        >>> e = estimate(get_organism("listeria_surface_pvc_405_murdoch2012"), 1.0)
+        >>> e.missing_reason(90)                  # Murdoch 2012 Table 3: 0.93 log at most
+        'not reached in the study: its data end at 0.93 log (88.3 %)'
+        """
+        p = float(percent)
+        if self.times_s.get(p) is not None:
+            return None
+        o = self.organism
+        if self.doses_J_m2.get(p) is None:
+            if o.model == "dose_table" and o.max_log is not None:
+                return (f"not reached in the study: its data end at {o.max_log:g} log "
+                        f"({percent_for_log(o.max_log):.3g} %)")
+            if o.model == "two_population":
+                return "never reached: the resistant fraction survives"
+            return "no dose in the table"
+        return "no irradiance at this organism's wavelength"
+
     def to_dict(self) -> dict:
         o = self.organism
 
@@ -596,8 +618,10 @@ class InactivationEstimate:
             "time_to_90_s": self.times_s.get(90.0), "time_to_99_s": self.times_s.get(99.0),
             "time_to_99_9_s": self.times_s.get(99.9),
             "time_to_90_s_range": rng(90.0), "time_to_99_9_s_range": rng(99.9),
+            "time_missing_reason": {f"{p:g}": self.missing_reason(p) for p in self.times_s},
+            "max_log_reduction": o.max_log,
             "dose_bound": o.dose_bound or None, "reliability": o.reliability,
-            "source": o.citation, "from_memory": o.from_memory,
+            "source": o.citation, "source_key": o.source, "from_memory": o.from_memory,
             "notes": list(self.notes),
         }
 

@@ -72,6 +72,12 @@ class Photometry:
     x, y : CIE 1931 chromaticity (None if no visible output or not covered).
     cct_K, duv : correlated colour temperature and distance from the locus, where meaningful.
     cct_note : why CCT is absent, if it is.
+    status : ``complete`` | ``partial`` (V(λ) partly covered: a lower bound) |
+        ``below-detection`` (under 3 σ of the V(λ)-weighted integral) | ``not-meaningful``
+        (the integral is negative beyond its noise: the spectrum sits below zero) |
+        ``not-covered`` | ``relative``. ``value`` is None unless complete or partial.
+    detection_limit : 3 σ of the luminous quantity from the noise floor (None if unknown).
+    value_note : why ``value`` is None, if it is.
     """
 
     quantity: str
@@ -83,6 +89,9 @@ class Photometry:
     cct_K: float | None
     duv: float | None
     cct_note: str | None
+    status: str = "complete"
+    detection_limit: float | None = None
+    value_note: str | None = None
 
     def to_dict(self) -> dict:
         return {f.name: getattr(self, f.name) for f in fields(self)}  # flat: as asdict
@@ -136,7 +145,9 @@ def photometry(spectrum: Spectrum, visible_fraction: float | None = None) -> Pho
         anything (it must be ≥ 0.5). [-]
     """
     qty, unit = LUMINOUS.get(spectrum.quantity, ("illuminance", "lx"))
-    val, cov = luminous_value(spectrum)
+    r = integrate(spectrum, 360.0, 830.0, v_lambda())
+    val, cov = K_M_LM_PER_W * r.value, r.coverage
+    dl = None if r.detection_limit is None else K_M_LM_PER_W * r.detection_limit
     xb, yb, zb = cmfs()
     X = integrate(spectrum, 360.0, 830.0, xb).value
     Y = integrate(spectrum, 360.0, 830.0, yb).value
@@ -159,9 +170,33 @@ def photometry(spectrum: Spectrum, visible_fraction: float | None = None) -> Pho
             note = f"chromaticity too far from the Planckian locus (Duv {dv:+.3f}) for a CCT"
         else:
             cct, duv = t, dv
+    status, value, why = _luminous_status(spectrum, qty, unit, val, cov, dl)
     return Photometry(quantity=qty, unit=unit if spectrum.is_absolute else "relative",
-                      value=val if spectrum.is_absolute and cov >= 0.01 else None, coverage=cov,
-                      x=x, y=y, cct_K=cct, duv=duv, cct_note=note)
+                      value=value, coverage=cov, x=x, y=y, cct_K=cct, duv=duv, cct_note=note,
+                      status=status, detection_limit=dl if spectrum.is_absolute else None,
+                      value_note=why)
+
+
+def _luminous_status(spectrum: Spectrum, qty: str, unit: str, val: float, cov: float,
+                     dl: float | None) -> tuple[str, float | None, str | None]:
+    """(status, value or None, why None): a luminous value is given only where it is
+    established; a negative one is never printed."""
+    name = qty.replace("_", " ")
+    if not spectrum.is_absolute:
+        return "relative", None, "relative spectrum: no absolute value until it is scaled"
+    if cov < 0.01:
+        return "not-covered", None, "V(λ) is not covered by the measured range"
+    if val < 0 and (dl is None or -val >= dl):
+        return ("not-meaningful", None,
+                f"not meaningful: the V(λ)-weighted integral is negative ({val:.3g} {unit}, "
+                f"beyond its noise), so the spectrum sits below zero and no {name} can be "
+                f"given; check the dark (background) subtraction")
+    if dl is not None and val < dl:
+        return ("below-detection", None,
+                f"below the detection limit of {dl:.3g} {unit}, 3 σ of the noise floor")
+    if cov < 0.99:
+        return "partial", val, None
+    return "complete", val, None
 
 
 def _finite(x: float | None) -> float | None:

@@ -104,6 +104,8 @@ class Finding:
     basis : the physics or data behind it, with sources.
     assumptions : choices made on the listing's behalf.
     missing : data that would make a ``not-assessable`` finding assessable (listing keys).
+    rule : the rule that decided the status, in words (a hard bound, technology data, a rule
+        of thumb); claim verdicts built on the finding name it in their basis.
     """
 
     id: str
@@ -116,6 +118,7 @@ class Finding:
     basis: str
     assumptions: tuple[str, ...] = ()
     missing: tuple[str, ...] = ()
+    rule: str | None = None
 
     def __post_init__(self) -> None:
         if self.status not in STATUSES:
@@ -127,7 +130,18 @@ class Finding:
                 "needed": None if self.needed is None else self.needed.to_dict(),
                 "available": None if self.available is None else self.available.to_dict(),
                 "ratio": self.ratio, "message": self.message, "basis": self.basis,
-                "assumptions": list(self.assumptions), "missing": list(self.missing)}
+                "assumptions": list(self.assumptions), "missing": list(self.missing),
+                "rule": self.rule}
+
+
+#: Rules a finding can be decided by (see uvcheck.claims.decision_rule_text).
+RULE_TECH_DATA = ("the technology's known range (data/technologies.toml): outside it is "
+                  "unlikely, not impossible")
+RULE_OF_THUMB = "a rule of thumb (common practice): at most unlikely"
+
+
+def _hard(what: str) -> str:
+    return f"a hard bound, {what}: cannot-hold at any shortfall, no margin"
 
 
 def _g(x: float, digits: int = 3) -> str:
@@ -141,6 +155,11 @@ def _nm(x: float) -> str:
 
 def _short(ratio: float) -> str:
     return f"short by {_g(1.0 / ratio, 3)}×" if ratio > 0 else "none at all"
+
+
+def _exceeds(ratio: float) -> str:
+    """For a stated amount above a ceiling (ratio = ceiling / stated < 1)."""
+    return f"exceeds it by {_g(1.0 / ratio, 3)}×"
 
 
 # ---------------------------------------------------------------------------------------------
@@ -232,10 +251,12 @@ def check_die_voltage(wavelength_nm: float, die_voltage_V: float) -> Finding:
     msg = (f"a {_nm(wavelength_nm)} nm photon carries {e_ph:.3f} eV, so each die needs at "
            f"least about {e_ph:.2f} V; the listing gives {_g(die_voltage_V)} V per die, which "
            f"makes photons no shorter than about {lam_min:.0f} nm ({lam_min_margin:.0f} nm "
-           f"allowing {margin:.0%})")
+           f"allowing {_g(margin * 100)} %)")
     if ratio < 1.0 - margin:
         return Finding("die-voltage-vs-photon-energy", "cannot-hold", subject, needed, available,
-                       ratio, f"{msg}: {_short(ratio)}", basis)
+                       ratio, f"{msg}: {_short(ratio)}", basis,
+                       rule=_hard(f"physics: the photon energy E = hc/λ against the die "
+                                  f"voltage, with a {_g(margin * 100)} % allowance"))
     notes: tuple[str, ...] = ()
     if ratio < 1.0:
         notes = (f"the die voltage is {_g((1 - ratio) * 100, 2)} % below the photon energy, "
@@ -250,10 +271,11 @@ def check_die_voltage(wavelength_nm: float, die_voltage_V: float) -> Finding:
                        f"({e_ph:.2f} eV) but below the {vmin:g}–"
                        f"{uvc['forward_voltage_V']['max']:g} V at which real UV-C LEDs run",
                        f"{uvc['forward_voltage_source']} (data/technologies.toml [uvc_led])",
-                       assumptions=notes)
+                       assumptions=notes, rule=RULE_TECH_DATA)
     return Finding("die-voltage-vs-photon-energy", "holds", subject, needed, available, ratio,
                    f"{_g(die_voltage_V)} V per die can make {_nm(wavelength_nm)} nm "
-                   f"photons ({e_ph:.2f} eV)", basis, assumptions=notes)
+                   f"photons ({e_ph:.2f} eV)", basis, assumptions=notes,
+                   rule="physics: photon energy E = hc/λ against the die voltage")
 
 
 def check_led_wavelength(wavelength_nm: float) -> Finding:
@@ -280,14 +302,14 @@ def check_led_wavelength(wavelength_nm: float) -> Finding:
                        f"{_nm(wavelength_nm)} nm is the mercury line (253.7 nm), not an LED "
                        f"wavelength: commercial UV-C LEDs emit at about {c_lo:g}–{c_hi:g} nm and "
                        "254 nm LEDs exist only as research devices of a few mW",
-                       f"{d['mercury_copy_source']}; {d['commercial_source']}")
+                       f"{d['mercury_copy_source']}; {d['commercial_source']}", rule=RULE_TECH_DATA)
     if wavelength_nm < d["shortest_practical_nm"]:
         return Finding("led-wavelength", "unlikely", subject,
                        Amount(float(d["shortest_practical_nm"]), "nm",
                               "shortest LED wavelength on a datasheet"),
                        Amount(wavelength_nm, "nm", "stated wavelength"), None,
                        f"LEDs below {d['shortest_practical_nm']:g} nm are not sold as products",
-                       d["shortest_practical_source"])
+                       d["shortest_practical_source"], rule=RULE_TECH_DATA)
     return Finding("led-wavelength", "holds", subject, None,
                    Amount(wavelength_nm, "nm", "stated wavelength"), None,
                    f"{_nm(wavelength_nm)} nm is a wavelength LEDs are made for",
@@ -377,6 +399,13 @@ def best_efficiency(technology: str, band: str = "total", wavelength_nm: float |
     the photon-energy bound. Exceeding ``max`` is ``unlikely``; exceeding the hard limit
     ``cannot-hold``.
     """
+    emax, hard, basis, _ = _efficiency_bounds(technology, band, wavelength_nm, die_voltage_V)
+    return emax, hard, basis
+
+
+def _efficiency_bounds(technology: str, band: str = "total", wavelength_nm: float | None = None,
+                       die_voltage_V: float | None = None) -> tuple[float, float, str, str]:
+    """:func:`best_efficiency` and, fourth, which bound set the hard limit (in words)."""
     techs = _tech()
     if technology not in techs:
         raise ConfigurationError(f"unknown technology {technology!r}; "
@@ -392,20 +421,27 @@ def best_efficiency(technology: str, band: str = "total", wavelength_nm: float |
         parts.append(f"wall-plug efficiency up to {emax:.0%}: {t['wall_plug_efficiency_source']}")
         flag = t.get("uvc_efficiency_flag_above") if technology == "uvc_led" else None
     hard = 1.0
+    what = "physics: no more optical than electrical power"
     parts.append("no more optical than electrical power (energy conservation)")
     if flag is not None:
-        hard = min(hard, float(flag))
+        if float(flag) < hard:
+            hard = float(flag)
+            what = (f"the best the technology has reached ({_g(hard * 100)} %, "
+                    "data/technologies.toml; not a law of physics)")
         parts.append(f"flagged above {float(flag):.0%} (data/technologies.toml)")
     if t.get("family") == "led" and wavelength_nm and die_voltage_V:
         eqe_tab = _led()["eqe_max"]
         eqe = float(eqe_tab.get(technology, eqe_tab["other"]))
         bound = wpe_upper_bound(eqe, wavelength_nm, die_voltage_V)
-        hard = min(hard, bound)
+        if bound < hard:
+            hard = bound
+            what = f"physics: the wall-plug limit EQE·(hc/λ)/(e·V_f) = {_g(bound * 100)} %"
         parts.append(f"WPE ≤ EQE·(hc/λ)/(e·V_f) = {bound:.1%} with EQE ≤ {eqe:g} "
                      "(NOTES.md §6; data/emitters/led_packages.toml [eqe_max])")
     if band == "UV-C" and emax == 0.0:
         hard = 0.0
-    return emax, hard, "; ".join(parts)
+        what = "the technology emits no UV-C (data/technologies.toml)"
+    return emax, hard, "; ".join(parts), what
 
 
 def check_efficiency(efficiency: float, technology: str, band: str = "total",
@@ -420,7 +456,8 @@ def check_efficiency(efficiency: float, technology: str, band: str = "total",
     >>> check_efficiency(0.35, "lp_mercury", "UV-C").status
     'holds'
     """
-    emax, hard, basis = best_efficiency(technology, band, wavelength_nm, die_voltage_V)
+    emax, hard, basis, hard_what = _efficiency_bounds(technology, band, wavelength_nm,
+                                                      die_voltage_V)
     label = "UV-C" if band == "UV-C" or "wall_plug_efficiency" not in _tech()[technology] \
         else "wall-plug"
     subject = f"stated {label} efficiency {_g(efficiency * 100)} % ({technology})"
@@ -429,17 +466,18 @@ def check_efficiency(efficiency: float, technology: str, band: str = "total",
         avail = Amount(hard, "-", f"highest {label} efficiency physically allowed")
         ratio = hard / efficiency
         return Finding(finding_id, "cannot-hold", subject, needed, avail, ratio,
-                       f"needs {_g(efficiency * 100)} %; at most {_g(hard * 100)} % is "
-                       f"possible: {_short(ratio)}", basis)
+                       f"a stated {label} efficiency of {_g(efficiency * 100)} % ({technology}); "
+                       f"at most {_g(hard * 100)} % is possible: {_short(ratio)}", basis,
+                       rule=_hard(hard_what))
     avail = Amount(emax, "-", f"highest {label} efficiency of the technology")
     ratio = emax / efficiency if efficiency > 0 else None
     if efficiency > emax:
         return Finding(finding_id, "unlikely", subject, needed, avail, ratio,
                        f"{_g(efficiency * 100)} % is above the {_g(emax * 100)} % the "
-                       "technology reaches", basis)
+                       "technology reaches", basis, rule=RULE_TECH_DATA)
     return Finding(finding_id, "holds", subject, needed, avail, ratio,
                    f"{_g(efficiency * 100)} % is within the technology's range "
-                   f"(up to {_g(emax * 100)} %)", basis)
+                   f"(up to {_g(emax * 100)} %)", basis, rule=RULE_TECH_DATA)
 
 
 def check_optical_vs_electrical(optical_W: float, electrical_W: float, technology: str,
@@ -460,8 +498,10 @@ def check_optical_vs_electrical(optical_W: float, electrical_W: float, technolog
     """
     if not (optical_W > 0 and electrical_W > 0):
         raise ConfigurationError("optical and electrical power must be positive")
-    emax, hard, basis = best_efficiency(technology, band, wavelength_nm, die_voltage_V)
+    emax, hard, basis, hard_what = _efficiency_bounds(technology, band, wavelength_nm,
+                                                      die_voltage_V)
     eta = optical_W / electrical_W
+    what_out = "UV-C output" if band == "UV-C" else "optical output"
     subject = (f"{_g(optical_W)} W {'UV-C' if band == 'UV-C' else 'optical'} output from "
                f"{_g(electrical_W)} W electrical ({technology})")
     needed = Amount(optical_W, "W", "stated optical power")
@@ -469,18 +509,20 @@ def check_optical_vs_electrical(optical_W: float, electrical_W: float, technolog
         avail = Amount(electrical_W * hard, "W", "most the electrical power can give")
         ratio = hard / eta
         return Finding(finding_id, "cannot-hold", subject, needed, avail, ratio,
-                       f"needs {_g(optical_W)} W; {_g(electrical_W)} W electrical gives at most "
-                       f"{_g(electrical_W * hard)} W: {_short(ratio)}", basis)
+                       f"a stated {_g(optical_W)} W {what_out} from {_g(electrical_W)} W "
+                       f"electrical ({technology}); {_g(electrical_W)} W gives at most "
+                       f"{_g(electrical_W * hard)} W: {_short(ratio)}", basis,
+                       rule=_hard(hard_what))
     avail = Amount(electrical_W * emax, "W", "electrical power × the technology's best efficiency")
     ratio = emax / eta
     if eta > emax:
         return Finding(finding_id, "unlikely", subject, needed, avail, ratio,
-                       f"needs {_g(optical_W)} W, an efficiency of {_g(eta * 100)} %; the "
-                       f"technology reaches {_g(emax * 100)} % ({_g(electrical_W * emax)} W)",
-                       basis)
+                       f"a stated {_g(optical_W)} W {what_out} needs an efficiency of "
+                       f"{_g(eta * 100)} %; the technology reaches {_g(emax * 100)} % "
+                       f"({_g(electrical_W * emax)} W)", basis, rule=RULE_TECH_DATA)
     return Finding(finding_id, "holds", subject, needed, avail, ratio,
                    f"{_g(optical_W)} W is an efficiency of {_g(eta * 100)} %, within the "
-                   f"technology's range (up to {_g(emax * 100)} %)", basis)
+                   f"technology's range (up to {_g(emax * 100)} %)", basis, rule=RULE_TECH_DATA)
 
 
 def _package(technology: str | None, package: str | None) -> tuple[str, dict[str, Any], str]:
@@ -531,13 +573,14 @@ def check_power_per_led(power_W: float, led_count: int, technology: str | None =
     verb = "emit" if optical else "dissipate"
     if per > cap:
         return Finding(fid, "unlikely", subject, needed, avail, ratio,
-                       f"{_g(per)} W per LED; one {pkg['name']} can {verb} about {_g(cap)} W "
-                       f"at most: {_short(ratio)}", f"{pkg['source']} (common practice)",
-                       assumptions=notes)
+                       f"{_g(per)} W {kind} per LED ({_g(power_W)} W over {led_count} LEDs); one "
+                       f"{pkg['name']} can {verb} about {_g(cap)} W at most: the stated power "
+                       f"{_exceeds(ratio)}", f"{pkg['source']} (common practice)",
+                       assumptions=notes, rule=RULE_OF_THUMB)
     return Finding(fid, "holds", subject, needed, avail, ratio,
                    f"{_g(per)} W per LED is within what one {pkg['name']} can {verb} "
                    f"(about {_g(cap)} W)", f"{pkg['source']} (common practice)",
-                   assumptions=notes)
+                   assumptions=notes, rule=RULE_OF_THUMB)
 
 
 # ---------------------------------------------------------------------------------------------
@@ -574,13 +617,15 @@ def check_cover(cover: str, wavelength_nm: float = 254.0, cover_text: str | None
         return Finding("cover-transmission", "cannot-hold", subject, None, avail, t["max"],
                        f"{name} passes at most {_g(t['max'] * 100)} % at "
                        f"{_nm(wavelength_nm)} nm: the radiation does not leave the product",
-                       basis)
+                       basis, rule=_hard(f"the cover material passes under 1 % at "
+                                         f"{_nm(wavelength_nm)} nm"))
     if t["typical"] < 0.10:
         return Finding("cover-transmission", "unlikely", subject, None, avail, t["max"],
                        f"{name} typically passes {_g(t['typical'] * 100)} % at "
                        f"{_nm(wavelength_nm)} nm (at most {_g(t['max'] * 100)} %); only "
                        "quartz (fused silica), sapphire or thin fluoropolymer pass UV-C well",
-                       basis)
+                       basis, rule="the cover material's typical transmittance (common practice): "
+                                   "under 10 % is unlikely, not impossible")
     return Finding("cover-transmission", "holds", subject, None, avail, t["max"],
                    f"{name} passes about {_g(t['typical'] * 100)} % at {_nm(wavelength_nm)} nm",
                    basis)

@@ -27,6 +27,13 @@ integrating-sphere approximation, exact for a sphere): incident irradiance
 E_r = ρΦ/(A(1 − ρ)) on every surface [derived: integrating-sphere theory], fluence rate
 4E_r (isotropic radiance L = E_r/π, 4πL).
 
+Honest results. The figures rest on the lamp's UV-C reading (:mod:`uvcheck.germicidal`). When
+that reading is likely stray light or noise, or below the detection limit, the lamp delivers no
+germicidal UV-C: the result's ``status`` says so first, every delivered figure (flux, plane,
+fluence rate, eACH, times, UV-C at the eye) is None, and upper bounds appear only under their
+own names (``…_upper_bound…``; times ``…_lower_bound``), as if the whole apparent signal were
+real UV-C.
+
 Outputs. The work-plane irradiance (upward-facing, on a grid: min, mean, percentiles), the
 volume-average fluence rate (for airborne organisms the relevant quantity, NOTES.md §5),
 equivalent air changes per hour eACH = 3600·k·E_avg, times to 90 / 99 / 99.9 % in well-mixed
@@ -531,9 +538,21 @@ class RoomResult:
     germicidal: GermicidalResult
     flux_eq: Any = field(repr=False, default=None)
     notes: tuple[str, ...] = ()
+    figures_are: str = "estimate"
+    warnings: tuple[str, ...] = ()
+
+    def flux_eq_bound(self, per_W: float) -> float | None:
+        """``per_W`` times the 254-nm-equivalent flux when that flux is only an upper bound. [W m⁻²]"""
+        if self.figures_are != "upper_bound" or self.flux_eq is None:
+            return None
+        return self.flux_eq * per_W
 
     def equivalent_fluence_rate(self, wavelength_nm: float = 253.7, pathway: str = "uvc") -> float | None:
-        """Volume-average fluence rate equivalent at λ (favourable reading). [W m⁻²]"""
+        """Volume-average fluence rate equivalent at λ (favourable reading). [W m⁻²]
+
+        An upper bound when ``figures_are`` is ``upper_bound`` (UV-C likely stray light or
+        below detection): claims use it to give the lamp the benefit of the doubt; the JSON
+        never presents it as delivered."""
         phi = self.germicidal.equivalent_irradiance(wavelength_nm, pathway)
         return None if phi is None else phi * self.fluence.total_per_W
 
@@ -552,8 +571,18 @@ class RoomResult:
         k = o.k_e_m2_per_J
         return None if e is None or not k else mixed_air_time(log_for_percent(percent), k, e)
 
+    def status_dict(self) -> dict:
+        """The lamp's germicidal status as the room figures rest on it (JSON ``status``)."""
+        g = self.germicidal
+        return {"germicidal_status": g.status, "uvc_status": g.uvc.status,
+                "statement": g.statement, "figures_are": self.figures_are,
+                "figures_meaning": FIGURES_ARE[self.figures_are],
+                "artefacts": [a.to_dict() for a in g.artefacts]}
+
     def to_dict(self) -> dict:
         return {
+            "status": self.status_dict(),
+            "warnings": list(self.warnings),
             "dimensions_m": {"width": self.room.width_m, "length": self.room.length_m,
                              "height": self.room.height_m},
             "volume_m3": self.room.volume_m3, "surface_area_m2": self.room.area_m2,
@@ -566,6 +595,7 @@ class RoomResult:
                                    "reflected": self.fluence.reflected_per_W,
                                    "total": self.fluence.total_per_W,
                                    "error_rel": self.fluence.error_rel},
+            "fluence_rate_avg_upper_bound_W_m2": (self.flux_eq_bound(self.fluence.total_per_W)),
             "each_per_h": {a["organism_id"]: a["each_per_h"] for a in self.air},
             "air": [dict(a) for a in self.air],
             "air_most_susceptible": self.air_most_susceptible,
@@ -575,18 +605,45 @@ class RoomResult:
         }
 
 
-def _air_entry(o: Organism, e_eq: float | None) -> dict:
+_TIME_KEYS = ((90.0, 1.0, "time_to_90_s"), (99.0, 2.0, "time_to_99_s"),
+              (99.9, 3.0, "time_to_99_9_s"))
+
+
+def _air_entry(o: Organism, e_eq: float | None, upper_bound: bool = False) -> dict:
+    """One row of the air table. With ``upper_bound`` (the lamp's UV-C is likely stray light or
+    below detection) the delivered figures are None and the bounds are given under their own
+    names: eACH at most ``each_per_h_upper_bound``, times at least ``…_lower_bound``."""
     k = o.k_e_m2_per_J
     ach = each_per_h(k, e_eq) if (k and e_eq) else None
     d = {"organism_id": o.id, "organism": o.organism, "group": o.group, "medium": o.medium,
          "wavelength_nm": o.wavelength_nm, "model": o.model, "k_e_m2_per_J": k,
-         "fluence_rate_W_m2": e_eq, "each_per_h": ach,
+         "fluence_rate_W_m2": None if upper_bound else e_eq,
+         "each_per_h": None if upper_bound else ach,
          "each_is_lower_bound": o.dose_bound == "at_most", "reliability": o.reliability,
          "source": o.citation, "from_memory": o.from_memory}
-    for p, n in ((90.0, 1.0), (99.0, 2.0), (99.9, 3.0)):
-        key = {90.0: "time_to_90_s", 99.0: "time_to_99_s", 99.9: "time_to_99_9_s"}[p]
-        d[key] = mixed_air_time(n, k, e_eq) if (k and e_eq) else None
+    for p, n, key in _TIME_KEYS:
+        t = mixed_air_time(n, k, e_eq) if (k and e_eq) else None
+        d[key] = None if upper_bound else t
+        if upper_bound:
+            d[key + "_lower_bound"] = t
+    if upper_bound:
+        d["fluence_rate_upper_bound_W_m2"] = e_eq
+        d["each_per_h_upper_bound"] = ach
     return d
+
+
+#: What the room figures are, from the lamp's UV-C reading (see :func:`evaluate_room`).
+FIGURES_ARE = {"estimate": "what the lamp delivers (screening estimate)",
+               "lower_bound": "lower bounds: part of UV-C was not measured",
+               "upper_bound": "NOT delivered by the lamp: the apparent UV-C is likely stray light "
+                              "or noise (or below the detection limit); only upper bounds are given",
+               "none": "not available: UV-C was not measured"}
+
+
+def _figures_are(g: GermicidalResult) -> str:
+    if g.uvc.value is not None:
+        return "lower_bound" if g.uvc.status == "partial" else "estimate"
+    return "upper_bound" if g.uvc.upper_bound is not None else "none"
 
 
 def evaluate_room(room: Box, lamp: RoomLamp, *, reflectance: float = DEFAULT_REFLECTANCE,
@@ -632,16 +689,30 @@ def evaluate_room(room: Box, lamp: RoomLamp, *, reflectance: float = DEFAULT_REF
     phi_254 = g.equivalent_irradiance(253.7)  # in W here: the spectrum is a flux
     s_act = integrate(lamp.flux_spectrum, 180.0, 400.0, get_weighting("S_actinic"))
     notes: list[str] = []
+    warnings: list[str] = []
+    figures = _figures_are(g)
+    bound = figures == "upper_bound"
     if g.status not in ("germicidal-uvc", "partial"):
-        notes.append(f"the lamp's germicidal status is '{g.status}': {g.statement}")
+        # said first and plainly (the same rule as ``assess``): no room figure below is
+        # presented as what the lamp delivers
+        notes.append(f"{g.statement} The room figures are {FIGURES_ARE[figures]}."
+                     if figures != "estimate" else
+                     f"{g.statement} The room figures below are what this weak UV-C gives.")
+    if geom.pattern == "cylinder" and geom.tube_length_m <= 0:
+        warnings.append("cylinder pattern without a tube length: the tube is modelled as one "
+                        "point with the cylinder's sin ψ pattern (a short tube), and the flux "
+                        "from a broadside irradiance as E·π²d²; a long tube near the lamp gives "
+                        "a different flux and a different spread. Give its length "
+                        "(--tube-length, e.g. '0.9 m').")
     # --- air ---------------------------------------------------------------------------------
     fa = volume_average_fluence_rate(room, geom, reflectance, order)
-    e_avg = None if phi_254 is None else phi_254 * fa.total_per_W
-    e_avg_uvc = None if phi_uvc is None else phi_uvc * fa.total_per_W
+    e_avg = None if phi_254 is None or bound else phi_254 * fa.total_per_W
+    e_avg_uvc = None if phi_uvc is None or bound else phi_uvc * fa.total_per_W
     rows = (list(select(ids=organisms)) if organisms is not None
             else list(select("air", "uvc", exclude_groups=("phage",))))
     air = tuple(_air_entry(o, None if g.equivalent_irradiance(o.wavelength_nm, o.pathway) is None
-                           else g.equivalent_irradiance(o.wavelength_nm, o.pathway) * fa.total_per_W)
+                           else g.equivalent_irradiance(o.wavelength_nm, o.pathway) * fa.total_per_W,
+                           bound)
                 for o in rows)
     ms = None
     best = most_susceptible(lambda o: (None if g.equivalent_irradiance(o.wavelength_nm, o.pathway) is None
@@ -649,8 +720,11 @@ def evaluate_room(room: Box, lamp: RoomLamp, *, reflectance: float = DEFAULT_REF
                                        * fa.total_per_W),
                             "air", "uvc")
     if best is not None:
-        ms = _air_entry(best.organism, best.irradiance_W_m2)
+        ms = _air_entry(best.organism, best.irradiance_W_m2, bound)
         ms["note"] = GENERIC_NOTE.format(name=best.organism.organism, medium=best.organism.medium)
+        if bound:
+            ms["note"] = ("an upper bound only, as if the whole apparent UV-C signal were "
+                          "germicidal output; " + ms["note"])
     # --- work plane --------------------------------------------------------------------------
     e_r = reflectance / (room.area_m2 * (1.0 - reflectance))
     pts, w, nx, ny = _grid(room, work_plane_m, grid_step_m)
@@ -664,7 +738,7 @@ def evaluate_room(room: Box, lamp: RoomLamp, *, reflectance: float = DEFAULT_REF
     f = phi_254 or 0.0
 
     def q(x: float) -> float | None:
-        return None if phi_254 is None else x * f
+        return None if phi_254 is None or bound else x * f
     plane = {
         "height_m": work_plane_m,
         "quantity": "254-nm-equivalent irradiance on an upward-facing plane (most favourable "
@@ -675,7 +749,8 @@ def evaluate_room(room: Box, lamp: RoomLamp, *, reflectance: float = DEFAULT_REF
         "max_W_m2": q(float(plane_per_W.max())),
         "uniformity_min_mean": float(plane_per_W.min() / mean_fine) if mean_fine > 0 else None,
         "p10_per_W_m2": p10,  # geometry alone: irradiance at p10 per watt of flux [m⁻²]
-        "grid": _coarse_grid(room, pts, plane_per_W, nx, ny, f if phi_254 else None),
+        "grid": _coarse_grid(room, pts, plane_per_W, nx, ny, f if phi_254 and not bound else None),
+        "max_upper_bound_W_m2": float(plane_per_W.max()) * f if bound and phi_254 else None,
         "grid_step_m": [room.width_m / (nx - 1), room.length_m / (ny - 1)],
         "percentile_error_rel": abs(p10 - p10_c) / p10 if p10 > 0 else None,
         "mean_error_rel": abs(mean_fine - mean_coarse) / mean_fine if mean_fine > 0 else None,
@@ -683,7 +758,7 @@ def evaluate_room(room: Box, lamp: RoomLamp, *, reflectance: float = DEFAULT_REF
         "time_to_target_at_p10_s": None, "time_to_target_everywhere_s": None,
         "most_susceptible": None,
     }
-    if target_dose_J_m2 is not None and phi_254:
+    if target_dose_J_m2 is not None and phi_254 and not bound:
         if not target_dose_J_m2 > 0:
             raise ConfigurationError(f"target dose must be positive, got {target_dose_J_m2}")
         plane["time_to_target_at_p10_s"] = target_dose_J_m2 / (p10 * f)
@@ -691,7 +766,7 @@ def evaluate_room(room: Box, lamp: RoomLamp, *, reflectance: float = DEFAULT_REF
     surf = most_susceptible(lambda o: (None if g.equivalent_irradiance(o.wavelength_nm, o.pathway) is None
                                        else g.equivalent_irradiance(o.wavelength_nm, o.pathway) * p10),
                             "surface", "uvc")
-    if surf is not None:
+    if surf is not None and not bound:
         d = surf.to_dict()
         d["irradiance_basis"] = "at the worst 10 % of the work plane (p10)"
         plane["most_susceptible"] = d
@@ -706,7 +781,8 @@ def evaluate_room(room: Box, lamp: RoomLamp, *, reflectance: float = DEFAULT_REF
     occupant = {
         "eye_height_m": eye_height_m,
         "position_m": [float(v) for v in pts_e[i_max]],
-        "irradiance_W_m2": None if phi_uvc is None else phi_uvc * eye_max,
+        "irradiance_W_m2": None if phi_uvc is None or bound else phi_uvc * eye_max,
+        "irradiance_upper_bound_W_m2": phi_uvc * eye_max if bound and phi_uvc is not None else None,
         "irradiance_quantity": "UV-C 200–280 nm, eyes facing the lamp (worst case), direct + "
                                "reflected",
         "effective_S_W_m2": e_s,
@@ -729,13 +805,19 @@ def evaluate_room(room: Box, lamp: RoomLamp, *, reflectance: float = DEFAULT_REF
         occupant["note"] += (" For far-UVC the ACGIH 2022 threshold limit values (at 222 nm about "
                              "161 mJ/cm² for the eye and 479 mJ/cm² for the skin; from memory, via "
                              "a secondary source) are higher than this IEC/ICNIRP limit.")
+    if bound and g.artefacts:
+        occupant["note"] += (" E_S counts the apparent UV-C signal, which is likely stray light: "
+                             "that can only overstate the actinic exposure, never understate it.")
     if abs(geom.position_m[2] - eye_height_m) < 0.3:
         notes.append("the lamp is within 0.3 m of eye height: next to it the exposure has no "
                      "useful bound; shield it or mount it higher")
     lamp_d = {
         "position_m": list(geom.position_m), "pattern": geom.pattern,
         "tube_length_m": geom.tube_length_m or None, "axis": geom.axis if geom.tube_length_m else None,
-        "uvc_flux_W": phi_uvc, "equivalent_254_flux_W": phi_254,
+        "uvc_flux_W": None if bound else phi_uvc,
+        "equivalent_254_flux_W": None if bound else phi_254,
+        "uvc_flux_upper_bound_W": phi_uvc if bound else None,
+        "equivalent_254_flux_upper_bound_W": phi_254 if bound else None,
         "actinic_flux_W": s_act.value, "actinic_flux_is_lower_bound": lower,
         "flux_basis": lamp.basis, "germicidal_status": g.status, "uvc_status": g.uvc.status,
     }
@@ -749,7 +831,8 @@ def evaluate_room(room: Box, lamp: RoomLamp, *, reflectance: float = DEFAULT_REF
     return RoomResult(room=room, reflectance=reflectance, lamp=lamp_d, plane=plane, fluence=fa,
                       fluence_rate_avg_W_m2=e_avg, fluence_rate_avg_uvc_W_m2=e_avg_uvc,
                       air=air, air_most_susceptible=ms, occupant=occupant, method=method,
-                      germicidal=g, flux_eq=phi_254, notes=tuple(notes))
+                      germicidal=g, flux_eq=phi_254, notes=tuple(notes), figures_are=figures,
+                      warnings=tuple(warnings))
 
 
 def _coarse_grid(room: Box, pts: np.ndarray, per_W: np.ndarray, nx: int, ny: int,

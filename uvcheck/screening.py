@@ -16,7 +16,14 @@ from uvcheck.assessment import AssessOptions, Assessment, assess
 from uvcheck.spectrum import integrate
 
 
+#: Hazards whose t_max is summarised per reading and case (the ones a UV lamp usually sets).
+SUMMARY_HAZARDS = ("actinic_uv", "near_uv", "blue_light")
+
+
 def _summary(readings: Any) -> list[dict[str, Any]]:
+    """One row per reading and case: band irradiances at the reference distance and, for an
+    absolute reading, the overall risk group and the t_max of :data:`SUMMARY_HAZARDS`
+    (uvcheck.hazards on that reading; an ESTIMATE like every screening figure)."""
     out = []
     for r in readings:
         s = r.spectrum
@@ -27,6 +34,14 @@ def _summary(readings: Any) -> list[dict[str, Any]]:
             row["uvc_W_m2"] = integrate(s, 200.0, 280.0).value
             row["uva_W_m2"] = integrate(s, 315.0, 400.0).value
             row["total_W_m2"] = integrate(s, *s.range_nm).value
+            hz = r.hazards().to_dict()
+            rg = hz.get("risk_group") or {}
+            row["risk_group"] = rg.get("group")
+            row["risk_group_is_lower_bound"] = bool(rg.get("is_lower_bound"))
+            row["governing_hazard"] = rg.get("governing")
+            row["hazard_distance_m"] = (hz.get("evaluation") or {}).get("distance_m")
+            row["t_max_s"] = {k: (hz.get("hazards") or {}).get(k, {}).get("t_max_s")
+                              for k in SUMMARY_HAZARDS}
         out.append(row)
     return out
 
@@ -47,12 +62,17 @@ def screen_listing_file(listing: Any, limit_set: str = "iec62471_2006") -> Asses
                                         "estimate": True})
     nominal = {"label": ESTIMATE_LABEL, "most_likely_reading": likely.label,
                "estimates": [e.to_dict() for e in ests], "readings": _summary(readings)}
+    # no Monte Carlo: its inputs (calibration, wavelength scale, distance, stray light) describe
+    # a measurement; the spread of an estimate is the range of its readings (min/typical/max)
     a = assess(spec, likely.conditions, None, AssessOptions(limit_set=limit_set,
-                                                            technology=likely.technology),
+                                                            technology=likely.technology,
+                                                            uncertainty=False),
                claims=verdicts, extra={"nominal": nominal})
     warnings = (f"ESTIMATE: no measurement. Every figure comes from the listing's stated data "
                 f"through a nominal model (reading '{likely.label}', placed at "
-                f"{likely.d_ref:g} m); the figures are ranges, see 'nominal'.",) + a.warnings
+                f"{likely.d_ref:g} m); the figures are ranges, see 'nominal' (the spread of an "
+                f"estimate is the range of its readings; the measurement-uncertainty "
+                f"evaluation does not apply to a model).",) + a.warnings
     from dataclasses import replace
 
     return replace(a, warnings=warnings)

@@ -45,7 +45,10 @@ grid, the integration limits interpolated linearly): :func:`integral_coefficient
 them, and they reproduce ``integrate`` to rounding. The coefficients depend on the wavelength
 shift only, so they are tabulated once per integral on a grid of shifts spanning the draws
 (each band's share, the stray-light response and ‖c‖ are kept) and interpolated for every
-draw; everything else is an elementwise operation on arrays of draws. Hazard values, groups
+draw; everything else is an elementwise operation on arrays of draws. No array of the
+spectrum's length is kept per integral (the coefficients of the touched samples are built in
+blocks and reduced at once to the per-band sums), so the memory of the evaluation is a few
+arrays of the spectrum's length, whatever the number of integrals and draws. Hazard values, groups
 and times then follow from the limits of :mod:`uvcheck.limits`: every hazard value is the
 integral times a geometry factor, the group of each draw is found by comparing with the
 ``group_limits`` in one vectorised step, and the 95 % interval of ``t_max`` is ``t_max`` at the
@@ -107,7 +110,12 @@ GLS_ILLUMINANCE_LX = 500.0
 _V_COMPLETE = 0.999
 #: Fields merged into each ``hazards[id]`` entry of the assessment dict by :func:`merge_into`.
 MERGED_HAZARD_FIELDS = ("interval_95", "t_max_interval_95_s", "risk_group_probability",
-                        "borderline", "standard_uncertainty")
+                        "borderline", "standard_uncertainty", "risk_group_by_rule",
+                        "risk_group_guarded")
+#: Fields that :func:`merge_into` adds to the ``risk_group`` entry (None when not evaluated).
+RISK_GROUP_FIELDS = ("decision_rule", "group_simple", "group_guarded", "group_probability",
+                     "group_probability_is_at_least", "borderline", "group_range_95",
+                     "rule_note")
 #: Run of UV samples whose median bounds a stray-light pedestal (the data cap, our choice). [-]
 STRAY_WINDOW_SAMPLES = 40
 #: The percent reductions whose times get intervals. [%]
@@ -545,6 +553,95 @@ def uncertainty_options_from_cli(calibration: str | None = None, wavelength: str
 Weight = Callable[[np.ndarray], np.ndarray]
 
 
+#: Samples per block when the coefficients of a long spectrum are built: the temporaries of
+#: the weighting and the trapezoid rule stay at this size whatever the number of samples. [-]
+COEF_BLOCK_SAMPLES = 1 << 16
+
+
+def _searchsorted_shifted(wl: np.ndarray, shift: float, x: float, side: str) -> int:
+    """``np.searchsorted(wl + shift, x, side)`` without forming ``wl + shift``.
+
+    Floating-point addition is monotone, so ``wl + shift`` is sorted; the index found on the
+    recorded axis is corrected by comparing the shifted values themselves, so the result is
+    the same integer as on the shifted array."""
+    n = wl.size
+    i = int(np.searchsorted(wl, x - shift, side=side))
+    if side == "right":     # first index whose shifted value is > x
+        while i > 0 and not (wl[i - 1] + shift <= x):
+            i -= 1
+        while i < n and wl[i] + shift <= x:
+            i += 1
+    else:                   # first index whose shifted value is >= x
+        while i > 0 and not (wl[i - 1] + shift < x):
+            i -= 1
+        while i < n and wl[i] + shift < x:
+            i += 1
+    return i
+
+
+def _local_coefficients(spectrum: Spectrum, lo_nm: float, hi_nm: float,
+                        weight: Weight | None = None, shift_nm: float = 0.0,
+                        ) -> tuple[int, np.ndarray, np.ndarray]:
+    """(offset, c, c_line): the coefficients of :func:`integral_coefficients`, ``c`` holding
+    only the samples from ``offset`` on that the integral touches (every other sample's
+    coefficient is 0). The weighting is evaluated in blocks of :data:`COEF_BLOCK_SAMPLES`,
+    so the memory is the touched span plus blocks, whatever the length of the spectrum; each
+    coefficient is the same number ``integral_coefficients`` gives (the trapezoid rule is
+    local: a node's weight depends on its two neighbours only)."""
+    wl0 = spectrum.wavelength_nm
+    n = wl0.size
+    sh = float(shift_nm)
+    lo, hi = float(lo_nm), float(hi_nm)
+    covered: list[tuple[float, float]] = []
+    pieces: list[tuple[float, float, int, int]] = []   # a_d, b_d, i0, i1
+    for s0, s1 in spectrum.segments():
+        a, b = max(lo, s0 + sh), min(hi, s1 + sh)
+        if b <= a:
+            continue
+        covered.append((a, b))
+        if n >= 2:
+            a_d, b_d = max(a, wl0[0] + sh), min(b, wl0[-1] + sh)
+            if b_d > a_d:
+                pieces.append((a_d, b_d, _searchsorted_shifted(wl0, sh, a_d, "right"),
+                               _searchsorted_shifted(wl0, sh, b_d, "left")))
+    if pieces:
+        start = max(min(p[2] for p in pieces) - 1, 0)
+        stop = min(max(p[3] for p in pieces) + 2, n)
+    else:
+        start = stop = 0
+    c = np.zeros(stop - start)
+    for a_d, b_d, i0, i1 in pieces:
+        # interior nodes wl[i0:i1], block by block; each block's trapezoid sees its neighbours
+        for p in range(i0, i1, COEF_BLOCK_SAMPLES):
+            q = min(p + COEF_BLOCK_SAMPLES, i1)
+            x = np.empty(q - p + 2)
+            x[1:-1] = wl0[p:q]
+            x[1:-1] += sh
+            x[0] = a_d if p == i0 else wl0[p - 1] + sh
+            x[-1] = b_d if q == i1 else wl0[q] + sh
+            t = trapezoid_weights(x, weight)
+            c[p - start:q - start] += t[1:-1]
+            if p == i0:
+                t_first = t[0]
+            if q == i1:
+                t_last = t[-1]
+        if i1 <= i0:   # no sample inside: the two limits only
+            t = trapezoid_weights(np.array([a_d, b_d]), weight)
+            t_first, t_last = t[0], t[-1]
+        for xe, te in ((a_d, t_first), (b_d, t_last)):
+            j = min(max(_searchsorted_shifted(wl0, sh, xe, "right") - 1, 0), n - 2)
+            wj, wj1 = wl0[j] + sh, wl0[j + 1] + sh
+            frac = (xe - wj) / (wj1 - wj)
+            c[j - start] += te * (1.0 - frac)
+            c[j + 1 - start] += te * frac
+    cl = np.zeros(len(spectrum.lines))
+    for k, ln in enumerate(spectrum.lines):
+        lam = ln.wavelength_nm + sh
+        if lo <= lam < hi and any(a <= lam <= b for a, b in covered):
+            cl[k] = 1.0 if weight is None else float(np.asarray(weight(np.array([lam])))[0])
+    return start, c, cl
+
+
 def integral_coefficients(spectrum: Spectrum, lo_nm: float, hi_nm: float,
                           weight: Weight | None = None, shift_nm: float = 0.0,
                           ) -> tuple[np.ndarray, np.ndarray]:
@@ -554,6 +651,7 @@ def integral_coefficients(spectrum: Spectrum, lo_nm: float, hi_nm: float,
     the limits, the spectrum interpolated linearly at the limits, lines on [lo, hi)), for the
     spectrum with its wavelength axis (samples, lines, covered range, gaps) shifted by
     ``shift_nm``: the true wavelength of a sample is its recorded one plus the shift.
+    (The evaluation itself keeps only the touched samples, :func:`_local_coefficients`.)
 
     Examples
     --------
@@ -562,33 +660,9 @@ def integral_coefficients(spectrum: Spectrum, lo_nm: float, hi_nm: float,
     >>> float(c @ s.values)                       # = integrate(s, 250, 350).value
     175.0
     """
-    wl = spectrum.wavelength_nm + shift_nm
-    n = wl.size
-    c = np.zeros(n)
-    lo, hi = float(lo_nm), float(hi_nm)
-    covered = []
-    for s0, s1 in spectrum.segments():
-        a, b = max(lo, s0 + shift_nm), min(hi, s1 + shift_nm)
-        if b <= a:
-            continue
-        covered.append((a, b))
-        if n >= 2:
-            a_d, b_d = max(a, wl[0]), min(b, wl[-1])
-            if b_d > a_d:
-                i0 = int(np.searchsorted(wl, a_d, side="right"))
-                i1 = int(np.searchsorted(wl, b_d, side="left"))
-                t = trapezoid_weights(np.concatenate(([a_d], wl[i0:i1], [b_d])), weight)
-                c[i0:i1] += t[1:-1]
-                for xe, te in ((a_d, t[0]), (b_d, t[-1])):
-                    j = min(max(int(np.searchsorted(wl, xe, side="right")) - 1, 0), n - 2)
-                    frac = (xe - wl[j]) / (wl[j + 1] - wl[j])
-                    c[j] += te * (1.0 - frac)
-                    c[j + 1] += te * frac
-    cl = np.zeros(len(spectrum.lines))
-    for k, ln in enumerate(spectrum.lines):
-        lam = ln.wavelength_nm + shift_nm
-        if lo <= lam < hi and any(a <= lam <= b for a, b in covered):
-            cl[k] = 1.0 if weight is None else float(np.asarray(weight(np.array([lam])))[0])
+    start, cloc, cl = _local_coefficients(spectrum, lo_nm, hi_nm, weight, shift_nm)
+    c = np.zeros(spectrum.wavelength_nm.size)
+    c[start:start + cloc.size] = cloc
     return c, cl
 
 
@@ -604,12 +678,17 @@ def shifted_integral(spectrum: Spectrum, lo_nm: float, hi_nm: float, weight: Wei
     >>> round(shifted_integral(line, 200, 400, S, 1.0) / shifted_integral(line, 200, 400, S, 0.0), 4)
     0.7368
     """
-    c, cl = integral_coefficients(spectrum, lo_nm, hi_nm, weight, shift_nm)
-    return float(c @ spectrum.values + cl @ np.array([ln.value for ln in spectrum.lines]))
+    start, c, cl = _local_coefficients(spectrum, lo_nm, hi_nm, weight, shift_nm)
+    return float(c @ spectrum.values[start:start + c.size]
+                 + cl @ np.array([ln.value for ln in spectrum.lines]))
 
 
 class _Functional:
-    """One weighted integral, split by calibration band, as a function of the wavelength shift."""
+    """One weighted integral, split by calibration band, as a function of the wavelength shift.
+
+    Keeps no array of the spectrum's length: the calibration bands and the stray-light range
+    are contiguous index ranges of the (sorted) recorded axis, so each band's share is a dot
+    product over a slice of the touched coefficients."""
 
     def __init__(self, spectrum: Spectrum, lo: float, hi: float, weight: Weight | None,
                  inputs: UncertaintyInputs, stray_below_nm: float):
@@ -618,19 +697,21 @@ class _Functional:
         wl = spectrum.wavelength_nm
         lines_wl = np.array([ln.wavelength_nm for ln in spectrum.lines])
         lines_v = np.array([ln.value for ln in spectrum.lines])
-        cols, lcols = [], []
+        self.nb = len(bands)
+        # band b holds the samples with a <= wl < z: indices [ia, iz) of the sorted axis
+        self.band_idx = []
+        self.stray_idx = []
+        lcols = []
         for b in bands:
             a, z = inputs.calibration_bands_nm[b]
-            cols.append(np.where((wl >= a) & (wl < z), spectrum.values, 0.0))
+            ia = int(np.searchsorted(wl, a, side="left"))
+            self.band_idx.append((ia, int(np.searchsorted(wl, z, side="left"))))
+            # stray light: a pedestal under stray_below_nm lies in the bands below that edge
+            self.stray_idx.append((ia, max(ia, int(np.searchsorted(wl, min(z, stray_below_nm),
+                                                                  side="left")))))
             lcols.append(np.where((lines_wl >= a) & (lines_wl < z), lines_v, 0.0)
                          if lines_v.size else np.zeros(0))
-        self.M = np.column_stack(cols) if wl.size else np.zeros((0, len(cols)))
         self.L = (np.column_stack(lcols) if lines_v.size else np.zeros((0, len(bands))))
-        self.nb = len(bands)
-        # stray light per band: a pedestal under 400 nm lies in the bands below that edge
-        self.stray_masks = [((wl >= inputs.calibration_bands_nm[b][0])
-                             & (wl < min(inputs.calibration_bands_nm[b][1], stray_below_nm))
-                             ).astype(float) for b in bands]
         self._cache: dict[float, np.ndarray] = {}
 
     def _row(self, delta: float) -> np.ndarray:
@@ -638,11 +719,20 @@ class _Functional:
         key = float(delta)
         if key in self._cache:
             return self._cache[key]
-        c, cl = integral_coefficients(self.spectrum, self.lo, self.hi, self.weight, key)
-        yb = c @ self.M[:, :self.nb] if c.size else np.zeros(self.nb)
+        start, c, cl = _local_coefficients(self.spectrum, self.lo, self.hi, self.weight, key)
+        stop = start + c.size
+        vals = self.spectrum.values
+        yb = np.zeros(self.nb)
+        pb = np.zeros(self.nb)
+        for i, ((ia, iz), (sa, sz)) in enumerate(zip(self.band_idx, self.stray_idx)):
+            a, z = max(ia, start), min(iz, stop)
+            if z > a:
+                yb[i] = float(c[a - start:z - start] @ vals[a:z])
+            a, z = max(sa, start), min(sz, stop)
+            if z > a:
+                pb[i] = float(np.sum(c[a - start:z - start]))
         if cl.size:
             yb = yb + cl @ self.L
-        pb = np.array([float(c @ m) for m in self.stray_masks]) if c.size else np.zeros(self.nb)
         row = np.concatenate((yb, pb, [math.sqrt(float(c @ c)) if c.size else 0.0]))
         self._cache[key] = row
         return row
@@ -692,7 +782,7 @@ class _Model:
         self.inputs = inputs
         self.functionals: dict[str, _Functional] = {}
         vals = spectrum.values
-        peak = float(np.max(np.abs(vals))) if vals.size else 0.0
+        peak = max(float(np.max(vals)), -float(np.min(vals))) if vals.size else 0.0  # max |v|
         if inputs.stray_light_level is not None:
             self.stray_allowance = inputs.stray_light_level
         else:
@@ -710,7 +800,10 @@ class _Model:
             # STRAY_WINDOW_SAMPLES consecutive UV samples plus 3 standard errors of that median.
             n_w = STRAY_WINDOW_SAMPLES
             win = np.lib.stride_tricks.sliding_window_view(uv, n_w)
-            floor = float(np.min(np.median(win, axis=1)))
+            # the medians in blocks of windows (np.median copies its input: a block, not all)
+            step = max(1, COEF_BLOCK_SAMPLES // n_w)
+            floor = min(float(np.min(np.median(win[k:k + step], axis=1)))
+                        for k in range(0, win.shape[0], step))
             cap = max(floor, 0.0) + 3.0 * 1.2533 * (spectrum.noise_floor or 0.0) / math.sqrt(n_w)
             if cap < self.stray_allowance:
                 self.stray_allowance = cap
@@ -906,8 +999,9 @@ def decision_rule_block(rule: str) -> dict[str, Any]:
                 "coverage on the side of the limit): a limit is met only when the measured "
                 "value is beyond it by U; for a normal distribution the risk of a wrong "
                 "acceptance is then about 2.5 % (one-sided; secondary sources, from memory).")
-        group = ("the group of the upper end of the 95 % interval (a group is accepted only when "
-                 "the value is below its upper limit by U)")
+        group = ("the group of the upper end of the 95 % interval, never lower than the measured "
+                 "value's (a group is accepted only when the value is below its upper limit by "
+                 "U; for a partly measured hazard, its measured part)")
     return {"rule": rule, "name": "simple acceptance" if rule == "simple" else "guarded acceptance",
             "guard_band": "0" if rule == "simple" else "U (95 % coverage, on the side of the limit)",
             "statement": text, "risk_group_by_rule": group,
@@ -991,7 +1085,7 @@ def _hazard_section(model: _Model, cond: Conditions, hz: Any, inputs: Uncertaint
         ev["_v_ok"] = integrate(spec, 360.0, 830.0, v_lambda()).coverage >= _V_COMPLETE
     out: dict[str, dict] = {}
     group_idx: dict[str, np.ndarray] = {}
-    rule_idx: dict[str, int] = {}
+    guard_idx: dict[str, int] = {}
     g_mc = _hazard_distance_factor(model, cond, ev, draws)
     for h in hz.hazards:
         base = {"symbol": h.symbol, "unit": h.unit, "status": h.status, "value": _num(h.value),
@@ -1001,7 +1095,8 @@ def _hazard_section(model: _Model, cond: Conditions, hz: Any, inputs: Uncertaint
                 "t_max_s": _num(h.t_max_s), "t_max_interval_95_s": None, "t_max_note": None,
                 "risk_group": h.risk_group, "risk_group_probability": None,
                 "lower_bound_group_probability": None, "borderline": None,
-                "boundaries_within_interval": [], "risk_group_by_rule": None, "note": None}
+                "boundaries_within_interval": [], "risk_group_by_rule": None,
+                "risk_group_guarded": None, "note": None}
         if h.status in ("not-assessable", "not-applicable") or h.value is None:
             base["note"] = "not evaluated: the hazard itself could not be assessed"
             out[h.id] = base
@@ -1079,19 +1174,22 @@ def _hazard_section(model: _Model, cond: Conditions, hz: Any, inputs: Uncertaint
             base["borderline"] = i_lo != i_hi
             base["boundaries_within_interval"] = [f"{GROUPS[i]}/{GROUPS[i + 1]}"
                                                   for i in range(i_lo, i_hi)]
+            # guarded acceptance: a group is accepted only when the value is below its upper
+            # limit by U, i.e. the group of the interval's upper end; never a lower group than
+            # the measured value's (the pedestal subtraction can put the interval below it)
+            nom_i = GROUPS.index(h.risk_group) if h.risk_group in GROUPS else 0
+            g_i = max(i_hi, nom_i)
+            base["risk_group_guarded"] = GROUPS[g_i]
+            by_rule = GROUPS[g_i] if rule == "guarded" else h.risk_group
+            base["risk_group_by_rule"] = by_rule
+            guard_idx[h.id] = g_i
             if h.status == "partial":
                 base["interval_is_lower_bound"] = True
                 base["lower_bound_group_probability"] = probs
-                by_rule = GROUPS[i_lo] if rule == "guarded" else h.risk_group
-                base["risk_group_by_rule"] = by_rule
                 base["note"] = ("partly measured: the value and its interval are lower bounds; "
                                 "the probabilities are those of 'at least' each group")
-                rule_idx[h.id] = GROUPS.index(by_rule)  # type: ignore[arg-type]
             else:
                 base["risk_group_probability"] = probs
-                by_rule = GROUPS[i_hi] if rule == "guarded" else h.risk_group
-                base["risk_group_by_rule"] = by_rule
-                rule_idx[h.id] = GROUPS.index(by_rule)  # type: ignore[arg-type]
             group_idx[h.id] = idx
         elif h.status == "partial":
             base["interval_is_lower_bound"] = True
@@ -1102,14 +1200,24 @@ def _hazard_section(model: _Model, cond: Conditions, hz: Any, inputs: Uncertaint
         stack = np.vstack(list(group_idx.values()))
         ov = np.max(stack, axis=0)
         nom = hz.risk_group
-        by_rule = GROUPS[max(rule_idx.values())] if rule_idx else None
+        nom_i = GROUPS.index(nom.group) if nom.group in GROUPS else 0
+        guard_i = max([nom_i] + list(guard_idx.values()))
+        guarded_by = nom.governing
+        if guard_i > nom_i:   # the first hazard (in the evaluation's order) that sets it
+            guarded_by = next(k for k, v in guard_idx.items() if v == guard_i)
+        by_rule = GROUPS[guard_i] if rule == "guarded" else nom.group
         iv_lo = int(np.sort(ov)[coverage_indices(ov.size)[0]])
         iv_hi = int(np.sort(ov)[coverage_indices(ov.size)[1]])
         overall = {"risk_group": nom.group, "is_lower_bound": nom.is_lower_bound,
                    "risk_group_probability": _probabilities(ov),
                    "borderline": any(out[h]["borderline"] for h in group_idx),
                    "risk_group_range_95": [GROUPS[iv_lo], GROUPS[iv_hi]],
+                   "decision_rule": rule,
                    "risk_group_by_rule": by_rule,
+                   "governing_by_rule": guarded_by if rule == "guarded" else nom.governing,
+                   "risk_group_simple": nom.group,
+                   "risk_group_guarded": GROUPS[guard_i],
+                   "governing_guarded": guarded_by,
                    "note": ("the worst hazard per draw; 'at least' probabilities where the "
                             "overall group is a lower bound" if nom.is_lower_bound else
                             "the worst hazard per draw")}
@@ -1552,11 +1660,87 @@ def merge_into(assessment_dict: dict[str, Any], result: UncertaintyResult) -> di
         for k in MERGED_HAZARD_FIELDS:
             entry[k] = None if src is None else src.get(k)
     d["uncertainty"] = u
+    if d.get("risk_group") is not None:
+        apply_rule_to_risk_group(d["risk_group"], u)
     note = uncertainty_note(u)
     notes = d.setdefault("notes", [])
     if note not in notes:
         notes.append(note)
     return d
+
+
+def apply_rule_to_risk_group(rg: dict[str, Any], u: Mapping[str, Any] | None) -> dict[str, Any]:
+    """Make the ``risk_group`` entry follow the decision rule, and add the uncertainty's view.
+
+    Under guarded acceptance ``group`` (and ``governing``) become the group the rule gives;
+    ``group_simple`` keeps the measured values' group and ``group_guarded`` the guarded one
+    whatever the rule, so a reader sees both. ``group_probability`` (``group_probability_is_
+    at_least`` when the group is a lower bound), ``borderline`` and ``group_range_95`` come
+    from the Monte Carlo; ``rule_note`` says in one sentence which rule the group follows and
+    what the other gives. Every field of :data:`RISK_GROUP_FIELDS` is set (None when the
+    uncertainty was not evaluated, e.g. ``u`` None). Changes and returns ``rg``.
+
+    Examples
+    --------
+    >>> rg = {"group": "Exempt", "is_lower_bound": False, "governing": "actinic_uv",
+    ...       "upper_bound": "Exempt", "note": "Exempt"}
+    >>> ov = {"risk_group": "Exempt", "is_lower_bound": False, "borderline": True,
+    ...       "risk_group_probability": {"Exempt": 0.6, "RG1": 0.4, "RG2": 0.0, "RG3": 0.0},
+    ...       "risk_group_range_95": ["Exempt", "RG1"], "risk_group_guarded": "RG1",
+    ...       "governing_guarded": "actinic_uv"}
+    >>> u = {"status": "evaluated", "overall": ov, "decision_rule": {"rule": "guarded"}}
+    >>> r = apply_rule_to_risk_group(rg, u)
+    >>> r["group"], r["group_simple"], r["upper_bound"]
+    ('RG1', 'Exempt', 'RG1')
+    """
+    for k in RISK_GROUP_FIELDS:
+        rg.setdefault(k, None)
+    if rg.get("group_simple") is None:
+        rg["group_simple"] = rg.get("group")
+    if not u or u.get("status") != "evaluated":
+        return rg
+    rule = (u.get("decision_rule") or {}).get("rule", "simple")
+    rg["decision_rule"] = rule
+    ov = u.get("overall")
+    if not ov:
+        rg["rule_note"] = ("no group probability: no hazard with risk groups has an interval; "
+                           f"the group is that of the measured values ({_rule_name(rule)})")
+        return rg
+    simple = rg["group_simple"]
+    guarded = ov.get("risk_group_guarded") or simple
+    rg["group_guarded"] = guarded
+    rg["group_probability"] = dict(ov.get("risk_group_probability") or {}) or None
+    rg["group_probability_is_at_least"] = bool(ov.get("is_lower_bound"))
+    rg["borderline"] = bool(ov.get("borderline"))
+    rg["group_range_95"] = list(ov.get("risk_group_range_95") or []) or None
+    at_least = "at least " if rg.get("is_lower_bound") else ""
+    if rule == "guarded" and guarded in GROUPS and simple in GROUPS \
+            and GROUPS.index(guarded) > GROUPS.index(simple):
+        rg["group"] = guarded
+        rg["governing"] = ov.get("governing_guarded") or rg.get("governing")
+        if rg.get("upper_bound") in GROUPS and GROUPS.index(rg["upper_bound"]) < GROUPS.index(guarded):
+            rg["upper_bound"] = guarded
+        rg["rule_note"] = (f"{at_least}{guarded} by guarded acceptance (the decision rule chosen: "
+                           f"a group is accepted only when the value is below its limit by the "
+                           f"expanded uncertainty U); the measured values alone (simple "
+                           f"acceptance) give {at_least}{simple}")
+        if rg.get("note"):
+            rg["note"] = f"{at_least}{guarded} by guarded acceptance; measured values: {rg['note']}"
+    elif rule == "guarded":
+        rg["rule_note"] = (f"{at_least}{simple} by guarded acceptance (the decision rule chosen); "
+                           "the measured values alone (simple acceptance) give the same group")
+    elif guarded != simple:
+        rg["rule_note"] = (f"{at_least}{simple} by simple acceptance (the decision rule chosen: "
+                           f"the group of the measured values); guarded acceptance (--decision-"
+                           f"rule guarded) would give {at_least}{guarded}")
+    else:
+        rg["rule_note"] = (f"{at_least}{simple} by simple acceptance (the decision rule chosen); "
+                           "guarded acceptance would give the same group")
+    return rg
+
+
+def _rule_name(rule: str) -> str:
+    return "simple acceptance" if rule == "simple" else "guarded acceptance"
 
 
 def uncertainty_note(u: Mapping[str, Any]) -> str:

@@ -115,7 +115,10 @@ class Claim:
     reduction_stated_as : ``percent`` | ``log`` | None.
     organism : organism(s) as written ("germs", "E. coli"), None if not named.
     organism_generic : True when only generic words were used (germs, bacteria, viruses).
-    time_s : stated time. [s]
+    time_s : stated time. [s] For a time worded without a number ("in seconds"), the longest
+        time the word allows (the most favourable reading, see :data:`VAGUE_TIMES`).
+    time_word : the word the time was read from when it came without a number ("seconds"),
+        else None: the time is then not quantified, only bounded.
     distance_m : stated distance. [m]
     area_m2 : stated area or room floor area. [m²]
     volume_m3 : stated room volume. [m³]
@@ -142,6 +145,7 @@ class Claim:
     organism: str | None = None
     organism_generic: bool = False
     time_s: float | None = None
+    time_word: str | None = None
     distance_m: float | None = None
     area_m2: float | None = None
     volume_m3: float | None = None
@@ -208,7 +212,7 @@ class Claim:
         fields_by_kind = {
             "emission": ("wavelength_nm", "band_name", "band_nm"),
             "inactivation": ("reduction_fraction", "log_reduction", "reduction_stated_as",
-                             "organism", "organism_generic", "time_s", "distance_m",
+                             "organism", "organism_generic", "time_s", "time_word", "distance_m",
                              "area_m2", "volume_m3", "medium"),
             "coverage": ("area_m2", "volume_m3"),
             "ozone-free": (),
@@ -849,6 +853,16 @@ _NUM = r"(\d+(?:[.,]\d+)?)"
 _PERCENT_RE = re.compile(rf"{_NUM}\s*(?:%|percent\b|per\s*cent\b)", re.I)
 _LOG_RE = re.compile(rf"{_NUM}\s*-?\s*logs?(?:10)?\b|\blog\s*-?\s*{_NUM}\b", re.I)
 _TIME_RE = re.compile(rf"{_NUM}\s*(seconds?|secs?|s|minutes?|mins?|min|hours?|hrs?|h)\b", re.I)
+#: Times worded without a number -> the longest time the words allow [s]. "In seconds" means
+#: less than a minute, "in minutes" less than an hour, "in hours" less than a day, "instantly"
+#: within a second (uvcheck's reading of plain English, not a standard). An efficacy claim gets
+#: the benefit of the doubt, so it is judged at that longest time, and the verdict says the
+#: time was not quantified.
+VAGUE_TIMES = {"seconds": (60.0, "less than a minute"), "minutes": (3600.0, "less than an hour"),
+               "hours": (86400.0, "less than a day"), "instantly": (1.0, "within a second")}
+_VAGUE_TIME_RE = re.compile(
+    r"(?<![\d.,])(?<![\d.,]\s)\b(?:(?:just|only|mere|a\s+few|few|a\s+couple\s+of|several)\s+)?"
+    r"(seconds|minutes|hours)\b|\b(instant(?:ly)?|immediately)\b", re.I)
 _AREA_RE = re.compile(rf"{_NUM}\s*(m²|m2\b|m\^2|sq\.?\s*m\b|sqm\b|square\s+met(?:re|er)s?|"
                       r"ft²|ft2\b|sq\.?\s*ft\b|square\s+f(?:ee|oo)t)", re.I)
 _VOLUME_RE = re.compile(rf"{_NUM}\s*(m³|m3\b|m\^3|cubic\s+met(?:re|er)s?|ft³|ft3\b|cu\.?\s*ft\b)",
@@ -961,6 +975,13 @@ def _find_quantities(text: str) -> dict[str, Any]:
             found.setdefault("time_s", parse_quantity(f"{_num(m.group(1))} {m.group(2).lower()}",
                                                       "time").value_si)
             spans.append(m.span())
+    if "time_s" not in found:
+        for m in _VAGUE_TIME_RE.finditer(text):
+            if free(m):
+                word = (m.group(1) or "instantly").lower()
+                found["time_s"], found["time_word"] = VAGUE_TIMES[word][0], word
+                spans.append(m.span())
+                break
     for m in _DIST_RE.finditer(text):
         if free(m):
             found.setdefault("distance_m", parse_quantity(
@@ -993,6 +1014,22 @@ def _band_of_text(text: str) -> str | None:
         if name is not None:
             return name
     return None
+
+
+def vague_time_text(word: str) -> str:
+    """What a time worded without a number was read as (for notes and verdicts).
+
+    Examples
+    --------
+    >>> vague_time_text("seconds")
+    "the time is not quantified ('seconds' without a number): judged at 1 min, the longest time the word allows (less than a minute; the most favourable reading)"
+    """
+    from uvcheck.units import format_duration
+
+    t, meaning = VAGUE_TIMES[word]
+    return (f"the time is not quantified ('{word}' without a number): judged at "
+            f"{format_duration(t)}, the longest time the word allows ({meaning}; the most "
+            "favourable reading)")
 
 
 def _article(word: str) -> str:
@@ -1065,7 +1102,7 @@ def parse_claim_text(text: str, claim_id: str = "c1") -> Claim:
         elif "percent" in q and 0 < q["percent"] <= 100:
             kw.update(_reduction(q["percent"] / 100.0, None))
         kw["organism"], kw["organism_generic"] = org, generic
-        for k in ("time_s", "distance_m", "area_m2", "volume_m3"):
+        for k in ("time_s", "time_word", "distance_m", "area_m2", "volume_m3"):
             kw[k] = q.get(k)
         air, surf = bool(_AIR_RE.search(text)), bool(_SURFACE_RE.search(text))
         kw["medium"] = "air" if air and not surf else "surface" if surf and not air else None
@@ -1077,7 +1114,9 @@ def parse_claim_text(text: str, claim_id: str = "c1") -> Claim:
         kw["area_m2"], kw["volume_m3"] = q.get("area_m2"), q.get("volume_m3")
     elif kind == "safety":
         kw["safe_for"] = tuple(s for s, rx in _SUBJECT_RES if rx.search(text))
-        kw["distance_m"], kw["time_s"] = q.get("distance_m"), q.get("time_s")
+        kw["distance_m"] = q.get("distance_m")
+        # a worded time ("in seconds") bounds nothing useful for exposure: only numbers count
+        kw["time_s"] = None if q.get("time_word") else q.get("time_s")
     elif kind == "optical-power":
         kw["power_W"] = q["power_W"]
         if band_name:
@@ -1091,6 +1130,9 @@ def parse_claim_text(text: str, claim_id: str = "c1") -> Claim:
     others = [k for k in kinds[1:] if not (k == "emission" and kind in ("optical-power",
                                                                          "efficiency"))]
     notes = [f"read from the wording as {_article(kind)} {kind} claim"]
+    if kind == "inactivation" and q.get("time_word"):
+        word = q["time_word"]
+        notes.append(vague_time_text(word))
     if kind == "inactivation" and "percent" in q and q["percent"] >= 100:
         notes.append("100 % is not a finite reduction: no first-order process reaches it")
         kw.update({"reduction_fraction": 1.0, "log_reduction": None,

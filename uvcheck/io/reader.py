@@ -6,7 +6,11 @@ What it copes with, and reports in the :class:`ImportReport`:
 
 * encodings: UTF-8 (with or without BOM), UTF-16 (BOM or NUL pattern), Latin-1/cp1252;
 * delimiters: comma, semicolon, tab, pipe, runs of spaces; decimal comma (with semicolon,
-  tab or spaces); thousands separators where unambiguous (``1,234.5`` or ``1.234,5``);
+  tab or spaces); thousands separators where unambiguous (``1,234.5``, ``1.234,5``, and
+  ``1.002.000``, which decides the decimal mark even when it first appears after the lines the
+  format is guessed on); a column where every number holding the decimal mark has exactly
+  three digits after it next to plain integers (``10.000`` beside ``999``) is read with the
+  guessed mark and flagged, naming the column and ``--decimal``;
 * a metadata block of any length before the data (``key: value``, ``key;value``,
   ``key=value``, ``[Section]`` lines, comments, blank lines), a header row, an optional
   units row, footer lines after the data;
@@ -16,7 +20,10 @@ What it copes with, and reports in the :class:`ImportReport`:
   pixel column, two spectra side by side, several data blocks (``block=``);
 * descending or unsorted wavelengths (sorted), duplicates (averaged), gaps (kept as gaps,
   never bridged), non-uniform steps, NaN/inf rows (dropped and counted), negative values
-  (kept: they are noise and set the noise floor), wavelengths in µm, m or cm⁻¹.
+  (kept: they are noise and set the noise floor; more than half of the samples negative is
+  flagged, as a sign-flipped dark subtraction), wavelengths in µm, m or cm⁻¹;
+* noise-free data (synthetic, modelled, smoothed): the noise floor is the dynamic-range floor,
+  1e-6 of the peak (common practice; :func:`uvcheck.features.estimate_noise`), and it is said.
 
 Every guess can be overridden. Unreadable input raises :class:`InputFormatError` naming
 the line and column and what to do. The file is streamed: only the head is held as text,
@@ -387,6 +394,104 @@ def _choose_format(lines: list[str], opts: ReadOptions, where: str) -> tuple[str
     return best[1], best[2], best[3]
 
 
+# ---------------------------------------------------------------------------------------------
+# Thousands separators: evidence in the data rows of the head
+# ---------------------------------------------------------------------------------------------
+
+#: A number that reads the same with ``m`` as a decimal mark or as a thousands separator
+#: (one group of exactly three digits after a leading 1-3 digit group not starting with 0):
+#: '10.000', '1.103'; and one that only a thousands separator explains: '1.002.000' (two or
+#: more groups) or '1.234,5' (a group, then the other mark).
+_SEP_PATTERNS = {
+    m: (re.compile(rf"^[-+]?[1-9]\d{{0,2}}{re.escape(m)}\d{{3}}$"),
+        re.compile(rf"^[-+]?[1-9]\d{{0,2}}(?:{re.escape(m)}\d{{3}}){{2,}}$"
+                   rf"|^[-+]?[1-9]\d{{0,2}}(?:{re.escape(m)}\d{{3}})+{re.escape(o)}\d*$"))
+    for m, o in ((".", ","), (",", "."))}
+_PLAIN_INT = re.compile(r"^[-+]?\d+$")
+#: At most this many data lines of the head are examined for separator evidence.
+SEPARATOR_SCAN_LINES = HEAD_LINES
+#: Without a grouped number ('1.002.000', '1.234,5') anywhere in the head, the ambiguity
+#: check ('10.000' among plain integers) looks at this many data rows only: a column printed
+#: in fixed-point format ('253.700', every row) would otherwise be read token by token
+#: through the whole head, for a warning its first rows already decide in practice.
+SEPARATOR_QUICK_ROWS = 200
+
+
+def _grouped_anywhere(text: str, mark: str, delim: str) -> bool:
+    """Whether the text may hold a number that only a thousands separator ``mark`` explains:
+    two or more groups ('1.002.000'), or a group then the other mark ('1.234,5', not where
+    the other mark is the delimiter). A necessary condition, tested in one scan of the text
+    led by a literal character (fast); the token-by-token scan then decides."""
+    m = re.escape(mark)
+    pats = [rf"{m}\d{{3}}{m}\d"]
+    other = "," if mark == "." else "."
+    if delim == "space" or DELIMITERS[delim] != other:
+        pats.append(rf"{m}\d{{3}}{re.escape(other)}\d")
+    return any(re.search(p, text) is not None for p in pats)
+
+
+def _int_cell_possible(text: str, n_lines: int, mark: str, delim: str) -> bool:
+    """Whether some cell of the text may lack the mark (a plain integer): certainly not when
+    there are at least as many marks as cells and no cell holds two (no grouped number).
+    Counted in C; an over-count of cells only makes the scan run."""
+    cells = len(text.split()) if delim == "space" else text.count(DELIMITERS[delim]) + n_lines
+    return text.count(mark) < cells
+
+
+@dataclass
+class _SepColumn:
+    """What the tokens of one column show about the mark ``m`` (the decimal mark in use)."""
+
+    ints: int = 0            # plain integers, no mark
+    three: int = 0           # one group of exactly three digits after the mark: ambiguous
+    other: int = 0           # the mark used as a decimal mark only ('0.5', '12.34', '1.2e-3')
+    thousands: int = 0       # the mark used as a thousands separator only ('1.002.000')
+    example: tuple[int, str] | None = None       # (0-based line, token) of the first 'three'
+    thousands_example: tuple[int, str] | None = None
+
+
+def _separator_evidence(lines: list[str], start: int, delim: str, mark: str, ncols: int
+                        ) -> list[_SepColumn]:
+    """Per column, how the data rows from ``start`` (at most :data:`SEPARATOR_SCAN_LINES`)
+    use ``mark``: as a decimal mark, as a thousands separator, or ambiguously.
+
+    The scan stops once every column has used the mark as a plain decimal mark (the usual
+    case, decided on the first row): then no column is ambiguous and the mark stays; and,
+    where no grouped number appears in the head at all, after
+    :data:`SEPARATOR_QUICK_ROWS` data rows."""
+    three, multi = _SEP_PATTERNS[mark]
+    cols = [_SepColumn() for _ in range(ncols)]
+    stop = min(len(lines), start + SEPARATOR_SCAN_LINES)
+    text = "\n".join(lines[start:stop])
+    grouped = _grouped_anywhere(text, mark, delim)
+    if not grouped and not _int_cell_possible(text, stop - start, mark, delim):
+        return cols  # no grouped number and no integer cell: nothing to find
+    rows_left = stop - start if grouped else SEPARATOR_QUICK_ROWS
+    for i in range(start, stop):
+        if rows_left <= 0 or all(c.other for c in cols):
+            break
+        line = lines[i]
+        if not _STARTS_NUMERIC.match(line):
+            continue
+        toks = _split(line, delim)
+        if len(toks) != ncols:
+            continue
+        rows_left -= 1
+        for c, t in zip(cols, toks):
+            if mark not in t:
+                if _PLAIN_INT.match(t):
+                    c.ints += 1
+            elif three.match(t):
+                c.three += 1
+                c.example = c.example or (i, t)
+            elif multi.match(t):
+                c.thousands += 1
+                c.thousands_example = c.thousands_example or (i, t)
+            else:
+                c.other += 1
+    return cols
+
+
 def _no_rows_error(lines: list[str], first: int, where: str) -> InputFormatError:
     """Why no data rows were found, naming the first line that starts like a number."""
     todo = ("the file must hold a table of wavelength and value columns; "
@@ -751,6 +856,33 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
         first_num = max(first_num, opts.data_start - 1)
     sample = head[:first_num + 60]
     delim, decimal, blocks = _choose_format(sample, opts, where)
+    # thousands separators: a number only a thousands separator explains ('1.002.000') decides
+    # the decimal mark when no number uses the mark as a decimal; '10.000' among plain
+    # integers is ambiguous and is flagged below
+    big0 = [b for b in blocks if b.end - b.start + 1 - len(b.bad) >= 3]
+    scan = (big0[opts.block - 1] if opts.block and 1 <= opts.block <= len(big0)
+            else max(blocks, key=lambda b: b.end - b.start))  # the block read below
+    start0 = scan.start
+    sep_cols = _separator_evidence(head, start0, delim, decimal, scan.ncols)
+    other_mark = "," if decimal == "." else "."
+    switch = (opts.decimal is None and any(c.thousands for c in sep_cols)
+              and not any(c.other for c in sep_cols)
+              and not (delim == "comma" and other_mark == ","))
+    if switch:
+        ev = next(c.thousands_example for c in sep_cols if c.thousands_example)
+        opts_sw = ReadOptions(**{**{f.name: getattr(opts, f.name) for f in fields(opts)},
+                                 "decimal": other_mark})
+        try:
+            delim_sw, decimal_sw, blocks_sw = _choose_format(sample, opts_sw, where)
+        except InputFormatError:
+            switch = False
+        else:
+            warnings.append(f"'{decimal}' is a thousands separator in this file ({ev[1]!r} on "
+                            f"line {ev[0] + 1}), so '{other_mark}' is taken as the decimal "
+                            f"mark; if that is wrong give --decimal '{decimal}'")
+            delim, decimal, blocks = delim_sw, decimal_sw, blocks_sw
+    if not switch:
+        _flag_ambiguous_separators(sep_cols, head, start0, delim, decimal, opts, warnings)
     big = [b for b in blocks if b.end - b.start + 1 - len(b.bad) >= 3]
     if opts.block:
         if not 1 <= opts.block <= len(big):
@@ -1060,6 +1192,15 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
         if sat:
             warnings.append(sat)
     noise = estimate_noise(values)
+    if noise.method == "dynamic-range floor":
+        warnings.append(f"the data show almost no noise (estimate {noise.data_sigma:.3g} "
+                        f"{_spectral_unit_text(su)}): synthetic, modelled or smoothed data? The "
+                        f"noise floor is set to {noise.floor_fraction:g} of the peak (a "
+                        "dynamic-range floor, common practice: no spectrometer resolves less), "
+                        "so values under it are reported as below detection")
+    negative = _mostly_negative(values)
+    if negative:
+        warnings.append(negative)
     # ---- metadata of interest ---------------------------------------------------------
     dist = None
     found = _meta_lookup(meta, r"(measure(ment)?\s*)?distance", r"abstand", r"^dist")
@@ -1094,6 +1235,61 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
                     meta={"source": str(p), "sha256": sha, "file_name": p.name,
                           "instrument": _instrument_notes(meta), "origin": "measured"})
     return spec, report
+
+
+def _flag_ambiguous_separators(cols: list[_SepColumn], head: list[str], start: int, delim: str,
+                               decimal: str, opts: ReadOptions, warnings: list[str]) -> None:
+    """Warn, per column, when ``decimal`` may really be a thousands separator: every number
+    holding it has exactly three digits after it and the column also holds plain integers
+    ('10.000' next to '999'), or a number only a thousands separator explains ('1.002.000')
+    could not decide the mark (the file also uses it as a decimal mark, or the delimiter is the
+    other mark). Nothing is said when the user gave the decimal mark (--decimal)."""
+    names = None
+    other_mark = "," if decimal == "." else "."
+    can_switch = not (delim == "comma" and other_mark == ",")
+    todo = (f"if it separates thousands give --decimal '{other_mark}'" if can_switch else
+            "a comma-separated file cannot use ',' as its decimal mark: re-export it without "
+            "thousands separators")
+    if opts.decimal:
+        return  # the user chose the decimal mark
+    for k, c in enumerate(cols):
+        if names is None:
+            hdr = [ln for ln in head[max(0, start - 3):start] if ln.strip()]
+            toks = _split(hdr[-1], delim) if hdr else []
+            names = toks if len(toks) == len(cols) else [f"column {j + 1}" for j in range(len(cols))]
+        label = names[k] if names[k] else f"column {k + 1}"
+        if c.three and not c.other and not c.thousands and c.ints:
+            line, tok = c.example  # type: ignore[misc]
+            warnings.append(
+                f"column {label!r} (column {k + 1}): every number with a '{decimal}' has exactly "
+                f"three digits after it ({tok!r} on line {line + 1}, {c.three} such number(s)) "
+                f"and the column also holds {c.ints} plain integer(s): '{decimal}' may be a "
+                f"thousands separator ({tok} = {tok.replace(decimal, '')}), not a decimal mark. "
+                f"Read as a decimal mark; {todo}")
+        elif c.thousands:
+            line, tok = c.thousands_example  # type: ignore[misc]
+            warnings.append(
+                f"column {label!r} (column {k + 1}): {tok!r} on line {line + 1} uses '{decimal}' "
+                f"as a thousands separator, but the file also uses '{decimal}' as its decimal "
+                f"mark; such rows cannot be read: check the export")
+
+
+def _mostly_negative(values: np.ndarray) -> str | None:
+    """A warning when the spectrum sits below zero as a whole, else None: more than half of
+    the samples negative and the deepest dip well beyond the highest point
+    (:func:`uvcheck.features.negative_dominated`; a sign-flipped or reversed dark
+    subtraction, a dark taken with the lamp on, a wrong column). Dark-subtracted noise alone
+    is negative in about half of the samples where the lamp emits nothing."""
+    from uvcheck.features import negative_dominated
+
+    found = negative_dominated(values)
+    if found is None:
+        return None
+    n_neg, n = found
+    return (f"{n_neg} of {n} samples ({n_neg / n:.0%}) are negative: a lamp spectrum is mostly "
+            "positive. Check the dark (background) subtraction (sign flipped, or the dark and "
+            "the lamp spectrum swapped? a dark taken with the lamp on?), the value column "
+            "(--column) and the unit; results from it are not meaningful until it is fixed")
 
 
 def _spectral_unit_text(su: Any) -> str:

@@ -85,16 +85,45 @@ def uvc_unknown(d: Result) -> bool:
     return b.get("status") in ("not-covered", None) and bool(d.get("bands"))
 
 
+def _hazards_at_both(d: Result, hid: str) -> list[Mapping[str, Any]]:
+    """The hazard's entries at the assessment distance and at the distance of use."""
+    out = [_hazard(d, hid)]
+    u = ((d.get("use_distance") or {}).get("hazards") or {}).get(hid)
+    if u:
+        out.append(u)
+    return [h for h in out if h]
+
+
+def group_rank(d: Result, hids: tuple[str, ...]) -> int | None:
+    """Highest risk-group rank (0 Exempt … 3 RG3) among the hazards, at the assessment
+    distance or at the distance of use; None if none is known."""
+    ranks = [_GROUP_RANK[h.get("risk_group")] for hid in hids for h in _hazards_at_both(d, hid)
+             if h.get("risk_group") in _GROUP_RANK]
+    return max(ranks) if ranks else None
+
+
 def uv_group_rank(d: Result) -> int | None:
     """Highest risk-group rank among the UV hazards (0 Exempt … 3 RG3), None if none known."""
-    ranks = [_GROUP_RANK[g] for g in (_hazard(d, h).get("risk_group") for h in _UV_HAZARDS)
-             if g in _GROUP_RANK]
-    return max(ranks) if ranks else None
+    return group_rank(d, _UV_HAZARDS)
 
 
 def actinic_time_s(d: Result) -> float | None:
     """Permissible exposure time for the actinic UV hazard at the assessed distance. [s]"""
     return _hazard(d, "actinic_uv").get("t_max_s")
+
+
+#: Hazards of the retina and skin from visible and infrared light (IEC 62471:2006).
+_BLUE_HAZARDS = ("blue_light",)
+_THERMAL_HAZARDS = ("retinal_thermal", "retinal_thermal_weak_stimulus", "ir_eye")
+
+
+def peak_nm(d: Result) -> float | None:
+    return (d.get("spectral") or {}).get("peak_nm")
+
+
+def sold_as_germicidal(d: Result, listing: Mapping[str, Any] | None = None) -> bool:
+    """Sold as UV-C, or with germ-killing claims."""
+    return claims_uvc(d, listing) or bool(kinds(d, listing) & {"inactivation", "coverage"})
 
 
 def uv_hazard_present(d: Result) -> bool:
@@ -215,25 +244,65 @@ def _when_invisible(d: Result, li: Mapping[str, Any] | None) -> str | None:
         return f"UV-C was measured; the actinic UV limit is reached in {_fmt_t(t)}{_dist(d)}"
     if emits_uvc(d):
         return "UV-C was measured"
-    if uv_hazard_present(d):
-        return "a UV hazard above the Exempt group was found"
     if uvc_unknown(d) and claims_uvc(d, li):
         return "the product is sold as UV-C and UV-C could not be ruled out"
     return None
 
 
 def _when_people_pets(d: Result, li: Mapping[str, Any] | None) -> str | None:
-    if emits_uvc(d) or uv_hazard_present(d):
-        return "the lamp emits UV at levels with an exposure time limit"
+    if emits_uvc(d):
+        return "the lamp emits germicidal UV-C"
+    if uvc_unknown(d) and claims_uvc(d, li):
+        return "the product is sold as UV-C and UV-C could not be ruled out"
     if "safety" in kinds(d, li) and (emits_uvc(d) or uvc_unknown(d)):
         return "the product is sold as safe for people or animals"
     return None
 
 
 def _when_violet(d: Result, li: Mapping[str, Any] | None) -> str | None:
-    if no_uvc(d):
-        return ("no germicidal UV-C was found" + (", although the product is sold as UV-C"
-                                                  if claims_uvc(d, li) else ""))
+    """No UV-C, and the lamp is sold as germicidal or glows violet (peak below 420 nm, ours:
+    the violet end of the visible range); not for, say, a white LED sold as a light."""
+    if not no_uvc(d):
+        return None
+    pk = peak_nm(d)
+    if not sold_as_germicidal(d, li) and pk is not None and pk >= 420.0:
+        return None
+    return ("no germicidal UV-C was found" + (", although the product is sold as UV-C"
+                                              if claims_uvc(d, li) else ""))
+
+
+def relative_only(d: Result) -> bool:
+    """A relative (unscaled) spectrum: no hazard could be given a value."""
+    inp = d.get("input") or {}
+    rel = inp.get("quantity") == "relative" or inp.get("unit") == "relative"
+    hz = d.get("hazards") or {}
+    return rel and bool(hz) and all(h.get("status") == "not-assessable" for h in hz.values())
+
+
+def _when_unscaled(d: Result, li: Mapping[str, Any] | None) -> str | None:
+    if relative_only(d):
+        return "the spectrum is relative, so no hazard could be assessed"
+    return None
+
+
+def _when_uva_eyes(d: Result, li: Mapping[str, Any] | None) -> str | None:
+    rank = uv_group_rank(d)
+    if emits_uvc(d) or rank is None or rank < 1:
+        return None
+    return "a UV hazard above the Exempt group was found, from UV-A or violet light (no UV-C)"
+
+
+def _when_blue(d: Result, li: Mapping[str, Any] | None) -> str | None:
+    rank = group_rank(d, _BLUE_HAZARDS)
+    if rank is not None and rank >= 1:
+        return "the blue-light hazard to the retina is above the Exempt group"
+    return None
+
+
+def _when_thermal(d: Result, li: Mapping[str, Any] | None) -> str | None:
+    rank = group_rank(d, _THERMAL_HAZARDS)
+    if rank is not None and rank >= 1:
+        return "a thermal or infrared hazard to the eye is above the Exempt group"
     return None
 
 
@@ -316,6 +385,31 @@ CATALOGUE: tuple[Caution, ...] = (
             "Do not use UV-C to disinfect skin or hands. Switch open lamps on only in a room "
             "with no people, pets or plants in it, unless the product is designed and documented "
             "for occupied rooms (shielded upper-room or enclosed units).", _when_people_pets, 20),
+    Caution("uva-eyes", "Strong UV-A and violet light can harm the eyes and skin",
+            "Near-UV (UV-A) and deep violet light look dim, so the eyes do not turn away from "
+            "them. Close up, the lamp can exceed the exposure limits for the eyes (and for the "
+            "skin) within minutes. Do not look into the lit lamp or shine it at people or "
+            "animals, and keep it away from children.", _when_uva_eyes, 12,
+            source="PRACTICE.md §4 item 3 (can still be hazardous to the eyes at close range) "
+                   "and the UV hazards of IEC 62471:2006, in our words"),
+    Caution("blue-light", "Do not stare into the light",
+            "Bright blue or white light can injure the retina (photochemical blue-light "
+            "injury) when it is looked into for a long time; glare makes people look away from "
+            "brief glances, but not from a steady gaze at close range. Do not stare into the "
+            "lamp, and keep children and animals from doing so.", _when_blue, 15,
+            source="the blue-light hazard of IEC 62471:2006 (retinal photochemical injury), "
+                   "in our words"),
+    Caution("thermal-eye", "Heat and infrared",
+            "Intense visible and infrared light can burn the retina or heat the eye's "
+            "front; the lamp's glare gives some warning, its infrared gives none. Do not look "
+            "into the lamp close up.", _when_thermal, 16,
+            source="the retinal thermal and infrared eye hazards of IEC 62471:2006, in our words"),
+    Caution("unscaled", "Hazards unknown until the spectrum is scaled",
+            "Without an absolute scale this check cannot say how hazardous the lamp is. Until "
+            "it has been measured in absolute units, treat it as possibly hazardous: do not look "
+            "into it and keep skin out of its light at close range.", _when_unscaled, 8,
+            source="ours: the honest-results rule that a relative spectrum gives shape results "
+                   "only (DEVELOPERS.md)"),
     Caution("violet-glow", "A violet or blue glow is not UV-C",
             "Many lamps sold as UV-C give only UV-A or violet light. It does not disinfect in "
             "any practical time, and close up it can still be hard on the eyes.",

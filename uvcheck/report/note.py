@@ -97,11 +97,15 @@ def percent(x: float | None) -> str:
 
     Examples
     --------
-    >>> percent(0.9999599), percent(0.833), percent(0.0157)
-    ('> 99.9 %', '83.3 %', '1.6 %')
+    >>> percent(0.9999599), percent(0.833), percent(0.0157), percent(6.1e-82)
+    ('> 99.9 %', '83.3 %', '1.6 %', '< 0.01 %')
     """
     if x is None:
         return "—"
+    if x == 0:
+        return "0 %"
+    if 0 < x < 1e-4:
+        return "< 0.01 %"
     if x >= 0.999995:
         return "100 %"
     if x > 0.999:
@@ -281,8 +285,10 @@ def band_rows(result: Result) -> list[dict[str, Any]] | None:
         lo, hi = b.get("range_nm") or (None, None)
         if st == "not-covered":
             val = "not measured"
-        elif st == "below-detection":
-            val = f"< {quantity(b.get('detection_limit'), b.get('unit'))}"
+        elif st == "below-detection" or b.get("below_detection"):
+            dl = b.get("detection_limit")
+            val = f"< {quantity(dl, b.get('unit'))}" if dl is not None else "below detection"
+            val += " so far" if st == "partial" else ""  # partial: the measured part only
         elif b.get("value") is None:
             val = "(relative spectrum)"
         else:
@@ -290,8 +296,24 @@ def band_rows(result: Result) -> list[dict[str, Any]] | None:
         rows.append({"band": BAND_NAMES.get(k, k), "range": f"{lo:g}–{hi:g} nm" if lo is not None else "",
                      "value": val, "fraction": percent(b.get("fraction")),
                      "coverage": percent(b.get("coverage")),
-                     "status": BAND_STATUS_TEXT.get(st, st or "")})
+                     "status": _estimated(BAND_STATUS_TEXT.get(st, st or ""), result)})
     return rows
+
+
+def _estimated(text: str, result: Result) -> str:
+    """Display text with 'measured' worded as 'estimated' for a result from stated data.
+
+    Examples
+    --------
+    >>> _estimated("partly measured (lower bound)", {"input": {"origin": "nominal"}})
+    'partly estimated (lower bound)'
+    """
+    if not is_estimate(result) or not text:
+        return text
+    for a, b in (("not measured", "not covered by the model"), ("unmeasured", "not modelled"),
+                 ("measured", "estimated"), ("Measured", "Estimated")):
+        text = text.replace(a, b)
+    return text
 
 
 def spectral_facts(result: Result) -> list[dict[str, str]] | None:
@@ -383,7 +405,8 @@ def hazard_rows(result: Result) -> list[dict[str, Any]] | None:
             "value": _value_text(h), "limit": quantity(h.get("limit"), h.get("unit")),
             "limit_basis": h.get("limit_basis") or "",
             "ratio": None if r is None else r, "ratio_text": "—" if r is None else f"{sig(r)}×",
-            "t_max": _tmax_text(h), "group": _group_text(h),
+            "t_max": _tmax_text(h), "t_max_interval": _tmax_interval_text(h),
+            "group": _group_text(h),
             "distance": distance(ev.get("distance_m")),
             "coverage": percent(h.get("coverage")), "status": h.get("status"),
             "reason": h.get("reason"),
@@ -404,8 +427,10 @@ def _interval_text(h: Mapping[str, Any]) -> str | None:
             dl is not None and v < dl):
         return None  # an interval of noise around a detection limit tells a reader nothing
     unit = unit_label(h.get("unit"))
-    pre = "≥ " if h.get("status") == "partial" else ""
-    return f"95 %: {pre}{sig(iv[0])}–{sig(iv[1])} {unit}"
+    if h.get("status") == "partial":
+        # a lower bound: its interval's lower end is the bound at 95 %; an upper end means nothing
+        return f"95 %: ≥ {sig(iv[0])} {unit}"
+    return f"95 %: {sig(iv[0])}–{sig(iv[1])} {unit}"
 
 
 def _probability_text(p: Mapping[str, float] | None) -> str | None:
@@ -436,10 +461,17 @@ def uncertainty_block(result: Result) -> dict[str, Any] | None:
             "borderline": border, "rule": rule.get("name"), "rule_text": rule.get("statement")}
 
 
-def open_hazards_text(result: Result) -> str:
-    """Why the overall group is only a lower bound: 'L_R, L_IR not assessable; E_IR partly measured'."""
-    rg = result.get("risk_group") or {}
-    hz = result.get("hazards") or {}
+def open_hazards_text(result: Result, section: Mapping[str, Any] | None = None) -> str:
+    """Why the overall group is only a lower bound: 'L_R, L_IR not assessable; E_IR partly measured'.
+
+    section : the part of the result that holds ``risk_group`` and ``hazards`` (default: the
+    result itself, i.e. the assessment distance; ``result['use_distance']`` for the other one).
+    """
+    sec = section if section is not None else result
+    rg = sec.get("risk_group") or {}
+    hz = dict(result.get("hazards") or {})
+    for k, h in (sec.get("hazards") or {}).items():
+        hz[k] = {**hz.get(k, {}), **{a: b for a, b in h.items() if b is not None}}
     na = [hz.get(k, {}).get("symbol") or k for k in rg.get("open_hazards") or []
           if hz.get(k, {}).get("status") == "not-assessable"]
     part = [hz.get(k, {}).get("symbol") or k for k in rg.get("open_hazards") or []
@@ -455,29 +487,181 @@ def open_hazards_text(result: Result) -> str:
     return (f"{g} for the hazards that could be assessed; it could be higher: " if g else "") + "; ".join(bits)
 
 
+_RANK = {"Exempt": 0, "RG1": 1, "RG2": 2, "RG3": 3}
+
+
+def is_estimate(result: Result) -> bool:
+    """The result comes from a listing's stated data (nominal model), not a measurement."""
+    return (result.get("input") or {}).get("origin") == "nominal"
+
+
+def _bound_words(result: Result, section: Mapping[str, Any]) -> tuple[str, str]:
+    """(qualifier after the group, why it could be higher) for a lower-bound group.
+
+    Partly measured hazards: '... on the measured range; the unmeasured range could raise it';
+    hazards that could not be assessed at all are named with that reason instead.
+    """
+    rg = section.get("risk_group") or {}
+    hz = dict(result.get("hazards") or {})
+    for k, h in (section.get("hazards") or {}).items():
+        hz[k] = {**hz.get(k, {}), **{a: b for a, b in h.items() if b is not None}}
+    opened = rg.get("open_hazards") or []
+    na = [hz.get(k, {}).get("symbol") or k for k in opened
+          if hz.get(k, {}).get("status") == "not-assessable"]
+    part = [hz.get(k, {}).get("symbol") or k for k in opened
+            if hz.get(k, {}).get("status") != "not-assessable"]
+    data = "estimated" if is_estimate(result) else "measured"
+    up = rg.get("upper_bound")
+    upto = f" (up to {up})" if up and up != rg.get("group") else ""
+    rest = "the range the model does not cover" if data == "estimated" else "the unmeasured range"
+    if part and not na:
+        return (f"on the {data} range",
+                f"{rest} could raise it{upto}: {', '.join(part)} only partly {data}")
+    if na and not part:
+        return ("for the hazards that could be assessed",
+                f"{', '.join(na)} could not be assessed and could raise it{upto}")
+    return ("for what could be assessed",
+            f"{', '.join(na)} not assessable and {', '.join(part)} only partly {data}: "
+            f"they could raise it{upto}")
+
+
+def _group_at(result: Result, section: Mapping[str, Any], where: str,
+              label: str) -> dict[str, Any] | None:
+    """One risk-group statement (group, words, governing hazard and its time) at one distance."""
+    rg = section.get("risk_group") or {}
+    g = rg.get("group")
+    if not g:
+        return None
+    hz = section.get("hazards") or {}
+    base = result.get("hazards") or {}
+    gid = rg.get("governing") or ""
+    gov = {**base.get(gid, {}), **{a: b for a, b in (hz.get(gid) or {}).items() if b is not None}}
+    if rg.get("is_lower_bound"):
+        qual, why = _bound_words(result, section)
+        detail = f"{g} {qual}; {why}."
+    else:
+        qual = ""
+        words = GROUP_TEXT.get(g, "")
+        detail = words[:1].upper() + words[1:]
+        if gov and g != "Exempt":
+            detail += f"; set by {gov.get('name', gid)}" + (
+                f" ({gov.get('symbol')})" if gov.get("symbol") else "")
+            if gov.get("t_max_s") is not None:
+                detail += f": the limit is reached in {format_duration(gov['t_max_s'])}"
+            # another hazard (a lower group) can still reach its limit sooner: say so
+            times = [(h.get("t_max_s"), k) for k, h in hz.items() if h.get("t_max_s") is not None]
+            if times:
+                t, k = min(times)
+                if k != gid and (gov.get("t_max_s") is None or t < gov["t_max_s"]):
+                    detail += (f"; the shortest time to a limit is {format_duration(t)} "
+                               f"({LIMIT_WORDS.get(k, k)})")
+        detail += "."
+    return {"group": g, "rank": _RANK.get(g, -1), "qualifier": qual, "detail": detail,
+            "is_lower_bound": bool(rg.get("is_lower_bound")), "where": where, "label": label,
+            "governing": gid or None, "governing_t_max": gov.get("t_max_s") if gov else None,
+            "text": f"{g} {qual}".strip()}
+
+
+def _not_assessable_reason(result: Result) -> str:
+    """Why no group at all: a relative spectrum (and how to scale it), or the hazards' reasons."""
+    inp = result.get("input") or {}
+    if inp.get("origin") == "relative" or inp.get("quantity") == "relative" \
+            or inp.get("unit") == "relative":
+        return ("The spectrum is relative (shape only, no absolute scale), so no hazard value "
+                "can be computed. Scale it with a radiometer or lux reading at a known distance "
+                "(--scale-band, --scale-lux) or a total radiant flux (--scale-total), or give "
+                "the unit of its values (--unit).")
+    reasons = _uniq(h.get("reason") or "" for h in (result.get("hazards") or {}).values()
+                    if h.get("status") == "not-assessable")
+    why = "; ".join(reasons) if reasons else (
+        (result.get("risk_group") or {}).get("note") or "no hazard could be assessed")
+    return why[:1].upper() + why[1:] + "."
+
+
 def risk_summary(result: Result) -> dict[str, Any] | None:
+    """The first screen's risk-group box: the group at the assessment distance and at the
+    distance of use (the worse one first and in the headline), the borderline flag and the
+    group probabilities from the uncertainty evaluation, or why no group could be given."""
     rg = result.get("risk_group")
     if not rg:
         return None
     ev = result.get("evaluation") or {}
+    here = distance(ev.get("distance_m"))
+    rule = ev.get("distance_rule") or ""
+    main = _group_at(result, result, here, "the IEC 62471 assessment distance")
+    u = result.get("use_distance") or {}
+    use = None
+    if u.get("risk_group"):
+        ud = distance((u.get("evaluation") or {}).get("distance_m"))
+        use = _group_at(result, u, ud, "the distance of use")
+    est = is_estimate(result)
+    if main is None and use is None:
+        reason = _not_assessable_reason(result)
+        return {"group": None, "headline": "Not assessable", "where": "", "detail": reason,
+                "other": None, "is_lower_bound": False, "distance": here, "distance_rule": rule,
+                "governing": None, "governing_t_max": None, "use_distance": _use_distance(result),
+                "probability": None, "borderline": False, "borderline_hazards": [],
+                "borderline_text": None, "qualifier": "",
+                "by_rule": None, "estimate": est, "overview": "Not assessable",
+                "not_assessable": True}
+    first, second = main, use
+    if main is None or (use is not None and use["rank"] > main["rank"]):
+        first, second = use, main
+    assert first is not None
+    where = f"at {first['where']}" + (f" ({first['label']})" if first is use else "")
+    other = None
+    if second is not None:
+        det = second["detail"]
+        if not second["is_lower_bound"]:
+            det = f"{second['group']}, {det[:1].lower()}{det[1:]}"
+        other = f"At {second['where']} ({second['label']}): {det}"
+    # uncertainty: at the assessment distance only (that is where it was evaluated)
+    unc = (result.get("uncertainty") or {})
+    ov = unc.get("overall") or {} if unc.get("status") == "evaluated" else {}
     hz = result.get("hazards") or {}
-    g = rg.get("group")
-    gov = hz.get(rg.get("governing") or "", {})
-    if rg.get("is_lower_bound"):
-        headline = f"At least {g}" if g else "Not established"
-        detail = (open_hazards_text(result) + "." if g else rg.get("note", ""))
+    border = [hz[k].get("symbol") or k for k in hz if hz[k].get("borderline")]
+    prob = _probability_text(ov.get("risk_group_probability"))
+    # the overall group is borderline when its own 95 % range spans two groups; a borderline
+    # hazard that does not set the group is named, but does not make the group borderline
+    rng = ov.get("risk_group_range_95") or []
+    borderline = bool(ov.get("borderline")) and (len(rng) != 2 or rng[0] != rng[1])
+    by_rule = ov.get("risk_group_by_rule")
+    rule_name = ((unc.get("decision_rule") or {}).get("name") or "")
+    by_rule_text = None
+    if main is not None and by_rule and by_rule != main["group"]:
+        by_rule_text = (f"Under the decision rule ({rule_name or 'as chosen'}) the group at "
+                        f"{here} is {by_rule}.")
+    prob_text = None
+    if prob and main is not None:
+        prob_text = (f"Probability at {here}: {prob}"
+                     + (" (for the hazards that could be assessed)" if ov.get("is_lower_bound") else "")
+                     + ".")
+    if borderline:
+        border_text = ("Borderline: the 95 % interval spans a group boundary"
+                       + (f" ({', '.join(border)})" if border else "") + ".")
+    elif border:
+        border_text = (f"{', '.join(border)} {'is' if len(border) == 1 else 'are'} borderline "
+                       "(the 95 % interval spans a group boundary), without changing the "
+                       "overall group.")
     else:
-        headline = g or "—"
-        words = GROUP_TEXT.get(g or "", "")
-        detail = (words[:1].upper() + words[1:]) + (
-            f"; set by {gov.get('name', rg.get('governing'))}" if gov else "") + "."
-    return {"group": g, "headline": headline, "detail": detail,
-            "is_lower_bound": bool(rg.get("is_lower_bound")),
-            "distance": distance(ev.get("distance_m")),
-            "distance_rule": ev.get("distance_rule") or "",
-            "governing": rg.get("governing"),
-            "governing_t_max": None if not gov else gov.get("t_max_s"),
-            "use_distance": _use_distance(result)}
+        border_text = None
+    headline = first["group"]
+    overview = f"{first['text']} {where}"
+    if second is not None and second["group"] != first["group"]:
+        overview += f"; at {second['where']}: {second['text']}"
+    if est:
+        overview = "Estimated: " + overview
+    return {"group": first["group"], "headline": headline, "qualifier": first["qualifier"],
+            "where": where, "detail": first["detail"], "other": other,
+            "is_lower_bound": first["is_lower_bound"],
+            "distance": here, "distance_rule": rule,
+            "governing": first["governing"], "governing_t_max": first["governing_t_max"],
+            "governing_at": first["where"],
+            "use_distance": _use_distance(result),
+            "probability": prob_text, "borderline": borderline, "borderline_hazards": border,
+            "borderline_text": border_text,
+            "by_rule": by_rule_text, "estimate": est, "overview": overview,
+            "not_assessable": False}
 
 
 def _use_distance(result: Result) -> dict[str, Any] | None:
@@ -496,10 +680,28 @@ def _use_distance(result: Result) -> dict[str, Any] | None:
         if h.get("status") == "not-assessable":
             continue
         rows.append({"name": h.get("name") or hid, "symbol": h.get("symbol") or "",
-                     "value": _value_text(h), "t_max": _tmax_text(h), "group": _group_text(h)})
+                     "value": _value_text(h), "t_max": _tmax_text(h), "group": _group_text(h),
+                     "interval": _interval_text(h), "t_max_interval": _tmax_interval_text(h),
+                     "borderline": bool(h.get("borderline"))})
     return {"distance": distance(ev.get("distance_m")), "rule": ev.get("distance_rule") or "",
             "group": rg.get("group"), "is_lower_bound": bool(rg.get("is_lower_bound")),
             "rows": rows}
+
+
+def _tmax_interval_text(h: Mapping[str, Any]) -> str | None:
+    """'95 %: 5.20–6.36 s' for the permissible exposure time, where the uncertainty gives one."""
+    iv = h.get("t_max_interval_95_s")
+    if not iv or len(iv) != 2 or h.get("t_max_s") is None:
+        return None
+    lo, hi = iv
+    if lo is None and hi is None:
+        return None
+    nb = "\u00a0"
+    if lo is None:
+        return f"95{nb}%: up to {format_duration(hi).replace(' ', nb)}"
+    if hi is None:
+        return f"95{nb}%: {format_duration(lo).replace(' ', nb)} or longer"
+    return f"95{nb}%: {_span(iv)}"
 
 
 # ---------------------------------------------------------------------------------------------
@@ -522,34 +724,71 @@ def _reading_text(r: Mapping[str, Any] | None) -> str:
     return ("≥ " if st == "partial" else "") + v
 
 
-def organism_rows(g: Mapping[str, Any]) -> tuple[list[dict[str, Any]], list[dict[str, Any]]]:
-    """(highlight rows: the most susceptible organism per medium; all rows, fastest first)."""
+def _span(iv: Any) -> str | None:
+    """'6.03–7.34 s' for a [lo, hi] pair of durations; None when either end is missing."""
+    if not iv or len(iv) != 2 or iv[0] is None or iv[1] is None:
+        return None
+    nb = "\u00a0"  # no-break space: an interval wraps as a whole, not inside '6.03 s'
+    return f"{format_duration(iv[0]).replace(' ', nb)}–{format_duration(iv[1]).replace(' ', nb)}"
+
+
+def organism_rows(g: Mapping[str, Any], unc: Mapping[str, Any] | None = None
+                  ) -> tuple[list[dict[str, Any]], list[dict[str, Any]]]:
+    """(highlight rows: the most susceptible organism per medium; all rows, fastest first).
+
+    unc : ``result['uncertainty']['germicidal']``, for the 95 % intervals of the times
+    (``inactivation_most_susceptible['<pathway>/<medium>']`` and ``inactivation[<id>]``).
+    Each row carries the study-spread range (``time_to_90_s_range``) and the 95 % interval
+    (``time_to_90_interval_95_s``) as text where the result has them.
+    """
     pathway = "uvc" if g.get("status") in ("germicidal-uvc", "partial") else "violet_blue"
     ms = (g.get("most_susceptible") or {}).get(pathway) or {}
+    u_ms = (unc or {}).get("inactivation_most_susceptible") or {}
+    u_named = (unc or {}).get("inactivation") or {}
 
-    def row(e: Mapping[str, Any], label: str = "") -> dict[str, Any]:
+    def row(e: Mapping[str, Any], label: str = "", u: Mapping[str, Any] | None = None) -> dict[str, Any]:
         ta = e.get("times_are")
         bound = "at_least" if ta == "at_least" else ("at_most" if ta == "at_most" else None)
-        r90 = e.get("time_to_90_s_range")
-        r999 = e.get("time_to_99_9_s_range")
+        u = u if u is not None else u_named.get(e.get("organism_id") or "") or {}
+        if u and u.get("organism_id") not in (None, e.get("organism_id")):
+            u = {}
         return {"label": label, "organism": e.get("organism"), "id": e.get("organism_id"),
                 "medium": e.get("medium"), "wavelength": f"{sig(e.get('wavelength_nm'), 3)} nm",
                 "t90": duration(e.get("time_to_90_s"), bound),
                 "t999": duration(e.get("time_to_99_9_s"), bound) if e.get("time_to_99_9_s") is not None
                 else "not reached in the data",
-                "t90_range": None if not r90 else f"{format_duration(r90[0])}–{format_duration(r90[1])}",
-                "t999_range": None if not r999 else f"{format_duration(r999[0])}–{format_duration(r999[1])}",
+                "t90_range": _span(e.get("time_to_90_s_range")),
+                "t999_range": _span(e.get("time_to_99_9_s_range")),
+                "t90_interval": _span(u.get("time_to_90_interval_95_s")),
+                "t999_interval": _span(u.get("time_to_99_9_interval_95_s")),
                 "reliability": e.get("reliability"), "source": e.get("source"),
                 "from_memory": e.get("from_memory"),
                 "basis": e.get("irradiance_basis"),
                 "irradiance": quantity(e.get("irradiance_W_m2"), "W m-2")}
 
-    hl = [row(ms[m], f"most susceptible ({m})") for m in ORG_MEDIA if ms.get(m)]
+    hl = [row(ms[m], f"most susceptible ({m})", u_ms.get(f"{pathway}/{m}") or {})
+          for m in ORG_MEDIA if ms.get(m)]
     rows = [e for e in g.get("inactivation") or [] if e.get("pathway") == pathway
             and e.get("group") not in ("phage",)]
     rows.sort(key=lambda e: (e.get("time_to_99_9_s") is None, e.get("time_to_99_9_s") or 0.0,
                              e.get("time_to_90_s") or 0.0))
     return hl, [row(e) for e in rows]
+
+
+def times_caption(where: str, rows: list[dict[str, Any]]) -> str:
+    """The caption of the times table, naming only the ranges the rows actually show."""
+    txt = (f"Times at {where} from the lamp, using the lamp's irradiance weighted to the "
+           "wavelength at which each organism was measured (the most favourable action "
+           "spectrum; ≥: the lamp's figure is only an upper bound, so times are at least this).")
+    if any(o.get("t90_interval") or o.get("t999_interval") for o in rows):
+        txt += (" “95 %”: the 95 % interval from the measurement uncertainty (calibration, "
+                "wavelength, distance, stray light, noise and the organism data's spread).")
+    if any(o.get("t90_range") or o.get("t999_range") for o in rows):
+        txt += " “studies”: the range across the studies pooled by the source."
+    else:
+        txt += " The table gives no range across studies for these organisms."
+    return txt + (" Real surfaces, shadows and soil slow this down; the most susceptible "
+                  "organism is not a typical germ.")
 
 
 def germicidal_block(result: Result) -> dict[str, Any] | None:
@@ -565,10 +804,12 @@ def germicidal_block(result: Result) -> dict[str, Any] | None:
                         + quantity(eq, e.get("unit")),
                         "from_memory": bool(e.get("from_memory"))})
     vb = eff.get("violet_blue_405") or {}
-    hl, rows = organism_rows(g)
+    unc = result.get("uncertainty") or {}
+    hl, rows = organism_rows(g, unc.get("germicidal") if unc.get("status") == "evaluated" else None)
     pos = g.get("position") or {}
     oz = g.get("ozone") or {}
-    return {"status": g.get("status"), "statement": g.get("statement"),
+    return {"status": g.get("status"), "statement": _estimated(g.get("statement") or "", result),
+            "times_caption": times_caption(distance(pos.get("distance_m")), hl),
             "position": pos.get("basis"), "distance": distance(pos.get("distance_m")),
             "uvc": _reading_text(g.get("uvc")), "far_uvc": _reading_text(g.get("far_uvc")),
             "spectra": spectra, "violet_blue": _reading_text(vb) if vb else None,
@@ -659,17 +900,23 @@ def light_name(peak_nm: float) -> str:
 
 
 def _composition(result: Result) -> str:
+    """'UV-A 74.9 %, visible 25.1 % of the measured output' (≥ for a partly measured band)."""
     bands = result.get("bands") or {}
     names = ["UV-C", "UV-B", "UV-A", "visible", "IR-A"]
     far = (bands.get("far-UVC") or {}).get("fraction") or 0.0
     if far > 0.5 * ((bands.get("UV-C") or {}).get("fraction") or 1.0):
         names[0] = "far-UVC"
-    parts = [(k, b.get("fraction")) for k, b in bands.items()
+    parts = [(k, b.get("fraction"), b.get("status")) for k, b in bands.items()
              if k in names and b.get("fraction")]
     parts = sorted([p for p in parts if p[1] >= 0.01], key=lambda p: -p[1])[:3]
     if not parts:
         return ""
-    return ", ".join(f"{k} {percent(f)}" for k, f in parts) + " of the measured output"
+    data = "estimated" if is_estimate(result) else "measured"
+    txt = ", ".join(f"{k} {'≥ ' if st == 'partial' else ''}{percent(f)}" for k, f, st in parts)
+    txt += f" of the {data} output"
+    if any(st == "partial" for _, _, st in parts):
+        txt += f" (≥: the band was only partly {data})"
+    return txt
 
 
 def _fastest(hl: list[dict[str, Any]], g: Mapping[str, Any]) -> Mapping[str, Any] | None:
@@ -679,38 +926,71 @@ def _fastest(hl: list[dict[str, Any]], g: Mapping[str, Any]) -> Mapping[str, Any
     return min(cands, key=lambda e: e["time_to_99_9_s"]) if cands else None
 
 
+def _shape_only_uvc(result: Result) -> str:
+    """The UV-C sentence for a relative spectrum, worded by the band's coverage."""
+    b = (result.get("bands") or {}).get("UV-C") or {}
+    r = (result.get("germicidal") or {}).get("uvc") or {}
+    frac = r.get("fraction") if r.get("fraction") is not None else b.get("fraction")
+    cov = r.get("coverage") if r.get("coverage") is not None else b.get("coverage")
+    head = ("Relative spectrum (shape only): no irradiance, dose or time can be given until it "
+            "is scaled.")
+    if not cov:
+        return head + " UV-C was not measured."
+    none = frac is None or frac < 1e-4 or bool(b.get("below_detection"))
+    if cov < 0.999995:
+        part = ("holds essentially no UV-C" if none else
+                f"makes UV-C at least {percent(frac)} of the output")
+        return (head + f" UV-C is only partly measured ({percent(cov)} of the band): the "
+                f"measured part {part}; the unmeasured part could add more.")
+    return head + (" It emits essentially no UV-C." if none else
+                   f" UV-C is {percent(frac)} of the measured output.")
+
+
 def finding(result: Result, claims: list[dict[str, Any]] | None = None) -> str:
-    """The one-paragraph plain-language finding, every number from the result dict."""
+    """The one-paragraph plain-language finding, every number from the result dict.
+
+    A result from a listing alone (nominal model) is worded as an estimate throughout; a
+    relative spectrum as shape only; partly measured bands and groups as lower bounds.
+    """
     s: list[str] = []
     g = result.get("germicidal") or {}
     sp = result.get("spectral") or {}
     inp = result.get("input") or {}
+    est = is_estimate(result)
     peak = sp.get("peak_nm")
     st = g.get("status")
     gpos = distance((g.get("position") or {}).get("distance_m"))
+    lamp = "On this estimate the lamp" if est else "This lamp"
+    if est:
+        s.append("ESTIMATE from the seller's stated data: nothing was measured, so every figure "
+                 "below is a model estimate, not a measurement.")
     if st == "no-uvc":
-        s.append("This lamp emits essentially no germicidal UV-C.")
-        if g.get("artefacts"):
+        s.append(f"{lamp} emits essentially no germicidal UV-C.")
+        if g.get("artefacts") and not est:
             s.append("The faint signal recorded below 280 nm looks like stray light in the "
                      "spectrometer, not emission.")
     elif st == "germicidal-uvc":
-        s.append(f"This lamp emits germicidal UV-C: {_reading_text(g.get('uvc'))} at {gpos}.")
+        s.append(f"{lamp} emits germicidal UV-C: {_reading_text(g.get('uvc'))} at {gpos}"
+                 + (" (estimated)." if est else "."))
     elif st == "partial":
-        s.append(f"This lamp emits UV-C ({_reading_text(g.get('uvc'))} at {gpos}); part of the "
+        s.append(f"{lamp} emits UV-C ({_reading_text(g.get('uvc'))} at {gpos}); part of the "
                  "UV-C band was not measured, so the true output can be higher.")
-    elif st in ("not-assessed", "shape-only"):
+    elif st == "shape-only":
+        s.append(_shape_only_uvc(result))
+    elif st == "not-assessed":
         s.append(g.get("statement") or "Whether this lamp emits UV-C could not be assessed.")
     if peak is not None and inp:
         lines = [ln for ln in sp.get("lines") or [] if ln.get("identified_as")]
         strongest = max(lines, key=lambda ln: ln.get("height") or 0.0) if lines else None
         comp = _composition(result)
         what = light_name(peak)
-        txt = f"Its output is {what} peaking at {peak:.4g} nm"
+        its = "Its estimated output" if est else "Its output"
+        txt = f"{its} is {what} peaking at {peak:.4g} nm"
         if strongest and strongest["identified_as"].startswith("Hg"):
-            txt = (f"Its output is the mercury line spectrum, strongest on the "
+            txt = (f"{its} is the mercury line spectrum, strongest on the "
                    f"{strongest['identified_as'][3:]} line ({what.replace(' radiation', '')})")
         elif strongest and strongest["identified_as"].startswith("KrCl"):
-            txt = f"Its output is a narrow {what.replace(' radiation', '')} band peaking at {peak:.4g} nm"
+            txt = f"{its} is a narrow {what.replace(' radiation', '')} band peaking at {peak:.4g} nm"
         s.append(txt + (f"; {comp}." if comp else "."))
     if g:
         hl, _ = organism_rows(g)
@@ -722,42 +1002,60 @@ def finding(result: Result, claims: list[dict[str, Any]] | None = None) -> str:
                          f"({best['organism']}, {best['medium']}) needs about {t} for a 99.9 % "
                          "reduction; most real germs need longer.")
             else:
-                s.append(f"Violet light inactivates some bacteria, but slowly: a 99.9 % reduction "
+                s.append(f"Violet and blue light inactivate some bacteria, but slowly: a 99.9 % reduction "
                          f"would take about {t} at {gpos} even for the most susceptible organism "
                          f"in the table ({best['organism']}, {best['medium']}).")
-    rk = risk_summary(result)
-    if rk and rk["group"]:
-        hz = result.get("hazards") or {}
-        gov = hz.get(rk["governing"] or "", {})
-        if rk["is_lower_bound"]:
-            s.append(f"At {rk['distance']} it is {rk['group']} for every hazard that could be "
-                     "assessed, but the classification is not complete (see what was not assessed).")
-        elif rk["group"] == "Exempt":
-            s.append(f"At {rk['distance']} its photobiological hazards are within the Exempt group.")
-        else:
-            t = gov.get("t_max_s")
-            s.append(f"It is hazardous: at {rk['distance']} the "
-                     f"{LIMIT_WORDS.get(rk['governing'] or '', 'exposure limit')} "
-                     f"is reached in {format_duration(t)} (risk group {rk['group']}, "
-                     f"{GROUP_TEXT.get(rk['group'], '')})." if t is not None else
-                     f"At {rk['distance']} it is in risk group {rk['group']} "
-                     f"({GROUP_TEXT.get(rk['group'], '')}).")
-        u = result.get("use_distance") or {}
-        urg = u.get("risk_group") or {}
-        rank = {"Exempt": 0, "RG1": 1, "RG2": 2, "RG3": 3}
-        if urg.get("group") in rank and rank[urg["group"]] > rank.get(rk["group"], -1):
-            ugov = (u.get("hazards") or {}).get(urg.get("governing") or "", {})
-            ud = distance((u.get("evaluation") or {}).get("distance_m"))
-            t = ugov.get("t_max_s")
-            s.append(f"At the distance of use, {ud}, it is in risk group {urg['group']}"
-                     + (f": the {LIMIT_WORDS.get(urg.get('governing') or '', 'exposure limit')} "
-                        f"is reached in {format_duration(t)}." if t is not None else "."))
-    elif not result.get("hazards") and not inp:
-        s.append("No spectrum was given, so its hazards were not assessed.")
+    s += _risk_sentences(result)
     cs = claims_summary(claims)
     if cs:
         s.append(cs)
     return " ".join(s)
+
+
+def _risk_sentences(result: Result) -> list[str]:
+    """The finding's risk-group sentences: at the assessment distance and, when different, at
+    the distance of use."""
+    est = is_estimate(result)
+    is_ = "is estimated to be" if est else "is"
+    ev = result.get("evaluation") or {}
+    main = _group_at(result, result, distance(ev.get("distance_m")), "")
+    u = result.get("use_distance") or {}
+    use = _group_at(result, u, distance((u.get("evaluation") or {}).get("distance_m")), "") \
+        if u.get("risk_group") else None
+    out: list[str] = []
+    if main is None:
+        if not result.get("hazards") and not result.get("input"):
+            return ["No spectrum was given, so its hazards were not assessed."]
+        if result.get("risk_group") is not None and (result.get("input") or {}):
+            r = _not_assessable_reason(result)
+            out.append("Its risk group could not be assessed: " + r[0].lower() + r[1:])
+        return out
+    hz = result.get("hazards") or {}
+    if main["is_lower_bound"]:
+        qual, why = _bound_words(result, result)
+        out.append(f"At {main['where']} it {is_} {main['group']} {qual}; {why}; see what "
+                   "could not be assessed.")
+    elif main["group"] == "Exempt":
+        are = "are estimated to be" if est else "are"
+        out.append(f"At {main['where']} its photobiological hazards {are} within the Exempt group.")
+    else:
+        gov = hz.get(main["governing"] or "", {})
+        t = gov.get("t_max_s")
+        out.append(f"It is hazardous: at {main['where']} the "
+                   f"{LIMIT_WORDS.get(main['governing'] or '', 'exposure limit')} "
+                   f"is reached in {format_duration(t)}{' (estimated)' if est else ''} "
+                   f"(risk group {main['group']}, {GROUP_TEXT.get(main['group'], '')})."
+                   if t is not None else
+                   f"At {main['where']} it {is_} in risk group {main['group']} "
+                   f"({GROUP_TEXT.get(main['group'], '')}).")
+    if use is not None and use["rank"] > main["rank"]:
+        ugov = (u.get("hazards") or {}).get(use["governing"] or "", {})
+        t = ugov.get("t_max_s")
+        out.append(f"At the distance of use, {use['where']}, it {is_} in risk group {use['group']}"
+                   + (" or higher" if use["is_lower_bound"] else "")
+                   + (f": the {LIMIT_WORDS.get(use['governing'] or '', 'exposure limit')} "
+                      f"is reached in {format_duration(t)}." if t is not None else "."))
+    return out
 
 
 # ---------------------------------------------------------------------------------------------
@@ -962,22 +1260,63 @@ def provenance(result: Result, listing: Mapping[str, Any] | None, date: str,
 # The whole view model
 # ---------------------------------------------------------------------------------------------
 
+#: The caution that goes with each hazard when that hazard sets the risk group.
+_HAZARD_CAUTION = {"actinic_uv": ("invisible-hazard", "uva-eyes"),
+                   "near_uv": ("uva-eyes", "invisible-hazard"),
+                   "blue_light": ("blue-light",),
+                   "retinal_thermal": ("thermal-eye",),
+                   "retinal_thermal_weak_stimulus": ("thermal-eye",),
+                   "ir_eye": ("thermal-eye",)}
+#: The hazards a caution speaks for (for its shortest time limit).
+_CAUTION_HAZARDS = {"invisible-hazard": ("actinic_uv", "near_uv"),
+                    "uva-eyes": ("actinic_uv", "near_uv"),
+                    "blue-light": ("blue_light",),
+                    "thermal-eye": ("retinal_thermal", "retinal_thermal_weak_stimulus", "ir_eye")}
+
+
+def _shortest_limit(result: Result, cid: str, use: bool) -> tuple[str, float] | None:
+    """(limit in words, time) of the caution's hazard with the shortest time limit, at the
+    distance of use (use=True) or at the assessment distance."""
+    sec = (result.get("use_distance") or {}) if use else result
+    hz = sec.get("hazards") or {}
+    best = None
+    for hid in _CAUTION_HAZARDS.get(cid, ()):
+        t = (hz.get(hid) or {}).get("t_max_s")
+        if t is not None and (best is None or t < best[1]):
+            best = (LIMIT_WORDS.get(hid, "exposure limit"), float(t))
+    return best
+
+
 def key_caution(result: Result, cautions: list[dict[str, Any]]) -> dict[str, str]:
-    """The most important caution, with the result's own numbers where they sharpen it."""
+    """The most important caution, with the result's own numbers where they sharpen it.
+
+    When the lamp is above the Exempt group (at the assessment distance or at the distance of
+    use, whichever is worse) the caution for the hazard that sets that group comes first;
+    otherwise the catalogue's order decides.
+    """
     if not cautions:
         return {"title": "What this check does not cover", "text": DOES_NOT_COVER}
-    c = cautions[0]
+    by_id = {c["id"]: c for c in cautions}
+    rk = risk_summary(result) or {}
+    c, use = cautions[0], False
+    if rk.get("group") in ("RG1", "RG2", "RG3") and rk.get("governing"):
+        for cid in _HAZARD_CAUTION.get(rk["governing"], ()):
+            if cid in by_id:
+                c = by_id[cid]
+                use = "distance of use" in (rk.get("where") or "")
+                break
     text = c["text"]
-    if c["id"] == "invisible-hazard":
-        hz = (result.get("hazards") or {}).get("actinic_uv") or {}
-        t = hz.get("t_max_s")
-        if t is not None:
-            d = distance((result.get("evaluation") or {}).get("distance_m"))
-            text = (f"At {d} the UV exposure limit for eyes and skin is reached in "
-                    f"{format_duration(t)}, and the harm shows up only hours later. Never look at "
-                    "the lit lamp, keep skin out of its light, and run it only in a room with no "
-                    "people or animals in it.")
-    return {"title": c["title"], "text": text}
+    d = rk.get("governing_at") if use else distance((result.get("evaluation") or {}).get("distance_m"))
+    lim = _shortest_limit(result, c["id"], use)
+    if c["id"] == "invisible-hazard" and lim is not None:
+        where = f"{d}, the distance of use," if use else d
+        text = (f"At {where} the {lim[0]} is reached in {format_duration(lim[1])}, and the "
+                "harm shows up only hours later. Never look at the lit lamp, keep skin out of "
+                "its light, and run it only in a room with no people or animals in it.")
+    elif c["id"] in _CAUTION_HAZARDS and lim is not None:
+        where = f"{d}, the distance of use," if use else d
+        text = f"At {where} the {lim[0]} is reached in {format_duration(lim[1])}. " + text
+    return {"title": c["title"], "text": text, "id": c["id"]}
 
 
 def build_note(result: Result, listing: Mapping[str, Any] | None = None, *,
@@ -1036,7 +1375,10 @@ def build_note(result: Result, listing: Mapping[str, Any] | None = None, *,
                           "subject": f.get("subject"), "message": f.get("message"),
                           "basis": f.get("basis")}
                          for f in (result.get("plausibility") or {}).get("findings") or []] or None,
-        "not_assessed": not_assessed(result, li),
+        "not_assessed": [{"what": n["what"], "why": _estimated(n["why"], result)}
+                         for n in not_assessed(result, li)],
+        "estimate": is_estimate(result),
+        "data_word": "estimated" if is_estimate(result) else "measured",
         "cautions": cautions,
         "does_not_cover": DOES_NOT_COVER,
         "provenance": provenance(result, li, date or generated_date(), references),

@@ -13,6 +13,7 @@ fpdf2 and matplotlib are imported inside the functions (start-up budget).
 from __future__ import annotations
 
 import io
+import re
 from pathlib import Path
 from typing import Any, Mapping, Sequence
 
@@ -21,6 +22,9 @@ MARGIN_MM = 14.0
 BODY_W_MM = A4_W_MM - 2 * MARGIN_MM
 INK = (27, 27, 27)
 MUTED = (90, 90, 90)
+#: Risk-group box border colours (as the HTML's risk-rg* classes).
+GROUP_BORDER = {"Exempt": (106, 159, 88), "RG1": (214, 177, 60), "RG2": (224, 123, 57),
+                "RG3": (192, 57, 43)}
 VERDICT_COLOURS = {"holds": (46, 107, 46), "cannot-hold": (166, 27, 27), "unlikely": (154, 90, 0),
                    "not-assessable": (85, 85, 85), "info": (85, 85, 85)}
 
@@ -50,12 +54,15 @@ def _pdf_class() -> Any:
     return NotePDF
 
 
+FONT_FILES = (("", "DejaVuSans.ttf"), ("B", "DejaVuSans-Bold.ttf"), ("I", "DejaVuSans-Oblique.ttf"))
+
+
 def _new(footer: str, title: str) -> Any:
     pdf = _pdf_class()(orientation="P", unit="mm", format="A4")
     fd = font_dir()
-    pdf.add_font("DejaVu", "", str(fd / "DejaVuSans.ttf"))
-    pdf.add_font("DejaVu", "B", str(fd / "DejaVuSans-Bold.ttf"))
-    pdf.add_font("DejaVu", "I", str(fd / "DejaVuSans-Oblique.ttf"))
+    for style, name in FONT_FILES:
+        # parsed for every document: fpdf2 subsets the parsed font in place when it writes
+        pdf.add_font("DejaVu", style, str(fd / name))
     pdf.set_margins(MARGIN_MM, MARGIN_MM, MARGIN_MM)
     pdf.set_auto_page_break(True, margin=16)
     pdf.footer_text = footer
@@ -69,15 +76,107 @@ def _new(footer: str, title: str) -> Any:
 
 # ---------------------------------------------------------------------------------------------
 # Building blocks
+#
+# Text is wrapped here, word by word, with fpdf2's string widths, and each line is set with one
+# ``cell``: fpdf2's own ``multi_cell``/``table`` line breaking re-measures the growing line for
+# every character, which made the tables most of the note's run time. Words are never split
+# unless a single word is wider than its column (column widths are widened to fit the longest
+# word of each heading, so headings never break inside a word).
 # ---------------------------------------------------------------------------------------------
+
+def _wrap(pdf: Any, text: str, width: float) -> list[str]:
+    """Greedy word wrap of ``text`` (``\\n`` starts a new line) to ``width`` mm in the
+    current font; a word wider than the width is split by characters."""
+    out: list[str] = []
+    sw = pdf.get_string_width
+    space = sw(" ")
+    for para in str(text).split("\n"):
+        line, lw = "", 0.0
+        for word in para.split(" "):
+            if not word:
+                continue
+            ww = sw(word)
+            if line and lw + space + ww <= width:
+                line, lw = f"{line} {word}", lw + space + ww
+                continue
+            if line:
+                out.append(line)
+            line, lw = "", 0.0
+            while ww > width and len(word) > 1:  # only a word longer than the column
+                k = 1
+                while k < len(word) and sw(word[:k + 1]) <= width:
+                    k += 1
+                out.append(word[:k])
+                word = word[k:]
+                ww = sw(word)
+            line, lw = word, ww
+        out.append(line)
+    return out
+
+
+def _lines_out(pdf: Any, lines: Sequence[str], h: float, x: float, w: float) -> None:
+    """Set lines at x, one cell each (fpdf2 breaks the page between lines when needed)."""
+    for ln in lines:
+        pdf.set_x(x)
+        pdf.cell(w, h, ln, new_x="LMARGIN", new_y="NEXT")
+
+
+def _rich_lines(pdf: Any, runs: Sequence[tuple[str, str]], width: float,
+                size: float) -> list[list[tuple[str, str]]]:
+    """Wrap styled runs [(style, text)] into lines of [(style, text)]."""
+    words: list[tuple[str, str, float]] = []
+    for style, text in runs:
+        pdf.set_font("DejaVu", style, size)
+        for w in str(text).split(" "):
+            if w:
+                words.append((style, w, pdf.get_string_width(w)))
+    pdf.set_font("DejaVu", "", size)
+    space = pdf.get_string_width(" ")
+    lines: list[list[tuple[str, str]]] = []
+    cur: list[tuple[str, str]] = []
+    lw = 0.0
+    for style, w, ww in words:
+        if cur and lw + space + ww > width:
+            lines.append(cur)
+            cur, lw = [], 0.0
+        if cur and cur[-1][0] == style:
+            cur[-1] = (style, cur[-1][1] + " " + w)
+        elif cur:
+            cur[-1] = (cur[-1][0], cur[-1][1] + " ")
+            cur.append((style, w))
+        else:
+            cur.append((style, w))
+        lw += (space if lw else 0.0) + ww
+    if cur:
+        lines.append(cur)
+    return lines
+
+
+def _rich_out(pdf: Any, lines: Sequence[Sequence[tuple[str, str]]], h: float, x: float,
+              size: float) -> None:
+    for ln in lines:
+        if pdf.get_y() + h > pdf.page_break_trigger:
+            pdf.add_page()
+        pdf.set_x(x)
+        for style, text in ln:
+            pdf.set_font("DejaVu", style, size)
+            pdf.cell(pdf.get_string_width(text), h, text, new_x="RIGHT", new_y="TOP")
+        pdf.ln(h)
+    pdf.set_font("DejaVu", "", size)
+
 
 def _para(pdf: Any, text: str, size: float = 9, style: str = "", color: tuple = INK,
           h: float | None = None, align: str = "L") -> None:
     pdf.set_font("DejaVu", style, size)
     pdf.set_text_color(*color)
-    pdf.set_x(pdf.l_margin)
-    pdf.multi_cell(BODY_W_MM, h or size * 0.46, text, align=align, new_x="LMARGIN", new_y="NEXT")
+    _lines_out(pdf, _wrap(pdf, text, BODY_W_MM), h or size * 0.46, pdf.l_margin, BODY_W_MM)
     pdf.set_text_color(*INK)
+
+
+def _lead_para(pdf: Any, lead: str, text: str, size: float, x: float, width: float,
+               h: float) -> None:
+    """A paragraph with a bold lead-in, wrapped as one text."""
+    _rich_out(pdf, _rich_lines(pdf, [("B", lead), ("", text)], width, size), h, x, size)
 
 
 def _subheading(pdf: Any, text: str, size: float = 9.5, min_space_mm: float = 32) -> None:
@@ -104,14 +203,21 @@ def _heading(pdf: Any, text: str, size: float = 12, min_space_mm: float = 35) ->
 
 
 def _box(pdf: Any, title: str | None, text: str, fill: tuple, border: tuple, size: float = 9,
-         bold_lead: str | None = None, dashed: bool = False) -> None:
-    """A shaded box with an optional small-caps title and a bold lead-in."""
+         bold_lead: str | None = None, dashed: bool = False,
+         extra: Sequence[tuple[str, str]] = ()) -> None:
+    """A shaded box with an optional small-caps title, a bold lead-in and extra paragraphs
+    [(style, text)] below the first."""
     pad = 2.5
+    lh = size * 0.46
+    inner = BODY_W_MM - 2 * pad
     pdf.set_font("DejaVu", "", size)
-    body = f"**{_md_escape(bold_lead)}** {_md_escape(text)}" if bold_lead else text
-    lines = pdf.multi_cell(BODY_W_MM - 2 * pad, size * 0.46, body, dry_run=True, output="LINES",
-                           markdown=bool(bold_lead), align="L")
-    h = len(lines) * size * 0.46 + 2 * pad + (4.5 if title else 0)
+    first = _rich_lines(pdf, ([("B", bold_lead)] if bold_lead else []) + [("", text)], inner, size)
+    more = []
+    for style, t in extra:
+        pdf.set_font("DejaVu", style, size * 0.92)
+        more.append((style, _wrap(pdf, t, inner)))
+    h = (len(first) * lh + sum(len(ls) * size * 0.92 * 0.46 + 0.8 for _, ls in more)
+         + 2 * pad + (4.5 if title else 0))
     if pdf.get_y() + h > pdf.h - pdf.b_margin:
         pdf.add_page()
     x, y = pdf.l_margin, pdf.get_y()
@@ -127,55 +233,132 @@ def _box(pdf: Any, title: str | None, text: str, fill: tuple, border: tuple, siz
     if title:
         pdf.set_font("DejaVu", "B", 7)
         pdf.set_text_color(*MUTED)
-        pdf.cell(BODY_W_MM - 2 * pad, 3.5, title.upper(), new_x="LMARGIN", new_y="NEXT")
+        pdf.cell(inner, 3.5, title.upper(), new_x="LMARGIN", new_y="NEXT")
         pdf.set_text_color(*INK)
-        pdf.set_x(x + pad)
         pdf.ln(1)
-        pdf.set_x(x + pad)
-    pdf.set_font("DejaVu", "", size)
-    if bold_lead:
-        pdf.multi_cell(BODY_W_MM - 2 * pad, size * 0.46, body, markdown=True, align="L",
-                       new_x="LMARGIN", new_y="NEXT")
-    else:
-        pdf.multi_cell(BODY_W_MM - 2 * pad, size * 0.46, text, align="L", new_x="LMARGIN",
-                       new_y="NEXT")
+    _rich_out(pdf, first, lh, x + pad, size)
+    for style, ls in more:
+        pdf.ln(0.8)
+        pdf.set_font("DejaVu", style, size * 0.92)
+        _lines_out(pdf, ls, size * 0.92 * 0.46, x + pad, inner)
     pdf.set_y(y + h + 2.5)
 
 
-def _md_escape(text: str) -> str:
-    """Keep user text literal when a cell is rendered with fpdf2's markdown (** __ --)."""
-    for tok in ("\\", "**", "__", "--", "~~"):
-        text = text.replace(tok, "\\" + tok if tok != "\\" else "\\\\")
-    return text
+def _words(text: Any) -> list[str]:
+    """The words _wrap keeps together (split at spaces and line breaks, not at no-break spaces)."""
+    return [t for t in re.split(r"[ \n]+", str(text)) if t]
+
+
+def _fit_widths(pdf: Any, headings: Sequence[str] | None, rows: Sequence[Sequence[str]],
+                widths: Sequence[float], size: float, pad: float) -> list[float]:
+    """Column widths in mm from relative widths, widened so that no heading word (and no body
+    word up to a quarter of the page) has to break; the room comes from the widest columns."""
+    total = float(sum(widths))
+    w = [BODY_W_MM * x / total for x in widths]
+    need = [0.0] * len(w)
+    if headings is not None:
+        pdf.set_font("DejaVu", "B", size)
+        for j, hd in enumerate(headings):
+            need[j] = max([pdf.get_string_width(t) for t in _words(hd)] + [0.0]) + 2 * pad + 0.3
+    pdf.set_font("DejaVu", "", size)
+    cap = BODY_W_MM / 4
+    for row in rows:
+        for j, cell in enumerate(row[:len(w)]):
+            for t in _words(cell):
+                if len(t) > 3:
+                    ww = pdf.get_string_width(t) + 2 * pad + 0.3
+                    if need[j] < ww <= cap:
+                        need[j] = ww
+    for _ in range(len(w)):
+        short = [j for j in range(len(w)) if w[j] < need[j] - 1e-6]
+        if not short:
+            break
+        deficit = sum(need[j] - w[j] for j in short)
+        for j in short:
+            w[j] = need[j]
+        spare = [j for j in range(len(w)) if j not in short and w[j] > need[j]]
+        room = sum(w[j] - need[j] for j in spare)
+        if room <= 0:
+            break
+        take = min(1.0, deficit / room)
+        for j in spare:
+            w[j] -= (w[j] - need[j]) * take
+    scale = BODY_W_MM / sum(w)
+    return [x * scale for x in w]
+
+
+def _keep_short(cells: Sequence[Any]) -> list[str]:
+    """A short cell ('20 cm', '100 %', '5.71 s') is one unit: its spaces become no-break
+    spaces, so a narrow column does not put the unit on a line of its own."""
+    return [str(c).replace(" ", "\u00a0") if len(str(c)) <= 10 and "\n" not in str(c)
+            else str(c) for c in cells]
 
 
 def _table(pdf: Any, headings: Sequence[str] | None, rows: Sequence[Sequence[str]],
            widths: Sequence[float], size: float = 7.6, verdict_col: int | None = None,
            verdicts: Sequence[str] | None = None, bold_col: int | None = None) -> None:
-    from fpdf.fonts import FontFace
+    """A table with horizontal rules, the heading row repeated on each page it spans."""
+    pad_x, pad_y = 1.2, 1.0
+    lh = size * 0.45
+    rows = [_keep_short(r) for r in rows]
+    w = _fit_widths(pdf, headings, rows, widths, size, pad_x)
+    bottom = pdf.h - pdf.b_margin
 
+    def layout(cells: Sequence[str], styles: Sequence[str]) -> tuple[list[list[str]], float]:
+        out = []
+        for j, cell in enumerate(cells):
+            pdf.set_font("DejaVu", styles[j], size)
+            out.append(_wrap(pdf, str(cell), w[j] - 2 * pad_x))
+        return out, max(len(c) for c in out) * lh + 2 * pad_y
+
+    def draw(lines: list[list[str]], styles: Sequence[str], colours: Sequence[tuple],
+             h: float, fill: tuple | None = None) -> None:
+        x0, y0 = pdf.l_margin, pdf.get_y()
+        if fill:
+            pdf.set_fill_color(*fill)
+            pdf.rect(x0, y0, BODY_W_MM, h, style="F")
+        x = x0
+        for j, ls in enumerate(lines):
+            pdf.set_font("DejaVu", styles[j], size)
+            pdf.set_text_color(*colours[j])
+            for k, ln in enumerate(ls):
+                if ln:
+                    pdf.set_xy(x + pad_x, y0 + pad_y + k * lh)
+                    pdf.cell(w[j] - 2 * pad_x, lh, ln)
+            x += w[j]
+        pdf.set_text_color(*INK)
+        pdf.set_draw_color(200, 200, 200)
+        pdf.line(x0, y0 + h, x0 + BODY_W_MM, y0 + h)
+        pdf.set_xy(x0, y0 + h)
+
+    head = None
+    if headings is not None:
+        hs = ["B"] * len(headings)
+        hl, hh = layout(headings, hs)
+        head = (hl, hs, [INK] * len(headings), hh)
+
+    def heading() -> None:
+        if head is not None:
+            draw(*head, fill=(236, 236, 232))
+
+    if head is not None and pdf.get_y() + head[3] + lh + 2 * pad_y > bottom:
+        pdf.add_page()
+    heading()
+    for i, row in enumerate(rows):
+        styles, colours = [], []
+        for j in range(len(row)):
+            if verdict_col is not None and j == verdict_col and verdicts:
+                styles.append("B")
+                colours.append(VERDICT_COLOURS.get(verdicts[i], INK))
+            else:
+                styles.append("B" if bold_col is not None and j == bold_col else "")
+                colours.append(INK)
+        lines, h = layout(row, styles)
+        if pdf.get_y() + h > bottom and h < bottom - pdf.t_margin:
+            pdf.add_page()
+            heading()
+        draw(lines, styles, colours, h)
     pdf.set_font("DejaVu", "", size)
-    pdf.set_draw_color(200, 200, 200)
-    pdf.set_fill_color(255, 255, 255)
-    head = FontFace(emphasis="BOLD", fill_color=(236, 236, 232), size_pt=size)
-    with pdf.table(col_widths=tuple(widths), width=BODY_W_MM, text_align="LEFT",
-                   line_height=size * 0.45, padding=(1.0, 1.2, 1.0, 1.2), headings_style=head,
-                   borders_layout="HORIZONTAL_LINES", repeat_headings=1,
-                   first_row_as_headings=headings is not None, cell_fill_mode="NONE",
-                   v_align="TOP") as t:
-        if headings is not None:
-            r = t.row()
-            for h in headings:
-                r.cell(h)
-        for i, row in enumerate(rows):
-            r = t.row()
-            for j, cell in enumerate(row):
-                style = None
-                if verdict_col is not None and j == verdict_col and verdicts:
-                    style = FontFace(emphasis="BOLD", color=VERDICT_COLOURS.get(verdicts[i], INK))
-                elif bold_col is not None and j == bold_col:
-                    style = FontFace(emphasis="BOLD")
-                r.cell(str(cell), style=style)
     pdf.ln(1.5)
 
 
@@ -227,8 +410,15 @@ def render_note_pdf(view: Mapping[str, Any], figures: Sequence[Mapping[str, Any]
     _box(pdf, "Finding", v["finding"], (245, 245, 242), (212, 212, 212), size=9.5)
     if v.get("risk"):
         rk = v["risk"]
-        _box(pdf, "Overall risk group (IEC 62471)", f"{rk['detail']} Assessed at {rk['distance']}.",
-             (255, 255, 255), (120, 120, 120), size=8.5, bold_lead=rk["headline"] + ".")
+        lead = " ".join(x for x in (rk["headline"], rk.get("qualifier"), rk.get("where")) if x) + "."
+        extra = [("", rk["other"])] if rk.get("other") else []
+        if rk.get("borderline_text"):  # a borderline group in bold, as the HTML marks it
+            extra.append(("B" if rk.get("borderline") else "", rk["borderline_text"]))
+        if rk.get("probability"):
+            extra.append(("", rk["probability"] + (f" {rk['by_rule']}" if rk.get("by_rule") else "")))
+        _box(pdf, "Overall risk group (IEC 62471)" + (" — estimate" if rk.get("estimate") else ""),
+             rk["detail"], (255, 255, 255), GROUP_BORDER.get(rk.get("group") or "", (120, 120, 120)),
+             size=8.5, bold_lead=lead, extra=extra)
     kc = v["key_caution"]
     _box(pdf, "Most important caution", kc["text"], (255, 245, 243), (166, 27, 27), size=8.5,
          bold_lead=kc["title"] + ".")
@@ -281,20 +471,26 @@ def render_note_pdf(view: Mapping[str, Any], figures: Sequence[Mapping[str, Any]
               + (f" — {v['hazard_note']}" if v.get("hazard_note") else "") + ". “Limit” is the "
               "Exempt limit of IEC 62471:2006 Table 6.1 (skin thermal: its 10 s exposure limit, no "
               "risk groups); “max. exposure” is the permissible time at this distance; “coverage” "
-              "is the share of the hazard's weighting range that was measured.", size=7.5)
+              f"is the share of the hazard's weighting range that was {v.get('data_word', 'measured')}.", size=7.5)
         _table(pdf, ("Hazard", "Value", "Limit", "Value / limit", "Max. exposure", "Group",
                      "At", "Cov."),
                [(f"{h['name']} ({h['symbol']})",
                  h["value"] + (f"\n{h['interval']}" if h.get("interval") else ""), h["limit"],
-                 h["ratio_text"], h["t_max"],
+                 h["ratio_text"], h["t_max"] + (f"\n{h['t_max_interval']}" if h.get("t_max_interval") else ""),
                  h["group"] + ("\nborderline" if h.get("borderline") else ""), h["distance"],
                  h["coverage"]) for h in v["hazards"]],
                (21, 18, 16, 9, 15, 11, 5, 5), size=7.2, bold_col=5)
+        if figs.get("hazards"):
+            _figure(pdf, figs["hazards"])
         ud = rk.get("use_distance")
         if ud:
             _subheading(pdf, f"At the distance of use, {ud['distance']}")
             _table(pdf, ("Hazard", "Value", "Max. exposure", "Group"),
-                   [(f"{h['name']} ({h['symbol']})", h["value"], h["t_max"], h["group"]) for h in ud["rows"]],
+                   [(f"{h['name']} ({h['symbol']})",
+                     h["value"] + (f"\n{h['interval']}" if h.get("interval") else ""),
+                     h["t_max"] + (f"\n{h['t_max_interval']}" if h.get("t_max_interval") else ""),
+                     h["group"] + ("\nborderline" if h.get("borderline") else ""))
+                    for h in ud["rows"]],
                    (35, 30, 25, 10), size=7.2)
         u = v.get("uncertainty")
         if u:
@@ -309,8 +505,6 @@ def render_note_pdf(view: Mapping[str, Any], figures: Sequence[Mapping[str, Any]
                          "No hazard is borderline."), size=7.2)
                 if u.get("rule_text"):
                     _para(pdf, u["rule_text"], size=7.2, color=MUTED)
-        if figs.get("hazards"):
-            _figure(pdf, figs["hazards"])
     g = v.get("germicidal")
     if g:
         _heading(pdf, "Germicidal output")
@@ -335,16 +529,15 @@ def render_note_pdf(view: Mapping[str, Any], figures: Sequence[Mapping[str, Any]
                     for s in g["spectra"]], (30, 40, 30), size=7.5)
         if g.get("highlight"):
             _subheading(pdf, f"Times to 90 % and 99.9 % ({g['pathway']})")
+            def _times(t: str, iv: str | None, rng: str | None) -> str:
+                return t + (f"\n95\u00a0%: {iv}" if iv else "") + (f"\nstudies: {rng}" if rng else "")
+
             _table(pdf, ("", "Organism", "Medium", "Data at", "Lamp, equivalent", "90 %", "99.9 %", "Reliability"),
                    [(o["label"], o["organism"], o["medium"], o["wavelength"], o["irradiance"],
-                     o["t90"] + (f" ({o['t90_range']})" if o["t90_range"] else ""),
-                     o["t999"] + (f" ({o['t999_range']})" if o["t999_range"] else ""), o["reliability"])
-                    for o in g["highlight"]], (16, 18, 10, 8, 18, 11, 11, 9), size=7.2)
-            _para(pdf, f"Times at {g['distance']} from the lamp, using the lamp's irradiance weighted to "
-                  "the wavelength at which each organism was measured (the most favourable action "
-                  "spectrum; ≥: the lamp's figure is only an upper bound). Real surfaces, shadows and "
-                  "soil slow this down; the most susceptible organism is not a typical germ.",
-                  size=7, color=MUTED)
+                     _times(o["t90"], o.get("t90_interval"), o["t90_range"]),
+                     _times(o["t999"], o.get("t999_interval"), o["t999_range"]), o["reliability"])
+                    for o in g["highlight"]], (15, 17, 10, 8, 17, 13, 13, 10), size=7.2)
+            _para(pdf, g.get("times_caption") or "", size=7, color=MUTED)
         if g.get("organisms"):
             _subheading(pdf, f"All {len(g['organisms'])} organisms in uvcheck's table for this "
                         "pathway (fastest first)", size=8.5)
@@ -387,10 +580,7 @@ def render_note_pdf(view: Mapping[str, Any], figures: Sequence[Mapping[str, Any]
         _para(pdf, "Everything this check covers could be assessed from the data.", size=8.5)
     _heading(pdf, "Cautions")
     for c in v["cautions"]:
-        pdf.set_x(pdf.l_margin)
-        pdf.set_font("DejaVu", "", 8.5)
-        pdf.multi_cell(BODY_W_MM, 4.0, f"•  **{_md_escape(c['title'])}.** {_md_escape(c['text'])}",
-                       markdown=True, align="L", new_x="LMARGIN", new_y="NEXT")
+        _lead_para(pdf, f"•  {c['title']}.", c["text"], 8.5, pdf.l_margin, BODY_W_MM, 4.0)
         _para(pdf, f"    Shown because {c['reason']}.", size=7, style="I", color=MUTED)
         pdf.ln(0.8)
     pdf.ln(1)
@@ -442,7 +632,7 @@ def render_overview_pdf(title: str, items: Sequence[Mapping[str, Any]], *, inven
         verdicts = "\n".join(f"{c['verdict_text']}: “{c['text']}”" for c in it.get("verdicts") or []) \
             or (it.get("claims_summary") or "—")
         rows.append((it["title"], it["finding"], it["risk"], verdicts, Path(it["html"]).name))
-    _table(pdf, ("Product", "Finding", "Risk group", "Claims", "Note"), rows, (18, 42, 9, 21, 10),
+    _table(pdf, ("Product", "Finding", "Risk group", "Claims", "Note"), rows, (16, 40, 14, 20, 10),
            size=7.2, bold_col=0)
     _box(pdf, "What this check does not cover", DOES_NOT_COVER + " " + LOCAL_CODES,
          (238, 242, 247), (47, 79, 127), size=8.5)

@@ -8,11 +8,21 @@ from __future__ import annotations
 
 from typing import Any, Sequence
 
-from uvcheck.units import format_duration, sig
+from uvcheck.units import format_duration, sig, to_trade
 
 STATUS_TEXT = {"complete": "measured", "partial": "partly measured (lower bound)",
                "not-covered": "not measured", "below-detection": "below detection limit",
                "not-assessable": "not assessable"}
+#: The same statuses for a nominal ESTIMATE (``uvcheck screen``): nothing there was measured.
+ESTIMATE_STATUS_TEXT = {"complete": "estimate", "partial": "partly modelled (lower bound)",
+                        "not-covered": "not modelled", "below-detection": "below detection limit",
+                        "not-assessable": "not assessable"}
+
+
+def status_text(status: str, d: dict) -> str:
+    """A band or hazard status in words; an estimate is never called 'measured'."""
+    nominal = (d.get("input") or {}).get("origin") == "nominal" or d.get("nominal") is not None
+    return (ESTIMATE_STATUS_TEXT if nominal else STATUS_TEXT).get(status, status)
 
 
 def table(headers: Sequence[str], rows: Sequence[Sequence[Any]], right: Sequence[int] = ()) -> str:
@@ -35,9 +45,10 @@ def _pct(x: float | None) -> str:
 def _band_value(b: dict, key: str) -> str:
     if b["status"] == "not-covered":
         return "—"
-    if b["status"] == "below-detection":
+    if b["status"] == "below-detection" or b.get("below_detection"):
         dl = b["detection_limit" if key == "value" else "detection_limit_trade"]
-        return "< " + sig(dl) if dl is not None else "< DL"
+        so_far = " so far" if b["status"] == "partial" else ""  # partial: the measured part only
+        return ("< " + sig(dl) if dl is not None else "< DL") + so_far
     v = b[key]
     if v is None:
         return "(relative)"
@@ -86,6 +97,9 @@ def render_assessment(d: dict) -> str:
     if d.get("claims"):
         out.append("")
         out += render_claims(d["claims"], d)
+    if d.get("nominal"):
+        out.append("")
+        out += render_nominal(d["nominal"], d)
     out.append("")
     out.append("Emission by band")
     bands = d["bands"]
@@ -96,7 +110,7 @@ def render_assessment(d: dict) -> str:
     for name, b in bands.items():
         rows.append([name, f"{b['range_nm'][0]:g}–{b['range_nm'][1]:g}", _band_value(b, "value"),
                      _band_value(b, "value_trade"), _pct(b["fraction"]), _pct(b["coverage"]),
-                     STATUS_TEXT.get(b["status"], b["status"])])
+                     status_text(b["status"], d)])
     out.append(table(["band", "nm", unit, trade, "share", "coverage", "status"], rows,
                      right=(2, 3, 4, 5)))
     out.append(f"  ({d['band_convention']})")
@@ -113,6 +127,8 @@ def render_assessment(d: dict) -> str:
     if ph["value"] is not None:
         out.append(f"{ph['quantity'].replace('_', ' ').capitalize()}: {sig(ph['value'])} {ph['unit']}"
                    + ("" if ph["coverage"] >= 0.99 else f" (V(λ) {ph['coverage']:.0%} covered: lower bound)"))
+    elif ph.get("status") in ("below-detection", "not-meaningful") and ph.get("value_note"):
+        out.append(f"{ph['quantity'].replace('_', ' ').capitalize()}: not given ({ph['value_note']})")
     if ph["x"] is not None:
         out.append(f"Chromaticity x = {ph['x']:.4f}, y = {ph['y']:.4f}"
                    + (f"; CCT {ph['cct_K']:.0f} K, Duv {ph['duv']:+.4f}" if ph["cct_K"] else
@@ -159,6 +175,27 @@ def _hazard_value(h: dict) -> str:
     return sig(h["value"])
 
 
+def _rule_lines(rg: dict) -> list[str]:
+    """Under the headline group: what the other decision rule gives, and the borderline flag
+    with the group probabilities (from the ``risk_group`` entry; uncertainty.merge_into)."""
+    if not rg.get("decision_rule"):
+        return []
+    low = rg.get("is_lower_bound", False)
+    simple, guarded = rg.get("group_simple"), rg.get("group_guarded")
+    parts = []
+    if rg["decision_rule"] == "guarded" and simple and simple != rg.get("group"):
+        parts.append(f"the measured values alone (simple acceptance) give {group_text(simple, low)}")
+    elif rg["decision_rule"] == "simple" and guarded and guarded != rg.get("group"):
+        parts.append(f"guarded acceptance (--decision-rule guarded) would give {group_text(guarded, low)}")
+    p = rg.get("group_probability") or {}
+    if rg.get("borderline"):
+        probs = ", ".join(f"{g} {100 * v:.0f} %" for g, v in p.items() if v >= 0.005)
+        parts.append("BORDERLINE: the 95 % interval spans a group boundary; group probabilities"
+                     + (" (of at least each group)" if rg.get("group_probability_is_at_least") else "")
+                     + f": {probs}")
+    return [f"  {x}" for x in parts]
+
+
 def render_hazards(hazards: dict, d: dict) -> list[str]:
     ev = d.get("evaluation") or {}
     rg = d.get("risk_group") or {}
@@ -178,7 +215,7 @@ def render_hazards(hazards: dict, d: dict) -> list[str]:
                      sig(h["limit"]) if h["limit"] is not None else "—", tmax,
                      group_text(h["risk_group"], h["risk_group_is_lower_bound"], h.get("risk_group_bound")),
                      _pct(h["coverage"]) if h["coverage"] is not None else "—",
-                     STATUS_TEXT.get(h["status"], h["status"])])
+                     status_text(h["status"], d)])
     out.append(table(["hazard", "value", "unit", "Exempt limit", "t_max", "group", "coverage",
                       "status"], rows, right=(1, 3, 4, 6)))
     if any(h["risk_group_is_lower_bound"] and h["risk_group"] == "Exempt" for h in hazards.values()):
@@ -188,7 +225,9 @@ def render_hazards(hazards: dict, d: dict) -> list[str]:
             out.append(f"  - {h['symbol']}: {h['reason']}")
     out.append("")
     out.append(f"Overall risk group: {group_text(rg.get('group'), rg.get('is_lower_bound', False))}"
-               + (f", set by {rg['governing']}" if rg.get("governing") else ""))
+               + (f", set by {rg['governing']}" if rg.get("governing") else "")
+               + (f" (decision rule: {rg['decision_rule']} acceptance)" if rg.get("decision_rule") else ""))
+    out += _rule_lines(rg)
     if rg.get("note") and rg.get("is_lower_bound"):
         out.append(f"  ({rg['note']})")
     hd = d.get("hazard_distances") or {}
@@ -197,11 +236,20 @@ def render_hazards(hazards: dict, d: dict) -> list[str]:
         x = hd.get(key)
         if x and x.get("distance_m") is not None:
             b = x.get("boundaries_m") or {}
-            bl = ", ".join(f"{g} beyond {sig(b[g])} m" for g in ("RG2", "RG1", "Exempt") if b.get(g))
+            bn = x.get("boundary_notes") or {}
+            every = [g for g in ("Exempt", "RG1", "RG2")
+                     if not b.get(g) and (bn.get(g) or "").startswith(f"{g} or lower at every")]
+            bl = ", ".join(f"{g} beyond {sig(b[g])} m" if b.get(g) else f"{g} or lower at every distance"
+                           for g in ("RG2", "RG1", "Exempt")
+                           if b.get(g) or (every and g == every[0]))
             lines.append(f"  {x['symbol']}: {format_duration(hd.get('exposure_time_s'))} limit reached "
                          f"closer than {sig(x['distance_m'])} m" + (f"; {bl}" if bl else ""))
+            if x.get("regimes") and x.get("meaning"):   # L_B: what its distances mean
+                lines += wrap(f"({x['meaning']}.)", 4)
     if lines:
-        out.append("Hazard distances (point-source inverse-square approximation):")
+        radiance = any((hd.get(k) or {}).get("regimes") for k in ("blue_light",))
+        out.append("Hazard distances (point-source inverse-square approximation"
+                   + ("; L_B by the field of view, see below it" if radiance else "") + "):")
         out += lines
     use = d.get("use_distance")
     if use:
@@ -222,6 +270,11 @@ def _trade(block: dict) -> str:
         pre = "≥ " if block.get("is_lower_bound") else ""
         return (f"{pre}{sig(block['value'])} {block['unit']} "
                 f"({pre}{sig(block['value_trade'])} {block['trade_unit']})")
+    if block.get("status") == "below-detection" and block.get("detection_limit") is not None:
+        # the detection limit, as in the band table (the upper bound is a different number)
+        dl = block["detection_limit"]
+        return (f"< {sig(dl)} {block['unit']} (< {sig(to_trade(dl, block['unit'])[0])} "
+                f"{block['trade_unit']}; below detection limit)")
     if block.get("upper_bound") is not None:
         return (f"< {sig(block['upper_bound'])} {block['unit']} "
                 f"(< {sig(block['upper_bound_trade'])} {block['trade_unit']})")
@@ -249,15 +302,87 @@ def render_germicidal(g: dict, d: dict) -> list[str]:
     eff = g.get("efficiency") or {}
     if eff.get("efficiency") is not None:
         out.append(f"  UV-C efficiency: {eff['efficiency']:.3g} W/W ({eff.get('verdict')}; {eff.get('note') or ''})")
-    rows = []
-    for e in (g.get("inactivation") or [])[:14]:
-        rows.append([e["organism"], e["medium"], f"{e['wavelength_nm']:g}",
-                     ("≥ " if e["times_are"] == "at_least" else "") + format_duration(e["time_to_90_s"]),
-                     ("≥ " if e["times_are"] == "at_least" else "") + format_duration(e["time_to_99_9_s"])
-                     if e["time_to_99_9_s"] is not None else "beyond data"])
-    if rows:
-        out.append("  Time to inactivate at this position (reciprocity assumed; no shadowing or soiling):")
-        out.append(table(["organism", "medium", "data nm", "90 %", "99.9 %"], rows, right=(3, 4)))
+    out += render_inactivation(g.get("inactivation") or [])
+    return out
+
+
+#: Media in the order a practitioner asks about them; reviews and legacy charts last.
+_MEDIA_ORDER = (("air", "air"), ("surface", "surface"), ("water", "water"),
+                ("mixed", "mixed media (review)"), ("unspecified", "medium unspecified (legacy)"))
+#: Rows shown per medium in the terminal; the JSON holds them all.
+ROWS_PER_MEDIUM = 4
+
+
+def _time_cell(e: dict, key: str, percent: str) -> str:
+    t = e.get(key)
+    if t is not None:
+        pre = {"at_least": "≥ ", "at_most": "≤ "}.get(e.get("times_are"), "")
+        return pre + format_duration(t)
+    why = (e.get("time_missing_reason") or {}).get(percent) or ""
+    if why.startswith("not reached") and e.get("max_log_reduction") is not None:
+        return f"not reached (data ≤ {e['max_log_reduction']:g} log)"
+    if why.startswith("never"):
+        return "never (resistant fraction)"
+    if why.startswith("no irradiance"):
+        return "no irradiance"
+    return "—"
+
+
+def _id_tail(e: dict, twins: list) -> str:
+    """The part of a row id that tells it from rows with the same organism and medium."""
+    import os
+
+    ids = [e["organism_id"]] + [x["organism_id"] for x in twins]
+    head = os.path.commonprefix(ids)
+    return (e["organism_id"][len(head):] or e["organism_id"]).strip("_")
+
+
+def render_inactivation(rows: list) -> list[str]:
+    """The inactivation table grouped by medium: per medium the most susceptible rows and the
+    most resistant one (phages, laboratory surrogates, only where nothing else is listed), the
+    substrate that tells duplicate rows apart, the source key, and why a time is missing."""
+    if not rows:
+        return []
+
+    def speed(e: dict) -> float:
+        t = e.get("time_to_99_9_s")
+        if t is None and e.get("time_to_90_s") is not None:
+            t = 3.0 * e["time_to_90_s"]             # 3 log at the 1-log rate: ordering only
+        return float("inf") if t is None else t
+    body: list[list[str]] = []
+    shown = 0
+    for medium, label in _MEDIA_ORDER:
+        group = [e for e in rows if e.get("medium") == medium]
+        if not group:
+            continue
+        real = [e for e in group if e.get("group") != "phage"] or group
+        real.sort(key=speed)
+        pick = real if len(real) <= ROWS_PER_MEDIUM else real[:ROWS_PER_MEDIUM - 1] + [real[-1]]
+        for i, e in enumerate(pick):
+            where = e["medium"] + (f", {e['substrate']}" if e.get("substrate") else "")
+            twins = [x for x in pick if x is not e and x["organism"] == e["organism"]
+                     and x.get("substrate") == e.get("substrate")
+                     and x["wavelength_nm"] == e["wavelength_nm"]]
+            if twins:   # same organism, medium and substrate: name what differs (the row id)
+                where += f" ({_id_tail(e, twins)})"
+            mem = "" if str(e.get("from_memory") or "no").lower() == "no" else " *"
+            body.append([e["organism"] + (" (hardest listed)" if len(real) > ROWS_PER_MEDIUM
+                                          and i == len(pick) - 1 else ""),
+                         where, f"{e['wavelength_nm']:g}", _time_cell(e, "time_to_90_s", "90"),
+                         _time_cell(e, "time_to_99_9_s", "99.9"),
+                         (e.get("source_key") or "") + mem])
+        shown += len(pick)
+        if len(group) > len(pick):
+            body.append([f"  … {len(group) - len(pick)} more {label} rows", "", "", "", "", ""])
+    out = ["  Time to inactivate at this position, by medium, most susceptible first (reciprocity "
+           "assumed; no shadowing or soiling):"]
+    out.append(table(["organism", "medium, substrate", "data nm", "90 %", "99.9 %", "source"],
+                     body, right=(2, 3, 4)))
+    out.append(f"  {shown} of {len(rows)} rows shown; all {len(rows)}, with doses, ranges across "
+               "studies and notes, are in the JSON (germicidal.inactivation). 'not reached': the "
+               "study's data stop below that reduction and are not extrapolated; mixed and "
+               "unspecified rows (reviews, legacy charts) count for every medium; * partly from "
+               "memory; sources: uvcheck organisms.")
     return out
 
 
@@ -287,14 +412,116 @@ def render_claims(claims: list, d: dict) -> list[str]:
     summ = (d.get("claims_summary") or {})
     if summ.get("decision_rule"):
         out += wrap("Decision rule: " + summ["decision_rule"], 2)
-    pl = d.get("plausibility") or {}
-    used = {(c.get("details") or {}).get("finding") for c in claims}
-    other = [f for f in pl.get("findings", []) if f["status"] in ("cannot-hold", "unlikely")
-             and f["id"] not in used]
+    other = other_findings(claims, d.get("plausibility") or {})
     if other:
         out.append("  Other findings from the listing's stated data:")
         for f in other:
             out += wrap(f"- [{VERDICT_TEXT.get(f['status'], f['status'])}] {f['message']}", 4)
+    return out
+
+
+def _three(values: Sequence[Any], fmt: Any) -> str:
+    """'min / typical / max' in one cell."""
+    return " / ".join("—" if v is None else fmt(v) for v in values)
+
+
+def _compact(v: float) -> str:
+    """A number in few characters (2 significant digits; no trailing zeros)."""
+    a = abs(v)
+    if a == 0:
+        return "0"
+    if a >= 100:
+        return f"{v:.0f}"
+    if a >= 1e-3:
+        return f"{v:.2g}"
+    return f"{v:.1e}"
+
+
+def _rg_short(group: str | None, lower: bool) -> str:
+    if group is None:
+        return "—"
+    return (f"≥{group}" + ("*" if group == "Exempt" else "")) if lower else group
+
+
+def render_nominal(n: dict, d: dict) -> list[str]:
+    """The nominal estimate's min / typical / max cases, one row per way of reading the listing
+    (``nominal.estimates`` and ``nominal.readings`` of the JSON)."""
+    from uvcheck.nominal import CASES
+
+    rows_by = {r["label"]: r for r in n.get("readings") or []}
+    dist = next((r.get("distance_m") for r in rows_by.values() if r.get("distance_m")), None)
+    at = f" at {dist:g} m" if dist else ""
+    out = [f"Nominal estimate{at}, cases min / typical / max (an ESTIMATE from the listing's "
+           "stated data, not a measurement)"]
+    rows, notes = [], []
+    for e in n.get("estimates") or []:
+        name = e["reading"]
+        cases = [rows_by.get(f"{name}/{c}") for c in CASES]
+        if not any(cases):
+            cases = [rows_by.get(f"{name}/shape")] * 3
+        first = next((c for c in cases if c), {}) or {}
+        lamp = e.get("technology") or "?"
+        if e.get("peak_nm"):
+            lamp += f" {e['peak_nm']:g} nm"
+        if e.get("cover"):
+            lamp += f", {e['cover']} cover"
+        pw = e.get("power") or {}
+        power = (_three([pw.get("min_W"), pw.get("typical_W"), pw.get("max_W")], _compact)
+                 if pw.get("typical_W") is not None else "not stated")
+
+        def col(key: str, scale: float = 1.0) -> str:
+            return _three([None if not c or c.get(key) is None else c[key] * scale
+                           for c in cases], _compact)
+
+        tes = _three([None if not c or not c.get("t_max_s") else
+                      ((c["t_max_s"] or {}).get("actinic_uv") or "> 8 h") for c in cases],
+                     lambda v: v if isinstance(v, str) else format_duration(v))
+        rg = " / ".join(_rg_short(c.get("risk_group"), c.get("risk_group_is_lower_bound", False))
+                        if c else "—" for c in cases)
+        rows.append([name, lamp, power, col("uvc_W_m2", 100.0), col("uva_W_m2", 100.0), tes, rg])
+        if first.get("refuted_by"):
+            notes.append(f"'{name}' is refuted by the listing's own data "
+                         f"({', '.join(first['refuted_by'])}): not used as the favourable reading")
+    out.append(table(["reading", "lamp model", "optical W", "UV-C µW/cm²", "UV-A µW/cm²",
+                      "E_S t_max", "risk group"], rows))
+    likely = n.get("most_likely_reading")
+    hd = next((r.get("hazard_distance_m") for r in rows_by.values() if r.get("hazard_distance_m")),
+              None)
+    where = (f"UV-C and UV-A at {dist:g} m; E_S t_max and risk group at {hd:g} m, where IEC 62471 "
+             "evaluates them. " if dist and hd and abs(hd - dist) > 1e-9 else "")
+    out += wrap(f"Efficacy claims use the max case of a reading the listing does not refute; "
+                f"safety claims and the tables below use the most likely case, '{likely}'. "
+                f"{where}Optical W is the emitted power before the cover; the irradiances are "
+                "after it." + (" * not assessable as Exempt (part of a hazard could not be "
+                               "evaluated)." if any("≥Exempt*" in r[-1] for r in rows) else ""), 2)
+    for t in notes:
+        out += wrap(t, 2)
+    return out
+
+
+def _finding_key(f: dict) -> tuple:
+    """What a finding says, as numbers: two findings with the same key say the same thing."""
+    def val(a: Any) -> Any:
+        return None if not a else a.get("value")
+    return (f.get("status"), val(f.get("needed")), val(f.get("available")), f.get("ratio"))
+
+
+def other_findings(claims: list, pl: dict) -> list[dict]:
+    """Plausibility findings (unlikely / cannot-hold) that no claim verdict already states,
+    each once: a finding a verdict was built on, or one with the same numbers as such a finding
+    or as another finding shown, is left out."""
+    findings = pl.get("findings", []) or []
+    used = {(c.get("details") or {}).get("finding") for c in claims}
+    seen = {_finding_key(f) for f in findings if f["id"] in used}
+    out = []
+    for f in findings:
+        if f["status"] not in ("cannot-hold", "unlikely") or f["id"] in used:
+            continue
+        key = _finding_key(f)
+        if key in seen or any(f["message"] == g["message"] for g in out):
+            continue
+        seen.add(key)
+        out.append(f)
     return out
 
 
