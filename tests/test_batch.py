@@ -485,19 +485,23 @@ def test_quantile_is_numpys():
     assert math.isnan(quantile([1.0, float("nan")], 0.25))
 
 
-def test_assessing_without_uncertainty_does_not_import_numpy_ma():
+@pytest.mark.parametrize("uncertainty", [False, True])
+def test_assessing_does_not_import_numpy_ma(uncertainty):
     # numpy.median, numpy.quantile and numpy.unique import numpy.ma (about 20 ms) on first use
     import subprocess
     import sys
 
     code = ("import sys; from uvcheck.io.reader import read_spectrum; "
             "from uvcheck.assessment import assess, AssessOptions; "
+            "from uvcheck.conditions import Conditions; "
             "s, r = read_spectrum(sys.argv[1]); "
-            "assess(s, None, r, AssessOptions(uncertainty=False)).to_dict(); "
+            f"assess(s, Conditions(measurement_distance_m=0.2), r, "
+            f"AssessOptions(uncertainty={uncertainty})).to_dict(); "
             "print('numpy.ma' in sys.modules)")
-    out = subprocess.run([sys.executable, "-c", code, str(EXAMPLES / "spectra" / "wand_395nm_led.csv")],
-                         capture_output=True, text=True, check=True).stdout
-    assert out.strip() == "False"
+    for name in ("wand_395nm_led.csv", "mercury_tube_254nm.txt"):
+        out = subprocess.run([sys.executable, "-c", code, str(EXAMPLES / "spectra" / name)],
+                             capture_output=True, text=True, check=True).stdout
+        assert out.strip() == "False", name
 
 
 def _find_lines_loop(spectrum, min_snr=5.0, min_relative=0.01, max_lines=20):

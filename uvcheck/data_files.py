@@ -68,8 +68,11 @@ def read_table(relpath: str) -> Table:
             header.append(line[1:].strip())
         elif line.strip():
             body.append(line)
-    reader = csv.reader(io.StringIO("\n".join(body)))
-    rows = [tuple(c.strip() for c in r) for r in reader]
+    if any('"' in line for line in body):
+        reader = csv.reader(io.StringIO("\n".join(body)))
+        rows = [tuple(c.strip() for c in r) for r in reader]
+    else:  # no quoting: a plain split gives the same cells, several times faster
+        rows = [tuple(c.strip() for c in line.split(",")) for line in body]
     return Table(path=relpath, header=tuple(header), columns=rows[0], rows=tuple(rows[1:]))
 
 
