@@ -147,3 +147,41 @@ def test_debug_shows_the_traceback(tmp_path):
     assert r.returncode != 0 and "Traceback" in r.stderr and "InputFormatError" in r.stderr
     r = subprocess.run([sys.executable, "-m", "uvcheck", "assess", str(p)], capture_output=True, text=True)
     assert r.returncode == 2 and "Traceback" not in r.stderr
+
+
+def _claims_json(*extra: str) -> dict:
+    from pathlib import Path
+
+    ex = Path(__file__).resolve().parents[1] / "examples"
+    r = runner.invoke(app, ["assess", str(ex / "spectra" / "mercury_tube_254nm.txt"),
+                            "--distance", "1 m", "--claims",
+                            str(ex / "listings" / "mercury_tube_sold_pet_safe.toml"),
+                            "--no-uncertainty", "--json", "-", "--quiet", *extra])
+    assert r.exit_code in (0, 1), r.output
+    return json.loads(r.stdout[r.stdout.index("{"):])
+
+
+def test_emitter_option_chooses_the_distance_model():
+    # the claim 'kills 99.9 % ... in 15 minutes' is judged at the listing's distance of use
+    # (2 m): a 0.55 m tube measured at 1 m falls off more slowly than 1/d² near it (Keitz),
+    # so it delivers more there than the inverse-square point model says
+    tube = _claims_json()                                   # the listing says tube, 0.55 m
+    point = _claims_json("--emitter", "point")
+    assert tube["conditions"]["emitter"] == "tube" and point["conditions"]["emitter"] == "point"
+    kt = next(c for c in tube["claims"] if c["id"] == "kill")["available"]["value"]
+    kp = next(c for c in point["claims"] if c["id"] == "kill")["available"]["value"]
+    assert kt > kp
+    longer = _claims_json("--tube-length", "1.2 m")
+    assert longer["conditions"]["tube_length_m"] == pytest.approx(1.2)
+
+
+@pytest.mark.parametrize("args, where", [(["--emitter", "disc"], "--emitter"),
+                                         (["--emitter", "point", "--tube-length", "1 m"],
+                                          "--tube-length")])
+def test_emitter_option_errors_name_the_option(args, where):
+    from pathlib import Path
+
+    ex = Path(__file__).resolve().parents[1] / "examples"
+    r = runner.invoke(app, ["assess", str(ex / "spectra" / "mercury_tube_254nm.txt"), *args])
+    assert r.exit_code == 2
+    assert where in r.output and "Traceback" not in r.output

@@ -109,7 +109,7 @@ def test_lower_bound_from_partial_coverage_says_measured_range():
 def test_worse_group_in_the_overview_of_the_demo(tmp_path):
     from typer.testing import CliRunner
 
-    from tests.test_note import cli
+    from test_note import cli
 
     out = tmp_path / "demo"
     r = CliRunner().invoke(cli(), ["demo", "--out", str(out), "--no-pdf"])

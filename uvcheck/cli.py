@@ -74,9 +74,9 @@ def guarded(fn: Callable[..., Any]) -> Callable[..., Any]:
 
 from uvcheck.cli_options import (  # noqa: E402  (typer only)
     Alpha, Block, CalibrationUncertainty, Column, DataStart, Decimal, DecisionRule, Delimiter,
-    Distance, DistanceUncertainty, Draws, ElectricalPower, Encoding, ExposureTime, Force,
+    Distance, DistanceUncertainty, Draws, ElectricalPower, Emitter, Encoding, ExposureTime, Force,
     GeneralLighting, Limits, NoUncertainty, Quiet, ScaleBand, ScaleLux, ScaleTotal, SourceSize,
-    StrayLight, Unit, UseDistance, WavelengthUncertainty, WlColumn, WlUnit)
+    StrayLight, TubeLength, Unit, UseDistance, WavelengthUncertainty, WlColumn, WlUnit)
 
 
 def read_options(encoding: str | None, delimiter: str | None, decimal: str | None,
@@ -129,6 +129,8 @@ def assess(
                                                    "claim gets this verdict or a worse one "
                                                    "(not-assessable < unlikely < cannot-hold).")] = None,
     electrical_power: ElectricalPower = None,
+    emitter: Emitter = None,
+    tube_length: TubeLength = None,
     no_uncertainty: NoUncertainty = False,
     calibration_uncertainty: CalibrationUncertainty = None,
     wavelength_uncertainty: WavelengthUncertainty = None,
@@ -170,7 +172,8 @@ def assess(
         listing = read_listing(claims)
     cond = conditions_from_options(d0, source_size, alpha, use_distance, general_lighting,
                                    exposure_time, listing=listing,
-                                   electrical_power=electrical_power)
+                                   electrical_power=electrical_power,
+                                   **emitter_options(emitter, tube_length))
     result = run_assess(spec, cond, report, options, listing=listing).to_dict()
     if json_out:
         write_json(json_out, result, force=force)
@@ -289,6 +292,27 @@ def screen(
     if not quiet and json_out != "-":
         typer.echo(render_assessment(result), nl=False)
     _exit_for(result, fail_on)
+
+
+def emitter_options(emitter: str | None, tube_length: str | None) -> dict[str, Any]:
+    """Conditions fields from --emitter and --tube-length (empty when neither is given, so a
+    listing's emitter model applies)."""
+    from uvcheck.conditions import EMITTERS
+    from uvcheck.errors import ConfigurationError
+
+    out: dict[str, Any] = {}
+    if emitter is not None:
+        if emitter not in EMITTERS:
+            raise ConfigurationError(f"unknown emitter model {emitter!r}", "--emitter",
+                                     f"use one of: {', '.join(EMITTERS)}")
+        out["emitter"] = emitter
+    if tube_length is not None:
+        if emitter not in (None, "tube"):
+            raise ConfigurationError("--tube-length applies to the tube emitter model",
+                                     "--tube-length", "give --emitter tube, or leave it out")
+        out["emitter"] = "tube"
+        out["tube_length_m"] = _length(tube_length, "--tube-length")
+    return out
 
 
 def conditions_from_options(d0: float | None, source_size: str | None, alpha: float | None,

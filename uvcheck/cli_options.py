@@ -101,6 +101,11 @@ LampAt = Annotated[Optional[str], typer.Option(
 RoomPattern = Annotated[str, typer.Option(
     "--pattern", help="Emission pattern: isotropic, lambertian-down or cylinder (a bare "
                       "horizontal tube).", rich_help_panel=_ROOM)]
+Emitter = Annotated[Optional[str], typer.Option(
+    "--emitter", help="How the output falls with distance when it is moved from the "
+    "measurement distance to another (--use-distance, germicidal figures): point (inverse "
+    "square), lambertian (on the axis of a flat emitter) or tube (a linear tube, Keitz "
+    "formula; give --tube-length). Default: the listing's, else point.", show_default=False)]
 TubeLength = Annotated[Optional[str], typer.Option(
     "--tube-length", help="Arc length of a cylinder lamp, e.g. '0.9 m'.", rich_help_panel=_ROOM)]
 TubeAxis = Annotated[str, typer.Option("--axis", help="Tube axis: x (width) or y (length).",
