@@ -655,3 +655,19 @@ def test_whole_file_reading_equals_streaming_on_generated_files(tmp_path_factory
         _read_both(tmp, data)
 
     check()
+
+
+def test_row_gives_the_group_at_the_listings_distance_of_use(tmp_path):
+    # the bundled wand (invented data) is Exempt for what could be assessed at 20 cm, but its
+    # listing says it is used at 2 cm, where the blue-light limit is reached in seconds
+    import shutil
+
+    shutil.copy(EXAMPLES / "spectra" / "wand_395nm_led.csv", tmp_path / "wand.csv")
+    shutil.copy(EXAMPLES / "listings" / "wand_395nm_sold_as_uvc.toml", tmp_path / "wand.toml")
+    out = tmp_path / "out" / "s.csv"
+    out.parent.mkdir()
+    B.run_batch(tmp_path, out, B.BatchSettings(), jobs=1)
+    row = json.loads(B.jsonl_path(out).read_text(encoding="utf-8").splitlines()[0])
+    assert row["use_distance_m"] == pytest.approx(0.02)
+    assert row["risk_group_at_use"] == "RG3"
+    assert row["risk_group"] != "RG3"

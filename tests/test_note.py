@@ -149,7 +149,10 @@ def test_finding_for_the_violet_wand(notes):
     assert v["finding"].startswith("This lamp emits essentially no germicidal UV-C.")
     assert f"peaking at {peak:.4g} nm" in v["finding"]
     assert "violet" in v["finding"]
-    assert v["key_caution"]["title"] == "A violet or blue glow is not UV-C"
+    # at the listing's distance of use (2 cm) UV-A sets RG3: the key caution follows that
+    # hazard; the violet-glow caution stays in the list (test_only_applicable_cautions)
+    assert notes["wand"]["result"]["conditions"]["use_distance_m"] == pytest.approx(0.02)
+    assert v["key_caution"]["title"] == "Strong UV-A and violet light can harm the eyes and skin"
 
 
 def test_finding_for_the_mercury_tube_names_its_limit_time(notes):

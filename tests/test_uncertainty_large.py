@@ -102,3 +102,24 @@ def test_monte_carlo_memory_does_not_grow_with_the_number_of_samples():
         tracemalloc.stop()
     assert r.status == "evaluated"
     assert peak < 8 * n * 8, f"peak {peak / 1e6:.1f} MB for one array of {n * 8 / 1e6:.1f} MB"
+
+
+def test_no_interval_around_a_hazard_below_its_detection_limit():
+    # the bundled mercury tube (invented data) measured to 800 nm: E_IR is partly measured and
+    # its measured part is below the detection limit; its interval would straddle zero
+    import json
+    from pathlib import Path
+
+    from typer.testing import CliRunner
+
+    from uvcheck.cli import app
+
+    ex = Path(__file__).resolve().parents[1] / "examples" / "spectra" / "mercury_tube_254nm.txt"
+    r = CliRunner().invoke(app, ["assess", str(ex), "--distance", "1 m", "--json", "-", "--quiet"])
+    assert r.exit_code == 0, r.output
+    d = json.loads(r.stdout[r.stdout.index("{"):])
+    ir = d["uncertainty"]["hazards"]["ir_eye"]
+    assert ir["interval_95"] is None and "detection limit" in ir["note"]
+    for hid, h in d["uncertainty"]["hazards"].items():
+        if h.get("interval_95"):
+            assert h["interval_95"][0] >= 0, hid

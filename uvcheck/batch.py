@@ -63,11 +63,14 @@ from uvcheck.errors import ConfigurationError, InputFormatError, OutputExistsErr
 #: says why it is empty otherwise (``below-detection``, ``likely-stray-light``,
 #: ``not-covered``, ``shape-only``, …): an empty cell is never a zero. ``origin`` is
 #: ``measured``, or ``nominal`` for a listing screened without a spectrum (every figure of
-#: such a row is an ESTIMATE from the stated data).
+#: such a row is an ESTIMATE from the stated data). ``risk_group`` is at the IEC 62471
+#: assessment distance; ``risk_group_at_use`` at the distance of use (``use_distance_m``: the
+#: manifest's, the command line's or the listing's), where one is known.
 SUMMARY_COLUMNS = (
     "product_id", "spectrum_file", "listing_file", "status", "error",
     "peak_nm", "uvc_W_m2", "uvc_status",
     "risk_group", "risk_group_is_lower_bound", "governing_hazard",
+    "use_distance_m", "risk_group_at_use",
     "claims_holds", "claims_unlikely", "claims_cannot_hold", "claims_not_assessable",
     "worst_claim_id", "worst_claim_verdict", "worst_claim_ratio",
     "note_path", "origin",
@@ -367,6 +370,10 @@ def _fill(row: dict[str, Any], result: Mapping[str, Any]) -> None:
     row["risk_group"] = rg.get("group")
     row["risk_group_is_lower_bound"] = rg.get("is_lower_bound")
     row["governing_hazard"] = rg.get("governing")
+    use = result.get("use_distance") or {}
+    if use:
+        row["use_distance_m"] = (result.get("conditions") or {}).get("use_distance_m")
+        row["risk_group_at_use"] = (use.get("risk_group") or {}).get("group")
     claims = result.get("claims")
     if claims is not None:
         counts = (result.get("claims_summary") or {}).get("counts") or {}

@@ -320,7 +320,7 @@ def conditions_from_options(d0: float | None, source_size: str | None, alpha: fl
                             exposure_time: str, listing: Any | None = None,
                             electrical_power: str | None = None, **extra: Any) -> Any:
     """Conditions from the command-line options; a listing fills what the options leave open
-    (emitter model, tube length, source size, electrical power)."""
+    (emitter model, tube length, source size, electrical power, distance of use)."""
     from uvcheck.conditions import Conditions
     from uvcheck.errors import ConfigurationError
     from uvcheck.units import parse_quantity
@@ -340,8 +340,11 @@ def conditions_from_options(d0: float | None, source_size: str | None, alpha: fl
             extra["emitter"] = listing.emitter
             if listing.emitter == "tube":
                 extra.setdefault("tube_length_m", listing.tube_length_m)
+    use_m = _length(use_distance, "--use-distance")
+    if use_m is None and listing is not None:
+        use_m = listing.use_distance_m  # the listing's stated distance of use
     return Conditions(measurement_distance_m=d0,
-                      use_distance_m=_length(use_distance, "--use-distance"),
+                      use_distance_m=use_m,
                       source_size_m=size, alpha_rad=alpha, general_lighting=general_lighting,
                       exposure_time_s=t, electrical_power_W=power, **extra)
 

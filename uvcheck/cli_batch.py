@@ -96,7 +96,8 @@ def batch_command(
     \b
     Summary columns: product_id, spectrum_file, listing_file, status (ok |
     error), error, peak_nm, uvc_W_m2, uvc_status, risk_group,
-    risk_group_is_lower_bound, governing_hazard, claims_holds, claims_unlikely,
+    risk_group_is_lower_bound, governing_hazard, use_distance_m, risk_group_at_use
+    (the group at the distance of use), claims_holds, claims_unlikely,
     claims_cannot_hold, claims_not_assessable, worst_claim_id,
     worst_claim_verdict, worst_claim_ratio, note_path, origin (measured, or
     nominal: a listing without a spectrum, every figure an ESTIMATE).

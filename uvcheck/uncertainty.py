@@ -1121,6 +1121,15 @@ def _hazard_section(model: _Model, cond: Conditions, hz: Any, inputs: Uncertaint
             base["note"] = "not evaluated: the hazard itself could not be assessed"
             out[h.id] = base
             continue
+        if h.detection_limit is not None and h.value < h.detection_limit:
+            # a partly measured hazard whose measured part is below the detection limit: the
+            # figure is "< limit so far", and an interval around noise (often negative) would
+            # read as a measurement
+            base["value"] = None
+            base["note"] = (f"not evaluated: below the detection limit (< {sig(h.detection_limit)} "
+                            f"{h.unit} over the measured part)")
+            out[h.id] = base
+            continue
         entry = next((e for e in lset.variants(h.id) if e.symbol == h.symbol), None)
         if entry is None:  # pragma: no cover - the symbol always names a variant
             base["note"] = "internal: limit entry not found"
