@@ -66,3 +66,20 @@ def test_noise_only_uvc_on_partial_coverage_is_not_ruled_out():
     g = evaluate_germicidal(Spectrum(WL, v, "irradiance"), Conditions(measurement_distance_m=0.2))
     assert g.status == "not-assessed"
     assert "cannot be ruled out" in g.statement
+
+
+def test_negative_values_clipped_to_zero_are_flagged(tmp_path):
+    rng = np.random.default_rng(9)
+    v = np.clip(0.02 * np.exp(-0.5 * ((WL - 405.0) / 6.0) ** 2)
+                + rng.normal(0.0, 2e-5, WL.size), 0.0, None)
+    p = tmp_path / "clipped.csv"
+    p.write_text("Wavelength (nm),Irradiance (W/m2/nm)\n"
+                 + "\n".join(f"{a:g},{b:.6e}" for a, b in zip(WL, v)) + "\n", encoding="utf-8")
+    _, rep = read_spectrum(p)
+    assert any("clip negative values to zero" in w for w in rep.warnings)
+    # the same data unclipped: no such warning
+    p.write_text("Wavelength (nm),Irradiance (W/m2/nm)\n"
+                 + "\n".join(f"{a:g},{b:.6e}" for a, b in zip(WL, _led())) + "\n",
+                 encoding="utf-8")
+    _, rep = read_spectrum(p)
+    assert not any("clip negative values" in w for w in rep.warnings)

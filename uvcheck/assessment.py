@@ -15,7 +15,8 @@ from typing import Any
 from uvcheck import __version__
 from uvcheck.bands import UVC_DEFINITION_NOTE, BandResult, band_breakdown
 from uvcheck.conditions import Conditions
-from uvcheck.features import DetectedLine, PeakInfo, find_lines, peak_info
+from uvcheck.features import (DetectedLine, PeakInfo, find_lines, peak_info,
+                               second_order_suspects)
 from uvcheck.germicidal import evaluate_germicidal
 from uvcheck.hazards import SCREENING_NOTE, evaluate_hazards
 from uvcheck.photometry import Photometry, photometry
@@ -193,8 +194,16 @@ def assess(spectrum: Spectrum, conditions: Conditions | None = None, report: Any
         sections["claims"] = claims
     for k, v in (extra or {}).items():
         sections[k] = v
+    lines = find_lines(spectrum)
+    for parent, suspect in second_order_suspects(lines, spectrum.step_nm):
+        warnings.append(f"the peak at {suspect.wavelength_nm:.1f} nm lies at twice the "
+                        f"{parent.wavelength_nm:.1f} nm line: possibly that line in the "
+                        "spectrometer's second diffraction order (no order-sorting filter), not "
+                        "emission; if so, the visible share and the blue-light figures are "
+                        "overstated. Check with a long-pass filter or the instrument's "
+                        "order-sorting setting")
     return Assessment(spectrum=spectrum, conditions=conditions,
                       input=input_section(spectrum, report), bands=bands,
-                      peak=peak_info(spectrum), lines=find_lines(spectrum),
+                      peak=peak_info(spectrum), lines=lines,
                       photometry=photometry(spectrum, vis), sections=sections,
                       warnings=tuple(warnings), notes=tuple(notes))

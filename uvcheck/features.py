@@ -326,6 +326,35 @@ def _find_lines(spectrum: Spectrum, min_snr: float, min_relative: float,
     return sorted(found, key=lambda d: d.wavelength_nm)
 
 
+def second_order_suspects(lines: list[DetectedLine], step_nm: float | None = None
+                          ) -> list[tuple[DetectedLine, DetectedLine]]:
+    """Peaks that sit at twice the wavelength of a stronger peak: (parent, suspect) pairs.
+
+    A grating spectrometer without an order-sorting filter shows a strong line again in the
+    second diffraction order, at twice its wavelength (253.7 nm reappears near 507.4 nm). A
+    suspect is a peak within max(1 nm, 1.5 × the sample spacing) of twice a peak that is
+    higher than it, and not itself a known emission line (a line the table of known lines
+    names as a second-order artefact counts as a suspect). It may be real; it is flagged.
+
+    Examples
+    --------
+    >>> a = DetectedLine(253.7, 1.0, 0.5, 900.0, "Hg 253.7 nm")
+    >>> b = DetectedLine(507.5, 0.01, 0.9, 9.0, None)
+    >>> [(p.wavelength_nm, q.wavelength_nm) for p, q in second_order_suspects([a, b], 0.5)]
+    [(253.7, 507.5)]
+    """
+    tol = max(1.0, 1.5 * (step_nm or 0.0))
+    out = []
+    for q in lines:
+        if q.identified_as is not None and "second order" not in q.identified_as:
+            continue
+        for p in lines:
+            if p is not q and p.height > q.height and abs(q.wavelength_nm - 2.0 * p.wavelength_nm) <= tol:
+                out.append((p, q))
+                break
+    return out
+
+
 def _window_min(v: np.ndarray, start: np.ndarray, stop: np.ndarray) -> np.ndarray:
     """min(v[start[k]:stop[k]]) for every k (stop > start), from a table of minima over
     windows of 2^j samples (a sparse table): two look-ups per window, exact."""

@@ -1187,6 +1187,9 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
         warnings.append("isolated spike(s) far above their neighbours at "
                         + ", ".join(f"{wl_nm[k]:g} nm" for k in spikes[:3])
                         + ": a corrupt row or a cosmic-ray hit? check the file")
+    clipped = _clipped_at_zero(values)
+    if clipped:
+        warnings.append(clipped)
     if su.quantity == "relative":
         sat = _saturation(values)
         if sat:
@@ -1481,6 +1484,25 @@ def _isolated_spikes(v: np.ndarray) -> list[int]:
     scale = median(a) or float(a.max()) * 1e-12
     spikes = np.nonzero((a > 1000.0 * np.maximum(nb, scale * 10)) & (a > 0))[0]
     return [int(k) for k in spikes]
+
+
+def _clipped_at_zero(v: np.ndarray) -> str | None:
+    """A warning when negative values look clipped to zero: no sample below zero, and at least
+    a fifth of them exactly 0 while others are positive. After a dark subtraction, noise is
+    negative about as often as positive where the lamp emits nothing; software that clips the
+    negative half leaves zeros, so the noise floor is underestimated and the remaining positive
+    noise adds up to spurious output (UV-C from nothing) in the band integrals."""
+    n = int(v.size)
+    if n < 20 or bool((v < 0).any()):
+        return None
+    n_zero = int(np.count_nonzero(v == 0.0))
+    if n_zero * 5 < n or n_zero == n:
+        return None
+    return (f"{n_zero} of {n} samples are exactly 0 and none is negative: the export may clip "
+            "negative values to zero after the dark subtraction. Then the noise floor is "
+            "underestimated and the positive half of the noise adds up to spurious output (e.g. "
+            "UV-C from nothing); export without clipping if the software allows, and treat "
+            "small band values as upper bounds")
 
 
 def _saturation(v: np.ndarray) -> str | None:
