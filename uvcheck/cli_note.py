@@ -512,7 +512,8 @@ def demo_command(
                           force=force)
     typer.echo("INVENTED DEMONSTRATION: the products and data are made up.")
     for it in items:
-        typer.echo(f"  {it['title']}: {it['risk']}; {it['claims_summary'] or 'no claims'}")
+        cs = it["claims_summary"] or "no claims"
+        typer.echo(f"  {it['title']}: {it['risk']}. {cs}")
         typer.echo(f"    {out / it['html']}" + (f"\n    {out / it['pdf']}" if it["pdf"] else ""))
     typer.echo(f"overview: {out / 'index.html'}" + ("" if no_pdf else f" and {out / 'index.pdf'}"))
     typer.echo(f"done in {time.perf_counter() - t0:.1f} s. Screening assessments, not "
