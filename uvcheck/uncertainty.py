@@ -1846,8 +1846,8 @@ def render_uncertainty_lines(u: Mapping[str, Any], d: Mapping[str, Any] | None =
                f"(first-order GUM propagation as a cross-check)")
     rows = []
     for hid, h in (u.get("hazards") or {}).items():
-        if h.get("interval_95") is None:
-            continue
+        if h.get("interval_95") is None or h.get("status") == "below-detection":
+            continue  # (below detection: the JSON keeps the raw estimate's interval, with a note)
         lb = "≥ " if h.get("interval_is_lower_bound") else ""
         flag = "BORDERLINE " + ",".join(h["boundaries_within_interval"]) if h.get("borderline") else ""
         probs = h.get("risk_group_probability") or h.get("lower_bound_group_probability")

@@ -997,13 +997,16 @@ def finding(result: Result, claims: list[dict[str, Any]] | None = None) -> str:
         best = _fastest(hl, g)
         if best is not None:
             t = duration(best["time_to_99_9_s"], best.get("times_are"))
+            # "about 8 s", or "at most about 8 s" where the time is a bound ("≤ 8 s")
+            bound = {"≤ ": "at most about ", "≥ ": "at least about "}.get(t[:2])
+            t = bound + t[2:] if bound else "about " + t
             if st in ("germicidal-uvc", "partial"):
                 s.append(f"At {gpos}, even the most susceptible organism in uvcheck's table "
-                         f"({best['organism']}, {best['medium']}) needs about {t} for a 99.9 % "
+                         f"({best['organism']}, {best['medium']}) needs {t} for a 99.9 % "
                          "reduction; most real germs need longer.")
             else:
                 s.append(f"Violet and blue light inactivate some bacteria, but slowly: a 99.9 % reduction "
-                         f"would take about {t} at {gpos} even for the most susceptible organism "
+                         f"would take {t} at {gpos} even for the most susceptible organism "
                          f"in the table ({best['organism']}, {best['medium']}).")
     s += _risk_sentences(result)
     cs = claims_summary(claims)
