@@ -41,6 +41,7 @@ from typing import Any, Iterable, Sequence
 
 from uvcheck.conditions import Conditions
 from uvcheck.errors import ConfigurationError
+from uvcheck.germicidal import UVC_EMITTING
 from uvcheck.spectrum import Spectrum, integrate
 from uvcheck.units import format_duration, sig
 
@@ -444,7 +445,7 @@ def _emission(c: Any, ev: Evidence) -> Verdict:
 
     lines = find_lines(r.spectrum)
     pk = peak_info(r.spectrum)
-    uvc_ok = d["status"] == "germicidal-uvc"
+    uvc_ok = d["status"] in UVC_EMITTING  # (partial: found, part of the band unmeasured)
     if lam is not None:
         tol = max(PEAK_TOLERANCE_NM, (pk.fwhm_nm or 0.0) / 2)
         near = [ln for ln in lines if abs(ln.wavelength_nm - lam) <= tol]

@@ -76,7 +76,9 @@ def render_room(d: dict) -> str:
         lines += _room_bounds(d)
         return "\n".join(lines) + "\n"
     notes = list(d["notes"])
-    if st.get("germicidal_status") not in (None, "germicidal-uvc", "partial"):
+    from uvcheck.germicidal import UVC_EMITTING
+
+    if st.get("germicidal_status") not in (None, *UVC_EMITTING):
         lines += [f"Note first: {notes.pop(0) if notes else st.get('statement')}", ""]
     lines += [
         f"Room {sig(dim['width'])} × {sig(dim['length'])} × {sig(dim['height'])} m "

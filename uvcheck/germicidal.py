@@ -61,6 +61,9 @@ REFERENCE_WAVELENGTH_NM = 253.7
 ACTION_SPECTRA = ("germicidal_dna", "germicidal_classical", "uvc_unweighted")
 VIOLET_BLUE_ID = "violet_blue_405"
 VIOLET_BLUE_REFERENCE_NM = 405.0
+#: Statuses under which the lamp is shown to emit germicidal UV-C (``partial``: found, with part
+#: of the band not measured, so the figures are lower bounds).
+UVC_EMITTING = ("germicidal-uvc", "partial")
 
 #: Heuristic thresholds (ours unless a source is named).
 NO_UVC_FRACTION = 1e-3          # UV-C under 0.1 % of the measured output: "essentially no UV-C"
@@ -870,9 +873,9 @@ def evaluate_germicidal(spectrum: Spectrum, conditions: Conditions | None = None
         rows = []
         uvc_fav = uvc.favourable() or 0.0
         vb_fav = vb.reading.favourable() or 0.0
-        if status in ("germicidal-uvc", "partial"):
+        if status in UVC_EMITTING:
             rows += [o for o in organism_table() if o.pathway == "uvc"]
-        if vb_fav > 0 and (status not in ("germicidal-uvc", "partial") or vb_fav > uvc_fav):
+        if vb_fav > 0 and (status not in UVC_EMITTING or vb_fav > uvc_fav):
             rows += [o for o in organism_table() if o.pathway == "violet_blue"]
     inact: tuple[InactivationEstimate, ...] = ()
     ms: dict[str, dict[str, InactivationEstimate | None]] = {}

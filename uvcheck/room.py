@@ -55,7 +55,8 @@ import numpy as np
 
 from uvcheck.errors import ConfigurationError
 from uvcheck.geometry import irradiance_per_watt
-from uvcheck.germicidal import GermicidalResult, SCREENING_NOTE, evaluate_germicidal
+from uvcheck.germicidal import (SCREENING_NOTE, UVC_EMITTING, GermicidalResult,
+                                evaluate_germicidal)
 from uvcheck.inactivation import (GENERIC_NOTE, Organism, each_per_h, get_organism,
                                   mixed_air_time, most_susceptible, select)
 from uvcheck.spectrum import Spectrum, integrate, scaled
@@ -692,7 +693,7 @@ def evaluate_room(room: Box, lamp: RoomLamp, *, reflectance: float = DEFAULT_REF
     warnings: list[str] = []
     figures = _figures_are(g)
     bound = figures == "upper_bound"
-    if g.status not in ("germicidal-uvc", "partial"):
+    if g.status not in UVC_EMITTING:
         # said first and plainly (the same rule as ``assess``): no room figure below is
         # presented as what the lamp delivers
         notes.append(f"{g.statement} The room figures are {FIGURES_ARE[figures]}."

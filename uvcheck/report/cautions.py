@@ -22,6 +22,8 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Any, Callable, Mapping
 
+from uvcheck.germicidal import UVC_EMITTING
+
 Result = Mapping[str, Any]
 
 #: Always shown (PRACTICE.md §4 item 13, in our words).
@@ -71,7 +73,7 @@ def emits_uvc(d: Result) -> bool:
     """Germicidal UV-C was found (also a partly measured UV-C band)."""
     g = _germ(d)
     if g:
-        return g.get("status") in ("germicidal-uvc", "partial")
+        return g.get("status") in UVC_EMITTING
     b = (d.get("bands") or {}).get("UV-C") or {}
     return b.get("status") in ("complete", "partial") and (b.get("fraction") or 0) >= 1e-3
 

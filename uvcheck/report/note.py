@@ -17,6 +17,7 @@ import datetime as _dt
 import os
 from typing import Any, Iterable, Mapping
 
+from uvcheck.germicidal import UVC_EMITTING
 from uvcheck.report.cautions import DOES_NOT_COVER, LOCAL_CODES, applicable
 from uvcheck.units import format_duration, sig, to_trade
 
@@ -741,7 +742,7 @@ def organism_rows(g: Mapping[str, Any], unc: Mapping[str, Any] | None = None
     Each row carries the study-spread range (``time_to_90_s_range``) and the 95 % interval
     (``time_to_90_interval_95_s``) as text where the result has them.
     """
-    pathway = "uvc" if g.get("status") in ("germicidal-uvc", "partial") else "violet_blue"
+    pathway = "uvc" if g.get("status") in UVC_EMITTING else "violet_blue"
     ms = (g.get("most_susceptible") or {}).get(pathway) or {}
     u_ms = (unc or {}).get("inactivation_most_susceptible") or {}
     u_named = (unc or {}).get("inactivation") or {}
@@ -818,7 +819,7 @@ def germicidal_block(result: Result) -> dict[str, Any] | None:
             "artefacts": [a.get("detail") for a in g.get("artefacts") or []],
             "technology": (g.get("technology") or {}).get("name"),
             "technology_basis": (g.get("technology") or {}).get("basis"),
-            "pathway": "UV-C" if g.get("status") in ("germicidal-uvc", "partial") else "violet-blue (about 405 nm)",
+            "pathway": "UV-C" if g.get("status") in UVC_EMITTING else "violet-blue (about 405 nm)",
             "highlight": hl, "organisms": rows,
             "efficiency": (g.get("efficiency") or {}).get("note")
             if (g.get("efficiency") or {}).get("status") != "not-computed" else None,
@@ -920,7 +921,7 @@ def _composition(result: Result) -> str:
 
 
 def _fastest(hl: list[dict[str, Any]], g: Mapping[str, Any]) -> Mapping[str, Any] | None:
-    pathway = "uvc" if g.get("status") in ("germicidal-uvc", "partial") else "violet_blue"
+    pathway = "uvc" if g.get("status") in UVC_EMITTING else "violet_blue"
     ms = (g.get("most_susceptible") or {}).get(pathway) or {}
     cands = [e for e in ms.values() if e and e.get("time_to_99_9_s") is not None]
     return min(cands, key=lambda e: e["time_to_99_9_s"]) if cands else None
@@ -1000,7 +1001,7 @@ def finding(result: Result, claims: list[dict[str, Any]] | None = None) -> str:
             # "about 8 s", or "at most about 8 s" where the time is a bound ("≤ 8 s")
             bound = {"≤ ": "at most about ", "≥ ": "at least about "}.get(t[:2])
             t = bound + t[2:] if bound else "about " + t
-            if st in ("germicidal-uvc", "partial"):
+            if st in UVC_EMITTING:
                 s.append(f"At {gpos}, even the most susceptible organism in uvcheck's table "
                          f"({best['organism']}, {best['medium']}) needs {t} for a 99.9 % "
                          "reduction; most real germs need longer.")
