@@ -42,3 +42,19 @@ def test_note_words_a_bounded_time_as_a_bound(led_file, tmp_path):
     res, _ = note_result(led_file, None)
     finding = note_finding(res)
     assert "at most about" in finding and "about ≤" not in finding
+
+
+def test_emission_claim_on_a_partly_measured_uvc_band_is_judged_on_the_emission(led_file, tmp_path):
+    # UV-C found (peak 276 nm) but 200-230 nm not measured: the germicidal status is 'partial';
+    # the stated 275 nm is within the tolerance of the measured peak, so the claim holds
+    import json
+
+    lst = tmp_path / "led.toml"
+    lst.write_text('[product]\nname = "invented"\ninvented = true\n\n'
+                   '[[claims]]\ntext = "UVC 275nm"\n', encoding="utf-8")
+    r = CliRunner().invoke(app, ["assess", str(led_file), "--claims", str(lst), "--json", "-",
+                                 "--quiet", "--no-uncertainty"])
+    assert r.exit_code == 0, r.output
+    d = json.loads(r.stdout[r.stdout.index("{"):])
+    assert d["germicidal"]["status"] == "partial"
+    assert d["claims"][0]["verdict"] == "holds", d["claims"][0]["basis"]
