@@ -84,6 +84,11 @@ def dynamic_range_floor(values: np.ndarray, fraction: float = DYNAMIC_RANGE_FLOO
     return float(fraction * np.max(np.abs(v))) if v.size else 0.0
 
 
+#: A spectrum sits below zero when its deepest dip exceeds its highest point this many times
+#: (with more than half of its samples negative): our own rule, see :func:`negative_dominated`.
+NEGATIVE_DIP_RATIO = 3.0
+
+
 def negative_dominated(values: np.ndarray) -> tuple[int, int] | None:
     """(negative samples, samples) when a spectrum sits below zero as a whole, else None.
 
@@ -106,7 +111,7 @@ def negative_dominated(values: np.ndarray) -> tuple[int, int] | None:
     n_neg = int(np.count_nonzero(v < 0))
     if n == 0 or 2 * n_neg <= n:
         return None
-    if not -float(v.min()) > 3.0 * max(float(v.max()), 0.0):
+    if not -float(v.min()) > NEGATIVE_DIP_RATIO * max(float(v.max()), 0.0):
         return None
     return n_neg, n
 

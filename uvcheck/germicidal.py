@@ -116,10 +116,6 @@ def action_spectrum(action_id: str) -> Weighting:
     return get_weighting(action_id)
 
 
-def _weight_at(w: Weighting, wavelength_nm: float) -> float:
-    return w.at(wavelength_nm)
-
-
 def _from_memory(w: Weighting) -> bool:
     fm = str(w.provenance.get("from_memory", "none")).lower()
     return fm.startswith("all") or "from memory" in str(w.provenance.get("digits_from", "")).lower()
@@ -198,7 +194,7 @@ class EffectiveReading:
 
     def equivalent_at(self, wavelength_nm: float, favourable: bool = True) -> float | None:
         """E_eff / s(λ): the irradiance at λ with the same effect, by this spectrum. [unit]"""
-        s = _weight_at(action_spectrum(self.reading.id), wavelength_nm)
+        s = action_spectrum(self.reading.id).at(wavelength_nm)
         v = self.reading.favourable() if favourable else self.reading.value
         if v is None or not s > 0:
             return None
@@ -469,7 +465,7 @@ def _effective(spec: Spectrum, action_id: str, total: float, artefact: bool, ref
     w = action_spectrum(action_id)
     lo, hi = w.range_nm
     rd = _reading(spec, action_id, w.name, lo, hi, w, total, artefact)
-    s_ref = _weight_at(w, reference_nm)
+    s_ref = w.at(reference_nm)
     eq = rd.value / s_ref if rd.value is not None and s_ref > 0 else None
     equb = rd.upper_bound / s_ref if rd.upper_bound is not None and s_ref > 0 else None
     band = integrate(spec, *share_band).value

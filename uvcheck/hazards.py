@@ -1228,14 +1228,14 @@ def _mostly_negative(spectrum: Spectrum) -> str | None:
     subtraction, or the wrong column). Every hazard is then not assessable: a "below
     detection" reading of such data would read as Exempt while the lamp's real output is
     unknown."""
-    from uvcheck.features import negative_dominated
+    from uvcheck.features import NEGATIVE_DIP_RATIO, negative_dominated
 
     found = negative_dominated(spectrum.values)
     if found is None:
         return None
     n_neg, n = found
     return (f"the spectrum sits below zero ({n_neg} of {n} samples negative, its deepest dip "
-            "more than 3 times its highest point): a sign-flipped or swapped dark "
+            f"more than {NEGATIVE_DIP_RATIO:g} times its highest point): a sign-flipped or swapped dark "
             "subtraction, or the wrong column? No hazard is computed from it; check the "
             "export, --column and the unit")
 

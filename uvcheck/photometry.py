@@ -20,7 +20,7 @@ import numpy as np
 
 from uvcheck.constants import K_M_LM_PER_W
 from uvcheck.data_files import read_table
-from uvcheck.spectrum import Spectrum, integrate
+from uvcheck.spectrum import Integral, Spectrum, integrate
 from uvcheck.weighting import Weighting
 
 #: luminous quantity for each radiometric one
@@ -106,8 +106,14 @@ def luminous_value(spectrum: Spectrum) -> tuple[float, float]:
     >>> round(luminous_value(s)[0])
     1366
     """
-    r = integrate(spectrum, 360.0, 830.0, v_lambda())
+    r = _luminous_integral(spectrum)
     return K_M_LM_PER_W * r.value, r.coverage
+
+
+def _luminous_integral(spectrum: Spectrum) -> Integral:
+    """∫ X(λ) V(λ) dλ over 360–830 nm, with coverage and noise (times K_m: the luminous
+    quantity)."""
+    return integrate(spectrum, 360.0, 830.0, v_lambda())
 
 
 def cct_ohno2013(u: float, v: float) -> tuple[float, float]:
@@ -145,7 +151,7 @@ def photometry(spectrum: Spectrum, visible_fraction: float | None = None) -> Pho
         anything (it must be ≥ 0.5). [-]
     """
     qty, unit = LUMINOUS.get(spectrum.quantity, ("illuminance", "lx"))
-    r = integrate(spectrum, 360.0, 830.0, v_lambda())
+    r = _luminous_integral(spectrum)
     val, cov = K_M_LM_PER_W * r.value, r.coverage
     dl = None if r.detection_limit is None else K_M_LM_PER_W * r.detection_limit
     xb, yb, zb = cmfs()

@@ -36,7 +36,7 @@ import array
 import hashlib
 import math
 import re
-from dataclasses import dataclass, field, fields
+from dataclasses import dataclass, field, fields, replace
 from itertools import islice
 from pathlib import Path
 from typing import Any, Iterable, Iterator
@@ -44,7 +44,7 @@ from typing import Any, Iterable, Iterator
 import numpy as np
 
 from uvcheck.errors import InputFormatError, UnitError
-from uvcheck.features import estimate_noise
+from uvcheck.features import estimate_noise, negative_dominated
 from uvcheck.io.textfile import (HEAD_BYTES, Decoded, decode_lines, file_sha256, iter_lines,
                                  sniff_encoding)
 from uvcheck.spectrum import Spectrum, median
@@ -61,8 +61,13 @@ _MISSING = {"", "na", "n/a", "nan", "-nan", "+nan", "--", "-", "null", "none", "
             "1.#qnan", "-1.#ind", "1.#ind", "#value!", "#div/0!"}
 _INF = {"inf", "+inf", "infinity", "+infinity", "1.#inf"}
 _NINF = {"-inf", "-infinity", "-1.#inf"}
-_NUM_DOT = re.compile(r"^[-+]?(\d+(?:\.\d*)?|\.\d+)([eE][-+]?\d+)?$")
-_NUM_COMMA = re.compile(r"^[-+]?(\d+(?:,\d*)?|,\d+)([eE][-+]?\d+)?$")
+# A number with '.' or ',' as the decimal mark; written so that a digit run splits one way
+# only (``\d+\.?\d*`` would let the engine try every split of every number of a long line
+# that fails at its end). The texts are also the cells of the clean-row patterns below.
+_NUM_DOT_TEXT = r"[-+]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?"
+_NUM_COMMA_TEXT = r"[-+]?(?:\d+(?:,\d*)?|,\d+)(?:[eE][-+]?\d+)?"
+_NUM_DOT = re.compile(rf"^{_NUM_DOT_TEXT}$")
+_NUM_COMMA = re.compile(rf"^{_NUM_COMMA_TEXT}$")
 _THOUS_DOT = re.compile(r"^[-+]?[1-9]\d{0,2}(,\d{3})+(\.\d*)?$")      # 1,234.5
 _THOUS_COMMA = re.compile(r"^[-+]?[1-9]\d{0,2}(\.\d{3})+(,\d*)?$")    # 1.234,5
 _STARTS_NUMERIC = re.compile(r"^\s*[-+]?(\d|[.,]\d)")
@@ -257,10 +262,6 @@ class _Block:
     bad: list[int]    # non-data lines inside the block
 
 
-# as _NUM_DOT and _NUM_COMMA; written so that a digit run splits one way only (``\d+\.?\d*``
-# would let the engine try every split of every number of a long line that fails at its end)
-_NUM_DOT_TEXT = r"[-+]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?"
-_NUM_COMMA_TEXT = r"[-+]?(?:\d+(?:,\d*)?|,\d+)(?:[eE][-+]?\d+)?"
 _CLEAN_ROWS: dict[tuple[str, str], re.Pattern] = {}
 
 
@@ -344,6 +345,11 @@ def _blocks(lines: list[str], delim: str, decimal: str, first: int = 0
     return blocks, num
 
 
+def _big_blocks(blocks: list[_Block]) -> list[_Block]:
+    """The blocks of at least 3 data rows (what ``--block N`` counts)."""
+    return [b for b in blocks if b.end - b.start + 1 - len(b.bad) >= 3]
+
+
 def _may_hold_rows(lines: list[str], delim: str, decimal: str, first: int) -> bool:
     """Whether any line from ``first`` on is a data row for this delimiter and decimal mark
     (the test :func:`_blocks` applies to each line); if none is, :func:`_blocks` finds no
@@ -398,15 +404,15 @@ def _choose_format(lines: list[str], opts: ReadOptions, where: str) -> tuple[str
 # Thousands separators: evidence in the data rows of the head
 # ---------------------------------------------------------------------------------------------
 
-#: A number that reads the same with ``m`` as a decimal mark or as a thousands separator
-#: (one group of exactly three digits after a leading 1-3 digit group not starting with 0):
-#: '10.000', '1.103'; and one that only a thousands separator explains: '1.002.000' (two or
-#: more groups) or '1.234,5' (a group, then the other mark).
+#: Per mark ``m``: a number that reads the same with ``m`` as a decimal mark or as a thousands
+#: separator (one group of exactly three digits after a leading 1-3 digit group not starting
+#: with 0: '10.000', '1.103'), and the grouped-number pattern with ``m`` as the thousands
+#: separator; tested in that order, the second then matches only what a thousands separator
+#: alone explains: '1.002.000' (two or more groups) or '1.234,5' (a group, then the other mark).
 _SEP_PATTERNS = {
-    m: (re.compile(rf"^[-+]?[1-9]\d{{0,2}}{re.escape(m)}\d{{3}}$"),
-        re.compile(rf"^[-+]?[1-9]\d{{0,2}}(?:{re.escape(m)}\d{{3}}){{2,}}$"
-                   rf"|^[-+]?[1-9]\d{{0,2}}(?:{re.escape(m)}\d{{3}})+{re.escape(o)}\d*$"))
-    for m, o in ((".", ","), (",", "."))}
+    ".": (re.compile(r"^[-+]?[1-9]\d{0,2}\.\d{3}$"), _THOUS_COMMA),
+    ",": (re.compile(r"^[-+]?[1-9]\d{0,2},\d{3}$"), _THOUS_DOT),
+}
 _PLAIN_INT = re.compile(r"^[-+]?\d+$")
 #: At most this many data lines of the head are examined for separator evidence.
 SEPARATOR_SCAN_LINES = HEAD_LINES
@@ -859,19 +865,20 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
     # thousands separators: a number only a thousands separator explains ('1.002.000') decides
     # the decimal mark when no number uses the mark as a decimal; '10.000' among plain
     # integers is ambiguous and is flagged below
-    big0 = [b for b in blocks if b.end - b.start + 1 - len(b.bad) >= 3]
+    big0 = _big_blocks(blocks)
     scan = (big0[opts.block - 1] if opts.block and 1 <= opts.block <= len(big0)
             else max(blocks, key=lambda b: b.end - b.start))  # the block read below
     start0 = scan.start
-    sep_cols = _separator_evidence(head, start0, delim, decimal, scan.ncols)
+    # (a decimal mark given with --decimal is never switched, nor flagged as ambiguous)
+    sep_cols = (_separator_evidence(head, start0, delim, decimal, scan.ncols)
+                if opts.decimal is None else [])
     other_mark = "," if decimal == "." else "."
     switch = (opts.decimal is None and any(c.thousands for c in sep_cols)
               and not any(c.other for c in sep_cols)
               and not (delim == "comma" and other_mark == ","))
     if switch:
         ev = next(c.thousands_example for c in sep_cols if c.thousands_example)
-        opts_sw = ReadOptions(**{**{f.name: getattr(opts, f.name) for f in fields(opts)},
-                                 "decimal": other_mark})
+        opts_sw = replace(opts, decimal=other_mark)
         try:
             delim_sw, decimal_sw, blocks_sw = _choose_format(sample, opts_sw, where)
         except InputFormatError:
@@ -883,7 +890,7 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
             delim, decimal, blocks = delim_sw, decimal_sw, blocks_sw
     if not switch:
         _flag_ambiguous_separators(sep_cols, head, start0, delim, decimal, opts, warnings)
-    big = [b for b in blocks if b.end - b.start + 1 - len(b.bad) >= 3]
+    big = _big_blocks(blocks)
     if opts.block:
         if not 1 <= opts.block <= len(big):
             raise InputFormatError(f"there is no data block {opts.block}; the file has {len(big)}",
@@ -1283,8 +1290,6 @@ def _mostly_negative(values: np.ndarray) -> str | None:
     (:func:`uvcheck.features.negative_dominated`; a sign-flipped or reversed dark
     subtraction, a dark taken with the lamp on, a wrong column). Dark-subtracted noise alone
     is negative in about half of the samples where the lamp emits nothing."""
-    from uvcheck.features import negative_dominated
-
     found = negative_dominated(values)
     if found is None:
         return None
@@ -1491,7 +1496,8 @@ def _clipped_at_zero(v: np.ndarray) -> str | None:
     a fifth of them exactly 0 while others are positive. After a dark subtraction, noise is
     negative about as often as positive where the lamp emits nothing; software that clips the
     negative half leaves zeros, so the noise floor is underestimated and the remaining positive
-    noise adds up to spurious output (UV-C from nothing) in the band integrals."""
+    noise adds up to spurious output (UV-C from nothing) in the band integrals. The thresholds
+    (at least 20 samples, a fifth of them exactly 0) are our own rule."""
     n = int(v.size)
     if n < 20 or bool((v < 0).any()):
         return None
