@@ -1032,20 +1032,17 @@ def decision_rule_block(rule: str) -> dict[str, Any]:
 # Hazards
 # ---------------------------------------------------------------------------------------------
 
-def _factor(entry_q: str, input_q: str, k: float, alpha: float | None, fov: float | None
-            ) -> float | None:
-    """Integral at the measurement position -> hazard quantity (the rule of hazards._Geo)."""
-    if entry_q == "irradiance":
-        if input_q == "irradiance":
-            return k
-        return None if alpha is None else solid_angle_sr(alpha)
-    if input_q == "irradiance":
-        if alpha is None:
-            return None
-        return k / solid_angle_sr(max(alpha, fov or 0.0))
-    if alpha is None:
-        return 1.0
-    return solid_angle_sr(alpha) / solid_angle_sr(max(alpha, fov or 0.0))
+def _geometry(cond: Conditions, hz: Any) -> Any:
+    """The hazard evaluation's conversion from the measured integral to each hazard quantity
+    (hazards._Geo, built as hazards builds it), so the draws are centred on the reported
+    values."""
+    from uvcheck.hazards import _alpha_at, _Geo
+
+    ev = hz.evaluation
+    d_meas = cond.measurement_distance_m
+    alpha_meas = (ev.alpha_rad if ev.distance_m is None or d_meas is None
+                  else _alpha_at(cond, d_meas, d_meas))
+    return _Geo(ev.input_quantity, float(ev.inverse_square_factor), ev.alpha_rad, alpha_meas)
 
 
 def _sig_key(entry: HazardLimits) -> str:
@@ -1094,8 +1091,7 @@ def _hazard_section(model: _Model, cond: Conditions, hz: Any, inputs: Uncertaint
     ev = hz.evaluation.to_dict()
     lset = get_limit_set(hz.evaluation.limit_set)
     input_q = hz.evaluation.input_quantity
-    k_nom = float(hz.evaluation.inverse_square_factor)
-    alpha_eval = hz.evaluation.alpha_rad
+    geo = _geometry(cond, hz)
     spec = model.spectrum
     if cond.general_lighting and input_q == "irradiance":
         from uvcheck.photometry import v_lambda
@@ -1141,10 +1137,10 @@ def _hazard_section(model: _Model, cond: Conditions, hz: Any, inputs: Uncertaint
         alpha = h.alpha_rad
 
         def fac(fov: float | None, entry: HazardLimits = entry) -> float:
-            v = _factor(entry.quantity, input_q, k_nom, alpha_eval, fov)
+            v = geo.factor(entry.quantity, fov)
             return 0.0 if v is None else v
 
-        if _factor(entry.quantity, input_q, k_nom, alpha_eval, None) is None or (
+        if geo.factor(entry.quantity, None) is None or (
                 entry.depends_on_alpha and alpha is None):
             base["note"] = ("not evaluated: no emission in the hazard's range, and without the "
                             "source size there is no geometry factor to propagate")
