@@ -671,3 +671,26 @@ def test_row_gives_the_group_at_the_listings_distance_of_use(tmp_path):
     assert row["use_distance_m"] == pytest.approx(0.02)
     assert row["risk_group_at_use"] == "RG3"
     assert row["risk_group"] != "RG3"
+
+
+@pytest.mark.parametrize("fail_on, status", [("not-assessable", 1), ("unlikely", 1),
+                                             ("cannot-hold", 1)])
+def test_batch_fail_on_is_a_threshold_as_in_screen(tmp_path, fail_on, status):
+    # the bundled wand listing (invented) has 'cannot-hold' claims: every threshold at or
+    # below it fails, as 'uvcheck screen --fail-on' does on the same listing
+    import shutil
+
+    shutil.copy(EXAMPLES / "listings" / "wand_395nm_sold_as_uvc.toml", tmp_path / "wand.toml")
+    out = tmp_path / "o" / "s.csv"
+    out.parent.mkdir()
+    r = CliRunner().invoke(app, ["batch", str(tmp_path), "--out", str(out), "--jobs", "1",
+                                 "--quiet", "--fail-on", fail_on])
+    assert r.exit_code == status, r.output
+    s = CliRunner().invoke(app, ["screen", str(tmp_path / "wand.toml"), "--quiet",
+                                 "--fail-on", fail_on])
+    assert s.exit_code == status
+
+
+def test_fail_on_threshold_order():
+    assert B.fails("cannot-hold", "not-assessable") and B.fails("unlikely", "unlikely")
+    assert not B.fails("unlikely", "cannot-hold") and not B.fails("holds", "not-assessable")

@@ -31,3 +31,16 @@ def test_estimate_is_not_called_measured_in_germicidal_wording():
     assert g["ozone"]["basis"] != "measured"
     assert "measured" not in g["ozone"]["note"]
     assert "measured output" not in (g.get("statement") or "")
+
+
+def test_rows_per_case_use_the_chosen_limit_set():
+    # the most likely case's row must agree with the main result under any limit set
+    from uvcheck.io.listing import read_listing
+    from uvcheck.screening import screen_listing_file
+
+    for lset in ("iec62471_2006", "acgih_2022_far_uvc"):
+        d = screen_listing_file(read_listing(LISTINGS / "faruv_222nm_ceiling_unit.toml"),
+                                limit_set=lset).to_dict()
+        likely = next(r for r in d["nominal"]["readings"] if r["likely"])
+        assert likely["risk_group"] == d["risk_group"]["group"], lset
+        assert likely["t_max_s"]["actinic_uv"] == d["hazards"]["actinic_uv"]["t_max_s"], lset

@@ -91,6 +91,20 @@ LISTING_SUFFIXES = (".toml",)
 
 #: Verdicts from best to worst (the order ``--fail-on`` uses).
 VERDICT_ORDER = ("holds", "not-assessable", "unlikely", "cannot-hold")
+
+
+def fails(worst_verdict: str | None, fail_on: str | None) -> bool:
+    """Whether ``--fail-on fail_on`` fails for this worst verdict: the verdict is ``fail_on``
+    or worse in :data:`VERDICT_ORDER`.
+
+    Examples
+    --------
+    >>> fails("cannot-hold", "unlikely"), fails("unlikely", "cannot-hold"), fails(None, "unlikely")
+    (True, False, False)
+    """
+    if fail_on is None or worst_verdict not in VERDICT_ORDER:
+        return False
+    return VERDICT_ORDER.index(worst_verdict) >= VERDICT_ORDER.index(fail_on)
 _COUNT_COLUMNS = {"holds": "claims_holds", "unlikely": "claims_unlikely",
                   "cannot-hold": "claims_cannot_hold", "not-assessable": "claims_not_assessable"}
 

@@ -267,12 +267,15 @@ class Reading:
                                                    technology=self.technology, distance_m=d)
         return self._cache[key]
 
-    def hazards(self) -> Any:
-        from uvcheck.hazards import evaluate_hazards
+    def hazards(self, limit_set: str | None = None) -> Any:
+        """The hazard evaluation of this reading (the default limit set unless one is given)."""
+        from uvcheck.hazards import DEFAULT_LIMIT_SET, evaluate_hazards
 
-        if "h" not in self._cache:
-            self._cache["h"] = evaluate_hazards(self.spectrum, self.conditions)
-        return self._cache["h"]
+        key = ("h", limit_set or DEFAULT_LIMIT_SET)
+        if key not in self._cache:
+            self._cache[key] = evaluate_hazards(self.spectrum, self.conditions,
+                                                limit_set=key[1])
+        return self._cache[key]
 
     def hazards_at(self, distance_m: float) -> dict[str, Any]:
         """Hazard values and t_max at a distance of use (the hazard module's use evaluation)."""

@@ -254,11 +254,13 @@ def _check_fail_on(fail_on: str | None) -> None:
 
 def _exit_for(result: dict, fail_on: str | None) -> None:
     """Status 1 when a claim has the --fail-on verdict (or a worse one)."""
+    from uvcheck.batch import VERDICT_ORDER, fails
+
     if fail_on is None:
         return
-    order = {"holds": 0, "not-assessable": 1, "unlikely": 2, "cannot-hold": 3}
-    worst = max((order.get(c["verdict"], 0) for c in result.get("claims", [])), default=0)
-    if worst >= order[fail_on]:
+    worst = max((VERDICT_ORDER.index(c["verdict"]) for c in result.get("claims", [])
+                 if c.get("verdict") in VERDICT_ORDER), default=0)
+    if fails(VERDICT_ORDER[worst], fail_on):
         raise typer.Exit(1)
 
 

@@ -103,7 +103,7 @@ def batch_command(
     nominal: a listing without a spectrum, every figure an ESTIMATE).
     """
     from uvcheck.batch import BatchSettings, check_outputs, defaults_from_options, run_batch
-    from uvcheck.cli import FAIL_ON, _check_fail_on, uncertainty_given
+    from uvcheck.cli import _check_fail_on, uncertainty_given
 
     _check_fail_on(fail_on)
     check_outputs(out, force, resume)
@@ -135,10 +135,10 @@ def batch_command(
         typer.echo(f"{summary.products} product(s): {summary.products - summary.errors} ok, "
                    f"{summary.errors} error(s){kept}; {summary.csv_path} and "
                    f"{summary.jsonl_path}. Screening assessments, not certifications.")
-    if fail_on is not None and summary.worst_verdict is not None:
-        order = ("holds",) + FAIL_ON
-        if order.index(summary.worst_verdict) >= order.index(fail_on):
-            raise typer.Exit(1)
+    from uvcheck.batch import fails
+
+    if fails(summary.worst_verdict, fail_on):
+        raise typer.Exit(1)
 
 
 class _progress:

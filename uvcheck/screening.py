@@ -20,7 +20,7 @@ from uvcheck.spectrum import integrate
 SUMMARY_HAZARDS = ("actinic_uv", "near_uv", "blue_light")
 
 
-def _summary(readings: Any) -> list[dict[str, Any]]:
+def _summary(readings: Any, limit_set: str) -> list[dict[str, Any]]:
     """One row per reading and case: band irradiances at the reference distance and, for an
     absolute reading, the overall risk group and the t_max of :data:`SUMMARY_HAZARDS`
     (uvcheck.hazards on that reading; an ESTIMATE like every screening figure)."""
@@ -34,7 +34,7 @@ def _summary(readings: Any) -> list[dict[str, Any]]:
             row["uvc_W_m2"] = integrate(s, 200.0, 280.0).value
             row["uva_W_m2"] = integrate(s, 315.0, 400.0).value
             row["total_W_m2"] = integrate(s, *s.range_nm).value
-            hz = r.hazards().to_dict()
+            hz = r.hazards(limit_set).to_dict()
             rg = hz.get("risk_group") or {}
             row["risk_group"] = rg.get("group")
             row["risk_group_is_lower_bound"] = bool(rg.get("is_lower_bound"))
@@ -61,7 +61,7 @@ def screen_listing_file(listing: Any, limit_set: str = "iec62471_2006") -> Asses
                                         "sha256": listing.sha256, "origin": "nominal",
                                         "estimate": True})
     nominal = {"label": ESTIMATE_LABEL, "most_likely_reading": likely.label,
-               "estimates": [e.to_dict() for e in ests], "readings": _summary(readings)}
+               "estimates": [e.to_dict() for e in ests], "readings": _summary(readings, limit_set)}
     # no Monte Carlo: its inputs (calibration, wavelength scale, distance, stray light) describe
     # a measurement; the spread of an estimate is the range of its readings (min/typical/max)
     a = assess(spec, likely.conditions, None, AssessOptions(limit_set=limit_set,
