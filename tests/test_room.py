@@ -294,3 +294,21 @@ def test_cylinder_without_tube_length_warns(tmp_path):
     assert tube.to_dict()["warnings"] == []
     res = CliRunner().invoke(_app(), ["room", "--uvc-flux", "1 W", "--pattern", "cylinder"])
     assert res.exit_code == 0 and res.output.startswith("Warning: cylinder pattern without a tube length")
+
+
+@pytest.mark.parametrize("args, option", [
+    (["--reflectance", "150 %"], "--reflectance"),
+    (["--pattern", "cylinder", "--tube-length", "1 m", "--axis", "z"], "--axis"),
+    (["--eye-height", "3 m"], "--eye-height"),
+    (["--work-plane", "3 m"], "--work-plane"),
+    (["--size", "4 x 0 x 2.7 m"], "--size"),
+])
+def test_room_command_errors_name_their_option(args, option):
+    # the room command checks its room texts as 'note' does (cli_room.room_spec)
+    from typer.testing import CliRunner
+
+    from uvcheck.cli import app
+
+    r = CliRunner().invoke(app, ["room", "--uvc-flux", "2 W", *args])
+    assert r.exit_code == 2, r.output
+    assert f"error: {option}:" in r.output

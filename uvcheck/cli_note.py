@@ -114,77 +114,8 @@ def note_result(spectrum_file: Path | None, listing_file: Path | None, *, read_o
 UNCERTAINTY_KEYS = ("no_uncertainty", "calibration", "wavelength", "distance", "stray_light",
                     "decision_rule", "draws")
 
-#: Room keys (as ``uvcheck room`` names its options) and the ``note`` option each comes from.
-ROOM_OPTIONS = {"size": "--room", "lamp_at": "--lamp-at", "pattern": "--pattern",
-                "tube_length": "--tube-length", "axis": "--axis", "reflectance": "--reflectance",
-                "work_plane": "--work-plane", "eye_height": "--eye-height"}
-#: Defaults of the room options (those of ``uvcheck room``).
-ROOM_DEFAULTS = {"pattern": "isotropic", "axis": "x", "reflectance": "5 %",
-                 "work_plane": "0.75 m", "eye_height": "1.7 m"}
-
-
-def room_spec(room: dict[str, Any], where: dict[str, str] | None = None,
-              tube_from_listing_m: float | None = None) -> dict[str, Any]:
-    """The room, the lamp's geometry and the model's settings from the room texts, checked
-    (the lamp, and every part of a tube, inside the room) before anything is computed.
-
-    room : texts by key of :data:`ROOM_OPTIONS` (missing keys take :data:`ROOM_DEFAULTS`).
-    where : the place an error names, by key (default :data:`ROOM_OPTIONS`).
-    tube_from_listing_m : a listing's tube length: for a cylinder without ``tube_length``
-        the room's notes say how to use it (it is not used silently). [m]
-    Returns ``{"box", "geometry", "settings", "notes"}``.
-    """
-    from uvcheck.cli_room import PATTERN_NAMES, _placed, _triple
-    from uvcheck.errors import ConfigurationError
-    from uvcheck.room import Box, LampGeometry, _check_inside
-    from uvcheck.units import parse_quantity
-
-    at = {**ROOM_OPTIONS, **(where or {})}
-    r = {**ROOM_DEFAULTS, **{k: v for k, v in room.items() if v not in (None, "")}}
-    unknown = sorted(set(r) - set(ROOM_OPTIONS))
-    if unknown:
-        raise ConfigurationError(f"unknown room key {unknown[0]!r}", at["size"],
-                                 f"the keys are: {', '.join(ROOM_OPTIONS)}")
-
-    def length(key: str) -> float:
-        v = parse_quantity(str(r[key]), "length", at[key]).value_si
-        if not (v >= 0 and v == v and v != float("inf")):
-            raise ConfigurationError(f"{r[key]!r} must be a length of 0 or more", at[key])
-        return v
-
-    w, l, h = _triple(str(r["size"]), at["size"])
-    box = _placed(at["size"], Box, w, l, h)
-    pos = _triple(str(r["lamp_at"]), at["lamp_at"]) if r.get("lamp_at") else (
-        w / 2, l / 2, max(h - 0.3, h / 2))
-    pattern = str(r["pattern"])
-    if pattern not in PATTERN_NAMES:
-        raise ConfigurationError(f"unknown pattern {pattern!r}", at["pattern"],
-                                 "use isotropic, lambertian-down or cylinder")
-    axis = str(r["axis"])
-    if axis not in ("x", "y"):
-        raise ConfigurationError(f"unknown tube axis {axis!r}", at["axis"],
-                                 "use x (along the width) or y (along the length)")
-    notes = []
-    tl = length("tube_length") if r.get("tube_length") else 0.0
-    if not r.get("tube_length") and PATTERN_NAMES[pattern] == "cylinder" and tube_from_listing_m:
-        # said, not silently used: the tube's direction is not in the listing, and a tube
-        # that does not fit the room as placed would turn a warning into an error
-        notes.append(f"the listing states a tube length of {float(tube_from_listing_m):g} m; "
-                     f"give {at['tube_length']} (and {at['axis']} for its direction) to model "
-                     "the tube with it")
-    geom = _placed(at["lamp_at"], LampGeometry, pos, PATTERN_NAMES[pattern], tl, axis)
-    _placed(at["lamp_at"], _check_inside, box, geom)
-    rho = parse_quantity(str(r["reflectance"]), "fraction", at["reflectance"]).value_si
-    if not 0.0 <= rho < 1.0:
-        raise ConfigurationError(f"reflectance {r['reflectance']!r} must be from 0 to under "
-                                 "100 %", at["reflectance"])
-    settings = {"reflectance": rho, "work_plane_m": length("work_plane"),
-                "eye_height_m": length("eye_height")}
-    for key, v in (("work_plane", settings["work_plane_m"]), ("eye_height", settings["eye_height_m"])):
-        if not v <= h:
-            raise ConfigurationError(f"{r[key]!r} is above the ceiling ({h:g} m)", at[key])
-    return {"box": box, "geometry": geom, "settings": settings, "notes": notes,
-            "where": at}
+# the room texts, checked (room_spec lives beside the room command; the note uses it too)
+from uvcheck.cli_room import ROOM_DEFAULTS, ROOM_OPTIONS, room_spec  # noqa: E402
 
 
 def room_result(spec: Any, cond: Any, rs: dict[str, Any]) -> dict[str, Any]:

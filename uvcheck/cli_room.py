@@ -161,6 +161,79 @@ def _room_bounds(d: dict) -> list[str]:
     return lines
 
 
+#: Room keys (as ``uvcheck room`` names its options) and the ``note`` option each comes from
+#: (``uvcheck room`` names ``size`` ``--size``).
+ROOM_OPTIONS = {"size": "--room", "lamp_at": "--lamp-at", "pattern": "--pattern",
+                "tube_length": "--tube-length", "axis": "--axis", "reflectance": "--reflectance",
+                "work_plane": "--work-plane", "eye_height": "--eye-height"}
+#: Defaults of the room options (those of ``uvcheck room``).
+ROOM_DEFAULTS = {"pattern": "isotropic", "axis": "x", "reflectance": "5 %",
+                 "work_plane": "0.75 m", "eye_height": "1.7 m"}
+
+
+def room_spec(room: dict[str, Any], where: dict[str, str] | None = None,
+              tube_from_listing_m: float | None = None) -> dict[str, Any]:
+    """The room, the lamp's geometry and the model's settings from the room texts, checked
+    (the lamp, and every part of a tube, inside the room) before anything is computed.
+
+    room : texts by key of :data:`ROOM_OPTIONS` (missing keys take :data:`ROOM_DEFAULTS`).
+    where : the place an error names, by key (default :data:`ROOM_OPTIONS`).
+    tube_from_listing_m : a listing's tube length: for a cylinder without ``tube_length``
+        the room's notes say how to use it (it is not used silently). [m]
+    Returns ``{"box", "geometry", "settings", "notes"}``.
+    """
+    from uvcheck.errors import ConfigurationError
+    from uvcheck.room import Box, LampGeometry, _check_inside
+    from uvcheck.units import parse_quantity
+
+    at = {**ROOM_OPTIONS, **(where or {})}
+    r = {**ROOM_DEFAULTS, **{k: v for k, v in room.items() if v not in (None, "")}}
+    unknown = sorted(set(r) - set(ROOM_OPTIONS))
+    if unknown:
+        raise ConfigurationError(f"unknown room key {unknown[0]!r}", at["size"],
+                                 f"the keys are: {', '.join(ROOM_OPTIONS)}")
+
+    def length(key: str) -> float:
+        v = parse_quantity(str(r[key]), "length", at[key]).value_si
+        if not (v >= 0 and v == v and v != float("inf")):
+            raise ConfigurationError(f"{r[key]!r} must be a length of 0 or more", at[key])
+        return v
+
+    w, l, h = _triple(str(r["size"]), at["size"])
+    box = _placed(at["size"], Box, w, l, h)
+    pos = _triple(str(r["lamp_at"]), at["lamp_at"]) if r.get("lamp_at") else (
+        w / 2, l / 2, max(h - 0.3, h / 2))
+    pattern = str(r["pattern"])
+    if pattern not in PATTERN_NAMES:
+        raise ConfigurationError(f"unknown pattern {pattern!r}", at["pattern"],
+                                 "use isotropic, lambertian-down or cylinder")
+    axis = str(r["axis"])
+    if axis not in ("x", "y"):
+        raise ConfigurationError(f"unknown tube axis {axis!r}", at["axis"],
+                                 "use x (along the width) or y (along the length)")
+    notes = []
+    tl = length("tube_length") if r.get("tube_length") else 0.0
+    if not r.get("tube_length") and PATTERN_NAMES[pattern] == "cylinder" and tube_from_listing_m:
+        # said, not silently used: the tube's direction is not in the listing, and a tube
+        # that does not fit the room as placed would turn a warning into an error
+        notes.append(f"the listing states a tube length of {float(tube_from_listing_m):g} m; "
+                     f"give {at['tube_length']} (and {at['axis']} for its direction) to model "
+                     "the tube with it")
+    geom = _placed(at["lamp_at"], LampGeometry, pos, PATTERN_NAMES[pattern], tl, axis)
+    _placed(at["lamp_at"], _check_inside, box, geom)
+    rho = parse_quantity(str(r["reflectance"]), "fraction", at["reflectance"]).value_si
+    if not 0.0 <= rho < 1.0:
+        raise ConfigurationError(f"reflectance {r['reflectance']!r} must be from 0 to under "
+                                 "100 %", at["reflectance"])
+    settings = {"reflectance": rho, "work_plane_m": length("work_plane"),
+                "eye_height_m": length("eye_height")}
+    for key, v in (("work_plane", settings["work_plane_m"]), ("eye_height", settings["eye_height_m"])):
+        if not v <= h:
+            raise ConfigurationError(f"{r[key]!r} is above the ceiling ({h:g} m)", at[key])
+    return {"box": box, "geometry": geom, "settings": settings, "notes": notes,
+            "where": at}
+
+
 def room_command(
     spectrum_file: Annotated[Optional[Path], typer.Argument(
         help="Spectrum export of the lamp (irradiance at --distance, or a spectral flux).")] = None,
@@ -198,7 +271,7 @@ def room_command(
     well-mixed air) and the occupant's exposure against the 8-h limit. A screening
     assessment, not a certification."""
     from uvcheck.errors import ConfigurationError, OutputExistsError
-    from uvcheck.room import Box, LampGeometry, evaluate_room, lamp_from_spectrum, lamp_from_uvc_flux
+    from uvcheck.room import evaluate_room, lamp_from_spectrum, lamp_from_uvc_flux
     from uvcheck.units import parse_quantity
 
     if (spectrum_file is None) == (uvc_flux is None):
@@ -208,15 +281,11 @@ def room_command(
     if json_out and json_out != "-" and Path(json_out).exists() and not force:
         raise OutputExistsError("the output file exists", json_out,
                                 "give --force to replace it, or choose another name")
-    w, l, h = _triple(size, "--size")
-    room = _placed("--size", Box, w, l, h)
-    pos = _triple(lamp_at, "--lamp-at") if lamp_at else (w / 2, l / 2, max(h - 0.3, h / 2))
-    if pattern not in PATTERN_NAMES:
-        raise ConfigurationError(f"unknown pattern {pattern!r}", "--pattern",
-                                 "use isotropic, lambertian-down or cylinder")
-    tl = _length(tube_length, "--tube-length") if tube_length else 0.0
-    geom = _placed("--lamp-at", LampGeometry, pos, PATTERN_NAMES[pattern], tl, axis)
-    rho = parse_quantity(reflectance, "fraction", "--reflectance").value_si
+    rs = room_spec({"size": size, "lamp_at": lamp_at, "pattern": pattern,
+                    "tube_length": tube_length, "axis": axis, "reflectance": reflectance,
+                    "work_plane": work_plane, "eye_height": eye_height},
+                   where={"size": "--size"})
+    room, geom = rs["box"], rs["geometry"]
     if uvc_flux is not None:
         flux = parse_quantity(uvc_flux, "power", "--uvc-flux").value_si
         wl_nm = parse_quantity(wavelength, "length", "--wavelength", default_unit="nm").value_si * 1e9
@@ -228,9 +297,7 @@ def room_command(
         d0 = _length(distance, "--distance") if distance else report.measurement_distance_m
         lamp = _placed("--distance", lamp_from_spectrum, spec, geom, d0)
     dose = parse_quantity(target_dose, "dose", "--target-dose").value_si if target_dose else None
-    result = _placed("--lamp-at", evaluate_room, room, lamp, reflectance=rho,
-                     work_plane_m=_length(work_plane, "--work-plane"),
-                     eye_height_m=_length(eye_height, "--eye-height"),
+    result = _placed("--lamp-at", evaluate_room, room, lamp, **rs["settings"],
                      target_dose_J_m2=dose, organisms=organism or None)
     d = result.to_dict()
     if json_out:
