@@ -222,7 +222,8 @@ def test_screen_terminal_shows_the_nominal_cases_and_no_measured_status():
     rows = {ln.split()[0]: ln for ln in nom.splitlines() if ln.startswith("  as-stated")
             or ln.startswith("  electrical-evidence")}
     assert set(rows) == {"as-stated", "electrical-evidence"}
-    # electrical evidence: 8 W × the violet-LED efficiency 30 / 45 / 65 % (data/technologies.toml)
+    # electrical evidence: 8 W × the violet-LED efficiency 30 / 45 / 65 % (data/technologies.toml,
+    # where these figures are marked from memory)
     assert "2.4 / 3.6 / 5.2" in rows["electrical-evidence"]
     assert "refuted" in nom and "electrical-evidence/typical" in nom
     bands = out.split("Emission by band")[1].split("(UV-C is integrated")[0]

@@ -118,6 +118,8 @@ def test_partial_band_below_detection_stays_partial():
     assert ira["status"] == "partial" and ira["is_lower_bound"]
     assert ira["below_detection"] and ira["value"] is None and ira["detection_limit"] > 0
     row = next(r for r in render_assessment(d).splitlines() if r.strip().startswith("IR-A"))
+    # 3.23 % = 20 nm / 620 nm: 780-800 nm measured of IR-A 780-1400 nm (the CIE IR-A band,
+    # as bands.py states it)
     assert "so far" in row and "partly measured" in row and "3.23 %" in row
     assert "below detection limit" not in row
     note_row = next(r for r in band_rows(d) if r["band"] == "IR-A")

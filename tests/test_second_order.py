@@ -1,6 +1,8 @@
 """A peak at twice the wavelength of a stronger line is flagged as a possible second-order
 diffraction artefact (a grating spectrometer without an order-sorting filter shows 253.7 nm
-again near 507.4 nm; the doubling is the grating equation, m·λ = const). Invented spectra."""
+again near 507.4 nm; the doubling is the grating equation, m·λ = const). 253.7 nm is the
+mercury resonance line in air (NIST Atomic Spectra Database, Hg I 253.65 nm; the value used
+across data/emitters/emission_lines.csv). Invented spectra."""
 
 from __future__ import annotations
 

@@ -75,10 +75,10 @@ FEATURE_SNR = 5.0               # 5 σ: the threshold features.find_lines uses f
 LINE_TOLERANCE_NM = 2.0         # wavelength calibration of compact spectrometers ±1-2 nm (from memory)
 MIN_SIGNIFICANT_SHARE = 0.01    # ozone band "present": above 1 % of the UV-C (or of the total)
 CROSS_WAVELENGTH_NM = 10.0      # organism data this far from the lamp's UV-C peak are flagged
-STRAY_SOURCE_MIN_RATIO = 100.0  # stray light needs a source to scatter: a UV-C feature is read as
-                                # stray light only when the output outside UV-C is at least 100×
-                                # the apparent UV-C (ours: the reciprocal of PEDESTAL_MAX_RELATIVE,
-                                # the upper end of typical stray-light levels; from memory)
+# stray light needs a source to scatter: a UV-C feature is read as stray light only when the
+# output outside UV-C is at least this many times the apparent UV-C (ours: the reciprocal of
+# PEDESTAL_MAX_RELATIVE, the upper end of typical stray-light levels; from memory)
+STRAY_SOURCE_MIN_RATIO = 1.0 / PEDESTAL_MAX_RELATIVE
 
 SCREENING_NOTE = ("Screening assessment, not a certification: it does not establish efficacy "
                   "against a specific pathogen on a specific surface, and exposure figures "
@@ -931,6 +931,14 @@ def _seen(spec: Spectrum) -> str:
     return "estimated" if meta.get("estimate") or meta.get("origin") == "nominal" else "measured"
 
 
+def _not_ruled_out(above: str, lo: float) -> tuple[str, str]:
+    """Nothing above ``above`` in the measured part of UV-C, whose start ``lo`` lies inside
+    the band: the status and statement (the part not measured is never read as zero)."""
+    a, b = UVC_BAND_NM
+    return "not-assessed", (f"No UV-C above {above} in the measured {max(lo, a):g}–{b:g} nm; "
+                            f"{a:g}–{lo:g} nm was not measured, so UV-C cannot be ruled out.")
+
+
 def _status(spec: Spectrum, uvc: Reading, far: Reading, artefacts: tuple[Artefact, ...],
             position: Position, effective: tuple[EffectiveReading, ...],
             vb: EffectiveReading) -> tuple[str, str]:
@@ -947,9 +955,7 @@ def _status(spec: Spectrum, uvc: Reading, far: Reading, artefacts: tuple[Artefac
     if artefacts and uvc.coverage < 1.0 and all(a.kind == "noise-floor" for a in artefacts):
         # nothing above the noise in the measured part: that says nothing of the part not
         # measured, so UV-C is not ruled out (missing range is never read as zero)
-        return "not-assessed", (f"No UV-C above the noise in the measured "
-                                f"{max(lo, 200):g}–280 nm; {200:g}–{lo:g} nm was not measured, "
-                                "so UV-C cannot be ruled out.")
+        return _not_ruled_out("the noise", lo)
     if artefacts:
         reason = "; ".join(a.detail for a in artefacts)
         return "no-uvc", (f"No germicidal UV-C: the apparent UV-C ({_fmt(uvc.upper_bound, uvc.unit)}"
@@ -957,9 +963,7 @@ def _status(spec: Spectrum, uvc: Reading, far: Reading, artefacts: tuple[Artefac
                           f"({reason}).")
     if uvc.status == "below-detection":
         if uvc.coverage < 1.0:
-            return "not-assessed", (f"No UV-C above the detection limit in the measured "
-                                    f"{max(lo, 200):g}–280 nm; {200:g}–{lo:g} nm was not measured, "
-                                    "so UV-C cannot be ruled out.")
+            return _not_ruled_out("the detection limit", lo)
         return "no-uvc", (f"No germicidal UV-C: UV-C is below the detection limit "
                           f"(< {_fmt(uvc.detection_limit, uvc.unit)}{where}).")
     frac = uvc.fraction or 0.0

@@ -312,14 +312,10 @@ class Organism:
     def _remembered(self, what: str, n_log: float, compute: Callable[[float], Any]) -> Any:
         """``compute(n)`` remembered per row (the row is immutable and its answers depend on
         the table alone; estimates ask for the same few reductions for every lamp)."""
-        memo = self.__dict__.get("_memo")
-        if memo is None:
-            memo = {}
-            object.__setattr__(self, "_memo", memo)
-        key = (what, float(n_log))
-        if key not in memo:
-            memo[key] = compute(n_log)
-        return memo[key]
+        from uvcheck.spectrum import remembered
+
+        n = float(n_log)
+        return remembered(self, (what, n), lambda: compute(n))
 
     def dose_for_log(self, n_log: float) -> float | None:
         """Dose for an n-log reduction. [J m⁻²]

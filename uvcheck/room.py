@@ -57,8 +57,9 @@ from uvcheck.errors import ConfigurationError
 from uvcheck.geometry import irradiance_per_watt
 from uvcheck.germicidal import (SCREENING_NOTE, UVC_EMITTING, GermicidalResult,
                                 evaluate_germicidal)
-from uvcheck.inactivation import (GENERIC_NOTE, Organism, each_per_h, get_organism,
-                                  mixed_air_time, most_susceptible, select)
+from uvcheck.inactivation import (GENERIC_NOTE, STANDARD_PERCENTS, Organism, each_per_h,
+                                  get_organism, log_for_percent, mixed_air_time,
+                                  most_susceptible, select)
 from uvcheck.spectrum import Spectrum, integrate, scaled
 from uvcheck.weighting import get_weighting
 
@@ -606,8 +607,8 @@ class RoomResult:
         }
 
 
-_TIME_KEYS = ((90.0, 1.0, "time_to_90_s"), (99.0, 2.0, "time_to_99_s"),
-              (99.9, 3.0, "time_to_99_9_s"))
+_TIME_KEYS = tuple((round(log_for_percent(p), 12), f"time_to_{p:g}_s".replace(".", "_"))
+                   for p in STANDARD_PERCENTS)   # (n-log, key): 90 % -> 1 log, "time_to_90_s"
 
 
 def _air_entry(o: Organism, e_eq: float | None, upper_bound: bool = False) -> dict:
@@ -622,7 +623,7 @@ def _air_entry(o: Organism, e_eq: float | None, upper_bound: bool = False) -> di
          "each_per_h": None if upper_bound else ach,
          "each_is_lower_bound": o.dose_bound == "at_most", "reliability": o.reliability,
          "source": o.citation, "from_memory": o.from_memory}
-    for p, n, key in _TIME_KEYS:
+    for n, key in _TIME_KEYS:
         t = mixed_air_time(n, k, e_eq) if (k and e_eq) else None
         d[key] = None if upper_bound else t
         if upper_bound:

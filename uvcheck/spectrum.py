@@ -459,10 +459,11 @@ def scaled(spectrum: Spectrum, factor: float, quantity: str | None = None,
     )
 
 
-def remembered(spectrum: Spectrum, key: tuple, compute: Callable[[], Any]) -> Any:
+def remembered(spectrum: Any, key: tuple, compute: Callable[[], Any]) -> Any:
     """``compute()`` once per spectrum and key: a spectrum is immutable, so a pure function
     of it (a cut, its peak, its lines) gives the same answer every time it is asked, and the
-    evaluators ask some of the same questions. Give only immutable results (or copy them)."""
+    evaluators ask some of the same questions. Give only immutable results (or copy them).
+    Works for any frozen dataclass instance (e.g. an organism row)."""
     memo = spectrum.__dict__.get("_memo")
     if memo is None:
         memo = {}
