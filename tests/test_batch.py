@@ -15,6 +15,7 @@ import io
 import json
 import math
 import threading
+from dataclasses import replace
 from pathlib import Path
 from unittest import mock
 
@@ -300,6 +301,21 @@ def test_resume_redoes_a_row_whose_files_changed(tmp_path):
         encoding="utf-8"), encoding="utf-8")
     s = B.run_batch(d, out, settings(), jobs=1, resume=True)
     assert s.kept == 0 and read_rows(out)[0]["listing_file"] == "a.toml"
+
+
+def test_resume_redoes_a_row_whose_contents_or_settings_changed(tmp_path):
+    d = tmp_path / "in"
+    d.mkdir()
+    blue_led(d / "a.csv", seed=1)
+    blue_led(d / "b.csv", seed=2)
+    out = tmp_path / "s.csv"
+    B.run_batch(d, out, settings(), jobs=1)
+    assert B.run_batch(d, out, settings(), jobs=1, resume=True).kept == 2   # nothing changed
+    blue_led(d / "a.csv", seed=7)            # same name, new measurement
+    s = B.run_batch(d, out, settings(), jobs=1, resume=True)
+    assert s.kept == 1
+    other = replace(settings(), limits="icnirp_2013")   # another limit set: every row again
+    assert B.run_batch(d, out, other, jobs=1, resume=True).kept == 0
 
 
 def test_resume_refuses_a_file_that_is_not_a_summary(tmp_path):

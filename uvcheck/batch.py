@@ -37,8 +37,10 @@ arrive: the output does not depend on the number of processes, and memory does n
 with the number of products. A product that cannot be assessed gets an error row (what is
 wrong, where, what to do) and the batch goes on. Rows are written to ``<summary>.part`` and
 ``<jsonl>.part`` as they come and renamed over the targets at the end; ``resume`` keeps the
-rows with status ``ok`` of an earlier run (finished or interrupted) whose product id and
-files are unchanged, and assesses the others again.
+rows with status ``ok`` of an earlier run (finished or interrupted) whose product id, file
+names and inputs are unchanged (``inputs_sha256``: the files' bytes, the product's options,
+the limit set and uncertainty settings, the tool version; :func:`inputs_fingerprint`), and
+assesses the others again.
 
 A screening assessment, not a certification: each row is what the tool's screening of that
 product found; exposure decisions defer to local codes and licensed practice.
@@ -73,7 +75,7 @@ SUMMARY_COLUMNS = (
     "use_distance_m", "risk_group_at_use",
     "claims_holds", "claims_unlikely", "claims_cannot_hold", "claims_not_assessable",
     "worst_claim_id", "worst_claim_verdict", "worst_claim_ratio",
-    "note_path", "origin",
+    "note_path", "origin", "inputs_sha256",
 )
 
 #: Manifest columns: ``spectrum`` and/or ``listing`` name the files; ``id`` the product (default:
@@ -424,8 +426,37 @@ def worst_claim(claims: Sequence[Mapping[str, Any]]) -> Mapping[str, Any] | None
     return best
 
 
+def inputs_fingerprint(product: Product, settings: BatchSettings) -> str:
+    """SHA-256 of what a product's row depends on: the bytes of its files, its options and
+    the batch settings that change figures (limit set, uncertainty inputs), and the tool
+    version. ``--resume`` keeps a row only when this is unchanged."""
+    import hashlib
+
+    from uvcheck import __version__
+
+    def file_hash(p: Path | None) -> str | None:
+        if p is None:
+            return None
+        try:
+            return hashlib.sha256(Path(p).read_bytes()).hexdigest()
+        except OSError:
+            return "unreadable"
+
+    what = {"spectrum": file_hash(product.spectrum), "listing": file_hash(product.listing),
+            "options": {**settings.defaults, **product.options}, "limits": settings.limits,
+            "uncertainty": settings.uncertainty,
+            "uncertainty_options": dict(settings.uncertainty_options), "version": __version__}
+    return hashlib.sha256(json.dumps(what, sort_keys=True, default=str).encode()).hexdigest()
+
+
 def run_product(product: Product, settings: BatchSettings) -> dict[str, Any]:
     """Assess one product and return its summary row; any failure becomes an error row."""
+    row = _run_product(product, settings)
+    row["inputs_sha256"] = inputs_fingerprint(product, settings)
+    return row
+
+
+def _run_product(product: Product, settings: BatchSettings) -> dict[str, Any]:
     try:
         result, spec = assess_product(product, settings)
         note = None
@@ -567,7 +598,7 @@ class _Previous:
     csv: dict[str, list[str]] = field(default_factory=dict)
     jsonl: dict[str, str] = field(default_factory=dict)
 
-    def keep(self, p: Product) -> tuple[list[str], str] | None:
+    def keep(self, p: Product, settings: BatchSettings) -> tuple[list[str], str] | None:
         cells = self.csv.get(p.product_id)
         line = self.jsonl.get(p.product_id)
         if cells is None or line is None:
@@ -576,6 +607,8 @@ class _Previous:
         if (d.get("status") != "ok" or d.get("spectrum_file", "") != p.spectrum_label
                 or d.get("listing_file", "") != p.listing_label):
             return None
+        if d.get("inputs_sha256") != inputs_fingerprint(p, settings):
+            return None  # a file, an option, a setting or the tool changed since
         if p.note is not None and not d.get("note_path"):
             return None  # notes are asked for now, and that row has none
         return cells, line
@@ -687,7 +720,7 @@ def run_batch(source: Path, out_csv: Path, settings: BatchSettings, *, jobs: int
         products = assign_notes(products, notes)
         settings = replace(settings, force_notes=settings.force_notes or force or resume)
     prev = read_previous(out_csv) if resume else _Previous()
-    kept = {p.product_id: prev.keep(p) for p in products}
+    kept = {p.product_id: prev.keep(p, settings) for p in products}
     todo = [p for p in products if kept[p.product_id] is None]
     workers = min(jobs or default_jobs(), max(1, len(todo)))
     size = max(1, min(32, len(todo) // (workers * 8) or 1))

@@ -100,7 +100,9 @@ def batch_command(
     (the group at the distance of use), claims_holds, claims_unlikely,
     claims_cannot_hold, claims_not_assessable, worst_claim_id,
     worst_claim_verdict, worst_claim_ratio, note_path, origin (measured, or
-    nominal: a listing without a spectrum, every figure an ESTIMATE).
+    nominal: a listing without a spectrum, every figure an ESTIMATE),
+    inputs_sha256 (files, options and settings: --resume keeps a row only when
+    it is unchanged).
     """
     from uvcheck.batch import BatchSettings, check_outputs, defaults_from_options, run_batch
     from uvcheck.cli import _check_fail_on, uncertainty_given
@@ -120,13 +122,9 @@ def batch_command(
         limits=limits, uncertainty=uncertainty,
         uncertainty_options={k: v for k, v in unc.items() if v is not None}, pdf=not no_pdf)
     settings.assess_options()   # a wrong text (or one with --no-uncertainty) fails before any work
-    from uvcheck.limits import available_limit_sets
+    from uvcheck.limits import get_limit_set
 
-    if limits not in available_limit_sets():
-        from uvcheck.errors import ConfigurationError
-
-        raise ConfigurationError(f"unknown limit set {limits!r}",
-                                 todo=f"use one of: {', '.join(available_limit_sets())}")
+    get_limit_set(limits)   # an unknown limit set fails before any work, listing the sets
     with _progress(quiet) as progress:
         summary = run_batch(source, out, settings, jobs=jobs, resume=resume, force=force,
                             notes=notes, progress=progress)
