@@ -39,7 +39,7 @@ from dataclasses import dataclass, field, replace
 from functools import cached_property
 from typing import Any, Iterable, Sequence
 
-from uvcheck.conditions import Conditions
+from uvcheck.conditions import WORKDAY_S, Conditions
 from uvcheck.errors import ConfigurationError
 from uvcheck.germicidal import UVC_EMITTING
 from uvcheck.spectrum import Spectrum, integrate
@@ -56,7 +56,6 @@ DEFAULT_ROOM_HEIGHT_M = 2.5
 #: Benchmark for a coverage claim with no inactivation claim to go with it: 90 % (1 log) of
 #: the most susceptible relevant organism within 1 h (uvcheck's default, not a standard).
 COVERAGE_BENCHMARK = (90.0, 3600.0)
-WORKDAY_S = 8 * 3600.0
 #: Wavelength tolerance for a stated peak: max(this, half the measured FWHM). [nm]
 PEAK_TOLERANCE_NM = 3.0
 #: The ``unlikely`` zone for a stated peak, beyond the tolerance. [nm]

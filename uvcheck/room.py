@@ -53,6 +53,7 @@ from typing import Any, Iterable, Sequence
 
 import numpy as np
 
+from uvcheck.conditions import WORKDAY_S
 from uvcheck.errors import ConfigurationError
 from uvcheck.geometry import irradiance_per_watt
 from uvcheck.germicidal import (SCREENING_NOTE, UVC_EMITTING, GermicidalResult,
@@ -73,7 +74,6 @@ MAX_GRID_NODES = 201                # per side
 DEFAULT_ORDER = 24                  # Gauss-Legendre points per mapped quadrant side
 DEFAULT_SEGMENTS = 16               # Gauss-Legendre points along a tube
 ACTINIC_LIMIT_J_M2 = 30.0           # IEC 62471:2006 clause 4.3.1: E_S·t ≤ 30 J m⁻² in 8 h
-WORKDAY_S = 8 * 3600.0
 
 
 # ---------------------------------------------------------------------------------------------

@@ -23,6 +23,8 @@ from dataclasses import dataclass
 from typing import Any, Callable, Mapping
 
 from uvcheck.germicidal import UVC_EMITTING
+from uvcheck.conditions import WORKDAY_S
+from uvcheck.limits import GROUPS
 
 Result = Mapping[str, Any]
 
@@ -41,9 +43,7 @@ LOCAL_CODES = ("Local codes, regulations and the advice of licensed professional
 
 #: Hazard ids on the UV side of IEC 62471 (actinic, UV-A to the eye).
 _UV_HAZARDS = ("actinic_uv", "near_uv")
-_GROUP_RANK = {"Exempt": 0, "RG1": 1, "RG2": 2, "RG3": 3}
-#: Eight hours: the daily exposure the limits are written for (IEC 62471:2006 clause 4.3). [s]
-_WORKDAY_S = 8 * 3600.0
+_GROUP_RANK = {g: k for k, g in enumerate(GROUPS)}
 
 
 # ---------------------------------------------------------------------------------------------
@@ -132,7 +132,7 @@ def uv_hazard_present(d: Result) -> bool:
     """A UV hazard above Exempt, or an actinic time limit under 8 h."""
     t = actinic_time_s(d)
     rank = uv_group_rank(d)
-    return (rank is not None and rank >= 1) or (t is not None and t < _WORKDAY_S)
+    return (rank is not None and rank >= 1) or (t is not None and t < WORKDAY_S)
 
 
 def far_uvc_lamp(d: Result, listing: Mapping[str, Any] | None = None) -> bool:

@@ -18,6 +18,8 @@ import os
 from typing import Any, Iterable, Mapping
 
 from uvcheck.germicidal import UVC_EMITTING
+from uvcheck.limits import GROUPS
+from uvcheck.report.terminal import STATUS_TEXT
 from uvcheck.report.cautions import DOES_NOT_COVER, LOCAL_CODES, applicable
 from uvcheck.units import format_duration, sig, to_trade
 
@@ -269,9 +271,7 @@ def claims_summary(rows: list[dict[str, Any]] | None) -> str | None:
 # ---------------------------------------------------------------------------------------------
 
 BAND_NAMES = {"below-200nm": "below 200 nm (vacuum UV)"}
-BAND_STATUS_TEXT = {"complete": "measured", "partial": "partly measured (lower bound)",
-                    "not-covered": "not measured", "below-detection": "below detection limit",
-                    "not-assessable": "not assessable"}
+BAND_STATUS_TEXT = STATUS_TEXT   # the terminal's words for a status, one table
 
 
 def band_rows(result: Result) -> list[dict[str, Any]] | None:
@@ -488,7 +488,7 @@ def open_hazards_text(result: Result, section: Mapping[str, Any] | None = None) 
     return (f"{g} for the hazards that could be assessed; it could be higher: " if g else "") + "; ".join(bits)
 
 
-_RANK = {"Exempt": 0, "RG1": 1, "RG2": 2, "RG3": 3}
+_RANK = {g: k for k, g in enumerate(GROUPS)}
 
 
 def is_estimate(result: Result) -> bool:
