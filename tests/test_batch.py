@@ -346,6 +346,35 @@ def test_ordered_map_keeps_order_and_bounds_work_in_flight():
     assert [r[0] for r in it] == [k * k for k in range(1, 40)]
 
 
+def test_ordered_map_joins_its_workers_when_the_last_result_is_taken():
+    # run_batch takes exactly one result per chunk and never asks for more: the workers must
+    # be gone by then, not left to the interpreter's exit (where Python 3.11's exit hook
+    # races with the pool's shutdown and can print "OSError: Bad file descriptor")
+    import multiprocessing as mp
+
+    it = B.ordered_map(_square, ([k] for k in range(6)), workers=2, window=2)
+    got = [next(it) for _ in range(6)]
+    assert got == [[k * k] for k in range(6)]
+    assert mp.active_children() == []
+
+
+def test_batch_command_exits_without_noise_on_stderr(tmp_path):
+    # the exit-time race above showed as a traceback on stderr in about one run in three
+    import subprocess
+    import sys
+
+    d = tmp_path / "in"
+    d.mkdir()
+    for k in range(4):
+        blue_led(d / f"l{k}.csv")
+    for k in range(3):
+        r = subprocess.run([sys.executable, "-m", "uvcheck", "batch", str(d), "--out",
+                            str(tmp_path / "s.csv"), "--force", "--quiet", "--jobs", "2"],
+                           capture_output=True, text=True, timeout=120)
+        assert r.returncode == 0, r.stderr
+        assert r.stderr == ""
+
+
 def _square(job):
     return [job[0] * job[0]]
 
@@ -710,3 +739,75 @@ def test_batch_fail_on_is_a_threshold_as_in_screen(tmp_path, fail_on, status):
 def test_fail_on_threshold_order():
     assert B.fails("cannot-hold", "not-assessable") and B.fails("unlikely", "unlikely")
     assert not B.fails("unlikely", "cannot-hold") and not B.fails("holds", "not-assessable")
+
+
+def _summary_cases(tmp_path: Path) -> list[tuple[B.Product, B.BatchSettings]]:
+    """Products of every kind a batch meets: the bundled examples (invented) with and without
+    their listings, at several distances, a listing alone, and generated lamps (invented)."""
+    sp, ls = EXAMPLES / "spectra", EXAMPLES / "listings"
+    pairs = [("faruv_222nm_unit.csv", "faruv_222nm_ceiling_unit.toml"),
+             ("mercury_tube_254nm.txt", "mercury_tube_sold_pet_safe.toml"),
+             ("wand_395nm_led.csv", "wand_395nm_sold_as_uvc.toml")]
+    opts = [{}, {"distance": "0.2 m", "use_distance": "5 cm"},
+            {"distance": "1 m", "source_size": "2 cm", "exposure_time": "30 min"}]
+    cases = []
+    for s, lst in pairs:
+        for listing in (None, ls / lst):
+            for o in opts:
+                cases.append((B.Product(s, sp / s, listing, options=o), settings()))
+        cases.append((B.Product(lst, None, ls / lst), settings()))
+    rng = np.random.default_rng(5)
+    wl = np.linspace(200.0, 1100.0, 900)
+    for k in range(12):
+        v = np.full(wl.size, 2e-6) + rng.normal(0, 1e-6, wl.size)
+        for _ in range(int(rng.integers(1, 4))):
+            v += 10 ** rng.uniform(-4, -1) * np.exp(
+                -0.5 * ((wl - rng.uniform(220, 900)) / rng.uniform(0.5, 40)) ** 2)
+        f = write_spectrum(tmp_path / f"g{k}.csv", wl, v)
+        cases.append((B.Product(f.stem, f, None, options=opts[k % 3]), settings()))
+    return cases
+
+
+def test_summary_parts_give_the_row_that_to_dict_gives(tmp_path):
+    # the batch row is read from Assessment.summary_parts() (no organism tables); it must be
+    # the row that the whole to_dict() -- what `assess --json` writes -- gives
+    from uvcheck.report.jsonout import clean
+
+    for product, s in _summary_cases(tmp_path):
+        a = B.assess_product(product, s)
+        fast = B.summary_row(product, a.summary_parts())
+        full = B.summary_row(product, clean(a.to_dict()))
+        assert fast == full, product.product_id
+        assert fast["status"] == "ok"
+
+
+def test_organism_tables_are_computed_on_first_use_only(tmp_path):
+    # a batch row needs no doses or times: they wait until asked for, and are then the same
+    # as those of a fresh evaluation (same estimates, same most-susceptible rows)
+    from uvcheck.germicidal import evaluate_germicidal
+
+    product = B.Product("hg", EXAMPLES / "spectra" / "mercury_tube_254nm.txt", None,
+                        options={"distance": "1 m"})
+    a = B.assess_product(product, settings())
+    g = a.sections["germicidal"]
+    B.summary_row(product, a.summary_parts())
+    assert "_organism_results" not in g.__dict__
+    assert g.status == "germicidal-uvc" and len(g.inactivation) > 10
+    assert "_organism_results" in g.__dict__
+    again = evaluate_germicidal(a.spectrum, a.conditions)
+    assert [e.to_dict() for e in g.inactivation] == [e.to_dict() for e in again.inactivation]
+    assert {p: {m: (e.to_dict() if e else None) for m, e in v.items()}
+            for p, v in g.most_susceptible.items()} == \
+        {p: {m: (e.to_dict() if e else None) for m, e in v.items()}
+         for p, v in again.most_susceptible.items()}
+
+
+def test_the_fingerprint_from_the_readers_hash_equals_hashing_the_file(tmp_path):
+    # run_product passes the reader's SHA-256 of the bytes it read instead of reading the file
+    # a second time; --resume compares fingerprints, so both must agree
+    f = blue_led(tmp_path / "b.csv")
+    p = B.Product("b", f, EXAMPLES / "listings" / "wand_395nm_sold_as_uvc.toml")
+    a = B.assess_product(p, settings())
+    assert B.inputs_fingerprint(p, settings(), a.input["sha256"]) == \
+        B.inputs_fingerprint(p, settings())
+    assert B.run_product(p, settings())["inputs_sha256"] == B.inputs_fingerprint(p, settings())

@@ -100,6 +100,35 @@ class Assessment:
             apply_rule_to_risk_group(d["risk_group"], None)   # the same keys, None
         return d
 
+    def summary_parts(self) -> dict[str, Any]:
+        """The parts of :meth:`to_dict` that a batch summary row reads (``input.origin``,
+        ``spectral.peak_nm``, ``germicidal.uvc``, ``conditions``, ``risk_group``,
+        ``use_distance``, ``claims``, ``claims_summary``), from the same ``to_dict`` methods,
+        without the rest: no organism tables (:class:`uvcheck.germicidal.OrganismPlan`
+        evaluates those on first use), lines or photometry. With an uncertainty section (which
+        can move the risk group under the guarded rule) it is the whole :meth:`to_dict`.
+        tests/test_batch_speed.py checks that a summary row from these parts equals the row
+        from :meth:`to_dict`."""
+        if "uncertainty" in self.sections:
+            return self.to_dict()
+        d: dict[str, Any] = {"input": {"origin": self.input.get("origin")},
+                             "spectral": self.peak.to_dict(),
+                             "conditions": self.conditions.to_dict()}
+        g = self.sections.get("germicidal")
+        if g is not None:
+            d["germicidal"] = {"uvc": g.uvc.to_dict()}
+        for k in ("hazards", "claims"):
+            v = self.sections.get(k)
+            if v is not None:
+                part = v.to_dict() if hasattr(v, "to_dict") else dict(v)
+                part.pop("notes", None)
+                d.update(part)
+        if d.get("risk_group") is not None:
+            from uvcheck.uncertainty import apply_rule_to_risk_group
+
+            apply_rule_to_risk_group(d["risk_group"], None)
+        return d
+
 
 def position_statement(c: Conditions, origin: str = "measured") -> str:
     if origin == "nominal":

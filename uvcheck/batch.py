@@ -8,8 +8,10 @@ it (``summary.csv`` -> ``summary.jsonl``).
 How a product is assessed: exactly as ``uvcheck assess SPECTRUM --claims LISTING`` does
 (:func:`assess_product`: the same reader, scaling, conditions and :func:`uvcheck.assessment.assess`
 calls), or, for a listing without a spectrum, as ``uvcheck screen LISTING`` does. The summary
-row is read from ``Assessment.to_dict()`` made strict JSON (:func:`uvcheck.report.jsonout.clean`),
-so its numbers are the numbers ``assess --json`` writes (:func:`summary_row`). The Monte Carlo
+row is read from the parts of ``Assessment.to_dict()`` it needs (``Assessment.summary_parts()``;
+the organism tables are not computed for it), made strict JSON
+(:func:`uvcheck.report.jsonout.clean`), so its numbers are the numbers ``assess --json``
+writes (:func:`summary_row`). The Monte Carlo
 uncertainty evaluation is off unless asked for (``BatchSettings.uncertainty``, with the inputs
 and decision rule of ``BatchSettings.uncertainty_options``; the command turns it on for
 notes); a listing screening runs as ``uvcheck screen`` runs it.
@@ -311,11 +313,12 @@ class BatchSettings:
                                  if v is not None})
 
 
-def assess_product(product: Product, settings: BatchSettings) -> tuple[dict[str, Any], Any]:
-    """(``Assessment.to_dict()``, the spectrum) for one product, by the calls ``uvcheck
-    assess`` makes (``uvcheck screen`` for a listing without a spectrum). The dict is as
-    ``to_dict`` gives it; :func:`uvcheck.report.jsonout.clean` makes it the strict JSON that
-    ``assess --json`` writes (:func:`summary_row` cleans the values it takes)."""
+def assess_product(product: Product, settings: BatchSettings) -> Any:
+    """The :class:`uvcheck.assessment.Assessment` of one product, by the calls ``uvcheck
+    assess`` makes (``uvcheck screen`` for a listing without a spectrum). Its ``to_dict()``
+    made strict JSON by :func:`uvcheck.report.jsonout.clean` is what ``assess --json``
+    writes; :func:`summary_row` reads ``summary_parts()`` of it and cleans the values it
+    takes."""
     from uvcheck.assessment import assess
     from uvcheck.cli import _length, apply_scaling, conditions_from_options, read_options
 
@@ -332,8 +335,7 @@ def assess_product(product: Product, settings: BatchSettings) -> tuple[dict[str,
     if product.spectrum is None:
         from uvcheck.screening import screen_listing_file
 
-        a = screen_listing_file(listing, limit_set=settings.limits)
-        return a.to_dict(), a.spectrum
+        return screen_listing_file(listing, limit_set=settings.limits)
     from uvcheck.io.reader import read_spectrum
 
     opts = read_options(None, None, None, o.get("column"), None, o.get("wavelength_unit"),
@@ -345,7 +347,7 @@ def assess_product(product: Product, settings: BatchSettings) -> tuple[dict[str,
     cond = conditions_from_options(d0, o.get("source_size"), None, o.get("use_distance"), gl,
                                    o.get("exposure_time") or "8 h", listing=listing,
                                    electrical_power=o.get("electrical_power"))
-    return assess(spec, cond, report, settings.assess_options(), listing=listing).to_dict(), spec
+    return assess(spec, cond, report, settings.assess_options(), listing=listing)
 
 
 def summary_row(product: Product, result: Mapping[str, Any] | None, error: str | None = None,
@@ -426,10 +428,14 @@ def worst_claim(claims: Sequence[Mapping[str, Any]]) -> Mapping[str, Any] | None
     return best
 
 
-def inputs_fingerprint(product: Product, settings: BatchSettings) -> str:
+def inputs_fingerprint(product: Product, settings: BatchSettings,
+                       spectrum_sha256: str | None = None) -> str:
     """SHA-256 of what a product's row depends on: the bytes of its files, its options and
     the batch settings that change figures (limit set, uncertainty inputs), and the tool
-    version. ``--resume`` keeps a row only when this is unchanged."""
+    version. ``--resume`` keeps a row only when this is unchanged.
+
+    spectrum_sha256 : the SHA-256 of the spectrum file's bytes where the reader has it
+        already (the bytes it assessed); else the file is hashed here."""
     import hashlib
 
     from uvcheck import __version__
@@ -442,7 +448,9 @@ def inputs_fingerprint(product: Product, settings: BatchSettings) -> str:
         except OSError:
             return "unreadable"
 
-    what = {"spectrum": file_hash(product.spectrum), "listing": file_hash(product.listing),
+    sp = (spectrum_sha256 if spectrum_sha256 is not None and product.spectrum is not None
+          else file_hash(product.spectrum))
+    what = {"spectrum": sp, "listing": file_hash(product.listing),
             "options": {**settings.defaults, **product.options}, "limits": settings.limits,
             "uncertainty": settings.uncertainty,
             "uncertainty_options": dict(settings.uncertainty_options), "version": __version__}
@@ -451,32 +459,32 @@ def inputs_fingerprint(product: Product, settings: BatchSettings) -> str:
 
 def run_product(product: Product, settings: BatchSettings) -> dict[str, Any]:
     """Assess one product and return its summary row; any failure becomes an error row."""
-    row = _run_product(product, settings)
-    row["inputs_sha256"] = inputs_fingerprint(product, settings)
+    row, spectrum_sha = _run_product(product, settings)
+    row["inputs_sha256"] = inputs_fingerprint(product, settings, spectrum_sha)
     return row
 
 
-def _run_product(product: Product, settings: BatchSettings) -> dict[str, Any]:
+def _run_product(product: Product, settings: BatchSettings) -> tuple[dict[str, Any], str | None]:
+    """(the summary row, the SHA-256 of the spectrum bytes read, or None)."""
     try:
-        result, spec = assess_product(product, settings)
-        note = None
-        if product.note is not None:
-            from uvcheck.cli_note import write_note
-            from uvcheck.report.jsonout import clean
+        a = assess_product(product, settings)
+        sha = a.input.get("sha256") if product.spectrum is not None else None
+        if product.note is None:
+            return summary_row(product, a.summary_parts()), sha
+        from uvcheck.cli_note import write_note
+        from uvcheck.report.jsonout import clean
 
-            result = clean(result)  # the notes are rendered from strict JSON (as note_result's)
-            html_path, _, _ = write_note(result, spec, product.note, pdf=settings.pdf,
-                                         force=settings.force_notes,
-                                         salt=product.product_id)
-            note = str(html_path)
-        return summary_row(product, result, note=note)
+        result = clean(a.to_dict())  # the notes are rendered from strict JSON (as note_result's)
+        html_path, _, _ = write_note(result, a.spectrum, product.note, pdf=settings.pdf,
+                                     force=settings.force_notes, salt=product.product_id)
+        return summary_row(product, result, note=str(html_path)), sha
     except UvcheckError as exc:
-        return summary_row(product, None, error=exc.one_line())
+        return summary_row(product, None, error=exc.one_line()), None
     except (OSError, MemoryError, RecursionError) as exc:
-        return summary_row(product, None, error=f"{type(exc).__name__}: {exc}")
+        return summary_row(product, None, error=f"{type(exc).__name__}: {exc}"), None
     except Exception as exc:  # a bug must not stop a batch of thousands; the row says so
         return summary_row(product, None, error=f"internal error ({type(exc).__name__}: "
-                           f"{exc}); please report it with the file")
+                           f"{exc}); please report it with the file"), None
 
 
 def _run_chunk(job: tuple[list[Product], BatchSettings]) -> list[dict[str, Any]]:
@@ -530,7 +538,11 @@ def ordered_map(fn: Callable[[Any], list[Any]], jobs: Iterable[Any], workers: in
                 window: int = 4) -> Iterator[list[Any]]:
     """``fn`` over ``jobs`` on ``workers`` processes, results in job order, with at most
     ``window × workers`` jobs in flight (so memory stays flat however many jobs there are).
-    One process: in this process, no pool."""
+    One process: in this process, no pool. The pool is shut down (its workers joined) before
+    the last result is handed over, so a caller that takes exactly as many results as it gave
+    jobs leaves no worker behind; otherwise the shutdown would wait for the generator to be
+    collected, at the interpreter's exit, where Python 3.11's own exit hook races with it and
+    can print "OSError: Bad file descriptor"."""
     if workers <= 1:
         for j in jobs:
             yield fn(j)
@@ -554,11 +566,14 @@ def ordered_map(fn: Callable[[Any], list[Any]], jobs: Iterable[Any], workers: in
             nxt = next(it, None)
             if nxt is not None:
                 pending.append(ex.submit(fn, nxt))
+            if not pending:
+                finished = True
+                ex.shutdown(wait=True)
             yield done
-        finished = True
     finally:
-        # on an interruption or an error, do not wait for the chunks still in flight
-        ex.shutdown(wait=finished, cancel_futures=not finished)
+        if not finished:
+            # on an interruption or an error, do not wait for the chunks still in flight
+            ex.shutdown(wait=False, cancel_futures=True)
 
 
 def _chunks(items: Sequence[Any], size: int) -> Iterator[list[Any]]:

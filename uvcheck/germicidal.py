@@ -31,7 +31,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
-from functools import lru_cache
+from functools import cached_property, lru_cache
 from typing import Any, Iterable, Mapping
 
 import numpy as np
@@ -321,9 +321,25 @@ class GermicidalResult:
     artefacts: tuple[Artefact, ...]
     technology: dict
     noise: dict
-    inactivation: tuple[InactivationEstimate, ...]
-    most_susceptible: Mapping[str, Mapping[str, InactivationEstimate | None]]
+    organisms: "OrganismPlan"
     notes: tuple[str, ...] = field(default_factory=tuple)
+
+    # --- doses and times: computed on first use (a batch summary needs none of them) --------
+    @cached_property
+    def _organism_results(self) -> tuple[tuple[InactivationEstimate, ...],
+                                         Mapping[str, Mapping[str, InactivationEstimate | None]]]:
+        return self.organisms.evaluate()
+
+    @property
+    def inactivation(self) -> tuple[InactivationEstimate, ...]:
+        """Doses and times for every organism row of the pathways this lamp has."""
+        return self._organism_results[0]
+
+    @property
+    def most_susceptible(self) -> Mapping[str, Mapping[str, InactivationEstimate | None]]:
+        """Per pathway (``uvc``, ``violet_blue``) and medium, the most susceptible relevant
+        organism's estimate (None where no row gives a time)."""
+        return self._organism_results[1]
 
     # --- questions the claims engine asks -------------------------------------------------
     def effective_by_id(self, action_id: str) -> EffectiveReading:
@@ -824,67 +840,22 @@ def evaluate_germicidal(spectrum: Spectrum, conditions: Conditions | None = None
     ozone = _ozone(spec, uvc, total, tech_id, uvc_peak, art)
     efficiency = _efficiency(uvc, spec, position, cond, tech_id)
     status, statement = _status(spec, uvc, far, artefacts, position, effective, vb)
-    # --- inactivation ------------------------------------------------------------------------
+    # --- inactivation (evaluated on first use: OrganismPlan) ---------------------------------
     irr = spec.quantity == "irradiance"
-    no_distance = position.distance_m is None
-
-    by_key: dict[tuple[str, float], float | None] = {}  # the same rows are asked many times
-
-    def irradiance_for(o: Organism) -> float | None:
-        if not irr:
-            return None
-        key = (o.pathway, o.wavelength_nm)
-        if key in by_key:
-            return by_key[key]
-        if o.pathway == "violet_blue":
-            out = vb.equivalent_at(o.wavelength_nm)
-        else:
-            vals = [e.equivalent_at(o.wavelength_nm) for e in effective]
-            vals = [v for v in vals if v is not None and v > 0]
-            out = max(vals) if vals else None
-        by_key[key] = out
-        return out
-
-    def times_are(o: Organism) -> str:
-        rd = vb.reading if o.pathway == "violet_blue" else uvc
-        if rd.value is None:
-            return "at_least"
-        return "at_most" if rd.status == "partial" else "estimate"
-
-    def basis(o: Organism) -> str:
-        where = "here" if no_distance else f"at {position.distance_m:g} m"
-        if o.pathway == "violet_blue":
-            return f"{o.wavelength_nm:g}-nm-equivalent by {VIOLET_BLUE_ID} (favourable), {where}"
-        best = max(effective, key=lambda e: e.equivalent_at(o.wavelength_nm) or -1.0)
-        txt = (f"{o.wavelength_nm:g}-nm-equivalent, most favourable action spectrum "
-               f"({best.reading.id}), {where}")
-        if uvc_peak is not None and abs(uvc_peak - o.wavelength_nm) > CROSS_WAVELENGTH_NM:
-            txt += (f"; data measured at {o.wavelength_nm:g} nm, lamp UV-C peak at {uvc_peak:g} nm: "
-                    "transferred by the action spectrum")
-        return txt
-
     if organisms is not None:
-        rows = [o if isinstance(o, Organism) else get_organism(o) for o in organisms]
+        rows = tuple(o if isinstance(o, Organism) else get_organism(o) for o in organisms)
     else:
-        rows = []
+        rows_l: list[Organism] = []
         uvc_fav = uvc.favourable() or 0.0
         vb_fav = vb.reading.favourable() or 0.0
         if status in UVC_EMITTING:
-            rows += [o for o in organism_table() if o.pathway == "uvc"]
+            rows_l += [o for o in organism_table() if o.pathway == "uvc"]
         if vb_fav > 0 and (status not in UVC_EMITTING or vb_fav > uvc_fav):
-            rows += [o for o in organism_table() if o.pathway == "violet_blue"]
-    inact: tuple[InactivationEstimate, ...] = ()
-    ms: dict[str, dict[str, InactivationEstimate | None]] = {}
+            rows_l += [o for o in organism_table() if o.pathway == "violet_blue"]
+        rows = tuple(rows_l)
+    plan = OrganismPlan(rows=rows, irradiance=irr, distance_m=position.distance_m, uvc=uvc,
+                        effective=effective, violet_blue=vb, uvc_peak_nm=uvc_peak)
     if irr:
-        inact = tuple(estimate(o, irradiance_for(o), basis=basis(o), times_are=times_are(o))
-                      for o in rows)
-        for pathway in ("uvc", "violet_blue"):
-            ms[pathway] = {}
-            for medium in ("air", "surface", "water"):
-                best = most_susceptible(irradiance_for, medium, pathway)
-                if best is not None:
-                    best = _rebased(best, basis(best.organism), times_are(best.organism))
-                ms[pathway][medium] = best
         if position.distance_m is None:
             notes.append("the measurement distance is not known: doses and times apply at the "
                          "(unstated) measurement position")
@@ -905,7 +876,81 @@ def evaluate_germicidal(spectrum: Spectrum, conditions: Conditions | None = None
         status=status, statement=statement, quantity=spec.quantity, unit=spec.integrated_unit,
         position=position, uvc=uvc, far_uvc=far, effective=effective, violet_blue=vb,
         efficiency=efficiency, ozone=ozone, artefacts=artefacts, technology=tech, noise=noise,
-        inactivation=inact, most_susceptible=ms, notes=tuple(notes))
+        organisms=plan, notes=tuple(notes))
+
+
+@dataclass(frozen=True)
+class OrganismPlan:
+    """What the doses and times of one lamp position are computed from (on first use, by
+    :meth:`evaluate`; :attr:`GermicidalResult.inactivation` and
+    :attr:`GermicidalResult.most_susceptible` give the results).
+
+    rows : the organism rows to estimate (every row of the pathways the lamp has).
+    irradiance : whether the spectrum is an irradiance (else no dose or time).
+    distance_m : the position's distance (None: the unstated measurement position). [m]
+    uvc, effective, violet_blue : the lamp's UV-C reading and effective readings.
+    uvc_peak_nm : the UV-C peak, for the note on data measured at another wavelength. [nm]
+    """
+
+    rows: tuple[Organism, ...]
+    irradiance: bool
+    distance_m: float | None
+    uvc: "Reading"
+    effective: tuple["EffectiveReading", ...]
+    violet_blue: "EffectiveReading"
+    uvc_peak_nm: float | None
+
+    def evaluate(self) -> tuple[tuple[InactivationEstimate, ...],
+                                dict[str, dict[str, InactivationEstimate | None]]]:
+        """(an estimate per row, the most susceptible per pathway and medium)."""
+        if not self.irradiance:
+            return (), {}
+        effective, vb, uvc = self.effective, self.violet_blue, self.uvc
+        by_key: dict[tuple[str, float], float | None] = {}  # the same rows are asked many times
+
+        def irradiance_for(o: Organism) -> float | None:
+            key = (o.pathway, o.wavelength_nm)
+            if key in by_key:
+                return by_key[key]
+            if o.pathway == "violet_blue":
+                out = vb.equivalent_at(o.wavelength_nm)
+            else:
+                vals = [e.equivalent_at(o.wavelength_nm) for e in effective]
+                vals = [v for v in vals if v is not None and v > 0]
+                out = max(vals) if vals else None
+            by_key[key] = out
+            return out
+
+        def times_are(o: Organism) -> str:
+            rd = vb.reading if o.pathway == "violet_blue" else uvc
+            if rd.value is None:
+                return "at_least"
+            return "at_most" if rd.status == "partial" else "estimate"
+
+        def basis(o: Organism) -> str:
+            where = "here" if self.distance_m is None else f"at {self.distance_m:g} m"
+            if o.pathway == "violet_blue":
+                return f"{o.wavelength_nm:g}-nm-equivalent by {VIOLET_BLUE_ID} (favourable), {where}"
+            best = max(effective, key=lambda e: e.equivalent_at(o.wavelength_nm) or -1.0)
+            txt = (f"{o.wavelength_nm:g}-nm-equivalent, most favourable action spectrum "
+                   f"({best.reading.id}), {where}")
+            peak = self.uvc_peak_nm
+            if peak is not None and abs(peak - o.wavelength_nm) > CROSS_WAVELENGTH_NM:
+                txt += (f"; data measured at {o.wavelength_nm:g} nm, lamp UV-C peak at {peak:g} nm: "
+                        "transferred by the action spectrum")
+            return txt
+
+        inact = tuple(estimate(o, irradiance_for(o), basis=basis(o), times_are=times_are(o))
+                      for o in self.rows)
+        ms: dict[str, dict[str, InactivationEstimate | None]] = {}
+        for pathway in ("uvc", "violet_blue"):
+            ms[pathway] = {}
+            for medium in ("air", "surface", "water"):
+                best = most_susceptible(irradiance_for, medium, pathway)
+                if best is not None:
+                    best = _rebased(best, basis(best.organism), times_are(best.organism))
+                ms[pathway][medium] = best
+        return inact, ms
 
 
 def _rebased(e: InactivationEstimate, basis: str, times_are: str) -> InactivationEstimate:
