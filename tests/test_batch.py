@@ -632,9 +632,9 @@ def test_integrals_are_the_same_from_the_caches():
     a = S.Spectrum(wl, gaussian(wl, 300.0, 20.0, 1.0), "irradiance", noise_floor=1e-4)
     b = S.Spectrum(wl, gaussian(wl, 310.0, 5.0, 2.0), "irradiance", noise_floor=1e-4)
     w = get_weighting("S_actinic")
-    S._COEF_CACHE.clear()
+    S._PLAN_CACHE.clear()
     cold = [S.integrate(x, 200.0, 400.0, w) for x in (a, b)]
-    S._COEF_CACHE.clear()
+    S._PLAN_CACHE.clear()
     for x in (a, b):
         x.__dict__.pop("_integrals", None)
     S.integrate(a, 200.0, 400.0, w)                  # fills the grid cache
@@ -643,7 +643,24 @@ def test_integrals_are_the_same_from_the_caches():
     # a weight that is not a tabulated Weighting is never cached
     f = lambda x: np.ones_like(x)  # noqa: E731
     assert S.integrate(a, 250.0, 260.0, f).value == S.integrate(a, 250.0, 260.0).value
-    assert all(k[3] is not f for k in S._COEF_CACHE)
+    assert all(k[5] is not f for k in S._PLAN_CACHE)
+
+
+def test_interpolation_at_the_limits_is_numpys():
+    # integrate() interpolates the spectrum at the integration limits itself, with the
+    # operations np.interp uses; the reference is numpy's np.interp
+    from uvcheck import spectrum as S
+
+    rng = np.random.default_rng(11)
+    for _ in range(200):
+        n = int(rng.integers(2, 40))
+        wl = np.cumsum(rng.uniform(0.01, 3.0, n)) + 200.0
+        y = rng.normal(0, 1, n) * 10.0 ** rng.uniform(-9, 3)
+        xs = list(rng.uniform(wl[0], wl[-1], 5)) + [float(wl[0]), float(wl[-1]),
+                                                    float(wl[n // 2])]
+        for x in xs:
+            j = int(np.searchsorted(wl, x, side="right")) - 1
+            assert S._interp_at(wl, y, j, float(x)) == float(np.interp(x, wl, y))
 
 
 def test_weighting_at_equals_calling_it():

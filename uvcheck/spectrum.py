@@ -294,17 +294,13 @@ def _area(weight: Weight | None, a: float, b: float) -> float:
     return area
 
 
-#: Trapezoid coefficients per (grid, limits, weighting): (i0, i1, c, c·c). Spectra from one
-#: instrument share a grid, so a batch computes each weighted coefficient vector once. Only
-#: tabulated weightings (immutable, loaded once per process; the key holds the object) and
-#: plain bands are kept; the arrays are read-only.
-_COEF_CACHE: dict[tuple, tuple[int, int, np.ndarray, float]] = {}
-_COEF_CACHE_MAX = 256
+#: At most this many integration plans (:class:`_Plan`) are kept; then the cache starts again.
+_PLAN_CACHE_MAX = 256
 
 
 def _grid_key(spectrum: Spectrum) -> bytes:
     """The bytes of the spectrum's wavelength grid, computed once per spectrum (a key for
-    :data:`_COEF_CACHE`; Python keeps the hash of a bytes object once computed)."""
+    :data:`_PLAN_CACHE`; Python keeps the hash of a bytes object once computed)."""
     key = spectrum.__dict__.get("_grid_bytes")
     if key is None:
         key = spectrum.wavelength_nm.tobytes()
@@ -331,6 +327,79 @@ def trapezoid_weights(x: np.ndarray, weight: Weight | None = None) -> np.ndarray
     c[1:] += dx / 2
     c *= w
     return c
+
+
+@dataclass(frozen=True)
+class _Plan:
+    """How one integral is taken on one grid: per covered part, the sample indices i0:i1,
+    the coefficients c (limits, samples, limit) and where each limit falls (the sample j
+    before it and the limit itself, for :func:`_interp_at`); the covered parts, the
+    coverage, and Σc² (for the noise). It depends on the grid, the covered range and gaps,
+    the limits and the weighting only, so spectra from one instrument share it."""
+
+    parts: tuple[tuple[int, int, np.ndarray, int, float, int, float], ...]
+    covered: tuple[tuple[float, float], ...]
+    coverage: float
+    var: float
+
+
+#: Plans per (grid, covered range, gaps, limits, weighting). Spectra from one instrument share
+#: a grid, so a batch computes each weighted coefficient vector once. Only tabulated weightings
+#: (immutable, loaded once per process; the key holds the object) and plain bands are kept;
+#: the arrays are read-only.
+_PLAN_CACHE: dict[tuple, _Plan] = {}
+
+
+def _interp_at(wl: np.ndarray, y: np.ndarray, j: int, x: float) -> float:
+    """The spectrum at ``x`` (wl[j] <= x <= wl[-1], j the last sample at or before x),
+    linearly interpolated as ``np.interp`` does it (the same operations in the same order)."""
+    x0 = wl[j]
+    if x0 == x or j == wl.size - 1:
+        return float(y[j])
+    y0, y1 = float(y[j]), float(y[j + 1])
+    slope = (y1 - y0) / float(wl[j + 1] - x0)
+    return slope * (x - float(x0)) + y0
+
+
+def _plan(spectrum: Spectrum, lo: float, hi: float, weight: Weight | None,
+          cache_ok: bool) -> _Plan:
+    key = ((_grid_key(spectrum), spectrum.covered_nm, spectrum.gaps_nm, lo, hi, weight)
+           if cache_ok else None)
+    hit = _PLAN_CACHE.get(key) if key is not None else None
+    if hit is not None:
+        return hit
+    wl = spectrum.wavelength_nm
+    covered: list[tuple[float, float]] = []
+    parts = []
+    var = 0.0
+    for s0, s1 in spectrum.segments():
+        a, b = max(lo, s0), min(hi, s1)
+        if b <= a:
+            continue
+        covered.append((a, b))
+        if wl.size >= 2:
+            a_d, b_d = max(a, float(wl[0])), min(b, float(wl[-1]))
+            if b_d > a_d:
+                i0 = int(np.searchsorted(wl, a_d, side="right"))
+                i1 = int(np.searchsorted(wl, b_d, side="left"))
+                c = trapezoid_weights(np.concatenate(([a_d], wl[i0:i1], [b_d])), weight)
+                c.setflags(write=False)
+                ja = int(np.searchsorted(wl, a_d, side="right")) - 1
+                jb = int(np.searchsorted(wl, b_d, side="right")) - 1
+                parts.append((i0, i1, c, ja, a_d, jb, b_d))
+                var += float(np.dot(c, c))
+    full = _area(weight, lo, hi)
+    got = sum(_area(weight, a, b) for a, b in covered)
+    if full > 0:
+        coverage = min(1.0, got / full)
+    else:
+        coverage = 1.0 if covered and math.isclose(sum(b - a for a, b in covered), hi - lo) else 0.0
+    plan = _Plan(parts=tuple(parts), covered=tuple(covered), coverage=coverage, var=var)
+    if key is not None:
+        if len(_PLAN_CACHE) >= _PLAN_CACHE_MAX:
+            _PLAN_CACHE.clear()
+        _PLAN_CACHE[key] = plan
+    return plan
 
 
 def integrate(spectrum: Spectrum, lo_nm: float, hi_nm: float,
@@ -372,45 +441,19 @@ def integrate(spectrum: Spectrum, lo_nm: float, hi_nm: float,
         if hit is not None:
             return hit
     wl, y = spectrum.wavelength_nm, spectrum.values
-    covered: list[tuple[float, float]] = []
+    plan = _plan(spectrum, lo, hi, weight, cache_ok)
+    covered, coverage, var = plan.covered, plan.coverage, plan.var
     total = 0.0
-    var = 0.0
-    for s0, s1 in spectrum.segments():
-        a, b = max(lo, s0), min(hi, s1)
-        if b <= a:
-            continue
-        covered.append((a, b))
-        if wl.size >= 2:
-            a_d, b_d = max(a, wl[0]), min(b, wl[-1])
-            if b_d > a_d:
-                key = (_grid_key(spectrum), float(a_d), float(b_d), weight) if cache_ok else None
-                hit = _COEF_CACHE.get(key) if key is not None else None
-                if hit is None:
-                    i0 = int(np.searchsorted(wl, a_d, side="right"))
-                    i1 = int(np.searchsorted(wl, b_d, side="left"))
-                    c = trapezoid_weights(np.concatenate(([a_d], wl[i0:i1], [b_d])), weight)
-                    hit = (i0, i1, c, float(np.dot(c, c)))
-                    if key is not None:
-                        c.setflags(write=False)
-                        if len(_COEF_CACHE) >= _COEF_CACHE_MAX:
-                            _COEF_CACHE.clear()
-                        _COEF_CACHE[key] = hit
-                i0, i1, c, cc = hit
-                yy = np.empty(i1 - i0 + 2)
-                yy[0], yy[-1] = np.interp((a_d, b_d), wl, y)  # the spectrum at the limits
-                yy[1:-1] = y[i0:i1]
-                total += float(np.dot(c, yy))
-                var += cc
+    for i0, i1, c, ja, ta, jb, tb in plan.parts:
+        yy = np.empty(i1 - i0 + 2)
+        yy[0] = _interp_at(wl, y, ja, ta)  # the spectrum at the limits
+        yy[-1] = _interp_at(wl, y, jb, tb)
+        yy[1:-1] = y[i0:i1]
+        total += float(np.dot(c, yy))
     for ln in spectrum.lines:
         if lo <= ln.wavelength_nm < hi and any(a <= ln.wavelength_nm <= b for a, b in covered):
             wv = 1.0 if weight is None else float(np.asarray(weight(np.array([ln.wavelength_nm])))[0])
             total += ln.value * wv
-    full = _area(weight, lo, hi)
-    got = sum(_area(weight, a, b) for a, b in covered)
-    if full > 0:
-        coverage = min(1.0, got / full)
-    else:
-        coverage = 1.0 if covered and math.isclose(sum(b - a for a, b in covered), hi - lo) else 0.0
     sigma = None if spectrum.noise_floor is None else spectrum.noise_floor * math.sqrt(var)
     result = Integral(value=total, coverage=coverage, sigma=sigma, lo_nm=lo, hi_nm=hi,
                       covered_nm=tuple(covered))
