@@ -828,3 +828,22 @@ def test_the_fingerprint_from_the_readers_hash_equals_hashing_the_file(tmp_path)
     assert B.inputs_fingerprint(p, settings(), a.input["sha256"]) == \
         B.inputs_fingerprint(p, settings())
     assert B.run_product(p, settings())["inputs_sha256"] == B.inputs_fingerprint(p, settings())
+
+
+def test_cct_parabola_in_closed_form_equals_polyfit():
+    # cct_ohno2013 fits the parabola through three locus points in closed form; numpy's
+    # polyfit through the same three points is the reference
+    from uvcheck.photometry import _locus, cct_ohno2013
+
+    T, lu, lv = _locus()
+    rng = np.random.default_rng(3)
+    for k in rng.integers(5, len(T) - 5, 60):
+        u = float(lu[k]) + float(rng.normal(0, 2e-3))
+        v = float(lv[k]) + float(rng.normal(0, 2e-3))
+        d2 = (lu - u) ** 2 + (lv - v) ** 2
+        i = min(max(int(np.argmin(d2)), 1), len(T) - 2)
+        t, y = T[i - 1:i + 2], d2[i - 1:i + 2]
+        a, b, c = np.polyfit(t - t[1], y, 2)
+        x = -b / (2 * a)
+        cct, _ = cct_ohno2013(u, v)
+        assert cct == pytest.approx(float(t[1] + x), rel=1e-9)

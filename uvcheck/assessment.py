@@ -103,7 +103,8 @@ class Assessment:
     def summary_parts(self) -> dict[str, Any]:
         """The parts of :meth:`to_dict` that a batch summary row reads (``input.origin``,
         ``spectral.peak_nm``, ``germicidal.uvc``, ``conditions``, ``risk_group``,
-        ``use_distance``, ``claims``, ``claims_summary``), from the same ``to_dict`` methods,
+        ``use_distance.risk_group``, ``claims``, ``claims_summary``), from the same
+        ``to_dict`` methods,
         without the rest: no organism tables (:class:`uvcheck.germicidal.OrganismPlan`
         evaluates those on first use), lines or photometry. With an uncertainty section (which
         can move the risk group under the guarded rule) it is the whole :meth:`to_dict`.
@@ -117,12 +118,16 @@ class Assessment:
         g = self.sections.get("germicidal")
         if g is not None:
             d["germicidal"] = {"uvc": g.uvc.to_dict()}
-        for k in ("hazards", "claims"):
-            v = self.sections.get(k)
-            if v is not None:
-                part = v.to_dict() if hasattr(v, "to_dict") else dict(v)
-                part.pop("notes", None)
-                d.update(part)
+        hz = self.sections.get("hazards")
+        if hz is not None:
+            use = hz.use_distance
+            d["risk_group"] = hz.risk_group.to_dict()
+            d["use_distance"] = None if use is None else {"risk_group": use.risk_group.to_dict()}
+        v = self.sections.get("claims")
+        if v is not None:
+            part = v.to_dict() if hasattr(v, "to_dict") else dict(v)
+            part.pop("notes", None)
+            d.update(part)
         if d.get("risk_group") is not None:
             from uvcheck.uncertainty import apply_rule_to_risk_group
 

@@ -501,14 +501,17 @@ def _band_samples(spec: Spectrum, lo: float, hi: float) -> tuple[np.ndarray, np.
     return spec.wavelength_nm[m], spec.values[m]
 
 
-def _known_uvc_lines() -> list[tuple[float, str]]:
+@lru_cache(maxsize=1)
+def _known_uvc_lines() -> tuple[tuple[float, str], ...]:
+    """Known lines in 195–285 nm (the line table and the technologies' lines; both are
+    loaded once per process)."""
     out = [(k["wavelength_nm"], k["label"]) for k in known_lines()
            if k["emitter"] != "spectrometer artefact" and 195.0 <= k["wavelength_nm"] <= 285.0]
     for tid, t in technologies().items():
         for wl in t.get("lines_nm", []):
             if 195.0 <= wl <= 285.0 and not any(abs(wl - x) < 0.5 for x, _ in out):
                 out.append((float(wl), f"{t['name']} {wl:g} nm"))
-    return out
+    return tuple(out)
 
 
 def uvc_artefacts(spectrum: Spectrum, sigma: float | None = None) -> tuple[Artefact, ...]:

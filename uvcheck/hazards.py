@@ -112,7 +112,7 @@ from uvcheck.errors import ConfigurationError
 from uvcheck.limits import (DEFAULT_LIMIT_SET, GROUPS, HAZARD_IDS, HazardLimits, LimitSet,
                             available_limit_sets, get_limit_set, solid_angle_sr)
 from uvcheck.photometry import v_lambda
-from uvcheck.spectrum import Integral, Spectrum, integrate
+from uvcheck.spectrum import Integral, Spectrum, integrate, remembered
 from uvcheck.units import sig as _sig
 from uvcheck.weighting import get_weighting
 
@@ -619,7 +619,9 @@ def _not_assessable(hazard_id: str, entry: HazardLimits, integ: Integral | None,
 def _evaluate_hazard(src: _Source, hazard_id: str, geo: _Geo) -> HazardResult:
     entry, assumptions = _choose_variant(src, hazard_id, geo)
     integ = src.integrals[entry.key]
-    assumptions = [_range_sentence(entry, src.lset)] + _interp_sentences(entry) + assumptions
+    # the same sentences for every lamp: made once per limit entry
+    assumptions = list(remembered(entry, ("sentences", src.lset.id, src.lset.name), lambda: (
+        _range_sentence(entry, src.lset), *_interp_sentences(entry)))) + assumptions
     if entry.note:
         assumptions.append(entry.note)
     lo, hi = entry.range_nm

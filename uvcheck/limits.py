@@ -27,7 +27,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
-from functools import lru_cache
+from functools import cached_property, lru_cache
 from types import MappingProxyType
 from typing import Any, Callable, Mapping
 
@@ -154,7 +154,7 @@ class HazardLimits:
     also: "HazardLimits | None" = None
 
     # --- spectral side ------------------------------------------------------------------------
-    @property
+    @cached_property
     def range_nm(self) -> tuple[float, float]:
         """Span of the components. [nm]"""
         return (min(c.lo_nm for c in self.components), max(c.hi_nm for c in self.components))
@@ -163,7 +163,7 @@ class HazardLimits:
     def unit(self) -> str:
         return "W m-2" if self.quantity == "irradiance" else "W m-2 sr-1"
 
-    @property
+    @cached_property
     def weighting_ids(self) -> tuple[str, ...]:
         return tuple(c.weighting for c in self.components if c.weighting)
 

@@ -130,7 +130,13 @@ def cct_ohno2013(u: float, v: float) -> tuple[float, float]:
     i = min(max(i, 1), len(T) - 2)
     t = T[i - 1:i + 2]
     y = d2[i - 1:i + 2]
-    a, b, c = np.polyfit(t - t[1], y, 2)
+    # the parabola through the three points (x = T − T_i), in closed form
+    x0, x2 = float(t[0] - t[1]), float(t[2] - t[1])
+    y0, y1, y2 = float(y[0]), float(y[1]), float(y[2])
+    s0, s2 = (y0 - y1) / x0, (y2 - y1) / x2
+    a = (s2 - s0) / (x2 - x0)
+    b = s2 - a * x2
+    c = y1
     if a > 0:
         x = -b / (2 * a)
         cct = float(t[1] + x)
