@@ -799,8 +799,8 @@ def test_summary_parts_give_the_row_that_to_dict_gives(tmp_path):
 
 
 def test_organism_tables_are_computed_on_first_use_only(tmp_path):
-    # a batch row needs no doses or times: they wait until asked for, and are then the same
-    # as those of a fresh evaluation (same estimates, same most-susceptible rows)
+    # a batch row needs no doses or times, lines or photometry: they wait until asked for,
+    # and are then the same as those of a fresh evaluation
     from uvcheck.germicidal import evaluate_germicidal
 
     product = B.Product("hg", EXAMPLES / "spectra" / "mercury_tube_254nm.txt", None,
@@ -809,6 +809,10 @@ def test_organism_tables_are_computed_on_first_use_only(tmp_path):
     g = a.sections["germicidal"]
     B.summary_row(product, a.summary_parts())
     assert "_organism_results" not in g.__dict__
+    assert not {"lines", "photometry", "line_warnings"} & set(a.__dict__)
+    d = a.to_dict()
+    assert d["spectral"]["lines"] and d["photometry"]["status"]
+    assert {"lines", "photometry", "line_warnings"} <= set(a.__dict__)
     assert g.status == "germicidal-uvc" and len(g.inactivation) > 10
     assert "_organism_results" in g.__dict__
     again = evaluate_germicidal(a.spectrum, a.conditions)
@@ -847,3 +851,20 @@ def test_cct_parabola_in_closed_form_equals_polyfit():
         x = -b / (2 * a)
         cct, _ = cct_ohno2013(u, v)
         assert cct == pytest.approx(float(t[1] + x), rel=1e-9)
+
+
+def test_windowed_half_maximum_search_equals_the_whole_array_search():
+    # _fwhm looks for the half-maximum crossings in growing windows; the reference is the
+    # search over the whole array with np.flatnonzero
+    from uvcheck.features import _first_not_above, _last_not_above
+
+    rng = np.random.default_rng(4)
+    for _ in range(300):
+        n = int(rng.integers(1, 3000))
+        v = rng.normal(0, 1, n).cumsum() if rng.random() < 0.5 else rng.normal(0, 1, n)
+        i = int(rng.integers(0, n))
+        level = float(rng.normal(v[i] - 1.0, 2.0))
+        left = np.flatnonzero(v[:i + 1] <= level)
+        right = np.flatnonzero(v[i:] <= level)
+        assert _last_not_above(v, i, level) == (int(left[-1]) if left.size else None)
+        assert _first_not_above(v, i, level) == (i + int(right[0]) if right.size else None)

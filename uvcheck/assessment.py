@@ -10,6 +10,7 @@ number are the same number.
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from functools import cached_property
 from typing import Any
 
 from uvcheck import __version__
@@ -52,11 +53,33 @@ class Assessment:
     input: dict[str, Any]
     bands: dict[str, BandResult]
     peak: PeakInfo
-    lines: list[DetectedLine]
-    photometry: Photometry
     sections: dict[str, Any] = field(default_factory=dict)
+    #: warnings found while assessing; :meth:`to_dict` adds :attr:`line_warnings` after them
     warnings: tuple[str, ...] = ()
     notes: tuple[str, ...] = ()
+
+    # --- computed on first use (a batch summary row needs none of them) ---------------------
+    @cached_property
+    def lines(self) -> list[DetectedLine]:
+        """The emission lines found in the spectrum (:func:`uvcheck.features.find_lines`)."""
+        return find_lines(self.spectrum)
+
+    @cached_property
+    def photometry(self) -> Photometry:
+        """Luminous quantity, chromaticity and CCT (:func:`uvcheck.photometry.photometry`)."""
+        return photometry(self.spectrum, self.bands["visible"].fraction)
+
+    @cached_property
+    def line_warnings(self) -> tuple[str, ...]:
+        """A warning per peak that may be a stronger line's second diffraction order."""
+        return tuple(
+            f"the peak at {suspect.wavelength_nm:.1f} nm lies at twice the "
+            f"{parent.wavelength_nm:.1f} nm line: possibly that line in the "
+            "spectrometer's second diffraction order (no order-sorting filter), not "
+            "emission; if so, the visible share and the blue-light figures are "
+            "overstated. Check with a long-pass filter or the instrument's "
+            "order-sorting setting"
+            for parent, suspect in second_order_suspects(self.lines, self.spectrum.step_nm))
 
     def to_dict(self) -> dict[str, Any]:
         hg = any(ln.identified_as == "Hg 253.7 nm" for ln in self.lines)
@@ -87,7 +110,7 @@ class Assessment:
                 d.update(part)
             else:
                 d[k] = part
-        d["warnings"] = list(self.warnings)
+        d["warnings"] = list(self.warnings) + list(self.line_warnings)
         notes = list(self.notes) + [n for n in extra_notes if n not in self.notes]
         d["notes"] = notes + ([SCREENING_NOTICE] if SCREENING_NOTICE not in notes else [])
         if "uncertainty" in self.sections:
@@ -192,7 +215,6 @@ def assess(spectrum: Spectrum, conditions: Conditions | None = None, report: Any
     conditions = conditions or Conditions()
     options = options or AssessOptions()
     bands = band_breakdown(spectrum)
-    vis = bands["visible"].fraction
     warnings: list[str] = []
     notes: list[str] = []
     if not spectrum.is_absolute:
@@ -228,16 +250,7 @@ def assess(spectrum: Spectrum, conditions: Conditions | None = None, report: Any
         sections["claims"] = claims
     for k, v in (extra or {}).items():
         sections[k] = v
-    lines = find_lines(spectrum)
-    for parent, suspect in second_order_suspects(lines, spectrum.step_nm):
-        warnings.append(f"the peak at {suspect.wavelength_nm:.1f} nm lies at twice the "
-                        f"{parent.wavelength_nm:.1f} nm line: possibly that line in the "
-                        "spectrometer's second diffraction order (no order-sorting filter), not "
-                        "emission; if so, the visible share and the blue-light figures are "
-                        "overstated. Check with a long-pass filter or the instrument's "
-                        "order-sorting setting")
     return Assessment(spectrum=spectrum, conditions=conditions,
                       input=input_section(spectrum, report), bands=bands,
-                      peak=peak_info(spectrum), lines=lines,
-                      photometry=photometry(spectrum, vis), sections=sections,
+                      peak=peak_info(spectrum), sections=sections,
                       warnings=tuple(warnings), notes=tuple(notes))

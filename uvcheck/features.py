@@ -196,17 +196,49 @@ def _fwhm(wl: np.ndarray, v: np.ndarray, i: int) -> float | None:
         return None
     # j: the last sample at or before i that is not above half (else 0); k: the first at or
     # after i (else the last sample) -- what walking outwards from i one sample at a time finds
-    left = np.flatnonzero(v[:i + 1] <= half)
-    j = int(left[-1]) if left.size else 0
+    j = _last_not_above(v, i, half)
+    j = 0 if j is None else j
     if v[j] > half:
         return None
-    right = np.flatnonzero(v[i:] <= half)
-    k = i + int(right[0]) if right.size else v.size - 1
+    k = _first_not_above(v, i, half)
+    k = v.size - 1 if k is None else k
     if v[k] > half:
         return None
     left = wl[j] + (half - v[j]) * (wl[j + 1] - wl[j]) / (v[j + 1] - v[j]) if v[j + 1] != v[j] else wl[j]
     right = wl[k - 1] + (v[k - 1] - half) * (wl[k] - wl[k - 1]) / (v[k - 1] - v[k]) if v[k - 1] != v[k] else wl[k]
     return float(right - left)
+
+
+#: The first window :func:`_last_not_above` and :func:`_first_not_above` look in (samples);
+#: each further window is four times the last. Half maximum lies within a few samples of
+#: most peaks, so the search seldom reads far.
+_SEARCH_WINDOW = 32
+
+
+def _last_not_above(v: np.ndarray, i: int, level: float) -> int | None:
+    """The last index j <= i with v[j] <= level, or None: what np.flatnonzero(v[:i + 1] <=
+    level)[-1] gives, looking in growing windows back from i."""
+    stop, step = i + 1, _SEARCH_WINDOW
+    while stop > 0:
+        start = max(0, stop - step)
+        idx = np.flatnonzero(v[start:stop] <= level)
+        if idx.size:
+            return start + int(idx[-1])
+        stop, step = start, step * 4
+    return None
+
+
+def _first_not_above(v: np.ndarray, i: int, level: float) -> int | None:
+    """The first index k >= i with v[k] <= level, or None (np.flatnonzero(v[i:] <= level)[0]
+    + i), looking in growing windows on from i."""
+    start, step = i, _SEARCH_WINDOW
+    while start < v.size:
+        stop = min(v.size, start + step)
+        idx = np.flatnonzero(v[start:stop] <= level)
+        if idx.size:
+            return start + int(idx[0])
+        start, step = stop, step * 4
+    return None
 
 
 def peak_info(spectrum: Spectrum) -> PeakInfo:
