@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 import math
-from dataclasses import asdict, dataclass
+from dataclasses import dataclass, fields
 
 from uvcheck.errors import ConfigurationError
 
@@ -66,4 +66,5 @@ class Conditions:
         return 2.0 * math.atan(self.source_size_m / (2.0 * distance_m))
 
     def to_dict(self) -> dict:
-        return asdict(self)
+        # every field is a scalar: what dataclasses.asdict gives, without its deep copy
+        return {f.name: getattr(self, f.name) for f in fields(self)}

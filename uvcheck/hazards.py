@@ -103,6 +103,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from functools import cached_property
 from types import MappingProxyType
 from typing import Any, Callable, Mapping
 
@@ -429,13 +430,35 @@ class HazardEvaluation:
     hazards: tuple[HazardResult, ...]
     risk_group: OverallRiskGroup
     evaluation: EvaluationInfo
-    hazard_distances: HazardDistances
-    uv_lamp_product: UvLampProduct
-    blue_light_white_source: BlueLightWhiteSource
     use_distance: DistanceEvaluation | None
     limit_set: Mapping[str, Any]
     available_limit_sets: tuple[str, ...]
-    notes: tuple[str, ...]
+    #: the notes of the evaluation; :attr:`notes` adds the UV-lamp-product note after them
+    base_notes: tuple[str, ...]
+    #: what the distances, the UV-lamp-product check and the white-source check are computed
+    #: from, on first use (a batch summary row needs none of them)
+    spectrum: Spectrum
+    source: "_Source"
+
+    @cached_property
+    def hazard_distances(self) -> HazardDistances:
+        """Distances at which each hazard meets the RG boundaries (:func:`_hazard_distances`)."""
+        return _hazard_distances(self.source)
+
+    @cached_property
+    def uv_lamp_product(self) -> UvLampProduct:
+        """Whether the lamp counts as a UV lamp product (IEC 62471-6 flag)."""
+        return _uv_lamp_product(self.spectrum)
+
+    @cached_property
+    def blue_light_white_source(self) -> BlueLightWhiteSource:
+        """The blue-light check for white sources (E_v-based screening)."""
+        return _blue_white(self.spectrum, self.source, self.evaluation)
+
+    @property
+    def notes(self) -> tuple[str, ...]:
+        uvp = self.uv_lamp_product
+        return self.base_notes + ((uvp.note,) if uvp.is_uv_lamp_product else ())
 
     def hazard(self, hazard_id: str) -> HazardResult:
         """The result for one hazard id (``actinic_uv``, …)."""
@@ -1310,12 +1333,8 @@ def evaluate_hazards(spectrum: Spectrum, conditions: Conditions | None = None,
                          "an absolute spectrum) nothing can be rescaled to it.")
     if main.evaluation.rescaled or use is not None:
         notes.append(_DISTANCE_NOTE)
-    uvp = _uv_lamp_product(spectrum)
-    if uvp.is_uv_lamp_product:
-        notes.append(uvp.note)
     return HazardEvaluation(
         hazards=main.hazards, risk_group=main.risk_group, evaluation=main.evaluation,
-        hazard_distances=_hazard_distances(src), uv_lamp_product=uvp,
-        blue_light_white_source=_blue_white(spectrum, src, main.evaluation), use_distance=use,
-        limit_set=MappingProxyType(lset.describe()),
-        available_limit_sets=tuple(available_limit_sets()), notes=tuple(notes))
+        use_distance=use, limit_set=MappingProxyType(lset.describe()),
+        available_limit_sets=tuple(available_limit_sets()), base_notes=tuple(notes),
+        spectrum=spectrum, source=src)

@@ -207,7 +207,7 @@ class Spectrum:
         """Median sample spacing. [nm]"""
         if self.wavelength_nm.size < 2:
             return None
-        return median(np.diff(self.wavelength_nm))
+        return remembered(self, ("step_nm",), lambda: median(np.diff(self.wavelength_nm)))
 
     def segments(self) -> list[tuple[float, float]]:
         """Covered sub-intervals: the covered range minus the gaps. [nm]"""
