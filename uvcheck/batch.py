@@ -85,7 +85,8 @@ SUMMARY_COLUMNS = (
 #: meaning of the ``uvcheck assess`` options of the same name.
 MANIFEST_COLUMNS = ("id", "spectrum", "listing", "distance", "source_size", "use_distance",
                     "exposure_time", "electrical_power", "general_lighting", "scale_band",
-                    "scale_lux", "scale_total", "unit", "column", "wavelength_unit")
+                    "scale_lux", "scale_total", "unit", "column", "wavelength_unit", "emitter",
+                    "tube_length")
 
 #: The per-product options (manifest columns that are not files or ids).
 OPTION_KEYS = MANIFEST_COLUMNS[3:]
@@ -319,35 +320,33 @@ def assess_product(product: Product, settings: BatchSettings) -> Any:
     made strict JSON by :func:`uvcheck.report.jsonout.clean` is what ``assess --json``
     writes; :func:`summary_row` reads ``summary_parts()`` of it and cleans the values it
     takes."""
-    from uvcheck.assessment import assess
-    from uvcheck.cli import _length, apply_scaling, conditions_from_options, read_options
+    from uvcheck.cli import read_options
+    from uvcheck.pipeline import ProductInputs, assess_files
 
     if product.problem:
         raise ConfigurationError(product.problem)
     o = {**settings.defaults, **product.options}
-    if sum(bool(o.get(k)) for k in ("scale_band", "scale_lux", "scale_total")) > 1:
-        raise ConfigurationError("give only one of scale_band, scale_lux, scale_total")
+    inputs = ProductInputs(distance=o.get("distance"), scale_band=o.get("scale_band"),
+                           scale_lux=o.get("scale_lux"), scale_total=o.get("scale_total"),
+                           source_size=o.get("source_size"), use_distance=o.get("use_distance"),
+                           general_lighting=str(o.get("general_lighting", "")).lower() in _TRUE,
+                           exposure_time=o.get("exposure_time") or "8 h",
+                           electrical_power=o.get("electrical_power"),
+                           emitter=o.get("emitter"), tube_length=o.get("tube_length"))
+    inputs.check(_MANIFEST_NAMES)
     listing = None
     if product.listing is not None:
         from uvcheck.io.listing import read_listing
 
         listing = read_listing(product.listing)
-    if product.spectrum is None:
-        from uvcheck.screening import screen_listing_file
+    opts = (read_options(None, None, None, o.get("column"), None, o.get("wavelength_unit"),
+                         o.get("unit"), None, None) if product.spectrum is not None else None)
+    return assess_files(product.spectrum, listing, inputs, settings.assess_options(), opts,
+                        names=_MANIFEST_NAMES)
 
-        return screen_listing_file(listing, limit_set=settings.limits)
-    from uvcheck.io.reader import read_spectrum
 
-    opts = read_options(None, None, None, o.get("column"), None, o.get("wavelength_unit"),
-                        o.get("unit"), None, None)
-    spec, report = read_spectrum(product.spectrum, opts)
-    spec = apply_scaling(spec, o.get("scale_band"), o.get("scale_lux"), o.get("scale_total"))
-    d0 = _length(o["distance"], "distance") if o.get("distance") else report.measurement_distance_m
-    gl = str(o.get("general_lighting", "")).lower() in _TRUE
-    cond = conditions_from_options(d0, o.get("source_size"), None, o.get("use_distance"), gl,
-                                   o.get("exposure_time") or "8 h", listing=listing,
-                                   electrical_power=o.get("electrical_power"))
-    return assess(spec, cond, report, settings.assess_options(), listing=listing)
+#: Where a per-product input error points: the manifest's column names.
+_MANIFEST_NAMES = {k: k for k in ("distance", "scale_band", "scale_lux", "scale_total")}
 
 
 def summary_row(product: Product, result: Mapping[str, Any] | None, error: str | None = None,

@@ -146,15 +146,16 @@ def assess(
     """Assess a measured spectrum: band breakdown, peak, photometry, IEC 62471 hazards,
     germicidal output, measurement uncertainty, and the verdicts on a listing's claims
     (--claims)."""
-    from uvcheck.assessment import AssessOptions
-    from uvcheck.assessment import assess as run_assess
-    from uvcheck.errors import ConfigurationError
-    from uvcheck.io.reader import read_spectrum
+    from uvcheck.pipeline import ProductInputs, assess_files
     from uvcheck.report.jsonout import write_json
     from uvcheck.report.terminal import render_assessment
 
-    if sum(x is not None for x in (scale_band, scale_lux, scale_total)) > 1:
-        raise ConfigurationError("give only one of --scale-band, --scale-lux, --scale-total")
+    inputs = ProductInputs(distance=distance, scale_band=scale_band, scale_lux=scale_lux,
+                           scale_total=scale_total, source_size=source_size, alpha=alpha,
+                           use_distance=use_distance, general_lighting=general_lighting,
+                           exposure_time=exposure_time, electrical_power=electrical_power,
+                           emitter=emitter, tube_length=tube_length)
+    inputs.check()
     check_output_file(json_out, force)
     _check_fail_on(fail_on)
     options = assess_options(limits, no_uncertainty, calibration_uncertainty,
@@ -162,19 +163,13 @@ def assess(
                              decision_rule, draws)
     opts = read_options(encoding, delimiter, decimal, column, wavelength_column, wavelength_unit,
                         unit, block, data_start)
-    spec, report = read_spectrum(spectrum_file, opts)
-    spec = apply_scaling(spec, scale_band, scale_lux, scale_total)
-    d0 = _length(distance, "--distance") if distance else report.measurement_distance_m
+    emitter_options(emitter, tube_length)   # a wrong model fails before any file is read
     listing = None
     if claims is not None:
         from uvcheck.io.listing import read_listing
 
         listing = read_listing(claims)
-    cond = conditions_from_options(d0, source_size, alpha, use_distance, general_lighting,
-                                   exposure_time, listing=listing,
-                                   electrical_power=electrical_power,
-                                   **emitter_options(emitter, tube_length))
-    result = run_assess(spec, cond, report, options, listing=listing).to_dict()
+    result = assess_files(spectrum_file, listing, inputs, options, opts).to_dict()
     if json_out:
         write_json(json_out, result, force=force)
     if not quiet and json_out != "-":

@@ -85,6 +85,8 @@ def batch_command(
       exposure_time     e.g. '8 h'
       electrical_power  e.g. '8 W'
       general_lighting  yes or no
+      emitter           point, lambertian or tube (distance model)
+      tube_length       a tube's length, e.g. '1.2 m' (the tube model)
       scale_band | scale_lux | scale_total   scaling of a relative spectrum
       unit | column | wavelength_unit        reading the spectrum file
     Lines starting with # are skipped; an empty cell keeps the option given

@@ -67,16 +67,19 @@ def note_result(spectrum_file: Path | None, listing_file: Path | None, *, read_o
         ``decision_rule``, ``draws``), as ``uvcheck assess`` takes them; they apply to a
         measured spectrum (a listing alone is screened as ``uvcheck screen`` does).
     """
-    from uvcheck.assessment import assess
-    from uvcheck.cli import _length, apply_scaling, assess_options, conditions_from_options
+    from uvcheck.cli import assess_options
     from uvcheck.errors import ConfigurationError
+    from uvcheck.pipeline import ProductInputs, assess_files
     from uvcheck.report.jsonout import clean
 
     if spectrum_file is None and listing_file is None:
         raise ConfigurationError("give a spectrum file, a --listing file, or both",
                                  todo="e.g. 'uvcheck note lamp.csv --listing lamp.toml --out note.html'")
-    if sum(x is not None for x in (scale_band, scale_lux, scale_total)) > 1:
-        raise ConfigurationError("give only one of --scale-band, --scale-lux, --scale-total")
+    inputs = ProductInputs(distance=distance, scale_band=scale_band, scale_lux=scale_lux,
+                           scale_total=scale_total, source_size=source_size, alpha=alpha,
+                           use_distance=use_distance, general_lighting=general_lighting,
+                           exposure_time=exposure_time, electrical_power=electrical_power)
+    inputs.check()
     options = assess_options(limits, **(uncertainty or {}))
     listing = None
     if listing_file is not None:
@@ -87,26 +90,10 @@ def note_result(spectrum_file: Path | None, listing_file: Path | None, *, read_o
     if room:
         tube = listing.tube_length_m if listing is not None and listing.emitter == "tube" else None
         rs = room_spec(room, room_where, tube)
-    if spectrum_file is None:
-        from uvcheck.screening import screen_listing_file
-
-        a = screen_listing_file(listing, limit_set=limits)
-        d = a.to_dict()
-        spec, cond = a.spectrum, a.conditions
-        if rs:
-            d["room"] = room_result(spec, cond, rs)
-    else:
-        from uvcheck.io.reader import read_spectrum
-
-        spec, report = read_spectrum(spectrum_file, read_opts)
-        spec = apply_scaling(spec, scale_band, scale_lux, scale_total)
-        d0 = _length(distance, "--distance") if distance else report.measurement_distance_m
-        cond = conditions_from_options(d0, source_size, alpha, use_distance, general_lighting,
-                                       exposure_time, listing=listing,
-                                       electrical_power=electrical_power)
-        extra = {"room": room_result(spec, cond, rs)} if rs else None
-        d = assess(spec, cond, report, options, extra=extra, listing=listing).to_dict()
-    return clean(d), spec
+    a = assess_files(spectrum_file, listing, inputs, options, read_opts,
+                     extra=(lambda spec, cond: {"room": room_result(spec, cond, rs)}) if rs
+                     else None)
+    return clean(a.to_dict()), a.spectrum
 
 
 #: The uncertainty options of ``note``, ``demo`` and ``batch`` (the ``assess`` options of the

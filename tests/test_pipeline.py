@@ -1,0 +1,95 @@
+"""The one product pipeline (uvcheck.pipeline) that `assess`, `note` and `batch` share: each
+command must give what the others give for the same inputs, and every input a command takes
+must reach the assessment.
+
+The spectra and listings are the bundled examples (invented data, examples/README); the
+expected values are the commands' own results for the same inputs (the point is that the
+paths agree), or the given inputs themselves.
+"""
+
+from __future__ import annotations
+
+import json
+from pathlib import Path
+
+import pytest
+from typer.testing import CliRunner
+
+from uvcheck import batch as B
+from uvcheck.assessment import AssessOptions
+from uvcheck.cli import app
+from uvcheck.cli_note import note_result
+from uvcheck.errors import ConfigurationError
+from uvcheck.io.listing import read_listing
+from uvcheck.pipeline import ProductInputs, assess_files
+from uvcheck.report.jsonout import clean
+
+EXAMPLES = Path(__file__).resolve().parents[1] / "examples"
+TUBE = EXAMPLES / "spectra" / "mercury_tube_254nm.txt"
+TUBE_LISTING = EXAMPLES / "listings" / "mercury_tube_sold_pet_safe.toml"
+runner = CliRunner()
+
+
+def _assess_json(tmp_path: Path, *args: str) -> dict:
+    out = tmp_path / "a.json"
+    r = runner.invoke(app, ["assess", str(TUBE), "--json", str(out), "--quiet", "--force",
+                            "--no-uncertainty", *args])
+    assert r.exit_code == 0, r.output
+    return json.loads(out.read_text(encoding="utf-8"))
+
+
+def test_batch_manifest_emitter_columns_reach_the_conditions(tmp_path):
+    # a manifest row's emitter and tube_length are the assess options of the same name
+    m = tmp_path / "m.csv"
+    m.write_text("id,spectrum,distance,emitter,tube_length,use_distance\n"
+                 f"t,{TUBE},1 m,tube,0.55 m,3 m\n", encoding="utf-8")
+    (p,) = B.read_manifest(m)
+    a = B.assess_product(p, B.BatchSettings())
+    want = _assess_json(tmp_path, "--distance", "1 m", "--emitter", "tube",
+                        "--tube-length", "0.55 m", "--use-distance", "3 m")
+    got = clean(a.to_dict())
+    assert got["conditions"]["emitter"] == "tube" and got["conditions"]["tube_length_m"] == 0.55
+    assert got["conditions"] == want["conditions"]
+    assert got["hazards"] == want["hazards"] and got["use_distance"] == want["use_distance"]
+    row = B.summary_row(p, a.summary_parts())
+    assert row["risk_group_at_use"] == want["use_distance"]["risk_group"]["group"]
+
+
+def test_note_and_assess_give_the_same_result(tmp_path):
+    want = _assess_json(tmp_path, "--distance", "1 m", "--claims", str(TUBE_LISTING))
+    got, _ = note_result(TUBE, TUBE_LISTING, distance="1 m",
+                         uncertainty={"no_uncertainty": True})
+    for k in ("conditions", "hazards", "risk_group", "germicidal", "claims", "bands"):
+        assert got[k] == want[k], k
+
+
+def test_a_listing_alone_is_screened_and_extra_sections_are_added():
+    listing = read_listing(TUBE_LISTING)
+    seen = []
+
+    def extra(spec, cond):
+        seen.append((spec.meta.get("origin"), cond.measurement_distance_m))
+        return {"marker": {"origin": spec.meta.get("origin")}}
+
+    a = assess_files(None, listing, ProductInputs(), AssessOptions(uncertainty=False),
+                     extra=extra)
+    d = a.to_dict()
+    assert d["input"]["origin"] == "nominal" and d["marker"] == {"origin": "nominal"}
+    assert seen and seen[0][0] == "nominal"
+
+
+@pytest.mark.parametrize("names, expected", [
+    (None, "give only one of --scale-band, --scale-lux, --scale-total"),
+    (B._MANIFEST_NAMES, "give only one of scale_band, scale_lux, scale_total")])
+def test_two_scalings_are_refused_naming_the_inputs(names, expected):
+    inputs = ProductInputs(scale_band="UVC=1 W/m2", scale_lux="500 lx")
+    with pytest.raises(ConfigurationError, match=expected):
+        if names is None:
+            inputs.check()
+        else:
+            inputs.check(names)
+
+
+def test_neither_file_is_refused():
+    with pytest.raises(ConfigurationError, match="give a spectrum file, a listing file"):
+        assess_files(None, None, ProductInputs(), AssessOptions(uncertainty=False))

@@ -1,0 +1,104 @@
+"""One product, from its files to an :class:`~uvcheck.assessment.Assessment`.
+
+``assess_files(spectrum_file, listing, inputs, options) -> Assessment`` is the sequence that
+``uvcheck assess``, ``uvcheck note`` and ``uvcheck batch`` share: read the spectrum, scale a
+relative one, take the measurement distance (given, else the file's), build the conditions
+(the listing fills what the options leave open), and assess it with the listing's claims; or,
+for a listing without a spectrum, screen the listing (nominal spectra: an ESTIMATE). The
+commands only parse their options into :class:`ProductInputs` and render the result.
+
+A screening assessment, not a certification.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, replace
+from pathlib import Path
+from typing import Any, Callable, Mapping
+
+from uvcheck.errors import ConfigurationError
+
+#: Where an error in an input points, for the command line (``batch`` names its manifest
+#: columns instead).
+CLI_NAMES: Mapping[str, str] = {"distance": "--distance", "scale_band": "--scale-band",
+                                "scale_lux": "--scale-lux", "scale_total": "--scale-total"}
+
+
+@dataclass(frozen=True)
+class ProductInputs:
+    """The per-product inputs as texts, as the command line or a manifest row gives them.
+
+    distance : measurement distance ('20 cm'); None: the file's, if it states one.
+    scale_band, scale_lux, scale_total : scaling of a relative spectrum (at most one).
+    source_size : apparent source size (a bare number is mm); alpha : angular subtense. [rad]
+    use_distance : a distance of use; None: the listing's, if it states one.
+    general_lighting : a lamp for general lighting service (the 500 lx rule).
+    exposure_time : exposure duration for hazard distances ('8 h').
+    electrical_power : electrical input power ('8 W').
+    emitter, tube_length : the distance model (``point`` | ``lambertian`` | ``tube``) and a
+        tube's length; None: the listing's, else a point source.
+    """
+
+    distance: str | None = None
+    scale_band: str | None = None
+    scale_lux: str | None = None
+    scale_total: str | None = None
+    source_size: str | None = None
+    alpha: float | None = None
+    use_distance: str | None = None
+    general_lighting: bool = False
+    exposure_time: str = "8 h"
+    electrical_power: str | None = None
+    emitter: str | None = None
+    tube_length: str | None = None
+
+    def check(self, names: Mapping[str, str] = CLI_NAMES) -> None:
+        """Refuse contradictory inputs before any file is read."""
+        given = [k for k in ("scale_band", "scale_lux", "scale_total") if getattr(self, k)]
+        if len(given) > 1:
+            raise ConfigurationError("give only one of " + ", ".join(
+                names[k] for k in ("scale_band", "scale_lux", "scale_total")))
+
+
+def assess_files(spectrum_file: Path | None, listing: Any | None, inputs: ProductInputs,
+                 options: Any, read_opts: Any = None, *,
+                 extra: Callable[[Any, Any], Mapping[str, Any] | None] | None = None,
+                 names: Mapping[str, str] = CLI_NAMES) -> Any:
+    """The :class:`~uvcheck.assessment.Assessment` of one product.
+
+    spectrum_file : the measured spectrum, or None to screen the listing alone.
+    listing : a :class:`uvcheck.io.listing.Listing` (its claims are judged; it fills the
+        conditions the inputs leave open), or None.
+    options : :class:`uvcheck.assessment.AssessOptions` (limit set, uncertainty). A listing
+        alone is screened as ``uvcheck screen`` does (no Monte Carlo; its spread is the range
+        of its nominal readings).
+    read_opts : :class:`uvcheck.io.reader.ReadOptions` (None: infer everything).
+    extra : ``extra(spectrum, conditions)`` gives further sections (e.g. the room model's),
+        added to the assessment.
+    names : where an input error points (:data:`CLI_NAMES`, or a manifest's columns).
+    """
+    from uvcheck.cli import _length, apply_scaling, conditions_from_options, emitter_options
+
+    inputs.check(names)
+    if spectrum_file is None:
+        if listing is None:
+            raise ConfigurationError("give a spectrum file, a listing file, or both")
+        from uvcheck.screening import screen_listing_file
+
+        a = screen_listing_file(listing, limit_set=options.limit_set)
+        more = extra(a.spectrum, a.conditions) if extra is not None else None
+        return replace(a, sections={**a.sections, **more}) if more else a
+    from uvcheck.assessment import assess
+    from uvcheck.io.reader import read_spectrum
+
+    spec, report = read_spectrum(spectrum_file, read_opts)
+    spec = apply_scaling(spec, inputs.scale_band, inputs.scale_lux, inputs.scale_total)
+    d0 = (_length(inputs.distance, names["distance"]) if inputs.distance
+          else report.measurement_distance_m)
+    cond = conditions_from_options(d0, inputs.source_size, inputs.alpha, inputs.use_distance,
+                                   inputs.general_lighting, inputs.exposure_time,
+                                   listing=listing, electrical_power=inputs.electrical_power,
+                                   **emitter_options(inputs.emitter, inputs.tube_length))
+    more = extra(spec, cond) if extra is not None else None
+    return assess(spec, cond, report, options, extra=dict(more) if more else None,
+                  listing=listing)
