@@ -60,7 +60,7 @@ from dataclasses import dataclass, field, replace
 from pathlib import Path
 from typing import Any, Callable, Iterable, Iterator, Mapping, Sequence
 
-from uvcheck.errors import ConfigurationError, InputFormatError, OutputExistsError, UvcheckError
+from uvcheck.errors import ConfigurationError, InputFormatError, UvcheckError
 
 #: Summary columns, in this order (our own names). ``uvc_W_m2`` is the UV-C (200–280 nm)
 #: irradiance where the spectrum is an irradiance and the value is established; its status
@@ -691,16 +691,12 @@ def check_outputs(out_csv: Path, force: bool, resume: bool) -> None:
     if out_csv.suffix.lower() != ".csv":
         raise ConfigurationError(f"the summary is written as CSV: {out_csv.name!r} does not "
                                  "end in .csv", "--out", "give a name like 'summary.csv'")
-    if out_csv.is_dir():
-        raise UvcheckError("the output path is a folder", str(out_csv), "give a file name")
-    folder = out_csv.parent if str(out_csv.parent) else Path(".")
-    if not folder.is_dir():
-        raise UvcheckError("the output folder does not exist", str(folder), "create it first")
+    from uvcheck.cli import check_output_file
+
     for p in (out_csv, jsonl_path(out_csv)):
-        if p.exists() and not (force or resume):
-            raise OutputExistsError("the output file exists", str(p),
-                                    "give --resume to keep its finished rows, --force to start "
-                                    "again, or choose another name")
+        check_output_file(p, force or resume, "--out",
+                          exists_todo="give --resume to keep its finished rows, --force to "
+                                      "start again, or choose another name")
 
 
 def run_batch(source: Path, out_csv: Path, settings: BatchSettings, *, jobs: int | None = None,

@@ -177,9 +177,12 @@ def assess(
     _exit_for(result, fail_on)
 
 
-def check_output_file(path: str | Path | None, force: bool, option: str = "--json") -> None:
+def check_output_file(path: str | Path | None, force: bool, option: str = "--json",
+                      exists_todo: str = "give --force to replace it, or choose another name"
+                      ) -> None:
     """Refuse before any work: an output that is a folder, lies in a folder that does not
-    exist, or exists without --force ('-' is stdout, None no output)."""
+    exist, or exists without ``force`` ('-' is stdout, None no output); ``exists_todo`` says
+    what to do about an existing one."""
     if path is None or str(path) == "-":
         return
     from uvcheck.errors import OutputExistsError, UvcheckError
@@ -192,8 +195,7 @@ def check_output_file(path: str | Path | None, force: bool, option: str = "--jso
         raise UvcheckError("the output folder does not exist", str(folder),
                            f"create it first, or give {option} a path in an existing folder")
     if p.exists() and not force:
-        raise OutputExistsError("the output file exists", str(p),
-                                "give --force to replace it, or choose another name")
+        raise OutputExistsError("the output file exists", str(p), exists_todo)
 
 
 def uncertainty_given(no_uncertainty: bool = False, calibration: str | None = None,
