@@ -868,3 +868,32 @@ def test_windowed_half_maximum_search_equals_the_whole_array_search():
         right = np.flatnonzero(v[i:] <= level)
         assert _last_not_above(v, i, level) == (int(left[-1]) if left.size else None)
         assert _first_not_above(v, i, level) == (i + int(right[0]) if right.size else None)
+
+
+def test_restricted_without_revalidation_equals_the_validated_spectrum():
+    # restricted() builds the cut without running Spectrum's checks again; the reference is
+    # the same cut made through the validating constructor (dataclasses.replace)
+    from dataclasses import fields as dc_fields
+    from dataclasses import replace as dc_replace
+
+    from uvcheck import spectrum as S
+
+    rng = np.random.default_rng(9)
+    for k in range(60):
+        wl = np.cumsum(rng.uniform(0.1, 2.0, 400)) + 190.0
+        v = rng.normal(0, 1, wl.size)
+        gaps = ((float(wl[100]), float(wl[110])),) if k % 3 == 0 else ()
+        sp = S.Spectrum(wl, v, "irradiance", gaps_nm=gaps, noise_floor=0.1,
+                        meta={"source": "invented"})
+        lo, hi = sorted(rng.uniform(wl[0] - 5, wl[-1] + 5, 2))
+        if not (hi > max(lo, wl[0]) and min(hi, wl[-1]) > max(lo, wl[0])):
+            continue
+        got = S._restricted(sp, lo, hi)
+        ref = dc_replace(got, wavelength_nm=got.wavelength_nm.copy(), values=got.values.copy())
+        for f in dc_fields(S.Spectrum):
+            a, b = getattr(got, f.name), getattr(ref, f.name)
+            if isinstance(a, np.ndarray):
+                assert a.dtype == b.dtype and np.array_equal(a, b) and not a.flags.writeable
+            else:
+                assert a == b, f.name
+        assert np.all(np.diff(got.wavelength_nm) > 0) and got.range_nm[0] < got.range_nm[1]

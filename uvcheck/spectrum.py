@@ -19,7 +19,7 @@ lines, so a partition of bands adds up to the total exactly.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, field, replace
+from dataclasses import dataclass, field, fields, replace
 from types import MappingProxyType
 from typing import Any, Callable, Mapping
 
@@ -230,6 +230,10 @@ class Spectrum:
     def derive(self, **changes: Any) -> "Spectrum":
         """A new spectrum with some fields changed (the original is untouched)."""
         return replace(self, **changes)
+
+
+#: The fields of :class:`Spectrum`, in order (for :func:`_trusted`).
+_SPECTRUM_FIELDS = tuple(f.name for f in fields(Spectrum))
 
 
 # ---------------------------------------------------------------------------------------------
@@ -541,11 +545,29 @@ def _restricted(spectrum: Spectrum, lo_nm: float, hi_nm: float) -> Spectrum:
         v_new = np.concatenate(([np.interp(lo, wl, v)], v[inner], [np.interp(hi, wl, v)]))
     else:
         wl_new, v_new = wl, v
-    return replace(
-        spectrum,
-        wavelength_nm=wl_new,
-        values=v_new,
-        lines=tuple(ln for ln in spectrum.lines if lo <= ln.wavelength_nm <= hi),
-        covered_nm=(lo, hi),
-        gaps_nm=tuple((a, b) for a, b in spectrum.gaps_nm if b > lo and a < hi),
-    )
+    lines = tuple(ln for ln in spectrum.lines if lo <= ln.wavelength_nm <= hi)
+    if wl_new.size == 0 and not lines:
+        return replace(spectrum, wavelength_nm=wl_new, values=v_new, lines=lines,
+                       covered_nm=(lo, hi))   # raises: a spectrum needs samples or lines
+    # a cut of a valid spectrum is valid by construction (finite, strictly increasing, at
+    # least the two limits; lines and gaps already checked and sorted): made without
+    # validating again (tests/test_batch.py compares it with the validated construction)
+    return _trusted(spectrum, wavelength_nm=wl_new, values=v_new, lines=lines,
+                    covered_nm=(float(lo), float(hi)),
+                    gaps_nm=tuple((a, b) for a, b in spectrum.gaps_nm if b > lo and a < hi))
+
+
+def _trusted(spectrum: Spectrum, **changes: Any) -> Spectrum:
+    """``replace(spectrum, **changes)`` for changes that keep every invariant
+    :meth:`Spectrum.__post_init__` checks, without checking them again: the new arrays are
+    float64 and made read-only here; lines, gaps and the covered range must already be in
+    their normal form (tuples of floats, sorted)."""
+    new = object.__new__(Spectrum)
+    for f in _SPECTRUM_FIELDS:
+        v = changes[f] if f in changes else getattr(spectrum, f)
+        if f in ("wavelength_nm", "values") and f in changes:
+            v = np.asarray(v, dtype=np.float64)
+            if v.flags.writeable:
+                v.setflags(write=False)
+        object.__setattr__(new, f, v)
+    return new
