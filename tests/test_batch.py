@@ -897,3 +897,17 @@ def test_restricted_without_revalidation_equals_the_validated_spectrum():
             else:
                 assert a == b, f.name
         assert np.all(np.diff(got.wavelength_nm) > 0) and got.range_nm[0] < got.range_nm[1]
+
+
+def test_grid_weights_give_numpys_trapezoid():
+    # peak_info's area and centroid use the trapezoid coefficients of the grid in one dot
+    # product; the reference is numpy's np.trapezoid on the same samples
+    from uvcheck import spectrum as S
+
+    rng = np.random.default_rng(12)
+    for _ in range(50):
+        wl = np.cumsum(rng.uniform(0.05, 3.0, int(rng.integers(2, 3000)))) + 200.0
+        y = np.clip(rng.normal(0, 1, wl.size), 0, None)
+        sp = S.Spectrum(wl, y, "irradiance")
+        assert float(np.dot(S.grid_weights(sp), y)) == pytest.approx(
+            float(np.trapezoid(y, wl)), rel=1e-12, abs=1e-300)

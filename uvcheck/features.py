@@ -32,7 +32,7 @@ from functools import lru_cache
 import numpy as np
 
 from uvcheck.data_files import read_table
-from uvcheck.spectrum import Spectrum, median, quantile, remembered
+from uvcheck.spectrum import Spectrum, grid_weights, median, quantile, remembered
 
 
 @dataclass(frozen=True)
@@ -259,8 +259,9 @@ def _peak_info(spectrum: Spectrum) -> PeakInfo:
     if wl.size >= 2 and np.any(v > 0):
         i = int(np.argmax(v))
         pos = np.clip(v, 0, None)
-        area = float(np.trapezoid(pos, wl))
-        centroid = float(np.trapezoid(pos * wl, wl) / area) if area > 0 else None
+        c = grid_weights(spectrum)   # the trapezoid rule on this grid, as one dot product
+        area = float(np.dot(c, pos))
+        centroid = float(np.dot(c, pos * wl) / area) if area > 0 else None
         return PeakInfo(float(wl[i]), float(v[i]), centroid, _fwhm(wl, v, i))
     if spectrum.lines:
         ln = max(spectrum.lines, key=lambda x: x.value)

@@ -406,6 +406,24 @@ def _plan(spectrum: Spectrum, lo: float, hi: float, weight: Weight | None,
     return plan
 
 
+_GRID_WEIGHTS: dict[bytes, np.ndarray] = {}
+
+
+def grid_weights(spectrum: Spectrum) -> np.ndarray:
+    """The trapezoid coefficients over the spectrum's whole grid (read-only, kept per grid):
+    ``np.dot(grid_weights(s), y)`` is the trapezoid integral of y on s's wavelengths, as
+    ``np.trapezoid(y, s.wavelength_nm)`` gives it (to rounding). [nm]"""
+    key = _grid_key(spectrum)
+    c = _GRID_WEIGHTS.get(key)
+    if c is None:
+        c = trapezoid_weights(spectrum.wavelength_nm)
+        c.setflags(write=False)
+        if len(_GRID_WEIGHTS) >= _PLAN_CACHE_MAX:
+            _GRID_WEIGHTS.clear()
+        _GRID_WEIGHTS[key] = c
+    return c
+
+
 def integrate(spectrum: Spectrum, lo_nm: float, hi_nm: float,
               weight: Weight | None = None) -> Integral:
     """∫ E(λ)·W(λ) dλ over [lo, hi] on the spectrum's grid, with coverage. [integrated unit]
