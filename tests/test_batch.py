@@ -809,7 +809,7 @@ def test_organism_tables_are_computed_on_first_use_only(tmp_path):
     g = a.sections["germicidal"]
     B.summary_row(product, a.summary_parts())
     assert "_organism_results" not in g.__dict__
-    assert not {"lines", "photometry", "line_warnings"} & set(a.__dict__)
+    assert not {"lines", "photometry", "line_warnings", "input"} & set(a.__dict__)
     d = a.to_dict()
     assert d["spectral"]["lines"] and d["photometry"]["status"]
     assert {"lines", "photometry", "line_warnings"} <= set(a.__dict__)

@@ -50,7 +50,8 @@ class Assessment:
 
     spectrum: Spectrum
     conditions: Conditions
-    input: dict[str, Any]
+    #: the reader's ImportReport (None for a nominal spectrum), for the ``input`` block
+    report: Any
     bands: dict[str, BandResult]
     peak: PeakInfo
     sections: dict[str, Any] = field(default_factory=dict)
@@ -59,6 +60,11 @@ class Assessment:
     notes: tuple[str, ...] = ()
 
     # --- computed on first use (a batch summary row needs none of them) ---------------------
+    @cached_property
+    def input(self) -> dict[str, Any]:
+        """The ``input`` block of the JSON contract (:func:`input_section`)."""
+        return input_section(self.spectrum, self.report)
+
     @cached_property
     def lines(self) -> list[DetectedLine]:
         """The emission lines found in the spectrum (:func:`uvcheck.features.find_lines`)."""
@@ -135,7 +141,7 @@ class Assessment:
         from :meth:`to_dict`."""
         if "uncertainty" in self.sections:
             return self.to_dict()
-        d: dict[str, Any] = {"input": {"origin": self.input.get("origin")},
+        d: dict[str, Any] = {"input": {"origin": self.spectrum.meta.get("origin", "measured")},
                              "spectral": self.peak.to_dict(),
                              "conditions": self.conditions.to_dict()}
         g = self.sections.get("germicidal")
@@ -251,6 +257,6 @@ def assess(spectrum: Spectrum, conditions: Conditions | None = None, report: Any
     for k, v in (extra or {}).items():
         sections[k] = v
     return Assessment(spectrum=spectrum, conditions=conditions,
-                      input=input_section(spectrum, report), bands=bands,
+                      report=report, bands=bands,
                       peak=peak_info(spectrum), sections=sections,
                       warnings=tuple(warnings), notes=tuple(notes))

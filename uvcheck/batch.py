@@ -467,7 +467,7 @@ def _run_product(product: Product, settings: BatchSettings) -> tuple[dict[str, A
     """(the summary row, the SHA-256 of the spectrum bytes read, or None)."""
     try:
         a = assess_product(product, settings)
-        sha = a.input.get("sha256") if product.spectrum is not None else None
+        sha = a.spectrum.meta.get("sha256") if product.spectrum is not None else None
         if product.note is None:
             return summary_row(product, a.summary_parts()), sha
         from uvcheck.cli_note import write_note
