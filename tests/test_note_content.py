@@ -446,3 +446,20 @@ def test_interval_of_a_lower_bound_is_a_bound_not_a_range():
     assert note._interval_text(h) == "95 %: ≥ 1.32 W/m²"
     h["status"] = "complete"
     assert note._interval_text(h) == "95 %: 1.32–1.47 W/m²"
+
+
+def test_note_and_terminal_word_estimate_statuses_alike():
+    # one question "is this an estimate" (report.terminal.is_estimate) and one set of words
+    # for statuses: the note's band table says what the terminal says, for a measurement and
+    # for a listing screened without one (the bundled invented example listing)
+    from uvcheck.report.note import band_rows
+    from uvcheck.report.terminal import is_estimate, status_text
+
+    measured, _ = note_result(*WAND, distance="10 cm")
+    nominal, _ = note_result(None, WAND[1])
+    assert not is_estimate(measured) and is_estimate(nominal)
+    for result in (measured, nominal):
+        shown = [r["status"] for r in band_rows(result)]
+        words = [status_text(b["status"], result) for b in result["bands"].values()]
+        assert sorted(shown) == sorted(words)
+    assert all("measured" not in w for w in (r["status"] for r in band_rows(nominal)))

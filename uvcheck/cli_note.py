@@ -165,7 +165,9 @@ def render_note(result: dict[str, Any], spectrum: Any, *, pdf: bool = True,
     from uvcheck.report.note import build_note
 
     view = build_note(result, invented=invented, date=date)
-    if (result.get("input") or {}).get("origin") == "nominal":
+    from uvcheck.report.terminal import is_estimate
+
+    if is_estimate(result):
         view["title"] = view["title"] + " — screening of the stated data (ESTIMATE)"
     figs = figures.render(result, spectrum, svg=True, png=pdf, salt=salt)
     text = html.render_note_html(view, result, figs)

@@ -86,7 +86,9 @@ def _style() -> dict[str, Any]:
 # ---------------------------------------------------------------------------------------------
 
 def _estimate(result: Result) -> bool:
-    return (result.get("input") or {}).get("origin") == "nominal"
+    from uvcheck.report.terminal import is_estimate
+
+    return is_estimate(result)
 
 
 def _suspect_regions(result: Result) -> list[tuple[float, float, str]]:

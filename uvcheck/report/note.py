@@ -19,7 +19,7 @@ from typing import Any, Iterable, Mapping
 
 from uvcheck.germicidal import UVC_EMITTING
 from uvcheck.limits import GROUPS
-from uvcheck.report.terminal import STATUS_TEXT
+from uvcheck.report.terminal import is_estimate, status_text
 from uvcheck.report.cautions import DOES_NOT_COVER, LOCAL_CODES, applicable
 from uvcheck.units import format_duration, sig, to_trade
 
@@ -271,7 +271,6 @@ def claims_summary(rows: list[dict[str, Any]] | None) -> str | None:
 # ---------------------------------------------------------------------------------------------
 
 BAND_NAMES = {"below-200nm": "below 200 nm (vacuum UV)"}
-BAND_STATUS_TEXT = STATUS_TEXT   # the terminal's words for a status, one table
 
 
 def band_rows(result: Result) -> list[dict[str, Any]] | None:
@@ -297,7 +296,7 @@ def band_rows(result: Result) -> list[dict[str, Any]] | None:
         rows.append({"band": BAND_NAMES.get(k, k), "range": f"{lo:g}–{hi:g} nm" if lo is not None else "",
                      "value": val, "fraction": percent(b.get("fraction")),
                      "coverage": percent(b.get("coverage")),
-                     "status": _estimated(BAND_STATUS_TEXT.get(st, st or ""), result)})
+                     "status": status_text(st, result) if st else ""})
     return rows
 
 
@@ -489,11 +488,6 @@ def open_hazards_text(result: Result, section: Mapping[str, Any] | None = None) 
 
 
 _RANK = {g: k for k, g in enumerate(GROUPS)}
-
-
-def is_estimate(result: Result) -> bool:
-    """The result comes from a listing's stated data (nominal model), not a measurement."""
-    return (result.get("input") or {}).get("origin") == "nominal"
 
 
 def _bound_words(result: Result, section: Mapping[str, Any]) -> tuple[str, str]:

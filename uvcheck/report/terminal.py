@@ -14,15 +14,20 @@ STATUS_TEXT = {"complete": "measured", "partial": "partly measured (lower bound)
                "not-covered": "not measured", "below-detection": "below detection limit",
                "not-assessable": "not assessable"}
 #: The same statuses for a nominal ESTIMATE (``uvcheck screen``): nothing there was measured.
-ESTIMATE_STATUS_TEXT = {"complete": "estimate", "partial": "partly modelled (lower bound)",
+ESTIMATE_STATUS_TEXT = {"complete": "estimated", "partial": "partly modelled (lower bound)",
                         "not-covered": "not modelled", "below-detection": "below detection limit",
                         "not-assessable": "not assessable"}
 
 
+def is_estimate(d: dict) -> bool:
+    """The result comes from a listing's stated data (a nominal model, ``uvcheck screen``),
+    not from a measurement: every renderer asks this one question."""
+    return (d.get("input") or {}).get("origin") == "nominal" or d.get("nominal") is not None
+
+
 def status_text(status: str, d: dict) -> str:
     """A band or hazard status in words; an estimate is never called 'measured'."""
-    nominal = (d.get("input") or {}).get("origin") == "nominal" or d.get("nominal") is not None
-    return (ESTIMATE_STATUS_TEXT if nominal else STATUS_TEXT).get(status, status)
+    return (ESTIMATE_STATUS_TEXT if is_estimate(d) else STATUS_TEXT).get(status, status)
 
 
 def table(headers: Sequence[str], rows: Sequence[Sequence[Any]], right: Sequence[int] = ()) -> str:
