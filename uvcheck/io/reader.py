@@ -35,9 +35,11 @@ from __future__ import annotations
 import array
 import hashlib
 import math
+import os
 import re
 from dataclasses import dataclass, field, fields, replace
-from itertools import islice
+from collections import Counter
+from itertools import islice, repeat
 from pathlib import Path
 from typing import Any, Iterable, Iterator
 
@@ -285,64 +287,137 @@ def _clean_row(delim: str, decimal: str) -> re.Pattern:
     return _CLEAN_ROWS[key]
 
 
-def _row_width(line: str, delim: str) -> int:
-    """The number of numbers on a line that :func:`_clean_row` matched."""
-    return len(line.split()) if delim == "space" else line.count(DELIMITERS[delim]) + 1
+_DATA_RUNS: dict[tuple[str, str], tuple[re.Pattern, str | None]] = {}
+#: _NUM_DOT_TEXT and _NUM_COMMA_TEXT with possessive quantifiers (see :func:`_data_run`).
+_NUM_DOT_RUN = r"[-+]?+(?:\d++(?:\.\d*+)?+|\.\d++)(?:[eE][-+]?+\d++)?+"
+_NUM_COMMA_RUN = r"[-+]?+(?:\d++(?:,\d*+)?+|,\d++)(?:[eE][-+]?+\d++)?+"
 
 
-def _blocks(lines: list[str], delim: str, decimal: str, first: int = 0
-            ) -> tuple[list[_Block], _Num]:
-    """Runs of data rows (allowing up to 2 stray lines inside a run), and the number parser
-    that read them (its counts of mixed decimals and thousands separators)."""
+def _data_run(delim: str, decimal: str) -> tuple[re.Pattern, str | None]:
+    """A pattern for a run of consecutive lines (each ended by a newline) that are all data
+    rows in this format, found in one match over the text, and the other decimal mark it
+    admits, or None.
+
+    Each line of the run is a line :func:`_clean_row` matches, or one whose numbers use the
+    other decimal mark (``1,5`` where the mark is ``.``; not where that mark is the
+    delimiter): :class:`_Num` reads such a number ``against`` the convention, counting it
+    once (as a mixed decimal or a thousands separator), and every other number of the line
+    on its first pattern, so the line is a data row that counts one for each other mark in
+    it (a number holds at most one). The whitespace of the line patterns stops at newlines,
+    so each repetition is one line; a line without a newline in it is matched the same.
+
+    The quantifiers are possessive (Python 3.11): a number, a run of whitespace and a line
+    can each be read one way only (a digit run is followed by no digit, a number by
+    whitespace, the delimiter or the newline, none of which a number holds), so giving
+    characters back never finds another match; the patterns match what the plain ones do."""
+    key = (delim, decimal)
+    if key not in _DATA_RUNS:
+        this, that = ((_NUM_DOT_RUN, _NUM_COMMA_RUN) if decimal == "."
+                      else (_NUM_COMMA_RUN, _NUM_DOT_RUN))
+        other: str | None = "," if decimal == "." else "."
+        if delim != "space" and DELIMITERS[delim] in (decimal, other):
+            # the delimiter is a decimal mark: its own rows only (none for the decimal mark)
+            other = None
+        cell = this if other is None else rf"(?:{this}|{that})"
+        if delim != "space" and DELIMITERS[delim] == decimal:
+            line = r"(?!)"
+        elif delim == "space":
+            line = rf"[^\S\n]*+{cell}(?:[^\S\n]++{cell})++[^\S\n]*+"
+        else:
+            ch = re.escape(DELIMITERS[delim])
+            ws = r"[^\S\t\n]*+" if delim == "tab" else r"[^\S\n]*+"
+            line = rf"{ws}{cell}{ws}(?:{ch}{ws}{cell}{ws})++"
+        _DATA_RUNS[key] = (re.compile(rf"(?:{line}\n)*+"), other)
+    return _DATA_RUNS[key]
+
+
+def _blocks(lines: list[str], delim: str, decimal: str, first: int = 0,
+            text: str | None = None) -> tuple[list[_Block], int]:
+    """Runs of data rows (allowing up to 2 stray lines inside a run), and how many numbers
+    they were read with against the convention (the other decimal mark, thousands
+    separators: the count :class:`_Num` keeps, over every line tested).
+
+    A block's column count is the most common number of tokens among its data rows in its
+    first 500 lines (the larger count on a tie). Runs of lines that :func:`_data_run`
+    matches are taken at once (data rows, without tokenising; never blank); other lines
+    take the general test.
+
+    text : ``"\\n".join(lines[first:])``, when the caller has it."""
     num = _Num(decimal)
+    against = 0  # numbers in the runs read against the convention
     blocks: list[_Block] = []
+    counts: list[dict[int, int]] = []  # per block: data rows by token count (first 500 lines)
     cur: _Block | None = None
-    pending: list[int] = []
-    n_toks: dict[int, int] = {}  # tokens per line, for the column count below
-    clean = _clean_row(delim, decimal)
-    for i in range(first, len(lines)):
-        line = lines[i]
-        if not line.strip():
-            if cur is not None:
-                pending.append(i)
-            continue
-        if clean.match(line):
-            is_data = True
-            n_toks[i] = _row_width(line, delim)
-        else:
-            toks = _split(line, delim)
-            n_toks[i] = len(toks)
-            is_data = _is_data(toks, num)
-        if is_data:
-            n = n_toks[i]
-            if cur is not None and len([p for p in pending if lines[p].strip()]) <= 2:
-                cur.bad.extend(p for p in pending if lines[p].strip())
-                cur.end = i
+    cur_counts: dict[int, int] = {}
+    limit = 0
+    pending: list[int] = []  # non-blank, non-data lines since the block's last data row (≤ 2)
+    run, other = _data_run(delim, decimal)
+    ch = None if delim == "space" else DELIMITERS[delim]
+    buf = ("\n".join(islice(lines, first, None)) if text is None else text) + "\n"
+    pos = 0  # where line i starts in buf
+    i = first
+    n_lines = len(lines)
+    while i < n_lines:
+        end = run.match(buf, pos).end()
+        if end > pos:  # lines i … j - 1 are data rows
+            j = i + buf.count("\n", pos, end)
+            if other is not None:
+                against += buf.count(other, pos, end)
+            if cur is None:
+                line = lines[i]
+                cur = _Block(start=i, end=i, ncols=(len(line.split()) if ch is None
+                                                    else line.count(ch) + 1), bad=[])
+                cur_counts = {}
+                counts.append(cur_counts)
+                limit = i + 500
+            elif pending:
+                cur.bad.extend(pending)
                 pending = []
-                continue
-            if cur is not None:
-                blocks.append(cur)
-            cur = _Block(start=i, end=i, ncols=n, bad=[])
-            pending = []
-        else:
+            cur.end = j - 1
+            seg = lines[i:min(j, limit)]
+            widths = (map(len, map(str.split, seg)) if ch is None
+                      else map(str.count, seg, repeat(ch)))
+            for w, c in Counter(widths).items():
+                n = w if ch is None else w + 1
+                cur_counts[n] = cur_counts.get(n, 0) + c
+            i, pos = j, end
+            continue
+        line = lines[i]
+        pos += len(line) + 1
+        if not line.strip():
+            i += 1
+            continue
+        # a line without the delimiter is one token, no row (and no number is read)
+        toks = (_split(line, delim) if (ch in line if ch is not None else len(line.split()) > 1)
+                else [])
+        if _row_values(toks, num) is None:
             if cur is not None:
                 pending.append(i)
-                if len([p for p in pending if lines[p].strip()]) > 2:
+                if len(pending) > 2:
                     blocks.append(cur)
                     cur = None
                     pending = []
+            i += 1
+            continue
+        n = len(toks)
+        if cur is None:
+            cur = _Block(start=i, end=i, ncols=n, bad=[])
+            cur_counts = {}
+            counts.append(cur_counts)
+            limit = i + 500
+        else:
+            if pending:
+                cur.bad.extend(pending)
+                pending = []
+            cur.end = i
+        if i < limit:
+            cur_counts[n] = cur_counts.get(n, 0) + 1
+        i += 1
     if cur is not None:
         blocks.append(cur)
-    # column count = the most common count among rows of the block
-    for b in blocks:
-        counts: dict[int, int] = {}
-        for j in range(b.start, min(b.end + 1, b.start + 500)):
-            if lines[j].strip() and j not in b.bad:
-                n = n_toks[j] if j in n_toks else len(_split(lines[j], delim))
-                counts[n] = counts.get(n, 0) + 1
-        if counts:
-            b.ncols = max(counts, key=lambda k: (counts[k], k))
-    return blocks, num
+    for b, c in zip(blocks, counts):
+        b.ncols = max(c, key=lambda k: (c[k], k))
+    return blocks, against + num.mixed + num.thousands_seen
 
 
 def _big_blocks(blocks: list[_Block]) -> list[_Block]:
@@ -350,20 +425,58 @@ def _big_blocks(blocks: list[_Block]) -> list[_Block]:
     return [b for b in blocks if b.end - b.start + 1 - len(b.bad) >= 3]
 
 
-def _may_hold_rows(lines: list[str], delim: str, decimal: str, first: int) -> bool:
+_FOREIGN: dict[str, re.Pattern] = {}
+
+
+def _foreign(delim: str) -> re.Pattern:
+    """A character no data row of this delimiter holds: none of the characters of a number
+    (digits, any that ``\\d`` matches; either decimal mark, thousands separators, exponent,
+    sign), of a missing-value or infinity word in either case, the delimiter, whitespace or
+    quotes (which :func:`_split` strips). A token holding one is no number for :class:`_Num`
+    (no other character lowers to a letter of those words), so a line holding one is no data
+    row."""
+    if delim not in _FOREIGN:
+        word = "".join(sorted(set("".join(_MISSING | _INF | _NINF))))
+        ok = set("0123456789+-.,eE\"'") | set(word) | set(word.upper())
+        if delim != "space":
+            ok.add(DELIMITERS[delim])
+        _FOREIGN[delim] = re.compile("[^\\s\\d" + "".join(re.escape(c) for c in sorted(ok)) + "]")
+    return _FOREIGN[delim]
+
+
+def _may_hold_rows(lines: list[str], delim: str, decimal: str, first: int,
+                   text: str | None = None, spaced: list[str] | None = None) -> bool:
     """Whether any line from ``first`` on is a data row for this delimiter and decimal mark
     (the test :func:`_blocks` applies to each line); if none is, :func:`_blocks` finds no
     block, so the format need not be tried. Lines that cannot split into two tokens are
     passed over without tokenising: :func:`_split` gives one token to a line without the
-    delimiter character (and ``str.split()``'s count for whitespace)."""
+    delimiter character (and ``str.split()``'s count for whitespace).
+
+    text : ``"\\n".join(lines[first:])``, when the caller has it (no line holds a newline, so
+        the delimiter occurs in a line exactly when it occurs in the text).
+    spaced : the lines from ``first`` on that split into two or more tokens on whitespace,
+        when the caller has them (the candidates for ``delim="space"``)."""
     num = _Num(decimal)
-    ch = None if delim == "space" else DELIMITERS[delim]
     clean = _clean_row(delim, decimal)
-    for ln in islice(lines, first, None):
-        if (ch in ln) if ch is not None else len(ln.split()) > 1:
-            if clean.match(ln) or (ln.strip() and _is_data(_split(ln, delim), num)):
-                return True
+    foreign = _foreign(delim).search
+    if delim == "space":
+        candidates = spaced if spaced is not None else _spaced_lines(lines, first)
+    else:
+        ch = DELIMITERS[delim]
+        if text is not None and ch not in text:
+            return False
+        candidates = [ln for ln in islice(lines, first, None) if ch in ln]
+    for ln in candidates:
+        if foreign(ln):
+            continue  # no data row (nor a line _clean_row matches)
+        if clean.match(ln) or (ln.strip() and _is_data(_split(ln, delim), num)):
+            return True
     return False
+
+
+def _spaced_lines(lines: list[str], first: int) -> list[str]:
+    """The lines from ``first`` on that split into two or more tokens on whitespace."""
+    return [ln for ln in islice(lines, first, None) if len(ln.split()) > 1]
 
 
 def _choose_format(lines: list[str], opts: ReadOptions, where: str) -> tuple[str, str, list[_Block]]:
@@ -374,6 +487,8 @@ def _choose_format(lines: list[str], opts: ReadOptions, where: str) -> tuple[str
     if opts.decimal and opts.decimal not in (".", ","):
         raise InputFormatError(f"unknown decimal mark {opts.decimal!r}", where, "use '.' or ','")
     first = (opts.data_start - 1) if opts.data_start else 0
+    text = "\n".join(islice(lines, first, None))
+    spaced: list[str] | None = None  # found once, for both decimal marks
     best = None
     for d, dec in _CONFIGS:
         if delims and d not in delims:
@@ -382,9 +497,11 @@ def _choose_format(lines: list[str], opts: ReadOptions, where: str) -> tuple[str
             continue
         if d == "comma" and dec == ",":
             continue
-        if not _may_hold_rows(lines, d, dec, first):
+        if d == "space" and spaced is None:
+            spaced = _spaced_lines(lines, first)
+        if not _may_hold_rows(lines, d, dec, first, text, spaced):
             continue  # not one data row with this delimiter and decimal mark
-        bl, num = _blocks(lines, d, dec, first)
+        bl, against = _blocks(lines, d, dec, first, text)
         if not bl:
             continue
         top = max(bl, key=lambda b: b.end - b.start - len(b.bad))
@@ -392,7 +509,7 @@ def _choose_format(lines: list[str], opts: ReadOptions, where: str) -> tuple[str
         # a delimiter that really occurs in the rows beats whitespace splitting; fewer numbers
         # read against the convention (other decimal mark, thousands separators) win ties
         present = d == "space" or DELIMITERS[d] in lines[top.start]
-        score = (rows, -(num.mixed + num.thousands_seen), present)
+        score = (rows, -against, present)
         if best is None or score > best[0]:
             best = (score, d, dec, bl)
     if best is None:
@@ -423,23 +540,73 @@ SEPARATOR_SCAN_LINES = HEAD_LINES
 SEPARATOR_QUICK_ROWS = 200
 
 
-def _grouped_anywhere(text: str, mark: str, delim: str) -> bool:
+def _ascii_bytes(text: str) -> np.ndarray | None:
+    """The text's characters as bytes, when it is ASCII (one byte a character), else None."""
+    return np.frombuffer(text.encode("ascii"), dtype=np.uint8) if text.isascii() else None
+
+
+def _grouped_anywhere(text: str, mark: str, delim: str, b: np.ndarray | None = None) -> bool:
     """Whether the text may hold a number that only a thousands separator ``mark`` explains:
     two or more groups ('1.002.000'), or a group then the other mark ('1.234,5', not where
-    the other mark is the delimiter). A necessary condition, tested in one scan of the text
-    led by a literal character (fast); the token-by-token scan then decides."""
-    m = re.escape(mark)
-    pats = [rf"{m}\d{{3}}{m}\d"]
+    the other mark is the delimiter). A necessary condition (the patterns ``m\\d{3}m\\d`` and
+    ``m\\d{3}o\\d``), tested in one pass over the text; the token-by-token scan then decides.
+    ASCII text (``b``: its bytes, from :func:`_ascii_bytes`) is tested with numpy: where a
+    mark has a mark four characters on, the four characters around must be digits (``\\d`` is
+    0-9 there); other text with the regular expressions."""
     other = "," if mark == "." else "."
+    seconds = [mark]
     if delim == "space" or DELIMITERS[delim] != other:
-        pats.append(rf"{m}\d{{3}}{re.escape(other)}\d")
-    return any(re.search(p, text) is not None for p in pats)
+        seconds.append(other)
+    if b is None:
+        b = _ascii_bytes(text)
+    if b is None:
+        m = re.escape(mark)
+        return any(re.search(rf"{m}\d{{3}}{re.escape(c)}\d", text) is not None for c in seconds)
+    n = b.size
+    if n < 6:
+        return False
+    # places where the mark has the mark (or the other mark) four characters on: few or none
+    pair = b[4:n - 1] == ord(seconds[0])
+    for c in seconds[1:]:
+        pair |= b[4:n - 1] == ord(c)
+    pair &= b[:n - 5] == ord(mark)
+    if not pair.any():
+        return False
+    at = np.flatnonzero(pair)
+    zero = np.uint8(48)
+    for k in (1, 2, 3, 5):
+        pair = (b[at + k] - zero) < 10  # an ASCII digit (uint8 arithmetic wraps below '0')
+        at = at[pair]
+    return bool(at.size)
 
 
-def _int_cell_possible(text: str, n_lines: int, mark: str, delim: str) -> bool:
+def _group_possible(text: str, mark: str, b: np.ndarray | None = None) -> bool:
+    """Whether the text may hold a number with a group of three digits after ``mark`` (the
+    ambiguous '10.000' and the grouped '1.002.000' both have one: the mark, exactly three
+    digits, then no digit). A necessary condition for both; without it the token-by-token
+    scan finds neither. With numpy on ``b``, the text's bytes when it is ASCII."""
+    if b is None:
+        return re.search(rf"{re.escape(mark)}\d{{3}}(?!\d)", text) is not None
+    n = b.size
+    at = np.flatnonzero(b[:max(n - 3, 0)] == ord(mark))  # a mark with three characters after
+    zero = np.uint8(48)
+    for k in (1, 2, 3):
+        at = at[(b[at + k] - zero) < 10]  # an ASCII digit (uint8 arithmetic wraps below '0')
+    after = at + 4
+    return bool(np.any((after >= n) | ((b[np.minimum(after, n - 1)] - zero) >= 10)))
+
+
+def _int_cell_possible(text: str, n_lines: int, mark: str, delim: str,
+                       b: np.ndarray | None = None) -> bool:
     """Whether some cell of the text may lack the mark (a plain integer): certainly not when
     there are at least as many marks as cells and no cell holds two (no grouped number).
-    Counted in C; an over-count of cells only makes the scan run."""
+    Counted in C (with numpy on ``b``, the text's bytes when it is ASCII); an over-count of
+    cells only makes the scan run."""
+    if b is not None:
+        marks = int(np.count_nonzero(b == ord(mark)))
+        cells = (len(text.split()) if delim == "space"
+                 else int(np.count_nonzero(b == ord(DELIMITERS[delim]))) + n_lines)
+        return marks < cells
     cells = len(text.split()) if delim == "space" else text.count(DELIMITERS[delim]) + n_lines
     return text.count(mark) < cells
 
@@ -456,22 +623,30 @@ class _SepColumn:
     thousands_example: tuple[int, str] | None = None
 
 
-def _separator_evidence(lines: list[str], start: int, delim: str, mark: str, ncols: int
-                        ) -> list[_SepColumn]:
+def _separator_evidence(lines: list[str], start: int, delim: str, mark: str, ncols: int,
+                        text: str | None = None) -> list[_SepColumn]:
     """Per column, how the data rows from ``start`` (at most :data:`SEPARATOR_SCAN_LINES`)
     use ``mark``: as a decimal mark, as a thousands separator, or ambiguously.
 
     The scan stops once every column has used the mark as a plain decimal mark (the usual
     case, decided on the first row): then no column is ambiguous and the mark stays; and,
     where no grouped number appears in the head at all, after
-    :data:`SEPARATOR_QUICK_ROWS` data rows."""
+    :data:`SEPARATOR_QUICK_ROWS` data rows. Only the ambiguous and the grouped numbers (and,
+    beside them, the other counts) decide anything; where the text cannot hold either, the
+    scan is not made and every count stays 0.
+
+    text : ``"\\n".join(lines[start:start + SEPARATOR_SCAN_LINES])``, when the caller has it."""
     three, multi = _SEP_PATTERNS[mark]
     cols = [_SepColumn() for _ in range(ncols)]
     stop = min(len(lines), start + SEPARATOR_SCAN_LINES)
-    text = "\n".join(lines[start:stop])
-    grouped = _grouped_anywhere(text, mark, delim)
-    if not grouped and not _int_cell_possible(text, stop - start, mark, delim):
+    if text is None:
+        text = "\n".join(lines[start:stop])
+    b = _ascii_bytes(text)
+    grouped = _grouped_anywhere(text, mark, delim, b)
+    if not grouped and not _int_cell_possible(text, stop - start, mark, delim, b):
         return cols  # no grouped number and no integer cell: nothing to find
+    if not _group_possible(text, mark, b):
+        return cols  # no number with three digits after the mark: nothing ambiguous to find
     rows_left = stop - start if grouped else SEPARATOR_QUICK_ROWS
     for i in range(start, stop):
         if rows_left <= 0 or all(c.other for c in cols):
@@ -682,7 +857,7 @@ _FAST_LINE = re.compile(r"^\s*$|^\s*[-+]?(\d|[.,]\d|nan|inf)", re.I)
 
 
 def _fast_block(path: Path, decoded: Decoded, delim: str, decimal: str, start: int, ncols: int,
-                whole: list[str] | None = None
+                whole: list[str] | None = None, text: str | None = None
                 ) -> tuple[np.ndarray, int, int | None, array.array] | None:
     """Parse the clean leading part of a data block with numpy's C parser.
 
@@ -691,6 +866,8 @@ def _fast_block(path: Path, decoded: Decoded, delim: str, decimal: str, start: i
     (ragged rows, thousands separators, mixed decimals, stray text…), in which case the
     tolerant row-by-row parser reads it instead. Both give the same numbers for a clean block
     (tests/test_fuzz_reader.py checks this).
+
+    text : ``"\\n".join(whole[start:])``, when the caller has it.
     """
     state = {"last": start, "stop": None}
     comma_decimal = decimal == "," and delim != "comma"
@@ -708,7 +885,7 @@ def _fast_block(path: Path, decoded: Decoded, delim: str, decimal: str, start: i
             yield line.replace(",", ".") if comma_decimal else line
 
     rows: Iterable[str] = (lines() if whole is None
-                           else _clean_lines(whole, start, comma_decimal, state, at))
+                           else _clean_lines(whole, start, comma_decimal, state, at, text))
     import warnings as pywarnings
 
     try:
@@ -733,21 +910,28 @@ def _digit_led_lines(text: str) -> int:
         return 0
     if b.size == 0:
         return 0
-    firsts = np.concatenate(([0], np.flatnonzero(b == 10) + 1))  # where each line starts
-    ch = b[np.minimum(firsts, b.size - 1)]
-    good = (firsts < b.size) & (ch >= 48) & (ch <= 57)
-    bad = np.flatnonzero(~good)
-    return int(bad[0]) if bad.size else int(firsts.size)
+    if not 48 <= int(b[0]) <= 57:
+        return 0
+    zero = np.uint8(48)  # '0'; uint8 arithmetic wraps the bytes below it to 208 and more
+    newline = b[:-1] == 10  # newlines followed by a character (a trailing one starts no line)
+    bad = newline & (b[1:] - zero >= 10)  # ... by a line that does not start with a digit
+    if bad.any():
+        # the first such line's index: the newlines up to and including the one before it
+        return int(np.count_nonzero(newline[:int(bad.argmax())])) + 1
+    # every line starts with a digit but a last, empty one after a trailing newline
+    return int(np.count_nonzero(newline)) + 1
 
 
 def _clean_lines(whole: list[str], start: int, comma_decimal: bool, state: dict[str, Any],
-                 at: array.array) -> list[str]:
+                 at: array.array, text: str | None = None) -> list[str]:
     """What ``_fast_block``'s line generator yields, for a file held as a list of lines, with
     ``state`` and ``at`` filled the same way: the lines from ``start`` up to the first that is
     not clean. The leading lines that start with a digit are found at once; the line-by-line
-    test then goes on from the first line that does not."""
+    test then goes on from the first line that does not (``text``: the lines from ``start``
+    joined with newlines, when the caller has them)."""
     part = whole[start:]
-    text = "\n".join(part)
+    if text is None:
+        text = "\n".join(part)
     k = _digit_led_lines(text)
     n = k
     for line in islice(part, k, None):
@@ -762,13 +946,19 @@ def _clean_lines(whole: list[str], start: int, comma_decimal: bool, state: dict[
     if n < len(part):
         state["stop"] = start + n
     m = min(k, n)
-    at.extend(range(start, start + m))
+    at.frombytes(np.arange(start, start + m, dtype=f"u{at.itemsize}").tobytes())
     at.extend(i for i, line in enumerate(islice(part, m, n), start=start + m) if line.strip())
     if at:
         state["last"] = at[-1]
-    if comma_decimal:
-        return [line.replace(",", ".") for line in part[:n]]
-    return part[:n]
+    if n < len(part):
+        del part[n:]
+        text = None
+    if comma_decimal and part:
+        # replaced in the text at once: its lines are the lines joined with newlines
+        if text is None:
+            text = "\n".join(part)
+        return text.replace(",", ".").split("\n")
+    return part
 
 
 def _look_for_more_blocks(path: Path, decoded: Decoded, delim: str, num: _Num, start: int,
@@ -807,8 +997,7 @@ def read_spectrum(path: str | Path, options: ReadOptions | None = None, **overri
         raise InputFormatError("file not found", where, "check the path")
     if p.is_dir():
         raise InputFormatError("this is a folder, not a file", where)
-    with open(p, "rb") as fh:
-        head_bytes = fh.read(HEAD_BYTES)
+    head_bytes = _read_head(p)
     decoded = sniff_encoding(head_bytes, opts.encoding, where)
     base = [decoded.guess] if decoded.guess else []
     # a file shorter than the head is held whole: decoded once, hashed from the same bytes
@@ -828,6 +1017,22 @@ def read_spectrum(path: str | Path, options: ReadOptions | None = None, **overri
                 "read as Latin-1 / Windows-1252: check µ, ² and ° in the units"]
     return _read(p, Decoded("cp1252", "mixed: fell back to Latin-1 / Windows-1252", False),
                  opts, warnings, raw)
+
+
+def _read_head(p: Path) -> bytes:
+    """The first :data:`HEAD_BYTES` bytes of the file (all of it when it is shorter), as
+    ``read(HEAD_BYTES)`` gives them; the buffer asked for is sized to the file (a buffer of
+    the full head costs more than reading a small file), and a file that grew since its
+    size was taken is read on."""
+    with open(p, "rb") as fh:
+        try:
+            want = min(HEAD_BYTES, os.fstat(fh.fileno()).st_size + 1)
+        except OSError:
+            want = HEAD_BYTES
+        head = fh.read(want)
+        if len(head) == want < HEAD_BYTES:
+            head += fh.read(HEAD_BYTES - want)
+    return head
 
 
 def _read(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str],
@@ -869,8 +1074,12 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
     scan = (big0[opts.block - 1] if opts.block and 1 <= opts.block <= len(big0)
             else max(blocks, key=lambda b: b.end - b.start))  # the block read below
     start0 = scan.start
+    # a file held whole within the head: the lines from the block on, joined once for the
+    # separator scan and the fast parser (both take "\n".join(head[start0:]) then)
+    body = ("\n".join(whole[start0:]) if whole is not None and len(whole) == len(head)
+            and len(whole) <= start0 + SEPARATOR_SCAN_LINES else None)
     # (a decimal mark given with --decimal is never switched, nor flagged as ambiguous)
-    sep_cols = (_separator_evidence(head, start0, delim, decimal, scan.ncols)
+    sep_cols = (_separator_evidence(head, start0, delim, decimal, scan.ncols, body)
                 if opts.decimal is None else [])
     other_mark = "," if decimal == "." else "."
     switch = (opts.decimal is None and any(c.thousands for c in sep_cols)
@@ -968,7 +1177,8 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
     n_rows = 0
     row_lines = array.array("I")  # 0-based line index of every data row, for error places
     resume_at = block.start
-    fast = (_fast_block(p, decoded, delim, decimal, block.start, ncols, whole)
+    fast = (_fast_block(p, decoded, delim, decimal, block.start, ncols, whole,
+                        body if block.start == start0 else None)
             if not block.bad else None)
     if fast is not None:
         arr, last_fast, stop, row_lines = fast
@@ -1141,27 +1351,27 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
         raise InputFormatError("fewer than two rows with finite wavelength and value",
                                f"{where} column {val_idx + 1}",
                                "check the value column (--column) and the number format")
-    if np.any(wl_nm <= 0):
+    if (wl_nm <= 0).any():
         k = int(np.nonzero(wl_nm <= 0)[0][0])
         raise InputFormatError(f"wavelength {wl_nm[k]:g} nm is zero or negative", row_place(k),
                                "the wavelength column must hold wavelengths; "
                                "choose it with --wavelength-column")
-    if np.any(wl_nm > 1e5):
+    if (wl_nm > 1e5).any():
         k = int(np.nonzero(wl_nm > 1e5)[0][0])
         raise InputFormatError(f"wavelength {wl_nm[k]:g} nm is not optical radiation "
                                f"(read as {wl_label}, {wl_how})", row_place(k),
                                "wrong wavelength unit? give --wavelength-unit (nm, um, m, cm-1)")
-    if np.any(np.abs(values) > MAX_ABS_VALUE):
+    if (np.abs(values) > MAX_ABS_VALUE).any():
         k = int(np.nonzero(np.abs(values) > MAX_ABS_VALUE)[0][0])
         raw = v_raw[np.nonzero(finite)[0][k]]
         raise InputFormatError(f"value {raw:g} is too large to be a measurement (limit "
                                f"{MAX_ABS_VALUE:g} {_spectral_unit_text(su)})",
                                row_place(k, val_idx),
                                "the row is corrupt or the column is not a spectrum; repair the file")
-    d = np.diff(wl_nm)
-    if np.all(d > 0):
+    d = wl_nm[1:] - wl_nm[:-1]  # numpy.diff, without its wrapper
+    if (d > 0).all():
         order = "ascending"
-    elif np.all(d < 0):
+    elif (d < 0).all():
         order = "descending (reversed)"
     else:
         order = "unsorted (sorted)"
@@ -1182,10 +1392,10 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
                                f"column {wl_idx + 1}",
                                "the wavelength column must hold wavelengths; "
                                "choose it with --wavelength-column")
-    if not np.any(values):
+    if not values.any():
         warnings.append("all values are zero: was the lamp off, or is this the wrong column? "
                         "(--column)")
-    steps = np.diff(wl_nm)
+    steps = d if order == "ascending" else np.diff(wl_nm)  # (wl_nm unchanged since d)
     gaps = _gaps(wl_nm, steps)
     if gaps:
         warnings.append("gaps in the data (not bridged): " + ", ".join(f"{a:g}–{b:g} nm" for a, b in gaps[:4]))
@@ -1316,13 +1526,14 @@ def _pick_columns(names: list[str], data: list[np.ndarray], opts: ReadOptions, w
                   start: int, hint: str = "") -> tuple[int, int, str | None]:
     n = len(names)
     seen: dict[int, bool] = {}
+    fin = [_finite_values(c) for c in data]  # each column's finite values, found once
 
     def is_index(k: int) -> bool:  # column k looks like a row or pixel index (tested once)
         if k not in seen:
-            seen[k] = _is_index(names[k], data[k])
+            seen[k] = _is_index(names[k], fin[k])
         return seen[k]
 
-    usable = [k for k in range(n) if np.isfinite(data[k]).any()]
+    usable = [k for k in range(n) if fin[k].size]
     note = None
     if opts.wavelength_column:
         wl_idx = _col_ref(opts.wavelength_column, names, "wavelength column", where)
@@ -1336,7 +1547,7 @@ def _pick_columns(names: list[str], data: list[np.ndarray], opts: ReadOptions, w
                 note = f"column {index_cols[0] + 1} ({names[index_cols[0]]!r}) looks like a row or pixel index and was ignored"
         else:
             rest = [k for k in usable if k not in index_cols]
-            if index_cols and rest and not _monotonic(data[rest[0]]):
+            if index_cols and rest and not _monotonic(fin[rest[0]]):
                 rest = []
             if not rest:
                 raise InputFormatError(
@@ -1358,7 +1569,7 @@ def _pick_columns(names: list[str], data: list[np.ndarray], opts: ReadOptions, w
                                    "choose another --column")
         return wl_idx, val_idx, note
     cands = [k for k in usable if k != wl_idx and not is_index(k)]
-    second_wl = [k for k in cands if _WL_NAME.search(names[k]) or _same_axis(data[wl_idx], data[k])]
+    second_wl = [k for k in cands if _WL_NAME.search(names[k]) or _same_axis(fin[wl_idx], fin[k])]
     if second_wl:
         raise InputFormatError(
             f"the file holds spectra side by side (wavelength columns {wl_idx + 1} and "
@@ -1381,28 +1592,37 @@ def _pick_columns(names: list[str], data: list[np.ndarray], opts: ReadOptions, w
     return wl_idx, cands[0], note
 
 
-def _is_index(name: str, col: np.ndarray) -> bool:
+def _finite_values(col: np.ndarray) -> np.ndarray:
+    """The finite values of a column, in order (the column itself when all are finite)."""
+    ok = np.isfinite(col)
+    return col if ok.all() else col[ok]
+
+
+def _is_index(name: str, c: np.ndarray) -> bool:
+    """Whether a column (``c``: its finite values) looks like a row or pixel index."""
     if _INDEX_NAME.match(name or ""):
         return True
-    c = col[np.isfinite(col)]
     if c.size < 3:
         return False
     return bool(c[0] in (0.0, 1.0) and np.all(np.diff(c) == 1.0))
 
 
-def _monotonic(col: np.ndarray) -> bool:
-    c = col[np.isfinite(col)]
+def _monotonic(c: np.ndarray) -> bool:
+    """Whether finite values ``c`` strictly rise or strictly fall."""
     d = np.diff(c)
     return bool(c.size >= 2 and (np.all(d > 0) or np.all(d < 0)))
 
 
-def _same_axis(wl: np.ndarray, other: np.ndarray) -> bool:
-    a, b = wl[np.isfinite(wl)], other[np.isfinite(other)]
+def _same_axis(a: np.ndarray, b: np.ndarray) -> bool:
+    """Whether ``b`` (finite values) looks like a second wavelength axis beside ``a`` (the
+    wavelength column's finite values): monotonic, overlapping most of its range."""
     if a.size < 5 or b.size < 5:
         return False
-    mono = np.all(np.diff(b) > 0) or np.all(np.diff(b) < 0)
+    d = b[1:] - b[:-1]  # numpy.diff, without its wrapper
+    if not ((d > 0).all() or (d < 0).all()):
+        return False
     overlap = min(a.max(), b.max()) - max(a.min(), b.min())
-    return bool(mono and overlap > 0.5 * (a.max() - a.min()) and b.min() > 0.5 * a.min())
+    return bool(overlap > 0.5 * (a.max() - a.min()) and b.min() > 0.5 * a.min())
 
 
 def _to_nm(wl: np.ndarray, unit_text: str | None, how: str, where: str,
@@ -1472,7 +1692,7 @@ def _to_nm(wl: np.ndarray, unit_text: str | None, how: str, where: str,
 
 def _gaps(wl: np.ndarray, steps: np.ndarray) -> list[tuple[float, float]]:
     """Steps more than 3× both neighbouring steps and > 1 nm are gaps."""
-    if steps.size < 3:
+    if steps.size < 3 or not (steps > 1.0).any():
         return []
     left = np.concatenate(([steps[1]], steps[:-1]))
     right = np.concatenate((steps[1:], [steps[-2]]))
@@ -1486,6 +1706,10 @@ def _isolated_spikes(v: np.ndarray) -> list[int]:
         return []
     a = np.abs(v)
     nb = np.maximum(np.concatenate(([a[1]], a[:-1])), np.concatenate((a[1:], [a[-2]])))
+    # a spike stands 1000x above its neighbours at least (the scale below only raises the
+    # bar), so without such a sample there is none, and the median is not needed
+    if not (a > 1000.0 * nb).any():
+        return []
     scale = median(a) or float(a.max()) * 1e-12
     spikes = np.nonzero((a > 1000.0 * np.maximum(nb, scale * 10)) & (a > 0))[0]
     return [int(k) for k in spikes]
