@@ -16,8 +16,7 @@ import pytest
 from conftest import gaussian
 from typer.testing import CliRunner
 
-from uvcheck.claims import MARGIN, _no_uvc_reason, judge, readings_from_listing, \
-    readings_from_measurement
+from uvcheck.claims import MARGIN, judge, readings_from_listing, readings_from_measurement
 from uvcheck.cli import app
 from uvcheck.conditions import Conditions
 from uvcheck.io.listing import VAGUE_TIMES, parse_claim_text, parse_listing, read_listing
@@ -207,8 +206,17 @@ def test_no_uvc_basis_has_no_doubled_parenthesis():
         assert bad not in v.basis
     assert v.basis.count("(") == v.basis.count(")")
     # the germicidal sentence as a clause: no leading 'No germicidal UV-C:', no final stop
-    s = "No germicidal UV-C: the apparent UV-C is likely stray light (flat level (x) at y)."
-    assert _no_uvc_reason(s) == "the apparent UV-C is likely stray light (flat level (x) at y)"
+    from dataclasses import replace
+
+    from uvcheck.germicidal import evaluate_germicidal
+
+    g = evaluate_germicidal(Spectrum([200.0, 800.0], [0.0, 0.0], "irradiance",
+                                     lines=((253.7, 0.5),)), Conditions(measurement_distance_m=1.0))
+    g = replace(g, statement="No germicidal UV-C: the apparent UV-C is likely stray light "
+                             "(flat level (x) at y).")
+    assert g.statement_clause() == "the apparent UV-C is likely stray light (flat level (x) at y)"
+    assert g.statement_clause(keep_head=True) == ("No germicidal UV-C: the apparent UV-C is "
+                                                   "likely stray light (flat level (x) at y)")
 
 
 # --- 2. nominal ranges in the terminal, never 'measured' ------------------------------------

@@ -283,7 +283,8 @@ class Reading:
         key = ("hd", distance_m)
         if key not in self._cache:
             c = replace(self.conditions, use_distance_m=distance_m)
-            self._cache[key] = (evaluate_hazards(self.spectrum, c).to_dict().get("use_distance") or {})
+            use = evaluate_hazards(self.spectrum, c).use_distance
+            self._cache[key] = use.to_dict() if use is not None else {}
         return self._cache[key]
 
     def room(self, box: Any, placement: str) -> Any:
@@ -442,24 +443,23 @@ def _emission(c: Any, ev: Evidence) -> Verdict:
                        rule=RULE_TECHNOLOGY_EMITS)
     r = ev.readings[0]
     g = r.germicidal_at(None)
-    d = g.to_dict()
     from uvcheck.features import find_lines, peak_info
 
     lines = find_lines(r.spectrum)
     pk = peak_info(r.spectrum)
-    uvc_ok = d["status"] in UVC_EMITTING  # (partial: found, part of the band unmeasured)
+    uvc_ok = g.status in UVC_EMITTING  # (partial: found, part of the band unmeasured)
     if lam is not None:
         tol = max(PEAK_TOLERANCE_NM, (pk.fwhm_nm or 0.0) / 2)
         near = [ln for ln in lines if abs(ln.wavelength_nm - lam) <= tol]
         close = [ln for ln in lines if abs(ln.wavelength_nm - lam) <= tol + PEAK_UNLIKELY_NM]
         in_uvc = lam < 280.0
         if in_uvc and not uvc_ok:
-            ub = d["uvc"].get("upper_bound")
+            ub = g.uvc.upper_bound
             return Verdict(c.id, c.kind, c.text, "cannot-hold",
                            Quantity(lam, "nm", "stated peak"),
                            Quantity(pk.peak_nm, "nm", "measured peak"), None,
                            f"stated {lam:g} nm, but the output peaks at {sig(pk.peak_nm, 4)} nm "
-                           f"with no germicidal UV-C: {_no_uvc_reason(d['statement'])}",
+                           f"with no germicidal UV-C: {g.statement_clause()}",
                            (), (), ev_kind, r.label, {"uvc_upper_bound_W_m2": ub}, RULE_PRESENCE)
         if near:
             ln = min(near, key=lambda x: abs(x.wavelength_nm - lam))
@@ -487,8 +487,8 @@ def _emission(c: Any, ev: Evidence) -> Verdict:
     if uvc_band and not uvc_ok:
         return Verdict(c.id, c.kind, c.text, "cannot-hold",
                        Quantity(dl, r.spectrum.integrated_unit, f"emission in {c.band_name or 'the band'} above the detection limit"),
-                       Quantity(d["uvc"].get("upper_bound"), r.spectrum.integrated_unit, "UV-C, at most"), None,
-                       _no_uvc_reason(d["statement"], capital=True), (), (), ev_kind, r.label,
+                       Quantity(g.uvc.upper_bound, r.spectrum.integrated_unit, "UV-C, at most"), None,
+                       g.statement_clause(keep_head=True), (), (), ev_kind, r.label,
                        rule=RULE_PRESENCE)
     if integ.value > dl:
         frac = integ.value / tot if tot > 0 else None
@@ -504,16 +504,6 @@ def _emission(c: Any, ev: Evidence) -> Verdict:
                    Quantity(integ.value, r.spectrum.integrated_unit, "band output"), None,
                    f"nothing above the detection limit ({sig(dl)} {r.spectrum.integrated_unit}) in {lo:g}–{hi:g} nm",
                    (), (), ev_kind, r.label, rule=RULE_PRESENCE)
-
-
-def _no_uvc_reason(statement: str, capital: bool = False) -> str:
-    """The germicidal module's no-UV-C sentence as a clause: without its leading "No germicidal
-    UV-C:" and its closing full stop (so that it can sit inside a one-line basis)."""
-    s = (statement or "").strip()
-    head = "No germicidal UV-C:"
-    if not capital and s.startswith(head):
-        s = s[len(head):].strip()
-    return s[:-1] if s.endswith(".") else s
 
 
 def _q(a: Any) -> Quantity | None:
@@ -824,7 +814,7 @@ def _ozone(c: Any, ev: Evidence) -> Verdict:
     r = ev.likely()
     if r is None:
         return _na(c, ev, "no reading of the lamp", ("a spectrum or the lamp technology",))
-    oz = r.germicidal_at(None).to_dict().get("ozone") or {}
+    oz = r.germicidal_at(None).ozone.to_dict()
     status = oz.get("status")
     note = oz.get("note") or oz.get("basis") or ""
     ev_kind = r.evidence

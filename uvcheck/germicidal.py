@@ -51,6 +51,9 @@ from uvcheck.units import sig, to_trade
 from uvcheck.weighting import Weighting, constant_weighting, get_weighting
 
 UVC_BAND_NM = (200.0, 280.0)
+#: How a no-UV-C statement starts ("No germicidal UV-C: <why>."); see
+#: :meth:`GermicidalResult.statement_clause`.
+NO_UVC_HEAD = "No germicidal UV-C:"
 FAR_UVC_BAND_NM = (200.0, 235.0)
 #: Ozone: oxygen absorbs below about 240 nm (NOTES.md §4, PRACTICE.md §4-6).
 OZONE_EDGE_NM = 240.0
@@ -342,6 +345,15 @@ class GermicidalResult:
         return self._organism_results[1]
 
     # --- questions the claims engine asks -------------------------------------------------
+    def statement_clause(self, keep_head: bool = False) -> str:
+        """The statement as a clause that can sit inside a one-line basis: without its
+        closing full stop and (unless ``keep_head``) without the leading
+        :data:`NO_UVC_HEAD` of a no-UV-C statement."""
+        s = self.statement.strip()
+        if not keep_head and s.startswith(NO_UVC_HEAD):
+            s = s[len(NO_UVC_HEAD):].strip()
+        return s[:-1] if s.endswith(".") else s
+
     def effective_by_id(self, action_id: str) -> EffectiveReading:
         for e in self.effective:
             if e.reading.id == action_id:
@@ -1006,13 +1018,13 @@ def _status(spec: Spectrum, uvc: Reading, far: Reading, artefacts: tuple[Artefac
         return _not_ruled_out("the noise", lo)
     if artefacts:
         reason = "; ".join(a.detail for a in artefacts)
-        return "no-uvc", (f"No germicidal UV-C: the apparent UV-C ({_fmt(uvc.upper_bound, uvc.unit)}"
+        return "no-uvc", (f"{NO_UVC_HEAD} the apparent UV-C ({_fmt(uvc.upper_bound, uvc.unit)}"
                           f"{where}) is likely stray light or noise, not germicidal output "
                           f"({reason}).")
     if uvc.status == "below-detection":
         if uvc.coverage < 1.0:
             return _not_ruled_out("the detection limit", lo)
-        return "no-uvc", (f"No germicidal UV-C: UV-C is below the detection limit "
+        return "no-uvc", (f"{NO_UVC_HEAD} UV-C is below the detection limit "
                           f"(< {_fmt(uvc.detection_limit, uvc.unit)}{where}).")
     frac = uvc.fraction or 0.0
     if uvc.status == "partial":
@@ -1022,7 +1034,7 @@ def _status(spec: Spectrum, uvc: Reading, far: Reading, artefacts: tuple[Artefac
         return "partial", (f"UV-C at least {_fmt(uvc.value, uvc.unit)}{where}: the data start at "
                            f"{lo:g} nm, so part of UV-C was not measured.")
     if frac < NO_UVC_FRACTION:
-        return "no-uvc", (f"No germicidal UV-C: UV-C is {sig(frac * 100)} % of the {_seen(spec)} "
+        return "no-uvc", (f"{NO_UVC_HEAD} UV-C is {sig(frac * 100)} % of the {_seen(spec)} "
                           f"output ({_fmt(uvc.value, uvc.unit)}{where}).")
     eqs = [e.equivalent for e in effective if e.equivalent is not None and e.equivalent > 0]
     eq_txt = ""
