@@ -80,7 +80,7 @@ def test_a_listing_alone_is_screened_and_extra_sections_are_added():
 
 @pytest.mark.parametrize("names, expected", [
     (None, "give only one of --scale-band, --scale-lux, --scale-total"),
-    (B._MANIFEST_NAMES, "give only one of scale_band, scale_lux, scale_total")])
+    (B.MANIFEST_NAMES, "give only one of scale_band, scale_lux, scale_total")])
 def test_two_scalings_are_refused_naming_the_inputs(names, expected):
     inputs = ProductInputs(scale_band="UVC=1 W/m2", scale_lux="500 lx")
     with pytest.raises(ConfigurationError, match=expected):
@@ -93,3 +93,38 @@ def test_two_scalings_are_refused_naming_the_inputs(names, expected):
 def test_neither_file_is_refused():
     with pytest.raises(ConfigurationError, match="give a spectrum file, a listing file"):
         assess_files(None, None, ProductInputs(), AssessOptions(uncertainty=False))
+
+
+def test_an_empty_scaling_option_still_counts_as_given():
+    # `--scale-lux "" --scale-total ...` was refused before the pipeline existed: an option
+    # given, even empty, is given
+    with pytest.raises(ConfigurationError, match="give only one of"):
+        ProductInputs(scale_lux="", scale_total="1 W/m2").check()
+
+
+def test_input_errors_come_before_file_errors_and_the_spectrum_before_the_listing(tmp_path):
+    bad_listing = tmp_path / "bad.toml"
+    bad_listing.write_text("this is [not toml", encoding="utf-8")
+    empty = tmp_path / "empty.csv"
+    empty.write_text("", encoding="utf-8")
+    # an input error is reported before any file is read (the spectrum does not exist)
+    r = runner.invoke(app, ["assess", str(tmp_path / "missing.csv"), "--emitter", "bogus"])
+    assert r.exit_code == 2 and "--emitter" in r.output and "not found" not in r.output
+    r = runner.invoke(app, ["assess", str(tmp_path / "missing.csv"), "--distance", "xx"])
+    assert r.exit_code == 2 and "--distance" in r.output and "not found" not in r.output
+    # between two bad files, the spectrum's error comes first (as before the pipeline)
+    r = runner.invoke(app, ["assess", str(empty), "--claims", str(bad_listing)])
+    assert r.exit_code == 2 and "empty" in r.output
+
+
+def test_batch_input_errors_name_the_manifest_columns(tmp_path):
+    m = tmp_path / "m.csv"
+    m.write_text("id,spectrum,listing,emitter,tube_length\n"
+                 f"a,{TUBE},,bogus,\n"
+                 f"b,{TUBE},,point,1 m\n"
+                 f"c,,{TUBE_LISTING},bogus,\n", encoding="utf-8")
+    rows = [B.run_product(p, B.BatchSettings()) for p in B.read_manifest(m)]
+    assert [r["status"] for r in rows] == ["error", "error", "error"]
+    assert rows[0]["error"].startswith("emitter:") and "--emitter" not in rows[0]["error"]
+    assert rows[1]["error"].startswith("tube_length:") and "Give emitter tube" in rows[1]["error"]
+    assert rows[2]["error"].startswith("emitter:")   # refused for a listing alone too

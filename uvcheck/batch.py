@@ -326,14 +326,15 @@ def assess_product(product: Product, settings: BatchSettings) -> Any:
     if product.problem:
         raise ConfigurationError(product.problem)
     o = {**settings.defaults, **product.options}
-    inputs = ProductInputs(distance=o.get("distance"), scale_band=o.get("scale_band"),
-                           scale_lux=o.get("scale_lux"), scale_total=o.get("scale_total"),
-                           source_size=o.get("source_size"), use_distance=o.get("use_distance"),
+    given = {k: o.get(k) or None for k in OPTION_KEYS}   # an empty cell is not given
+    inputs = ProductInputs(distance=given["distance"], scale_band=given["scale_band"],
+                           scale_lux=given["scale_lux"], scale_total=given["scale_total"],
+                           source_size=given["source_size"], use_distance=given["use_distance"],
                            general_lighting=str(o.get("general_lighting", "")).lower() in _TRUE,
-                           exposure_time=o.get("exposure_time") or "8 h",
-                           electrical_power=o.get("electrical_power"),
-                           emitter=o.get("emitter"), tube_length=o.get("tube_length"))
-    inputs.check(_MANIFEST_NAMES)
+                           exposure_time=given["exposure_time"] or "8 h",
+                           electrical_power=given["electrical_power"],
+                           emitter=given["emitter"], tube_length=given["tube_length"])
+    inputs.check(MANIFEST_NAMES)
     listing = None
     if product.listing is not None:
         from uvcheck.io.listing import read_listing
@@ -342,11 +343,14 @@ def assess_product(product: Product, settings: BatchSettings) -> Any:
     opts = (read_options(None, None, None, o.get("column"), None, o.get("wavelength_unit"),
                          o.get("unit"), None, None) if product.spectrum is not None else None)
     return assess_files(product.spectrum, listing, inputs, settings.assess_options(), opts,
-                        names=_MANIFEST_NAMES)
+                        names=MANIFEST_NAMES)
 
 
-#: Where a per-product input error points: the manifest's column names.
-_MANIFEST_NAMES = {k: k for k in ("distance", "scale_band", "scale_lux", "scale_total")}
+#: Where a per-product input error points: the manifest's column (or the batch option of the
+#: same meaning); the keys of :data:`uvcheck.cli.CLI_NAMES`.
+MANIFEST_NAMES = {k: k for k in ("distance", "scale_band", "scale_lux", "scale_total",
+                                 "source_size", "alpha", "use_distance", "exposure_time",
+                                 "electrical_power", "emitter", "tube_length")}
 
 
 def summary_row(product: Product, result: Mapping[str, Any] | None, error: str | None = None,

@@ -10,7 +10,7 @@ from __future__ import annotations
 import functools
 import sys
 from pathlib import Path
-from typing import Annotated, Any, Callable, Optional
+from typing import Annotated, Any, Callable, Mapping, Optional
 
 import typer
 
@@ -163,13 +163,8 @@ def assess(
                              decision_rule, draws)
     opts = read_options(encoding, delimiter, decimal, column, wavelength_column, wavelength_unit,
                         unit, block, data_start)
-    emitter_options(emitter, tube_length)   # a wrong model fails before any file is read
-    listing = None
-    if claims is not None:
-        from uvcheck.io.listing import read_listing
-
-        listing = read_listing(claims)
-    result = assess_files(spectrum_file, listing, inputs, options, opts).to_dict()
+    # the listing file is read after the spectrum (each file's errors in that order)
+    result = assess_files(spectrum_file, claims, inputs, options, opts).to_dict()
     if json_out:
         write_json(json_out, result, force=force)
     if not quiet and json_out != "-":
@@ -293,43 +288,57 @@ def screen(
     _exit_for(result, fail_on)
 
 
-def emitter_options(emitter: str | None, tube_length: str | None) -> dict[str, Any]:
+#: Where an error in a per-product input points: the command-line option (``batch`` passes
+#: its manifest's column names instead, :data:`uvcheck.batch.MANIFEST_NAMES`).
+CLI_NAMES: dict[str, str] = {
+    "distance": "--distance", "scale_band": "--scale-band", "scale_lux": "--scale-lux",
+    "scale_total": "--scale-total", "source_size": "--source-size", "alpha": "--alpha",
+    "use_distance": "--use-distance", "exposure_time": "--exposure-time",
+    "electrical_power": "--electrical-power", "emitter": "--emitter",
+    "tube_length": "--tube-length"}
+
+
+def emitter_options(emitter: str | None, tube_length: str | None,
+                    names: Mapping[str, str] = CLI_NAMES) -> dict[str, Any]:
     """Conditions fields from --emitter and --tube-length (empty when neither is given, so a
-    listing's emitter model applies)."""
+    listing's emitter model applies). names : where an error points (:data:`CLI_NAMES`)."""
     from uvcheck.conditions import EMITTERS
     from uvcheck.errors import ConfigurationError
 
     out: dict[str, Any] = {}
     if emitter is not None:
         if emitter not in EMITTERS:
-            raise ConfigurationError(f"unknown emitter model {emitter!r}", "--emitter",
+            raise ConfigurationError(f"unknown emitter model {emitter!r}", names["emitter"],
                                      f"use one of: {', '.join(EMITTERS)}")
         out["emitter"] = emitter
     if tube_length is not None:
         if emitter not in (None, "tube"):
-            raise ConfigurationError("--tube-length applies to the tube emitter model",
-                                     "--tube-length", "give --emitter tube, or leave it out")
+            raise ConfigurationError(f"{names['tube_length']} applies to the tube emitter model",
+                                     names["tube_length"],
+                                     f"give {names['emitter']} tube, or leave it out")
         out["emitter"] = "tube"
-        out["tube_length_m"] = _length(tube_length, "--tube-length")
+        out["tube_length_m"] = _length(tube_length, names["tube_length"])
     return out
 
 
 def conditions_from_options(d0: float | None, source_size: str | None, alpha: float | None,
                             use_distance: str | None, general_lighting: bool,
                             exposure_time: str, listing: Any | None = None,
-                            electrical_power: str | None = None, **extra: Any) -> Any:
+                            electrical_power: str | None = None,
+                            names: Mapping[str, str] = CLI_NAMES, **extra: Any) -> Any:
     """Conditions from the command-line options; a listing fills what the options leave open
-    (emitter model, tube length, source size, electrical power, distance of use)."""
+    (emitter model, tube length, source size, electrical power, distance of use).
+    names : where an error points (:data:`CLI_NAMES`)."""
     from uvcheck.conditions import Conditions
     from uvcheck.errors import ConfigurationError
     from uvcheck.units import parse_quantity
 
     if source_size is not None and alpha is not None:
-        raise ConfigurationError("give --source-size or --alpha, not both")
-    t = parse_quantity(exposure_time, "time", "--exposure-time").value_si
-    size = _length(source_size, "--source-size", default_unit="mm")
+        raise ConfigurationError(f"give {names['source_size']} or {names['alpha']}, not both")
+    t = parse_quantity(exposure_time, "time", names["exposure_time"]).value_si
+    size = _length(source_size, names["source_size"], default_unit="mm")
     power = None if electrical_power is None else parse_quantity(
-        electrical_power, "power", "--electrical-power").value_si
+        electrical_power, "power", names["electrical_power"]).value_si
     if listing is not None:
         if size is None and alpha is None:
             size = listing.source_size_m
@@ -339,7 +348,7 @@ def conditions_from_options(d0: float | None, source_size: str | None, alpha: fl
             extra["emitter"] = listing.emitter
             if listing.emitter == "tube":
                 extra.setdefault("tube_length_m", listing.tube_length_m)
-    use_m = _length(use_distance, "--use-distance")
+    use_m = _length(use_distance, names["use_distance"])
     if use_m is None and listing is not None:
         use_m = listing.use_distance_m  # the listing's stated distance of use
     return Conditions(measurement_distance_m=d0,

@@ -18,11 +18,6 @@ from typing import Any, Callable, Mapping
 
 from uvcheck.errors import ConfigurationError
 
-#: Where an error in an input points, for the command line (``batch`` names its manifest
-#: columns instead).
-CLI_NAMES: Mapping[str, str] = {"distance": "--distance", "scale_band": "--scale-band",
-                                "scale_lux": "--scale-lux", "scale_total": "--scale-total"}
-
 
 @dataclass(frozen=True)
 class ProductInputs:
@@ -52,34 +47,54 @@ class ProductInputs:
     emitter: str | None = None
     tube_length: str | None = None
 
-    def check(self, names: Mapping[str, str] = CLI_NAMES) -> None:
-        """Refuse contradictory inputs before any file is read."""
-        given = [k for k in ("scale_band", "scale_lux", "scale_total") if getattr(self, k)]
+    def check(self, names: Mapping[str, str] | None = None) -> None:
+        """Refuse a contradictory or unreadable input before any file is read (the texts are
+        parsed here and again when used). names : where an error points (default
+        :data:`uvcheck.cli.CLI_NAMES`)."""
+        from uvcheck.cli import CLI_NAMES, _length, conditions_from_options, emitter_options
+
+        names = CLI_NAMES if names is None else names
+        given = [k for k in ("scale_band", "scale_lux", "scale_total")
+                 if getattr(self, k) is not None]
         if len(given) > 1:
             raise ConfigurationError("give only one of " + ", ".join(
                 names[k] for k in ("scale_band", "scale_lux", "scale_total")))
+        _length(self.distance or None, names["distance"])
+        conditions_from_options(None, self.source_size, self.alpha, self.use_distance,
+                                self.general_lighting, self.exposure_time,
+                                electrical_power=self.electrical_power, names=names,
+                                **emitter_options(self.emitter, self.tube_length, names))
 
 
 def assess_files(spectrum_file: Path | None, listing: Any | None, inputs: ProductInputs,
                  options: Any, read_opts: Any = None, *,
                  extra: Callable[[Any, Any], Mapping[str, Any] | None] | None = None,
-                 names: Mapping[str, str] = CLI_NAMES) -> Any:
+                 names: Mapping[str, str] | None = None) -> Any:
     """The :class:`~uvcheck.assessment.Assessment` of one product.
 
     spectrum_file : the measured spectrum, or None to screen the listing alone.
     listing : a :class:`uvcheck.io.listing.Listing` (its claims are judged; it fills the
-        conditions the inputs leave open), or None.
+        conditions the inputs leave open), or the path of one (read after the spectrum), or
+        None.
     options : :class:`uvcheck.assessment.AssessOptions` (limit set, uncertainty). A listing
         alone is screened as ``uvcheck screen`` does (no Monte Carlo; its spread is the range
         of its nominal readings).
     read_opts : :class:`uvcheck.io.reader.ReadOptions` (None: infer everything).
     extra : ``extra(spectrum, conditions)`` gives further sections (e.g. the room model's),
         added to the assessment.
-    names : where an input error points (:data:`CLI_NAMES`, or a manifest's columns).
-    """
-    from uvcheck.cli import _length, apply_scaling, conditions_from_options, emitter_options
+    names : where an input error points (default :data:`uvcheck.cli.CLI_NAMES`; ``batch``
+        gives its manifest's columns).
 
+    Errors come in this order: the inputs (:meth:`ProductInputs.check`, before any file is
+    read), then the spectrum file, then a listing given as a path.
+    """
+    from uvcheck.cli import (CLI_NAMES, _length, apply_scaling, conditions_from_options,
+                             emitter_options)
+
+    names = CLI_NAMES if names is None else names
     inputs.check(names)
+    if isinstance(listing, (str, Path)) and spectrum_file is None:
+        listing = _read_listing(listing)
     if spectrum_file is None:
         if listing is None:
             raise ConfigurationError("give a spectrum file, a listing file, or both")
@@ -95,10 +110,19 @@ def assess_files(spectrum_file: Path | None, listing: Any | None, inputs: Produc
     spec = apply_scaling(spec, inputs.scale_band, inputs.scale_lux, inputs.scale_total)
     d0 = (_length(inputs.distance, names["distance"]) if inputs.distance
           else report.measurement_distance_m)
+    if isinstance(listing, (str, Path)):
+        listing = _read_listing(listing)
     cond = conditions_from_options(d0, inputs.source_size, inputs.alpha, inputs.use_distance,
                                    inputs.general_lighting, inputs.exposure_time,
                                    listing=listing, electrical_power=inputs.electrical_power,
-                                   **emitter_options(inputs.emitter, inputs.tube_length))
+                                   names=names,
+                                   **emitter_options(inputs.emitter, inputs.tube_length, names))
     more = extra(spec, cond) if extra is not None else None
     return assess(spec, cond, report, options, extra=dict(more) if more else None,
                   listing=listing)
+
+
+def _read_listing(path: str | Path) -> Any:
+    from uvcheck.io.listing import read_listing
+
+    return read_listing(Path(path))
