@@ -128,6 +128,21 @@ def ohno_width_for_fwhm(fwhm_nm: float) -> float:
     return fwhm_nm / OHNO_FWHM_PER_WIDTH
 
 
+def _colour_led() -> tuple[Any, Any]:
+    """colour-science's SpectralShape and sd_single_led_Ohno2005, imported with numpy's print
+    options kept: importing colour sets them to numpy 1.13's (``legacy="1.13"``) for the
+    whole process, which changes every repr of a numpy number after it (matplotlib hashes
+    such reprs into the SVG ids of the notes' figures, so a note would depend on what the
+    process had done before)."""
+    opts = np.get_printoptions()
+    try:
+        from colour import SpectralShape
+        from colour.colorimetry import sd_single_led_Ohno2005
+    finally:
+        np.set_printoptions(**opts)
+    return SpectralShape, sd_single_led_Ohno2005
+
+
 def led_shape(peak_nm: float, fwhm_nm: float | None = None) -> Spectrum:
     """Relative spectrum of a single-colour LED (Ohno 2005 model), total 1. [relative]
 
@@ -141,8 +156,7 @@ def led_shape(peak_nm: float, fwhm_nm: float | None = None) -> Spectrum:
     >>> float(s.wavelength_nm[np.argmax(s.values)])
     395.0
     """
-    from colour import SpectralShape
-    from colour.colorimetry import sd_single_led_Ohno2005
+    SpectralShape, sd_single_led_Ohno2005 = _colour_led()
 
     sources = ["colour-science sd_single_led_Ohno2005 (Ohno 2005)"]
     if fwhm_nm is None:
@@ -259,8 +273,7 @@ def white_led_shape(tone: str = "cool") -> Spectrum:
     >>> integrate(white_led_shape("cool"), 180, 400).value < 0.02   # share below 400 nm
     True
     """
-    from colour import SpectralShape
-    from colour.colorimetry import sd_single_led_Ohno2005
+    SpectralShape, sd_single_led_Ohno2005 = _colour_led()
 
     presets = _lamp_data()["white_led"]
     if tone not in presets:
