@@ -246,10 +246,10 @@ def _check_fail_on(fail_on: str | None) -> None:
 
 def _exit_for(result: dict, fail_on: str | None) -> None:
     """Status 1 when a claim has the --fail-on verdict (or a worse one)."""
-    from uvcheck.batch import VERDICT_ORDER, fails
-
     if fail_on is None:
         return
+    from uvcheck.batch import VERDICT_ORDER, fails
+
     worst = max((VERDICT_ORDER.index(c["verdict"]) for c in result.get("claims", [])
                  if c.get("verdict") in VERDICT_ORDER), default=0)
     if fails(VERDICT_ORDER[worst], fail_on):

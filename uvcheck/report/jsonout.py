@@ -12,7 +12,6 @@ import json
 import math
 import os
 import sys
-import secrets
 from pathlib import Path
 from typing import Any
 
@@ -69,7 +68,9 @@ def write_text_atomic(path: Path, text: str | bytes, force: bool = False) -> Pat
     # The temporary file is created like any new file (mode 0o666 less the umask), not with
     # mkstemp's 0o600, so colleagues can read the result as they could any other file.
     for _ in range(100):
-        tmp = str(folder / f".{path.name}.{secrets.token_hex(4)}.part")
+        # os.urandom is what secrets.token_hex draws from (secrets costs ms to import where
+        # numpy.random, which imports it too, is not loaded)
+        tmp = str(folder / f".{path.name}.{os.urandom(4).hex()}.part")
         try:
             fd = os.open(tmp, os.O_WRONLY | os.O_CREAT | os.O_EXCL | getattr(os, "O_BINARY", 0),
                          0o666)
