@@ -947,3 +947,33 @@ def test_batch_notes_do_not_depend_on_the_number_of_processes(tmp_path):
         assert r.returncode == 0, r.stderr
     for name in ("a.html", "b.html", "c.html"):
         assert (tmp_path / "n1" / name).read_bytes() == (tmp_path / "n2" / name).read_bytes(), name
+
+
+def test_the_plan_cache_keeps_recent_grids_within_its_memory_budget():
+    # a batch mixing many instruments: the integration plans stay within their byte budget,
+    # the newest grid's plans are kept, and every integral is the one a fresh plan gives
+    from uvcheck import spectrum as S
+    from uvcheck.weighting import get_weighting
+
+    w = get_weighting("S_actinic")
+    cache = S._PLAN_CACHE
+    old_budget = cache.max_bytes
+    cache.clear()
+    cache.max_bytes = 200_000
+    try:
+        rng = np.random.default_rng(2)
+        last = None
+        for k in range(60):
+            wl = np.sort(rng.uniform(200.0, 800.0, 1500 + k))
+            sp = S.Spectrum(wl, np.ones_like(wl), "irradiance")
+            got = S.integrate(sp, 200.0, 400.0, w)
+            assert cache.nbytes <= cache.max_bytes
+            last = (sp, got)
+        keys = list(cache)
+        assert keys and keys[-1][0] == S._grid_key(last[0])
+        fresh = S.Spectrum(last[0].wavelength_nm, last[0].values, "irradiance")
+        cache.clear()
+        assert S.integrate(fresh, 200.0, 400.0, w) == last[1]
+    finally:
+        cache.clear()
+        cache.max_bytes = old_budget

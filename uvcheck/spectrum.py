@@ -21,7 +21,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass, field, fields, replace
 from types import MappingProxyType
-from typing import Any, Callable, Mapping
+from typing import Any, Callable, Iterator, Mapping
 
 import numpy as np
 
@@ -298,8 +298,45 @@ def _area(weight: Weight | None, a: float, b: float) -> float:
     return area
 
 
-#: At most this many integration plans (:class:`_Plan`) are kept; then the cache starts again.
-_PLAN_CACHE_MAX = 256
+class _BoundedCache:
+    """A dictionary that keeps at most ``max_bytes`` of arrays: the oldest entries go first
+    when a new one needs room (so a batch that mixes instruments keeps the recent grids, and
+    a very long spectrum cannot fill memory with its coefficient vectors). An entry larger
+    than the whole budget is not kept."""
+
+    def __init__(self, max_bytes: int):
+        self.max_bytes = max_bytes
+        self.nbytes = 0
+        self._d: dict[Any, tuple[Any, int]] = {}
+
+    def get(self, key: Any) -> Any:
+        hit = self._d.get(key)
+        return None if hit is None else hit[0]
+
+    def put(self, key: Any, value: Any, nbytes: int) -> None:
+        if nbytes > self.max_bytes or key in self._d:
+            return
+        while self._d and self.nbytes + nbytes > self.max_bytes:
+            _, n = self._d.pop(next(iter(self._d)))
+            self.nbytes -= n
+        self._d[key] = (value, nbytes)
+        self.nbytes += nbytes
+
+    def clear(self) -> None:
+        self._d.clear()
+        self.nbytes = 0
+
+    def __iter__(self) -> Iterator[Any]:
+        return iter(self._d)
+
+    def __len__(self) -> int:
+        return len(self._d)
+
+
+#: Memory for the integration plans (:class:`_Plan`): their coefficient vectors. [bytes]
+PLAN_CACHE_BYTES = 64 << 20
+#: Memory for the whole-grid trapezoid weights (:func:`grid_weights`). [bytes]
+GRID_WEIGHTS_BYTES = 16 << 20
 
 
 def _grid_key(spectrum: Spectrum) -> bytes:
@@ -351,7 +388,7 @@ class _Plan:
 #: a grid, so a batch computes each weighted coefficient vector once. Only tabulated weightings
 #: (immutable, loaded once per process; the key holds the object) and plain bands are kept;
 #: the arrays are read-only.
-_PLAN_CACHE: dict[tuple, _Plan] = {}
+_PLAN_CACHE = _BoundedCache(PLAN_CACHE_BYTES)
 
 
 def _interp_at(wl: np.ndarray, y: np.ndarray, j: int, x: float) -> float:
@@ -400,13 +437,11 @@ def _plan(spectrum: Spectrum, lo: float, hi: float, weight: Weight | None,
         coverage = 1.0 if covered and math.isclose(sum(b - a for a, b in covered), hi - lo) else 0.0
     plan = _Plan(parts=tuple(parts), covered=tuple(covered), coverage=coverage, var=var)
     if key is not None:
-        if len(_PLAN_CACHE) >= _PLAN_CACHE_MAX:
-            _PLAN_CACHE.clear()
-        _PLAN_CACHE[key] = plan
+        _PLAN_CACHE.put(key, plan, sum(p[2].nbytes for p in plan.parts) + 512)
     return plan
 
 
-_GRID_WEIGHTS: dict[bytes, np.ndarray] = {}
+_GRID_WEIGHTS = _BoundedCache(GRID_WEIGHTS_BYTES)
 
 
 def grid_weights(spectrum: Spectrum) -> np.ndarray:
@@ -418,9 +453,7 @@ def grid_weights(spectrum: Spectrum) -> np.ndarray:
     if c is None:
         c = trapezoid_weights(spectrum.wavelength_nm)
         c.setflags(write=False)
-        if len(_GRID_WEIGHTS) >= _PLAN_CACHE_MAX:
-            _GRID_WEIGHTS.clear()
-        _GRID_WEIGHTS[key] = c
+        _GRID_WEIGHTS.put(key, c, c.nbytes)
     return c
 
 
