@@ -347,7 +347,7 @@ def assess_product(product: Product, settings: BatchSettings) -> Any:
 
 
 #: Where a per-product input error points: the manifest's column (or the batch option of the
-#: same meaning); the keys of :data:`uvcheck.cli.CLI_NAMES`.
+#: same meaning); the keys of :data:`uvcheck.pipeline.CLI_NAMES`.
 MANIFEST_NAMES = {k: k for k in ("distance", "scale_band", "scale_lux", "scale_total",
                                  "source_size", "alpha", "use_distance", "exposure_time",
                                  "electrical_power", "emitter", "tube_length")}

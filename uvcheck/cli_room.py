@@ -37,12 +37,6 @@ def _triple(text: str, where: str) -> tuple[float, float, float]:
     return vals  # type: ignore[return-value]
 
 
-def _length(text: str, where: str) -> float:
-    from uvcheck.units import parse_quantity
-
-    return parse_quantity(text, "length", where).value_si
-
-
 def _fmt(value: float | None, si: str) -> str:
     from uvcheck.units import sig, to_trade
 
@@ -294,7 +288,9 @@ def room_command(
         from uvcheck.io.reader import ReadOptions, read_spectrum
 
         spec, report = read_spectrum(spectrum_file, ReadOptions(unit=unit, column=column))
-        d0 = _length(distance, "--distance") if distance else report.measurement_distance_m
+        # the room model checks the distance itself (positive and finite)
+        d0 = (parse_quantity(distance, "length", "--distance").value_si if distance
+              else report.measurement_distance_m)
         lamp = _placed("--distance", lamp_from_spectrum, spec, geom, d0)
     dose = parse_quantity(target_dose, "dose", "--target-dose").value_si if target_dose else None
     result = _placed("--lamp-at", evaluate_room, room, lamp, **rs["settings"],

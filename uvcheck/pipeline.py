@@ -19,6 +19,101 @@ from typing import Any, Callable, Mapping
 from uvcheck.errors import ConfigurationError
 
 
+#: Where an error in a per-product input points: the command-line option (``batch`` passes
+#: its manifest's column names instead, :data:`uvcheck.batch.MANIFEST_NAMES`).
+CLI_NAMES: dict[str, str] = {
+    "distance": "--distance", "scale_band": "--scale-band", "scale_lux": "--scale-lux",
+    "scale_total": "--scale-total", "source_size": "--source-size", "alpha": "--alpha",
+    "use_distance": "--use-distance", "exposure_time": "--exposure-time",
+    "electrical_power": "--electrical-power", "emitter": "--emitter",
+    "tube_length": "--tube-length"}
+
+
+def emitter_options(emitter: str | None, tube_length: str | None,
+                    names: Mapping[str, str] = CLI_NAMES) -> dict[str, Any]:
+    """Conditions fields from --emitter and --tube-length (empty when neither is given, so a
+    listing's emitter model applies). names : where an error points (:data:`CLI_NAMES`)."""
+    from uvcheck.conditions import EMITTERS
+    from uvcheck.errors import ConfigurationError
+
+    out: dict[str, Any] = {}
+    if emitter is not None:
+        if emitter not in EMITTERS:
+            raise ConfigurationError(f"unknown emitter model {emitter!r}", names["emitter"],
+                                     f"use one of: {', '.join(EMITTERS)}")
+        out["emitter"] = emitter
+    if tube_length is not None:
+        if emitter not in (None, "tube"):
+            raise ConfigurationError(f"{names['tube_length']} applies to the tube emitter model",
+                                     names["tube_length"],
+                                     f"give {names['emitter']} tube, or leave it out")
+        out["emitter"] = "tube"
+        out["tube_length_m"] = _length(tube_length, names["tube_length"])
+    return out
+
+
+def conditions_from_options(d0: float | None, source_size: str | None, alpha: float | None,
+                            use_distance: str | None, general_lighting: bool,
+                            exposure_time: str, listing: Any | None = None,
+                            electrical_power: str | None = None,
+                            names: Mapping[str, str] = CLI_NAMES, **extra: Any) -> Any:
+    """Conditions from the command-line options; a listing fills what the options leave open
+    (emitter model, tube length, source size, electrical power, distance of use).
+    names : where an error points (:data:`CLI_NAMES`)."""
+    from uvcheck.conditions import Conditions
+    from uvcheck.errors import ConfigurationError
+    from uvcheck.units import parse_quantity
+
+    if source_size is not None and alpha is not None:
+        raise ConfigurationError(f"give {names['source_size']} or {names['alpha']}, not both")
+    t = parse_quantity(exposure_time, "time", names["exposure_time"]).value_si
+    size = _length(source_size, names["source_size"], default_unit="mm")
+    power = None if electrical_power is None else parse_quantity(
+        electrical_power, "power", names["electrical_power"]).value_si
+    if listing is not None:
+        if size is None and alpha is None:
+            size = listing.source_size_m
+        if power is None:
+            power = listing.electrical_power_W
+        if "emitter" not in extra and listing.emitter:
+            extra["emitter"] = listing.emitter
+            if listing.emitter == "tube":
+                extra.setdefault("tube_length_m", listing.tube_length_m)
+    use_m = _length(use_distance, names["use_distance"])
+    if use_m is None and listing is not None:
+        use_m = listing.use_distance_m  # the listing's stated distance of use
+    return Conditions(measurement_distance_m=d0,
+                      use_distance_m=use_m,
+                      source_size_m=size, alpha_rad=alpha, general_lighting=general_lighting,
+                      exposure_time_s=t, electrical_power_W=power, **extra)
+
+
+def apply_scaling(spec: Any, scale_band: str | None, scale_lux: str | None,
+                  scale_total: str | None) -> Any:
+    from uvcheck import scaling
+
+    if scale_band:
+        return scaling.scale_by_band(spec, scale_band)
+    if scale_lux:
+        return scaling.scale_by_lux(spec, scale_lux)
+    if scale_total:
+        return scaling.scale_by_total(spec, scale_total)
+    return spec
+
+
+def _length(text: str | None, where: str, default_unit: str | None = None) -> float | None:
+    if text is None:
+        return None
+    from uvcheck.units import parse_quantity
+
+    q = parse_quantity(text, "length", where, default_unit=default_unit).value_si
+    if not q > 0:
+        from uvcheck.errors import ConfigurationError
+
+        raise ConfigurationError(f"{text!r} must be a positive distance", where)
+    return q
+
+
 @dataclass(frozen=True)
 class ProductInputs:
     """The per-product inputs as texts, as the command line or a manifest row gives them.
@@ -50,9 +145,7 @@ class ProductInputs:
     def check(self, names: Mapping[str, str] | None = None) -> None:
         """Refuse a contradictory or unreadable input before any file is read (the texts are
         parsed here and again when used). names : where an error points (default
-        :data:`uvcheck.cli.CLI_NAMES`)."""
-        from uvcheck.cli import CLI_NAMES, _length, conditions_from_options, emitter_options
-
+        :data:`CLI_NAMES`)."""
         names = CLI_NAMES if names is None else names
         given = [k for k in ("scale_band", "scale_lux", "scale_total")
                  if getattr(self, k) is not None]
@@ -82,15 +175,12 @@ def assess_files(spectrum_file: Path | None, listing: Any | None, inputs: Produc
     read_opts : :class:`uvcheck.io.reader.ReadOptions` (None: infer everything).
     extra : ``extra(spectrum, conditions)`` gives further sections (e.g. the room model's),
         added to the assessment.
-    names : where an input error points (default :data:`uvcheck.cli.CLI_NAMES`; ``batch``
+    names : where an input error points (default :data:`CLI_NAMES`; ``batch``
         gives its manifest's columns).
 
     Errors come in this order: the inputs (:meth:`ProductInputs.check`, before any file is
     read), then the spectrum file, then a listing given as a path.
     """
-    from uvcheck.cli import (CLI_NAMES, _length, apply_scaling, conditions_from_options,
-                             emitter_options)
-
     names = CLI_NAMES if names is None else names
     inputs.check(names)
     if isinstance(listing, (str, Path)) and spectrum_file is None:
