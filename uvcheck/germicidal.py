@@ -401,9 +401,8 @@ class GermicidalResult:
         best = most_susceptible(self.irradiance_for, medium, None, percent)
         if best is None:
             return None
-        rd = self.violet_blue.reading if best.organism.pathway == "violet_blue" else self.uvc
-        ta = "at_least" if rd.value is None else ("at_most" if rd.status == "partial" else "estimate")
-        return _rebased(best, best.irradiance_basis, ta)
+        return _rebased(best, best.irradiance_basis,
+                        times_are(best.organism, self.uvc, self.violet_blue))
 
     def estimate_for(self, organism: str | Organism | None = None, medium: str = "any",
                      percent: float = 99.9) -> InactivationEstimate | None:
@@ -415,10 +414,8 @@ class GermicidalResult:
         if organism is None:
             return self.most_susceptible_for(medium, percent)
         o = organism if isinstance(organism, Organism) else get_organism(organism)
-        rd = self.violet_blue.reading if o.pathway == "violet_blue" else self.uvc
-        ta = "at_least" if rd.value is None else ("at_most" if rd.status == "partial" else "estimate")
         return estimate(o, self.irradiance_for(o), basis="favourable equivalent irradiance",
-                        times_are=ta)
+                        times_are=times_are(o, self.uvc, self.violet_blue))
 
     def spread_254(self) -> dict:
         """Most and least favourable 254-nm-equivalent values across action spectra."""
@@ -936,12 +933,6 @@ class OrganismPlan:
             by_key[key] = out
             return out
 
-        def times_are(o: Organism) -> str:
-            rd = vb.reading if o.pathway == "violet_blue" else uvc
-            if rd.value is None:
-                return "at_least"
-            return "at_most" if rd.status == "partial" else "estimate"
-
         def basis(o: Organism) -> str:
             where = "here" if self.distance_m is None else f"at {self.distance_m:g} m"
             if o.pathway == "violet_blue":
@@ -955,17 +946,27 @@ class OrganismPlan:
                         "transferred by the action spectrum")
             return txt
 
-        inact = tuple(estimate(o, irradiance_for(o), basis=basis(o), times_are=times_are(o))
-                      for o in self.rows)
+        inact = tuple(estimate(o, irradiance_for(o), basis=basis(o),
+                               times_are=times_are(o, uvc, vb)) for o in self.rows)
         ms: dict[str, dict[str, InactivationEstimate | None]] = {}
         for pathway in ("uvc", "violet_blue"):
             ms[pathway] = {}
             for medium in ("air", "surface", "water"):
                 best = most_susceptible(irradiance_for, medium, pathway)
                 if best is not None:
-                    best = _rebased(best, basis(best.organism), times_are(best.organism))
+                    best = _rebased(best, basis(best.organism), times_are(best.organism, uvc, vb))
                 ms[pathway][medium] = best
         return inact, ms
+
+
+def times_are(o: Organism, uvc: "Reading", violet_blue: "EffectiveReading") -> str:
+    """How an organism's times read at this lamp: ``at_least`` where its pathway's figure is
+    only an upper bound (no value), ``at_most`` where the band was partly measured (the
+    irradiance is a lower bound), else ``estimate``."""
+    rd = violet_blue.reading if o.pathway == "violet_blue" else uvc
+    if rd.value is None:
+        return "at_least"
+    return "at_most" if rd.status == "partial" else "estimate"
 
 
 def _rebased(e: InactivationEstimate, basis: str, times_are: str) -> InactivationEstimate:
