@@ -520,3 +520,24 @@ def test_merge_into_and_renderer():
     text = "\n".join(lines)
     assert "E_S" in text and "95 %" in text and "\x1b" not in text
     assert render_uncertainty_lines(d) == lines      # the whole dict works too
+
+
+def test_terminal_marks_a_partly_measured_uvc_interval_as_a_lower_bound():
+    # the UV-C line of the uncertainty block carries '≥' where UV-C was partly measured (an
+    # invented 278 nm LED measured from 220 nm), as the hazard rows and the germicidal
+    # section do; a fully measured UV-C line carries none
+    import numpy as np
+
+    from uvcheck.assessment import AssessOptions, assess
+    from uvcheck.conditions import Conditions
+    from uvcheck.spectrum import Spectrum
+    from uvcheck.uncertainty import render_uncertainty_lines
+
+    for start, mark in ((220.0, "≥ "), (200.0, "")):
+        wl = np.arange(start, 701.0)
+        v = 8e-3 * np.exp(-0.5 * ((wl - 278.0) / 5.5) ** 2) + 1e-7
+        d = assess(Spectrum(wl, v, "irradiance", noise_floor=3e-6),
+                   Conditions(measurement_distance_m=0.05), options=AssessOptions()).to_dict()
+        line = next(x for x in render_uncertainty_lines(d) if x.strip().startswith("UV-C"))
+        assert line.strip().startswith(f"UV-C {mark}") and f"(95 %: {mark}" in line, line
+        assert (d["uncertainty"]["germicidal"]["uvc"]["interval_is_lower_bound"]) == bool(mark)

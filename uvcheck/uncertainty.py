@@ -1869,7 +1869,9 @@ def render_uncertainty_lines(u: Mapping[str, Any], d: Mapping[str, Any] | None =
     if g:
         uvc = g.get("uvc") or {}
         if uvc.get("interval_95"):
-            out.append(f"  UV-C {sig(uvc['value'])} {g['unit']} (95 %: {_fmt_iv(uvc['interval_95'])})")
+            lb = "≥ " if uvc.get("interval_is_lower_bound") else ""   # as the hazard rows
+            out.append(f"  UV-C {lb}{sig(uvc['value'])} {g['unit']} "
+                       f"(95 %: {lb}{_fmt_iv(uvc['interval_95'])})")
         mf = (g.get("equivalent_254") or {}).get("most_favourable")
         if mf:
             out.append(f"  254-nm-equivalent (most favourable) {sig(mf['value'])} {g['unit']} "
