@@ -86,3 +86,24 @@ def test_wavelength_units():
 def test_durations():
     assert format_duration(90) == "1.5 min"
     assert format_duration(math.inf) == "unlimited"
+
+
+def test_parsed_units_are_kept_and_errors_name_each_place():
+    """parse_unit keeps what it has read (a batch reads '8 h' and the same spectral units for
+    every product) without changing a result or an error: the kept unit equals a fresh parse,
+    and an unreadable unit is refused every time, naming the place of that call (our own
+    rule for error messages)."""
+    from uvcheck.units import _parse_unit, parse_unit
+
+    first = parse_unit("uW/cm2/nm")
+    assert parse_unit("uW/cm2/nm", "elsewhere") is first
+    fresh = _parse_unit("uW/cm2/nm")
+    assert (first.scale, dict(first.dims), first.text) == (fresh.scale, dict(fresh.dims),
+                                                           fresh.text)
+    for place in ("exposure_time", "--exposure-time"):
+        with pytest.raises(UnitError) as err:
+            parse_unit("W m - 2", place)
+        assert err.value.where == place
+    with pytest.raises(UnitError) as err:
+        parse_quantity("3 furlongs", "length", "distance")
+    assert err.value.where == "distance"

@@ -246,6 +246,10 @@ def parse_unit(text: str, where: str | None = None) -> ParsedUnit:
     text : e.g. ``"uW/cm^2/nm"``, ``"W m-2 nm-1"``, ``"W/(m²·nm)"``, ``"mJ/cm2"``, ``"min"``.
     where : the place to name in an error message.
 
+    A text read once is not parsed again (the result is immutable and does not depend on
+    ``where``; a batch parses the same few units for every product). A text that cannot be
+    read is parsed again each time, so its error names this call's place.
+
     Examples
     --------
     >>> u = parse_unit("uW/cm2/nm"); round(u.scale * 1e-9, 12)   # in W m^-2 nm^-1
@@ -253,6 +257,21 @@ def parse_unit(text: str, where: str | None = None) -> ParsedUnit:
     >>> parse_unit("W m-2 nm-1").dims_key()
     (('W', 1), ('m', -3))
     """
+    if isinstance(text, str):
+        try:
+            return _parsed_unit(text)
+        except UnitError:
+            pass
+    return _parse_unit(text, where)
+
+
+@functools.lru_cache(maxsize=1024)
+def _parsed_unit(text: str) -> ParsedUnit:
+    return _parse_unit(text, None)
+
+
+def _parse_unit(text: str, where: str | None = None) -> ParsedUnit:
+    """:func:`parse_unit` without the cache."""
     place = where or "unit"
     norm = normalise_unit_text(text)
     # "m-2" is an exponent; "W m -2" is not supported. Join "m -2" written with a space.
