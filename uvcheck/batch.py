@@ -64,8 +64,10 @@ from uvcheck.errors import ConfigurationError, InputFormatError, UvcheckError
 
 #: Summary columns, in this order (our own names). ``uvc_W_m2`` is the UV-C (200–280 nm)
 #: irradiance where the spectrum is an irradiance and the value is established; its status
-#: says why it is empty otherwise (``below-detection``, ``likely-stray-light``,
-#: ``not-covered``, ``shape-only``, …): an empty cell is never a zero. ``origin`` is
+#: says why it is empty otherwise (``below-detection``, ``likely-stray-light``, ``not-covered``,
+#: ``shape-only``, …; ``partial-below-detection`` and ``partial-likely-stray-light`` where the
+#: data cover UV-C in part, so that holds in the measured part only and UV-C is not ruled
+#: out): an empty cell is never a zero. ``origin`` is
 #: ``measured``, or ``nominal`` for a listing screened without a spectrum (every figure of
 #: such a row is an ESTIMATE from the stated data). ``risk_group`` is at the IEC 62471
 #: assessment distance; ``risk_group_at_use`` at the distance of use (``use_distance_m``: the
@@ -380,6 +382,8 @@ def summary_row(product: Product, result: Mapping[str, Any] | None, error: str |
 
 
 def _fill(row: dict[str, Any], result: Mapping[str, Any]) -> None:
+    from uvcheck.report.terminal import partly_measured
+
     row["status"] = "ok"
     row["origin"] = (result.get("input") or {}).get("origin")
     spectral = result.get("spectral") or {}
@@ -387,6 +391,9 @@ def _fill(row: dict[str, Any], result: Mapping[str, Any]) -> None:
     uvc = (result.get("germicidal") or {}).get("uvc") or {}
     row["uvc_W_m2"] = uvc.get("value") if uvc.get("unit") == "W m-2" else None
     row["uvc_status"] = uvc.get("status")
+    if row["uvc_status"] in ("below-detection", "likely-stray-light") and partly_measured(uvc):
+        # so in the part measured only: UV-C is not ruled out
+        row["uvc_status"] = "partial-" + row["uvc_status"]
     rg = result.get("risk_group") or {}
     row["risk_group"] = rg.get("group")
     row["risk_group_is_lower_bound"] = rg.get("is_lower_bound")

@@ -418,18 +418,30 @@ class GermicidalResult:
                         times_are=times_are(o, self.uvc, self.violet_blue))
 
     def spread_254(self) -> dict:
-        """Most and least favourable 254-nm-equivalent values across action spectra."""
-        pairs = [(e.reading.id, e.equivalent if e.equivalent is not None else e.equivalent_upper_bound)
-                 for e in self.effective]
-        pairs = [(i, v) for i, v in pairs if v is not None and v > 0]
+        """Most and least favourable 254-nm-equivalent values across action spectra.
+
+        Where an action spectrum's reading has no value (below detection, likely stray
+        light) its upper bound stands in (the favourable reading claims are given). What
+        each end is says ``*_reads``, the status of the reading behind it: ``complete`` (a
+        value), ``partial`` (a lower bound: part of the band not measured),
+        ``below-detection`` or ``likely-stray-light`` (an upper bound; with ``*_coverage``
+        below 1 an upper bound of the measured part only)."""
+        pairs = [(e.reading.id, e.equivalent if e.equivalent is not None else e.equivalent_upper_bound,
+                  e.reading) for e in self.effective]
+        pairs = [(i, v, r) for i, v, r in pairs if v is not None and v > 0]
         if not pairs:
             return {"most_favourable": None, "most_favourable_id": None,
-                    "least_favourable": None, "least_favourable_id": None, "spread_ratio": None}
+                    "least_favourable": None, "least_favourable_id": None, "spread_ratio": None,
+                    "most_favourable_reads": None, "least_favourable_reads": None,
+                    "most_favourable_coverage": None, "least_favourable_coverage": None}
         hi = max(pairs, key=lambda p: p[1])
         lo = min(pairs, key=lambda p: p[1])
         return {"most_favourable": hi[1], "most_favourable_id": hi[0],
                 "least_favourable": lo[1], "least_favourable_id": lo[0],
-                "spread_ratio": hi[1] / lo[1]}
+                "spread_ratio": hi[1] / lo[1],
+                "most_favourable_reads": hi[2].status, "least_favourable_reads": lo[2].status,
+                "most_favourable_coverage": hi[2].coverage,
+                "least_favourable_coverage": lo[2].coverage}
 
     def to_dict(self) -> dict:
         spread = self.spread_254()

@@ -243,6 +243,18 @@ _SPECTRUM_FIELDS = tuple(f.name for f in fields(Spectrum))
 Weight = Callable[[np.ndarray], np.ndarray]
 
 
+def covers_all(coverage: float | None) -> bool:
+    """True when a coverage (the measured share of a band or weighting) is the whole of it,
+    to rounding: the one test of "complete" for integrals and for the readings reported from
+    them (a band covered in part is a lower bound, or below detection only in its measured
+    part).
+
+    >>> covers_all(1.0), covers_all(0.999), covers_all(None)
+    (True, False, False)
+    """
+    return coverage is not None and coverage >= 1.0 - 1e-9
+
+
 @dataclass(frozen=True)
 class Integral:
     """A (weighted) integral over [lo, hi] and how much of it was measured.
@@ -264,7 +276,7 @@ class Integral:
 
     @property
     def complete(self) -> bool:
-        return self.coverage >= 1.0 - 1e-9
+        return covers_all(self.coverage)
 
     @property
     def detection_limit(self) -> float | None:

@@ -19,7 +19,7 @@ from typing import Any, Iterable, Mapping
 
 from uvcheck.germicidal import UVC_EMITTING
 from uvcheck.limits import GROUPS
-from uvcheck.report.terminal import is_estimate, status_text
+from uvcheck.report.terminal import is_estimate, partly_measured, status_text
 from uvcheck.report.cautions import DOES_NOT_COVER, LOCAL_CODES, applicable
 from uvcheck.units import format_duration, sig, to_trade
 
@@ -710,9 +710,15 @@ def _reading_text(r: Mapping[str, Any] | None) -> str:
     if st == "not-covered":
         return "not measured"
     if st == "below-detection":
-        return f"< {quantity(r.get('detection_limit'), r.get('unit'))} (below detection)"
+        dl = quantity(r.get('detection_limit'), r.get('unit'))
+        if partly_measured(r):  # below it in the measured part only
+            return (f"< {dl} so far (partly measured, nothing above the detection limit in "
+                    "the measured part)")
+        return f"< {dl} (below detection)"
     if st == "likely-stray-light":
-        return f"≤ {quantity(r.get('upper_bound'), r.get('unit'))} (likely stray light, not emission)"
+        part = "; partly measured, so for the measured part only" if partly_measured(r) else ""
+        return (f"≤ {quantity(r.get('upper_bound'), r.get('unit'))} (likely stray light, not "
+                f"emission{part})")
     if st == "shape-only":
         return f"{percent(r.get('fraction'))} of the output (relative spectrum)"
     v = quantity(r.get("value"), r.get("unit"))

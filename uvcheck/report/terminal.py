@@ -6,7 +6,7 @@ log file or an e-mail. Every absolute value is shown in SI and in the trade unit
 
 from __future__ import annotations
 
-from typing import Any, Sequence
+from typing import Any, Mapping, Sequence
 
 from uvcheck.units import format_duration, sig, to_trade
 
@@ -276,14 +276,69 @@ def _trade(block: dict) -> str:
         return (f"{pre}{sig(block['value'])} {block['unit']} "
                 f"({pre}{sig(block['value_trade'])} {block['trade_unit']})")
     if block.get("status") == "below-detection" and block.get("detection_limit") is not None:
-        # the detection limit, as in the band table (the upper bound is a different number)
+        # the detection limit, as in the band table (the upper bound is a different number);
+        # a band only partly measured is below it in the measured part only, as the band
+        # table's "so far" says: the part not measured could hold anything
         dl = block["detection_limit"]
-        return (f"< {sig(dl)} {block['unit']} (< {sig(to_trade(dl, block['unit'])[0])} "
-                f"{block['trade_unit']}; below detection limit)")
+        so_far, why = ((" so far", "partly measured, nothing above the detection limit in the "
+                        "measured part") if partly_measured(block)
+                       else ("", "below detection limit"))
+        return (f"< {sig(dl)} {block['unit']}{so_far} (< {sig(to_trade(dl, block['unit'])[0])} "
+                f"{block['trade_unit']}; {why})")
     if block.get("upper_bound") is not None:
-        return (f"< {sig(block['upper_bound'])} {block['unit']} "
-                f"(< {sig(block['upper_bound_trade'])} {block['trade_unit']})")
+        part = ("so far ", "; partly measured") if partly_measured(block) else ("", "")
+        return (f"< {sig(block['upper_bound'])} {block['unit']} {part[0]}"
+                f"(< {sig(block['upper_bound_trade'])} {block['trade_unit']}{part[1]})")
     return "not measured" if block.get("status") == "not-covered" else "—"
+
+
+#: How a 254-nm equivalent reads, by the status of the reading behind it: a lower bound (part
+#: of the band not measured) or an upper bound (nothing established: the favourable reading
+#: the claims are given); a complete reading is a value.
+_EQUIVALENT_BOUND = {"partial": ("≥ ", "lower bound", "part of UV-C was not measured"),
+                     "below-detection": ("< ", "upper bound", "UV-C below the detection limit"),
+                     "likely-stray-light": ("≤ ", "upper bound",
+                                            "the apparent UV-C is likely stray light or noise")}
+
+
+def _equivalent_span(eq: Mapping[str, Any]) -> str:
+    """'0.0412–0.0484 W m-2', or with the bound each end is ('≤ 2.33e-06–2.45e-06 W m-2
+    (≤ upper bound: …)'): an upper bound used as the favourable reading is never shown as a
+    value, and one of a band measured in part says so."""
+    ends = [(sig(eq[f"{k}_favourable"]), eq.get(f"{k}_favourable_reads"),
+             eq.get(f"{k}_favourable_coverage")) for k in ("least", "most")]
+    why = []
+    for _, reads, _ in ends:
+        if reads in _EQUIVALENT_BOUND:
+            sign, kind, reason = _EQUIVALENT_BOUND[reads]
+            if f"{sign}{kind}: {reason}" not in why:
+                why.append(f"{sign}{kind}: {reason}")
+    if any(_EQUIVALENT_BOUND.get(reads, ("", ""))[1] == "upper bound"
+           and isinstance(cov, (int, float)) and not _covers(cov) for _, reads, cov in ends):
+        why.append("part of UV-C was not measured, and the upper bound holds for the measured "
+                   "part only")
+    (lo, lo_r, _), (hi, hi_r, _) = ends
+    if lo_r == hi_r:
+        span = f"{lo}–{hi}" if lo != hi else lo
+        sign = _EQUIVALENT_BOUND[lo_r][0] if lo_r in _EQUIVALENT_BOUND else ""
+        body = f"{sign}{span} W m-2"
+    else:
+        signs = [_EQUIVALENT_BOUND[r][0] if r in _EQUIVALENT_BOUND else "" for r in (lo_r, hi_r)]
+        body = f"{signs[0]}{lo} to {signs[1]}{hi} W m-2"
+    return body + (f" ({'; '.join(why)})" if why else "")
+
+
+def _covers(coverage: float) -> bool:
+    from uvcheck.spectrum import covers_all
+
+    return covers_all(coverage)
+
+
+def partly_measured(block: Mapping[str, Any]) -> bool:
+    """A reading (its dict) whose band the data cover only in part: its coverage is given and
+    short of the whole (:func:`uvcheck.spectrum.covers_all`)."""
+    cov = block.get("coverage")
+    return isinstance(cov, (int, float)) and not _covers(cov)
 
 
 def render_germicidal(g: dict, d: dict) -> list[str]:
@@ -294,7 +349,7 @@ def render_germicidal(g: dict, d: dict) -> list[str]:
     out.append(f"  UV-C 200–280 nm: {_trade(g['uvc'])}; far-UVC 200–235 nm: {_trade(g['far_uvc'])}")
     eq = (g.get("effective") or {}).get("equivalent_254") or {}
     if eq.get("most_favourable") is not None:
-        out.append(f"  254-nm-equivalent: {sig(eq['least_favourable'])}–{sig(eq['most_favourable'])} W m-2 "
+        out.append(f"  254-nm-equivalent: {_equivalent_span(eq)} "
                    f"across action spectra (claims use the most favourable, {eq['most_favourable_id']})")
     vb = (g.get("effective") or {}).get("violet_blue_405")
     if vb and vb.get("value") is not None:

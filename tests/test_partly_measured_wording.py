@@ -1,0 +1,121 @@
+"""A band the data cover only in part is never reported as "checked and below detection".
+
+Invented spectra (not real products): a 278 nm LED measured from 220 nm (far-UVC 200–235 nm
+is measured in part and nothing is above the detection limit there) and a 365 nm UV-A LED
+measured from 250 nm (nothing above the noise in the measured 250–280 nm; 200–250 nm not
+measured). Our own rule (the project's "missing range is never read as zero"): what holds in
+the measured part is worded "so far" / "partly measured", as the band table words it, in the
+terminal, in the note and in the batch summary, and an upper bound used as the favourable
+254-nm equivalent is never printed as a value.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+import pytest
+
+from uvcheck.assessment import assess
+from uvcheck.conditions import Conditions
+from uvcheck.io.reader import read_spectrum
+
+
+def _led(tmp, peak_nm: float, start_nm: float, peak: float, seed: int) -> dict:
+    """The assessment (as JSON) of an invented LED spectrum, read from a file as the command
+    line reads it (the reader sets the noise floor that the detection limits come from)."""
+    rng = np.random.default_rng(seed)
+    wl = np.arange(start_nm, 800.5, 0.5)
+    v = peak * np.exp(-0.5 * ((wl - peak_nm) / 5.0) ** 2) + rng.normal(0, 2e-7, wl.size)
+    p = tmp / f"led{peak_nm:g}_{start_nm:g}.csv"
+    p.write_text("# invented spectrum, not a real product\nwavelength_nm,irradiance_W_m2_nm\n"
+                 + "".join(f"{a:.1f},{b:.4e}\n" for a, b in zip(wl, v)), encoding="utf-8")
+    spec, report = read_spectrum(p)
+    return assess(spec, Conditions(measurement_distance_m=0.05), report).to_dict()
+
+
+@pytest.fixture(scope="module")
+def led278(tmp_path_factory):
+    return _led(tmp_path_factory.mktemp("led"), 278.0, 220.0, 1e-3, 3)
+
+
+@pytest.fixture(scope="module")
+def uva365(tmp_path_factory):
+    return _led(tmp_path_factory.mktemp("led"), 365.0, 250.0, 1e-2, 4)
+
+
+def test_far_uvc_below_detection_in_its_measured_part_reads_so_far(led278):
+    from uvcheck.report.note import _reading_text
+    from uvcheck.report.terminal import _trade
+
+    far = led278["germicidal"]["far_uvc"]
+    assert far["status"] == "below-detection" and 0 < far["coverage"] < 1
+    t = _trade(far)
+    assert "so far" in t and "partly measured" in t and "below detection limit" not in t
+    n = _reading_text(far)
+    assert "so far" in n and "partly measured" in n and "(below detection)" not in n
+    # the band table of the same result says the same: partial, below the limit so far
+    band = led278["bands"]["far-UVC"]
+    assert band["status"] == "partial" and band["below_detection"]
+
+
+def test_a_fully_measured_band_keeps_its_wording(tmp_path, led278):
+    from uvcheck.report.note import _reading_text
+    from uvcheck.report.terminal import _trade
+
+    # the same reading had the data covered its whole band: plainly below the limit
+    whole = {**led278["germicidal"]["far_uvc"], "coverage": 1.0}
+    assert "below detection limit" in _trade(whole) and "so far" not in _trade(whole)
+    assert _reading_text(whole).endswith("(below detection)")
+    # a 450 nm LED measured from 200 nm: its UV-C noise is read as stray light, bounded over
+    # the whole band
+    d = _led(tmp_path, 450.0, 200.0, 1e-2, 5)
+    uvc = d["germicidal"]["uvc"]
+    assert uvc["status"] == "likely-stray-light" and uvc["coverage"] == pytest.approx(1.0)
+    assert "so far" not in _trade(uvc) and "partly measured" not in _reading_text(uvc)
+    assert d["germicidal"]["status"] == "no-uvc"
+
+
+def test_stray_light_uvc_on_a_partly_measured_band(uva365):
+    from uvcheck.report.note import _reading_text
+    from uvcheck.report.terminal import _trade
+
+    uvc = uva365["germicidal"]["uvc"]
+    assert uvc["status"] == "likely-stray-light" and 0 < uvc["coverage"] < 1
+    assert uva365["germicidal"]["status"] == "not-assessed"   # UV-C not ruled out
+    assert "so far" in _trade(uvc) and "partly measured" in _trade(uvc)
+    assert "for the measured part only" in _reading_text(uvc)
+
+
+def test_batch_row_says_partial_for_a_partly_measured_uvc(uva365, led278):
+    from uvcheck.batch import _fill
+
+    row: dict = {}
+    _fill(row, uva365)
+    assert row["uvc_status"] == "partial-likely-stray-light" and row["uvc_W_m2"] is None
+    row = {}
+    _fill(row, led278)
+    assert row["uvc_status"] == "partial" and row["uvc_W_m2"] > 0
+
+
+def test_favourable_equivalent_that_is_an_upper_bound_is_not_shown_as_a_value(uva365, led278):
+    from uvcheck.report.terminal import _equivalent_span
+
+    eq = uva365["germicidal"]["effective"]["equivalent_254"]
+    assert eq["most_favourable_reads"] == "likely-stray-light"
+    text = _equivalent_span(eq)
+    assert text.startswith("≤ ") and "upper bound" in text and "measured part only" in text
+    eq = led278["germicidal"]["effective"]["equivalent_254"]
+    text = _equivalent_span(eq)
+    # the unweighted UV-C band starts at 200 nm, below the data: its equivalent is a lower bound
+    assert eq["most_favourable_reads"] == "partial" and "≥ " in text and "lower bound" in text
+
+
+def test_complete_equivalents_print_as_plain_values():
+    from uvcheck.report.terminal import _equivalent_span
+
+    eq = {"least_favourable": 0.42, "most_favourable": 0.421,
+          "least_favourable_reads": "complete", "most_favourable_reads": "complete",
+          "least_favourable_coverage": 1.0, "most_favourable_coverage": 1.0}
+    assert _equivalent_span(eq) == "0.420–0.421 W m-2"
+    # a result written before these fields existed reads as before
+    assert _equivalent_span({"least_favourable": 0.42, "most_favourable": 0.421}) == \
+        "0.420–0.421 W m-2"
