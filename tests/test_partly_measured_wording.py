@@ -119,3 +119,36 @@ def test_complete_equivalents_print_as_plain_values():
     # a result written before these fields existed reads as before
     assert _equivalent_span({"least_favourable": 0.42, "most_favourable": 0.421}) == \
         "0.420–0.421 W m-2"
+
+
+def test_note_marks_each_equivalent_as_its_reading_is(led278, uva365):
+    from uvcheck.report.note import germicidal_block
+
+    for res in (led278, uva365):
+        by_id = res["germicidal"]["effective"]["by_action_spectrum"]
+        rows = germicidal_block(res)["spectra"]
+        assert {r["id"] for r in rows} == set(by_id)
+        for r in rows:
+            st = by_id[r["id"]]["status"]
+            want = {"partial": "≥ ", "below-detection": "≤ ", "likely-stray-light": "≤ "}.get(st)
+            if want:
+                assert r["equivalent"].startswith(want), (r, st)
+            else:
+                assert r["equivalent"][0].isdigit(), (r, st)
+    assert any(v["status"] == "partial"
+               for v in led278["germicidal"]["effective"]["by_action_spectrum"].values())
+
+
+def test_hazard_figure_marks_a_partly_measured_bound_so_far(led278):
+    from uvcheck.report.figures import hazard_points
+
+    pts = {p["id"]: p for p in hazard_points(led278)}
+    hz = led278["hazards"]
+    partial_below = [h for h, d in hz.items() if d["status"] == "partial" and d["detection_limit"]
+                     and (d["value"] is None or d["value"] < d["detection_limit"])]
+    assert partial_below, {h: d["status"] for h, d in hz.items()}
+    for h in partial_below:
+        assert pts[h]["kind"] == "upper" and pts[h]["so_far"]
+    for h, d in hz.items():
+        if d["status"] in ("complete", "below-detection"):
+            assert not pts[h].get("so_far")

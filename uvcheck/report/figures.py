@@ -204,6 +204,8 @@ def hazard_points(result: Result) -> list[dict[str, Any]]:
 
     kind : ``value`` (a bar), ``upper`` (below detection: bar to the detection limit),
     ``lower`` (partial data: the value is a lower bound) or ``none`` (not assessable).
+    so_far : an ``upper`` bar of a hazard measured in part (below the limit in the measured
+    part only).
     """
     hz = result.get("hazards") or {}
     pts = []
@@ -224,8 +226,11 @@ def hazard_points(result: Result) -> list[dict[str, Any]]:
         grp = h.get("risk_group")
         if grp and h.get("risk_group_is_lower_bound"):
             grp = "≥ " + grp
+        # below the detection limit in the measured part of a partly measured hazard: the
+        # part not measured could hold more (worded "so far", as in the tables)
         pts.append({"id": hid, "label": label, "kind": kind, "ratio": r,
-                    "group": grp, "boundaries": bounds, "reason": None})
+                    "group": grp, "boundaries": bounds, "reason": None,
+                    "so_far": kind == "upper" and st == "partial"})
     return pts
 
 
@@ -267,7 +272,7 @@ def hazard_figure(result: Result) -> Any:
                                 bbox={"boxstyle": "square,pad=0.1", "fc": "white",
                                       "ec": "none", "alpha": 0.9})
                 grp = p["group"] or "(no groups)"
-                label = f"{sign}{sig(p['ratio'])}×   {grp}"
+                label = f"{sign}{sig(p['ratio'])}×{' so far' if p.get('so_far') else ''}   {grp}"
             ax.annotate(label, (1.01, y), xycoords=("axes fraction", "data"), va="center",
                         ha="left", fontsize=7.5, annotation_clip=False)
         ax.axvline(1.0, color="#111", lw=1.2)

@@ -800,9 +800,12 @@ def germicidal_block(result: Result) -> dict[str, Any] | None:
     spectra = []
     for aid, e in (eff.get("by_action_spectrum") or {}).items():
         eq = e.get("equivalent") if e.get("equivalent") is not None else e.get("equivalent_upper_bound")
+        # the equivalent is what its reading is: an upper bound (the favourable reading where
+        # none is established) or, for a band measured in part, a lower bound
+        sign = ("≤ " if e.get("equivalent") is None else
+                "≥ " if e.get("status") == "partial" else "") if eq is not None else ""
         spectra.append({"id": aid, "value": _reading_text(e),
-                        "equivalent": ("≤ " if e.get("equivalent") is None and eq is not None else "")
-                        + quantity(eq, e.get("unit")),
+                        "equivalent": sign + quantity(eq, e.get("unit")),
                         "from_memory": bool(e.get("from_memory"))})
     vb = eff.get("violet_blue_405") or {}
     unc = result.get("uncertainty") or {}
