@@ -977,3 +977,26 @@ def test_the_plan_cache_keeps_recent_grids_within_its_memory_budget():
     finally:
         cache.clear()
         cache.max_bytes = old_budget
+
+
+def test_a_manifest_left_in_a_scanned_folder_is_named_as_such(tmp_path):
+    """A folder batch reads every CSV as a spectrum; a manifest left among them gets an error
+    row that says what it is and what to do, not only "no rows of numbers" (our own rule:
+    an error says what is wrong, where, and what to do)."""
+    folder = tmp_path / "shop"
+    folder.mkdir()
+    blue_led(folder / "lamp1.csv")
+    (folder / "products.csv").write_text("# invented manifest\nSpectrum;Distance\n"
+                                         "lamp1.csv;20 cm\n", encoding="utf-8")
+    (folder / "junk.csv").write_text("name,colour\nlamp,red\n", encoding="utf-8")
+    assert B.looks_like_manifest(folder / "products.csv")
+    assert not B.looks_like_manifest(folder / "junk.csv")
+    assert not B.looks_like_manifest(folder / "lamp1.csv")
+    B.run_batch(folder, tmp_path / "s.csv", B.BatchSettings(), jobs=1)
+    rows = {r["product_id"]: r for r in read_rows(tmp_path / "s.csv")}
+    assert rows["lamp1"]["status"] == "ok"
+    assert rows["products"]["status"] == "error"
+    assert "looks like a batch manifest" in rows["products"]["error"]
+    assert "uvcheck batch products.csv" in rows["products"]["error"]
+    assert rows["junk"]["status"] == "error"
+    assert "looks like a batch manifest" not in rows["junk"]["error"]

@@ -241,6 +241,26 @@ def read_manifest(path: Path) -> list[Product]:
     return out
 
 
+def looks_like_manifest(path: Path) -> bool:
+    """Whether a file's first row (after ``#`` and blank lines) is a manifest header: only
+    :data:`MANIFEST_COLUMNS`, among them ``spectrum`` or ``listing``. Asked of a file in a
+    scanned folder that could not be read as a spectrum, to say what it is."""
+    try:
+        with open(path, "rb") as fh:
+            head = fh.read(4096).decode("utf-8-sig", errors="replace")
+    except OSError:
+        return False
+    first = next((ln for ln in head.splitlines()
+                  if ln.strip() and not ln.lstrip().startswith("#")), "")
+    if not first:
+        return False
+    delim = max((",", ";", "\t"), key=first.count)
+    names = [c.strip().lower().replace(" ", "_").replace("-", "_")
+             for c in next(csv.reader([first], delimiter=delim))]
+    return (bool(names) and all(n in MANIFEST_COLUMNS for n in names)
+            and ("spectrum" in names or "listing" in names))
+
+
 def products_from(source: Path, exclude: Iterable[Path] = ()) -> list[Product]:
     """The products of a folder or of a manifest file."""
     source = Path(source)
@@ -489,6 +509,12 @@ def _run_product(product: Product, settings: BatchSettings) -> tuple[dict[str, A
                                      force=settings.force_notes, salt=product.product_id)
         return summary_row(product, result, note=str(html_path)), sha
     except UvcheckError as exc:
+        if product.spectrum is not None and looks_like_manifest(product.spectrum):
+            exc = InputFormatError("this looks like a batch manifest, not a spectrum",
+                                   product.spectrum_label or str(product.spectrum),
+                                   f"give it as the batch's source (uvcheck batch "
+                                   f"{Path(product.spectrum).name} --out …), or move it out "
+                                   "of the folder")
         return summary_row(product, None, error=exc.one_line()), None
     except (OSError, MemoryError, RecursionError) as exc:
         return summary_row(product, None, error=f"{type(exc).__name__}: {exc}"), None
