@@ -673,6 +673,19 @@ def _separator_evidence(lines: list[str], start: int, delim: str, mark: str, nco
     return cols
 
 
+def _structured_kind(first_text: str) -> str | None:
+    """What a file whose first text line is ``first_text`` is, when it is a structured
+    document rather than a table: 'JSON', 'XML' or 'HTML' (from its opening characters)."""
+    t = first_text.lstrip("\ufeff").lstrip().lower()
+    if t.startswith(("{", "[{", '["', "[[", "[\"")) or t == "[":
+        return "JSON"
+    if t.startswith(("<!doctype html", "<html")):
+        return "HTML"
+    if t.startswith("<"):
+        return "XML"
+    return None
+
+
 def _no_rows_error(lines: list[str], first: int, where: str) -> InputFormatError:
     """Why no data rows were found, naming the first line that starts like a number."""
     todo = ("the file must hold a table of wavelength and value columns; "
@@ -684,6 +697,12 @@ def _no_rows_error(lines: list[str], first: int, where: str) -> InputFormatError
     numeric = next(((i, ln) for i, ln in text if _STARTS_NUMERIC.match(ln)), None)
     if numeric is None:
         first_text = text[0][1].strip()[:50] if text else ""
+        kind = _structured_kind(first_text)
+        if kind:
+            return InputFormatError(f"no rows of numbers found: this looks like {kind}, not a "
+                                    "table of columns", where,
+                                    "export the spectrum as text columns (CSV or "
+                                    "tab-separated: wavelength, value)")
         return InputFormatError(f"no rows of numbers found ({len(text)} line(s) of text, none "
                                 f"starting with a number; the first: {first_text!r})", where, todo)
     i, ln = numeric
