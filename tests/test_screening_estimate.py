@@ -44,3 +44,23 @@ def test_rows_per_case_use_the_chosen_limit_set():
         likely = next(r for r in d["nominal"]["readings"] if r["likely"])
         assert likely["risk_group"] == d["risk_group"]["group"], lset
         assert likely["t_max_s"]["actinic_uv"] == d["hazards"]["actinic_uv"]["t_max_s"], lset
+
+
+def test_a_modelled_line_source_reports_its_lines_and_no_spectrometer_artefacts():
+    """A nominal low-pressure mercury model (lines beside a sampled continuum) lists its
+    mercury lines, 253.7 nm first among them, and says the line is modelled (it printed
+    "Mercury 253.7 nm line: not found" under "Peak 253.7 nm" before). The second-order
+    check is for grating spectrometers: a model gets no such warning. Mercury line positions
+    (253.7, 365.0, 404.7, 435.8, 546.1 nm) are those of the NIST Atomic Spectra Database,
+    from memory."""
+    from uvcheck.report.terminal import render_assessment as render
+
+    d = _screen_json("mercury_tube_sold_pet_safe.toml")
+    sp = d["spectral"]
+    names = {ln["identified_as"] for ln in sp["lines"]}
+    assert {"Hg 253.7 nm", "Hg 365.0 nm", "Hg 404.7 nm", "Hg 435.8 nm", "Hg 546.1 nm"} <= names
+    assert sp["hg_253_7_present"] is True and sp["peak_nm"] == 253.7
+    assert not any("second diffraction order" in w for w in d["warnings"])
+    text = render(d)
+    assert "Mercury 253.7 nm line: modelled" in text and "Emission lines modelled: 253.7" in text
+    assert "Emission peaks found" not in text

@@ -77,7 +77,11 @@ class Assessment:
 
     @cached_property
     def line_warnings(self) -> tuple[str, ...]:
-        """A warning per peak that may be a stronger line's second diffraction order."""
+        """A warning per peak that may be a stronger line's second diffraction order (of a
+        measured spectrum only: a nominal model built from a listing has no spectrometer)."""
+        meta = self.spectrum.meta or {}
+        if meta.get("estimate") or meta.get("origin") == "nominal":
+            return ()
         return tuple(
             f"the peak at {suspect.wavelength_nm:.1f} nm lies at twice the "
             f"{parent.wavelength_nm:.1f} nm line: possibly that line in the "

@@ -324,9 +324,23 @@ def find_lines(spectrum: Spectrum, min_snr: float = 5.0, min_relative: float = 0
 
 def _find_lines(spectrum: Spectrum, min_snr: float, min_relative: float,
                 max_lines: int) -> list[DetectedLine]:
-    if spectrum.lines and spectrum.wavelength_nm.size == 0:
-        return [DetectedLine(ln.wavelength_nm, ln.value, None, None,
+    # a nominal line source reports its lines; the peaks of a continuum beside them (a
+    # mercury lamp's, an LED band) follow, except where they repeat a line
+    discrete = [DetectedLine(ln.wavelength_nm, ln.value, None, None,
                              _identify(ln.wavelength_nm, 1.0)) for ln in spectrum.lines]
+    if discrete and spectrum.wavelength_nm.size == 0:
+        return discrete
+    found = _continuum_peaks(spectrum, min_snr, min_relative, max_lines)
+    if not discrete:
+        return found
+    rest = [d for d in found
+            if not any(abs(d.wavelength_nm - x.wavelength_nm) < 1.0 for x in discrete)]
+    keep = discrete + rest[:max(0, max_lines - len(discrete))]
+    return sorted(keep, key=lambda d: d.wavelength_nm)
+
+
+def _continuum_peaks(spectrum: Spectrum, min_snr: float, min_relative: float,
+                     max_lines: int) -> list[DetectedLine]:
     wl, v = spectrum.wavelength_nm, spectrum.values
     if wl.size < 5 or not np.any(v > 0):
         return []

@@ -329,7 +329,8 @@ def spectral_facts(result: Result) -> list[dict[str, str]] | None:
     lines = [ln.get("identified_as") for ln in sp.get("lines") or [] if ln.get("identified_as")]
     if lines:
         out.append({"label": "Lines identified", "value": ", ".join(lines)})
-    out.append({"label": "Mercury 253.7 nm line", "value": "present" if sp.get("hg_253_7_present") else "not found"})
+    hg = ("modelled" if is_estimate(result) else "present") if sp.get("hg_253_7_present") else "not found"
+    out.append({"label": "Mercury 253.7 nm line", "value": hg})
     ph = result.get("photometry") or {}
     if ph.get("value") is not None:
         out.append({"label": "Illuminance at the measurement position",

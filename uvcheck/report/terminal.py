@@ -126,8 +126,10 @@ def render_assessment(d: dict) -> str:
     if sp["lines"]:
         names = [f"{sig(ln['wavelength_nm'], 4)} nm" + (f" ({ln['identified_as']})" if ln["identified_as"] else "")
                  for ln in sp["lines"][:8]]
-        out.append("Emission peaks found: " + ", ".join(names))
-    out.append("Mercury 253.7 nm line: " + ("present" if sp["hg_253_7_present"] else "not found"))
+        out.append(("Emission lines modelled: " if is_estimate(d) else "Emission peaks found: ")
+                   + ", ".join(names))
+    out.append("Mercury 253.7 nm line: " + (("modelled" if is_estimate(d) else "present")
+                                            if sp["hg_253_7_present"] else "not found"))
     ph = d["photometry"]
     if ph["value"] is not None:
         out.append(f"{ph['quantity'].replace('_', ' ').capitalize()}: {sig(ph['value'])} {ph['unit']}"
