@@ -552,7 +552,7 @@ def test_assessing_does_not_import_numpy_ma(uncertainty):
 def _find_lines_loop(spectrum, min_snr=5.0, min_relative=0.01, max_lines=20):
     """The candidate loop find_lines had before it was vectorised (issue 8), kept here as
     the reference the vectorised version must reproduce exactly."""
-    from uvcheck.features import DetectedLine, _identify
+    from uvcheck.features import DetectedLine, _identify, line_like
 
     wl, v = spectrum.wavelength_nm, spectrum.values
     if wl.size < 5 or not np.any(v > 0):
@@ -575,9 +575,12 @@ def _find_lines_loop(spectrum, min_snr=5.0, min_relative=0.01, max_lines=20):
         shift = 0.5 * (y0 - y2) / den if den != 0 else 0.0
         pos = float(wl[i] + shift * (wl[i + 1] - wl[i - 1]) / 2)
         step = float(wl[min(i + 1, wl.size - 1)] - wl[i - 1]) / 2
-        found.append(DetectedLine(pos, prom, _fwhm_loop(wl, v, int(i)),
+        width = _fwhm_loop(wl, v, int(i))
+        # named only when as narrow as a line (features.line_like; tests/test_line_identification.py)
+        found.append(DetectedLine(pos, prom, width,
                                   prom / sigma if sigma > 0 else None,
-                                  _identify(pos, max(1.0, 1.5 * step))))
+                                  _identify(pos, max(1.0, 1.5 * step))
+                                  if line_like(width, step) else None))
     found.sort(key=lambda d: -d.height)
     return sorted(found[:max_lines], key=lambda d: d.wavelength_nm)
 

@@ -372,9 +372,11 @@ def _continuum_peaks(spectrum: Spectrum, min_snr: float, min_relative: float,
         i = int(cand[k])
         p = float(prom[k])
         step = float(wl[min(i + 1, wl.size - 1)] - wl[i - 1]) / 2
-        found.append(DetectedLine(float(pos[k]), p, _fwhm(wl, v, i),
+        width = _fwhm(wl, v, i)
+        found.append(DetectedLine(float(pos[k]), p, width,
                                   p / sigma if sigma > 0 else None,
-                                  _identify(float(pos[k]), max(1.0, 1.5 * step))))
+                                  _identify(float(pos[k]), max(1.0, 1.5 * step))
+                                  if line_like(width, step) else None))
     return sorted(found, key=lambda d: d.wavelength_nm)
 
 
@@ -422,6 +424,25 @@ def _window_min(v: np.ndarray, start: np.ndarray, stop: np.ndarray) -> np.ndarra
         t = levels[int(j)]
         out[sel] = np.minimum(t[start[sel]], t[stop[sel] - (1 << int(j))])
     return out
+
+
+#: The widest peak (FWHM) that can be an atomic or excimer line as a compact spectrometer
+#: shows it, whose optical resolution is typically 0.5–5 nm; an LED band is about 10 nm wide
+#: or more. Our own rule (the resolution and LED widths are common practice, from memory);
+#: on a coarse grid a line cannot look narrower than about 2.5 sample steps, so that width
+#: is allowed too. [nm]
+LINE_MAX_FWHM_NM = 6.0
+
+
+def line_like(fwhm_nm: float | None, step_nm: float) -> bool:
+    """Whether a peak is narrow enough to be named as a known line: a peak at a mercury or
+    excimer wavelength that is wider than a spectrometer shows such a line (an LED band at
+    254 or 365 nm) is not that line. An unresolved width (None) does not rule it out.
+
+    >>> line_like(1.8, 0.5), line_like(12.0, 0.5), line_like(12.0, 5.0), line_like(None, 1.0)
+    (True, False, True, True)
+    """
+    return fwhm_nm is None or fwhm_nm <= max(LINE_MAX_FWHM_NM, 2.5 * step_nm)
 
 
 def _identify(wavelength_nm: float, tol_nm: float) -> str | None:
