@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import json
+import math
 import subprocess
 import sys
 
@@ -87,6 +88,31 @@ def test_relative_scaling_recorded(tmp_path):
     assert d["input"]["scaling"][0]["method"] == "band reading"
     r = runner.invoke(app, ["assess", str(p), "--scale-lux", "100"])
     assert "lux says nothing about UV" in r.output
+    # a relative spectrum has no calibration to replace: no such warning, the factor recorded
+    # (the Gaussian's share inside 315–400 nm, analytic: ½[erf(5/(6√2)) − erf(−80/(6√2))])
+    inside = 0.5 * (math.erf(5 / (6 * math.sqrt(2))) - math.erf(-80 / (6 * math.sqrt(2))))
+    assert d["input"]["scaling"][0]["factor"] == pytest.approx(10.0 / inside, rel=1e-3)
+    assert "replaces that calibration" not in r.output
+    assert not any("replaces that calibration" in w for w in d["input"]["warnings"])
+
+
+def test_scaling_an_absolute_spectrum_says_it_replaces_the_calibration(tmp_path):
+    # an invented 395 nm LED in W/m2/nm (area 2 W m-2): a band reading of 1000 µW/cm²
+    # (10 W m-2, analytic) in UV-A, where the Gaussian lies whole, multiplies it by 5
+    wl = np.arange(250.0, 800.0, 1.0)
+    p = tmp_path / "abs.csv"
+    p.write_text("wavelength (nm),irradiance (W/m2/nm)\n"
+                 + "\n".join(f"{a},{b:.9e}" for a, b in zip(wl, gaussian(wl, 357.5, 6, 2.0))))
+    out = tmp_path / "a.json"
+    r = runner.invoke(app, ["assess", str(p), "--scale-band", "UV-A=1000 uW/cm2", "--json",
+                            str(out), "--no-uncertainty"])
+    assert r.exit_code == 0, r.output
+    d = json.loads(out.read_text())
+    s = d["input"]["scaling"][0]
+    assert s["replaced_calibration"] is True and s["factor"] == pytest.approx(5.0, rel=1e-6)
+    assert any("replaces that calibration, multiplying every value by 5" in w
+               for w in d["input"]["warnings"])
+    assert "replaces that calibration" in r.output
 
 
 def test_python_dash_m_and_console_script(lamp_file):

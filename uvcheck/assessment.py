@@ -185,8 +185,9 @@ def input_section(spectrum: Spectrum, report: Any | None) -> dict[str, Any]:
     inferred = report.to_dict() if report is not None else {}
     warnings = list(inferred.get("warnings", []))
     for s in meta.get("scaling", []):
-        if s.get("note"):
-            warnings.append(s["note"])
+        for key in ("warning", "note"):
+            if s.get(key):
+                warnings.append(s[key])
     return {
         "path": meta.get("source"),
         "sha256": meta.get("sha256"),

@@ -11,8 +11,10 @@ A relative spectrum gives shape results only. It becomes absolute with an anchor
   so loudly;
 * a known total over the measured range (``"12 W/m2"``).
 
-The anchor, its value and its source are appended to ``spectrum.meta['scaling']`` and shown
-in every output.
+The anchor, its value, its source and the factor applied are appended to
+``spectrum.meta['scaling']`` and shown in every output. Scaling a spectrum that is already
+absolute replaces its own calibration: that is allowed (a file whose unit is wrong) and
+warned about, with the factor.
 """
 
 from __future__ import annotations
@@ -31,6 +33,20 @@ LUX_WARNING = ("SCALED BY A LUX READING: lux says nothing about UV. The UV figur
 BAND_METER_NOTE = ("scaled by a band reading, taken as the unweighted band irradiance (a meter "
                    "with a flat response over the band); a real meter's spectral response "
                    "changes this, so the scaling is indicative unless that response is known")
+
+
+def _scaled(spectrum: Spectrum, factor: float, record: dict) -> Spectrum:
+    """The spectrum scaled to irradiance by ``factor``, the factor recorded with the anchor.
+    A spectrum that is already absolute (its file gave a unit) keeps its shape but loses its
+    own calibration: the record says so, with the factor, as a warning."""
+    record = {**record, "factor": factor}
+    if spectrum.is_absolute:
+        record["replaced_calibration"] = True
+        record["warning"] = (f"the file is already calibrated ({spectrum.quantity} in "
+                             f"{spectrum.spectral_unit}); the scaling replaces that calibration, "
+                             f"multiplying every value by {factor:.3g}. Scale only a relative "
+                             "spectrum, or check the file's unit")
+    return scaled(spectrum, factor, "irradiance", record)
 
 
 def _quantity_kind(spectrum: Spectrum) -> tuple[str, str]:
@@ -82,7 +98,7 @@ def scale_by_band(spectrum: Spectrum, text: str) -> Spectrum:
     if not r.value > dl:
         raise ConfigurationError(f"the spectrum has no signal above its noise in {band}",
                                  "--scale-band", "scale with a band where the lamp emits")
-    return scaled(spectrum, value / r.value, "irradiance",
+    return _scaled(spectrum, value / r.value,
                   {"method": "band reading", "band": band, "range_nm": [lo, hi],
                    "reading_W_m2": value, "text": text, "note": BAND_METER_NOTE})
 
@@ -99,7 +115,7 @@ def scale_by_lux(spectrum: Spectrum, lux_text: str) -> Spectrum:
     if not lum > 0:
         raise ConfigurationError("the spectrum has no visible output to scale by lux",
                                  "--scale-lux", "use --scale-band with a UV radiometer reading")
-    return scaled(spectrum, value / lum, "irradiance",
+    return _scaled(spectrum, value / lum,
                   {"method": "lux reading", "reading_lx": value, "text": lux_text,
                    "note": LUX_WARNING})
 
@@ -112,6 +128,6 @@ def scale_by_total(spectrum: Spectrum, text: str) -> Spectrum:
         raise ConfigurationError("the total and the spectrum's integral must be positive",
                                  "--scale-total")
     lo, hi = spectrum.range_nm
-    return scaled(spectrum, value / tot, "irradiance",
+    return _scaled(spectrum, value / tot,
                   {"method": "known total", "range_nm": [lo, hi], "total_W_m2": value,
                    "text": text})
