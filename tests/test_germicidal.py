@@ -274,3 +274,23 @@ def test_narrow_unknown_uvc_line_without_a_stray_light_source_is_emission():
                       "irradiance")
     art = uvc_artefacts(strong)
     assert [a.kind for a in art] == ["no-emitter"] and "out-of-band" in art[0].detail
+
+
+def test_spread_leaves_out_an_action_spectrum_not_defined_where_the_lamp_emits():
+    # 222 nm: the classical curve (defined 250–280 nm, from memory) credits none of it, so its
+    # "least favourable" equivalent would say nothing about the lamp (it made the range span
+    # four decades). Our own rule: the spread takes action spectra defined over at least half
+    # of the lamp's UV-C; the table keeps every one with its defined share.
+    from uvcheck.germicidal import SPREAD_MIN_DEFINED_SHARE, spans_the_output
+
+    r = evaluate_germicidal(line(222.0, 1.0))
+    cl = r.effective_by_id("germicidal_classical")
+    assert cl.defined_share < SPREAD_MIN_DEFINED_SHARE and not spans_the_output(cl)
+    sp = r.spread_254()
+    assert {sp["least_favourable_id"], sp["most_favourable_id"]} == {"germicidal_dna",
+                                                                     "uvc_unweighted"}
+    dna = 0.6586 / S_DNA_2537   # DNA table at 222 nm over its value at 253.7 nm
+    assert sp["spread_ratio"] == pytest.approx(max(dna, 1.0) / min(dna, 1.0))
+    assert "germicidal_classical" in r.to_dict()["effective"]["by_action_spectrum"]
+    # a 254 nm line lies inside every curve's range: all take part
+    assert all(spans_the_output(e) for e in evaluate_germicidal(line(253.7, 1.0)).effective)

@@ -427,7 +427,7 @@ class GermicidalResult:
         ``below-detection`` or ``likely-stray-light`` (an upper bound; with ``*_coverage``
         below 1 an upper bound of the measured part only)."""
         pairs = [(e.reading.id, e.equivalent if e.equivalent is not None else e.equivalent_upper_bound,
-                  e.reading) for e in self.effective]
+                  e.reading) for e in self.effective if spans_the_output(e)]
         pairs = [(i, v, r) for i, v, r in pairs if v is not None and v > 0]
         if not pairs:
             return {"most_favourable": None, "most_favourable_id": None,
@@ -515,6 +515,21 @@ def _effective(spec: Spectrum, action_id: str, total: float, artefact: bool, ref
     return EffectiveReading(reading=rd, reference_nm=reference_nm, weight_at_reference=s_ref,
                             equivalent=eq, equivalent_upper_bound=equb, defined_share=share,
                             from_memory=_from_memory(w))
+
+
+#: An action spectrum takes part in the spread of 254-nm equivalents (and the statement's
+#: range) only where at least this share of the lamp's UV-C lies inside its defined range:
+#: outside it the spectrum credits nothing, and a "least favourable" equivalent from a curve
+#: not defined where the lamp emits (the 250–280 nm classical curve for a 222 nm lamp) says
+#: nothing about the lamp. Our own rule; every action spectrum stays in the table with its
+#: defined share. [-]
+SPREAD_MIN_DEFINED_SHARE = 0.5
+
+
+def spans_the_output(e: EffectiveReading) -> bool:
+    """Whether an action spectrum is defined over most of the lamp's UV-C (see
+    :data:`SPREAD_MIN_DEFINED_SHARE`); unknown (no UV-C to share) counts as defined."""
+    return e.defined_share is None or e.defined_share >= SPREAD_MIN_DEFINED_SHARE
 
 
 def _band_samples(spec: Spectrum, lo: float, hi: float) -> tuple[np.ndarray, np.ndarray]:
@@ -1049,7 +1064,8 @@ def _status(spec: Spectrum, uvc: Reading, far: Reading, artefacts: tuple[Artefac
     if frac < NO_UVC_FRACTION:
         return "no-uvc", (f"{NO_UVC_HEAD} UV-C is {sig(frac * 100)} % of the {_seen(spec)} "
                           f"output ({_fmt(uvc.value, uvc.unit)}{where}).")
-    eqs = [e.equivalent for e in effective if e.equivalent is not None and e.equivalent > 0]
+    eqs = [e.equivalent for e in effective
+           if e.equivalent is not None and e.equivalent > 0 and spans_the_output(e)]
     eq_txt = ""
     if eqs:
         eq_txt = (f"; 254-nm-equivalent {_fmt(min(eqs), uvc.unit)} to {_fmt(max(eqs), uvc.unit)} "

@@ -1303,7 +1303,7 @@ def organism_time_intervals(organism: Any, irradiance_W_m2: np.ndarray, seed: in
 
 def _germicidal_section(model: _Model, cond: Conditions, gr: Any, inputs: UncertaintyInputs,
                         draws: _Draws, organisms: Sequence[str] | None = None) -> dict[str, Any]:
-    from uvcheck.germicidal import (FAR_UVC_BAND_NM, UVC_BAND_NM, VIOLET_BLUE_ID,
+    from uvcheck.germicidal import (FAR_UVC_BAND_NM, UVC_BAND_NM, VIOLET_BLUE_ID, spans_the_output,
                                     action_spectrum)
     from uvcheck.inactivation import get_organism
 
@@ -1365,7 +1365,8 @@ def _germicidal_section(model: _Model, cond: Conditions, gr: Any, inputs: Uncert
         vb_draw = model.integral("act:" + VIOLET_BLUE_ID, draws) * g_mc * pf
     eq = {}
     s_ref = {e.reading.id: e.weight_at_reference for e in gr.effective}
-    eqs = {a: y / s_ref[a] for a, y in eff_draws.items() if s_ref[a] > 0}
+    spans = {e.reading.id: spans_the_output(e) for e in gr.effective}  # as spread_254
+    eqs = {a: y / s_ref[a] for a, y in eff_draws.items() if s_ref[a] > 0 and spans[a]}
     if eqs:
         mat = np.vstack(list(eqs.values()))
         spread = gr.spread_254()
