@@ -1003,3 +1003,26 @@ def test_a_manifest_left_in_a_scanned_folder_is_named_as_such(tmp_path):
     assert "uvcheck batch products.csv" in rows["products"]["error"]
     assert rows["junk"]["status"] == "error"
     assert "looks like a batch manifest" not in rows["junk"]["error"]
+
+
+def test_row_says_where_its_risk_group_holds(tmp_path):
+    """IEC 62471 classifies at the assessment distance (200 mm for a lamp not for general
+    lighting, IEC 62471:2006 clause 4.3 / 5.2, from memory); a spectrum with no measurement
+    distance can only be assessed where it was measured, and the row says so rather than
+    present that group as the lamp's classification."""
+    (tmp_path / "sp").mkdir()
+    blue_led(tmp_path / "sp" / "a.csv")
+    blue_led(tmp_path / "sp" / "b.csv", seed=1)
+    m = tmp_path / "m.csv"
+    m.write_text("spectrum,distance\nsp/a.csv,\nsp/b.csv,30 cm\n", encoding="utf-8")
+    B.run_batch(m, tmp_path / "s.csv", B.BatchSettings(), jobs=1)
+    rows = {r["product_id"]: r for r in read_rows(tmp_path / "s.csv")}
+    assert rows["a"]["risk_group_position"] == "measurement-position"
+    assert rows["b"]["risk_group_position"] == "assessment-distance"
+    assert rows["a"]["risk_group"] and rows["b"]["risk_group"]
+    # a summary of another version (other columns) is refused for --resume, saying why
+    old = tmp_path / "old.csv"
+    cols = [c for c in B.SUMMARY_COLUMNS if c != "risk_group_position"]
+    old.write_text(",".join(cols) + "\n", encoding="utf-8")
+    with pytest.raises(InputFormatError, match="another uvcheck version"):
+        B.read_previous(old)

@@ -70,12 +70,15 @@ from uvcheck.errors import ConfigurationError, InputFormatError, UvcheckError
 #: out): an empty cell is never a zero. ``origin`` is
 #: ``measured``, or ``nominal`` for a listing screened without a spectrum (every figure of
 #: such a row is an ESTIMATE from the stated data). ``risk_group`` is at the IEC 62471
-#: assessment distance; ``risk_group_at_use`` at the distance of use (``use_distance_m``: the
-#: manifest's, the command line's or the listing's), where one is known.
+#: assessment distance where the measurement distance is known (``risk_group_position``
+#: ``assessment-distance``), else at the unknown measurement position
+#: (``measurement-position``: not the lamp's classification; give a distance);
+#: ``risk_group_at_use`` at the distance of use (``use_distance_m``: the manifest's, the
+#: command line's or the listing's), where one is known.
 SUMMARY_COLUMNS = (
     "product_id", "spectrum_file", "listing_file", "status", "error",
     "peak_nm", "uvc_W_m2", "uvc_status",
-    "risk_group", "risk_group_is_lower_bound", "governing_hazard",
+    "risk_group", "risk_group_is_lower_bound", "governing_hazard", "risk_group_position",
     "use_distance_m", "risk_group_at_use",
     "claims_holds", "claims_unlikely", "claims_cannot_hold", "claims_not_assessable",
     "worst_claim_id", "worst_claim_verdict", "worst_claim_ratio",
@@ -418,6 +421,11 @@ def _fill(row: dict[str, Any], result: Mapping[str, Any]) -> None:
     row["risk_group"] = rg.get("group")
     row["risk_group_is_lower_bound"] = rg.get("is_lower_bound")
     row["governing_hazard"] = rg.get("governing")
+    if rg.get("group") is not None:
+        # without a measurement distance the values, and so the group, hold at the
+        # measurement position, not at the IEC 62471 assessment distance
+        known = (result.get("conditions") or {}).get("measurement_distance_m") is not None
+        row["risk_group_position"] = "assessment-distance" if known else "measurement-position"
     use = result.get("use_distance") or {}
     if use:
         row["use_distance_m"] = (result.get("conditions") or {}).get("use_distance_m")
@@ -675,6 +683,10 @@ def read_previous(out_csv: Path) -> _Previous:
         text = path.read_bytes().decode("utf-8-sig", errors="replace")
         complete = text if text.endswith("\n") else text[:text.rfind("\n") + 1]
         rows = list(csv.reader(io.StringIO(complete, newline="")))
+        if rows and tuple(rows[0]) != SUMMARY_COLUMNS and {"product_id", "inputs_sha256"} <= set(rows[0]):
+            raise InputFormatError("this summary was written by another uvcheck version (its "
+                                   "columns differ), so its rows cannot be kept", str(path),
+                                   "start again with --force, or give another --out")
         if not rows or tuple(rows[0]) != SUMMARY_COLUMNS:
             raise InputFormatError("this is not a uvcheck batch summary (unexpected header)",
                                    str(path), "give another --out, or leave out --resume")

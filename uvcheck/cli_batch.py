@@ -98,7 +98,10 @@ def batch_command(
     \b
     Summary columns: product_id, spectrum_file, listing_file, status (ok |
     error), error, peak_nm, uvc_W_m2, uvc_status, risk_group,
-    risk_group_is_lower_bound, governing_hazard, use_distance_m, risk_group_at_use
+    risk_group_is_lower_bound, governing_hazard, risk_group_position
+    (assessment-distance, or measurement-position where no measurement distance
+    is known: then the group is not the lamp's classification), use_distance_m,
+    risk_group_at_use
     (the group at the distance of use), claims_holds, claims_unlikely,
     claims_cannot_hold, claims_not_assessable, worst_claim_id,
     worst_claim_verdict, worst_claim_ratio, note_path, origin (measured, or
