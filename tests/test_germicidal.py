@@ -294,3 +294,19 @@ def test_spread_leaves_out_an_action_spectrum_not_defined_where_the_lamp_emits()
     assert "germicidal_classical" in r.to_dict()["effective"]["by_action_spectrum"]
     # a 254 nm line lies inside every curve's range: all take part
     assert all(spans_the_output(e) for e in evaluate_germicidal(line(253.7, 1.0)).effective)
+
+
+def test_ozone_is_not_ruled_out_from_a_technology_guessed_without_any_uv_c():
+    # an invented white-LED-like spectrum measured from 380 nm only: the technology is a guess
+    # from the visible shape, so output below 240 nm is unknown, not "absent" (missing range is
+    # never read as zero); given as the technology, the technology's rule still applies
+    from conftest import gaussian
+
+    wl = np.arange(380.0, 781.0, 1.0)
+    v = gaussian(wl, 450.0, 9.0, 0.3) + gaussian(wl, 570.0, 45.0, 0.7) + 1e-6
+    s = Spectrum(wl, v, "irradiance", noise_floor=1e-7)
+    guessed = evaluate_germicidal(s)
+    assert guessed.technology["basis"].startswith("detected")
+    assert guessed.ozone.status == "unknown" and "a guess" in guessed.ozone.note
+    given = evaluate_germicidal(s, technology=guessed.technology["id"])
+    assert given.ozone.status == "absent" and given.ozone.basis == "technology"

@@ -690,7 +690,7 @@ def detect_technology(spectrum: Spectrum) -> str | None:
 
 
 def _ozone(spec: Spectrum, uvc: Reading, total: float, tech_id: str | None,
-           uvc_peak_nm: float | None, artefact: bool) -> Ozone:
+           uvc_peak_nm: float | None, artefact: bool, tech_given: bool = True) -> Ozone:
     unit = spec.integrated_unit
     lo_data = spec.range_nm[0]
     covers_185 = lo_data <= OZONE_LINE_COVERED_NM and not any(
@@ -724,6 +724,14 @@ def _ozone(spec: Spectrum, uvc: Reading, total: float, tech_id: str | None,
                      f"no output found below 240 nm, {'measured' if seen == 'measured' else 'modelled'}"
                      f" down to {lo_data:g} nm "
                      "(including the 184.9 nm mercury line)")
+    if tech_no and not tech_given and uvc.coverage <= 0.0:
+        # a technology guessed from a spectrum without any UV-C: the guess rests on the
+        # visible or UV-A shape alone, and says nothing of an emitter the data do not reach
+        return Ozone("unknown", "not-measurable", None, unit, None, False,
+                     f"the data start at {lo_data:g} nm, so output below 240 nm was not "
+                     f"measured; the shape looks like a {tech['name']} (a guess from the "
+                     "spectrum), which would emit nothing there, but only a spectrum that "
+                     "reaches below 240 nm can show it")
     if tech_no:
         return Ozone("absent", "technology", below, unit, checked, covers_185,
                      f"a {tech['name']} emits nothing below 240 nm ({tech.get('below_240_source', '')})"
@@ -876,7 +884,7 @@ def evaluate_germicidal(spectrum: Spectrum, conditions: Conditions | None = None
     elif spec.lines:
         uvc_lines = [ln for ln in spec.lines if UVC_BAND_NM[0] <= ln.wavelength_nm < UVC_BAND_NM[1]]
         uvc_peak = max(uvc_lines, key=lambda x: x.value).wavelength_nm if uvc_lines else None
-    ozone = _ozone(spec, uvc, total, tech_id, uvc_peak, art)
+    ozone = _ozone(spec, uvc, total, tech_id, uvc_peak, art, tech_given=technology is not None)
     efficiency = _efficiency(uvc, spec, position, cond, tech_id)
     status, statement = _status(spec, uvc, far, artefacts, position, effective, vb)
     # --- inactivation (evaluated on first use: OrganismPlan) ---------------------------------
