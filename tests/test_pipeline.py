@@ -128,3 +128,20 @@ def test_batch_input_errors_name_the_manifest_columns(tmp_path):
     assert rows[0]["error"].startswith("emitter:") and "--emitter" not in rows[0]["error"]
     assert rows[1]["error"].startswith("tube_length:") and "Give emitter tube" in rows[1]["error"]
     assert rows[2]["error"].startswith("emitter:")   # refused for a listing alone too
+
+
+def test_a_distance_option_that_contradicts_the_file_is_used_and_warned_about():
+    # the invented wand example states "Messabstand;10 cm" in its metadata
+    from uvcheck.pipeline import ProductInputs, assess_files
+
+    wand = Path(__file__).resolve().parents[1] / "examples" / "spectra" / "wand_395nm_led.csv"
+    opts = AssessOptions(uncertainty=False)
+    a = assess_files(wand, None, ProductInputs(distance="5 cm"), opts)
+    assert a.conditions.measurement_distance_m == pytest.approx(0.05)
+    w = [x for x in a.to_dict()["input"]["warnings"] if "states a measurement distance" in x]
+    assert w and "0.1 m" in w[0] and "0.05 m" in w[0]
+    same = assess_files(wand, None, ProductInputs(distance="10 cm"), opts)
+    assert not any("states a measurement distance" in x
+                   for x in same.to_dict()["input"]["warnings"])
+    own = assess_files(wand, None, ProductInputs(), opts)
+    assert own.conditions.measurement_distance_m == pytest.approx(0.1)

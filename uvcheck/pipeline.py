@@ -200,6 +200,12 @@ def assess_files(spectrum_file: Path | None, listing: Any | None, inputs: Produc
     spec = apply_scaling(spec, inputs.scale_band, inputs.scale_lux, inputs.scale_total)
     d0 = (_length(inputs.distance, names["distance"]) if inputs.distance
           else report.measurement_distance_m)
+    d_file = report.measurement_distance_m
+    if inputs.distance and d_file is not None and abs(d0 - d_file) > 0.01 * d_file:
+        # the option wins, but a file that states another distance is worth a second look
+        report = replace(report, warnings=tuple(report.warnings) + (
+            f"the file states a measurement distance of {d_file:g} m, but "
+            f"{names['distance']} gives {d0:g} m, which is used: check which is right",))
     if isinstance(listing, (str, Path)):
         listing = _read_listing(listing)
     cond = conditions_from_options(d0, inputs.source_size, inputs.alpha, inputs.use_distance,
