@@ -1440,6 +1440,14 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
     negative = _mostly_negative(values)
     if negative:
         warnings.append(negative)
+    if su.quantity != "relative":
+        normalised = _normalised_peak(v_raw)
+        if normalised is not None:
+            warnings.append(
+                f"the values peak at {normalised:g} ({unit_label}): a spectrum "
+                f"normalised to a peak of {normalised:g} but labelled with an absolute unit? If "
+                "so, every hazard and dose figure is meaningless: read it as relative "
+                "(--unit relative) and scale it with a reading")
     # ---- metadata of interest ---------------------------------------------------------
     dist = None
     found = _meta_lookup(meta, r"(measure(ment)?\s*)?distance", r"abstand", r"^dist")
@@ -1535,8 +1543,22 @@ def _spectral_unit_text(su: Any) -> str:
         su.quantity, "relative units")
 
 
+def _normalised_peak(raw: np.ndarray) -> float | None:
+    """1 or 100 where the largest value as written is that, to 1 part in 10⁴ (a normalised
+    spectrum; an instrument's calibrated export almost never peaks at a round 1 or 100:
+    common practice; the tolerance is our own rule), else None."""
+    fin = raw[np.isfinite(raw)]
+    if fin.size < 3:
+        return None
+    peak = float(fin.max())
+    return next((t for t in (1.0, 100.0) if abs(peak - t) <= 1e-4 * t), None)
+
+
 def _instrument_notes(meta: dict[str, str]) -> dict[str, str]:
-    keys = r"(instrument|spectrometer|model|serial|device|integration|exposure|averag|calibrat|date|time|operator|detector|dark|boxcar|sensor|distance|lamp|sample)"
+    keys = (r"(instrument|spectrometer|model|serial|device|integration|exposure|averag|calibrat|"
+            r"date|time|operator|detector|dark|boxcar|sensor|distance|lamp|sample|warm|"
+            r"diffuser|cosine|optic|fib(re|er)|field of view|fov|slit|resolution|temperature|"
+            r"ambient)")
     rx = re.compile(keys, re.I)
     return {k: v for k, v in list(meta.items()) if rx.search(k)}
 
