@@ -124,6 +124,32 @@ def duration(seconds: float | None, bound: str | None = None) -> str:
     return sign + format_duration(seconds)
 
 
+def place(d_m: float | None) -> str:
+    """Where a value holds, for a sentence: '20 cm', or 'the measurement position' when no
+    distance is known (the values then hold where the spectrum was measured).
+
+    Examples
+    --------
+    >>> place(0.2), place(None)
+    ('20 cm', 'the measurement position')
+    """
+    return "the measurement position" if d_m is None else distance(d_m)
+
+
+#: Why the group of a result without a measurement distance is not the lamp's classification
+#: (our own wording; the result says it in ``evaluation.assumptions``).
+NO_DISTANCE_TEXT = ("no measurement distance was given, so the IEC 62471 assessment distance "
+                    "could not be applied and this is not the lamp's IEC 62471 classification; "
+                    "give the measurement distance (--distance)")
+
+
+def no_assessment_distance(result: Result) -> bool:
+    """The hazards hold at the measurement position, at an unknown distance, and not at the
+    IEC 62471 assessment distance (``evaluation.distance_m`` is None)."""
+    ev = result.get("evaluation") or {}
+    return bool(ev) and ev.get("distance_m") is None and bool(result.get("hazards"))
+
+
 # ---------------------------------------------------------------------------------------------
 # Product as sold
 # ---------------------------------------------------------------------------------------------
@@ -353,23 +379,32 @@ def _value_text(h: Mapping[str, Any]) -> str:
 
 
 def _tmax_text(h: Mapping[str, Any]) -> str:
+    """The maximum exposure time in words. A partly measured hazard (its value a lower bound)
+    gives an upper bound on it: 'at most 2.93 h (measured part only)', 'none so far (within
+    the long-term limit on the measured part only)', 'not reached within 10 s so far
+    (measured part only)'."""
     if h.get("status") == "not-assessable":
         return "—"
+    part = (h.get("status") == "partial" or bool(h.get("risk_group_is_lower_bound"))
+            or "on the measured part only" in (h.get("t_max_note") or ""))
     if h.get("t_max_s") is not None:
-        return format_duration(h["t_max_s"])
+        t = format_duration(h["t_max_s"])
+        return f"at most {t} (measured part only)" if part else t
     note = h.get("t_max_note") or ""
     out = note
     if note.startswith("no time limit"):
-        out = "none (within the long-term limit)"
+        out = ("none so far (within the long-term limit on the measured part only)" if part
+               else "none (within the long-term limit)")
     elif note.startswith("within the limit for every duration it covers"):
         tail = note.split("(up to", 1)[-1].split(")", 1)[0].strip()
         try:
             out = f"not reached within {format_duration(float(tail.split()[0]))}"
+            out += " so far (measured part only)" if part else ""
         except (ValueError, IndexError):
             out = note
     elif note.startswith("no measurable emission"):
-        out = "none (no measurable emission)"
-    if "on the measured part only" in note:
+        out = "none (no measurable emission)" + (" (measured part only)" if part else "")
+    elif part and out and "measured part only" not in out:
         out += " (measured part only)"
     return out or "—"
 
@@ -408,7 +443,8 @@ def hazard_rows(result: Result) -> list[dict[str, Any]] | None:
             "ratio": None if r is None else r, "ratio_text": "—" if r is None else f"{sig(r)}×",
             "t_max": _tmax_text(h), "t_max_interval": _tmax_interval_text(h),
             "group": _group_text(h),
-            "distance": distance(ev.get("distance_m")),
+            "distance": distance(ev.get("distance_m")) if ev.get("distance_m") is not None
+            else "measurement position",
             "coverage": percent(h.get("coverage")), "status": h.get("status"),
             "reason": h.get("reason"),
             "interval": _interval_text(h),
@@ -456,9 +492,17 @@ def uncertainty_block(result: Result) -> dict[str, Any] | None:
     hz = result.get("hazards") or {}
     border = [hz[k].get("symbol") or k for k in hz if hz[k].get("borderline")]
     rule = (u.get("decision_rule") or {})
+    overall = _probability_text(ov.get("risk_group_probability"))
+    by_rule = ov.get("risk_group_by_rule")
+    lower = bool(ov.get("is_lower_bound") or (result.get("risk_group") or {}).get("is_lower_bound"))
+    if lower:   # the group is a lower bound: so is each probability's group (as the headline)
+        if overall:
+            overall = (f"{overall} (probability of at least each group: the overall group "
+                       "is a lower bound)")
+        if by_rule:
+            by_rule = f"at least {by_rule}"
     return {"evaluated": True, "text": uncertainty_note(u),
-            "overall": _probability_text(ov.get("risk_group_probability")),
-            "overall_by_rule": ov.get("risk_group_by_rule"),
+            "overall": overall, "overall_by_rule": by_rule,
             "borderline": border, "rule": rule.get("name"), "rule_text": rule.get("statement")}
 
 
@@ -582,9 +626,14 @@ def risk_summary(result: Result) -> dict[str, Any] | None:
     if not rg:
         return None
     ev = result.get("evaluation") or {}
-    here = distance(ev.get("distance_m"))
+    here = place(ev.get("distance_m"))
     rule = ev.get("distance_rule") or ""
+    no_dist = no_assessment_distance(result)
     main = _group_at(result, result, here, "the IEC 62471 assessment distance")
+    if main is not None and no_dist:
+        # the values hold where the spectrum was measured: not the lamp's classification
+        main["where"] = "the measurement position, not at the IEC 62471 assessment distance"
+        main["detail"] += f" This is the group at the measurement position: {NO_DISTANCE_TEXT}."
     u = result.get("use_distance") or {}
     use = None
     if u.get("risk_group"):
@@ -629,7 +678,9 @@ def risk_summary(result: Result) -> dict[str, Any] | None:
                         f"{here} is {by_rule}.")
     prob_text = None
     if prob and main is not None:
-        prob_text = (f"Probability at {here}: {prob}"
+        prob_text = (f"Probability at {here}"
+                     + (" of at least each group" if ov.get("is_lower_bound") else "")
+                     + f": {prob}"
                      + (" (for the hazards that could be assessed)" if ov.get("is_lower_bound") else "")
                      + ".")
     if borderline:
@@ -814,7 +865,7 @@ def germicidal_block(result: Result) -> dict[str, Any] | None:
     pos = g.get("position") or {}
     oz = g.get("ozone") or {}
     return {"status": g.get("status"), "statement": _estimated(g.get("statement") or "", result),
-            "times_caption": times_caption(distance(pos.get("distance_m")), hl),
+            "times_caption": times_caption(place(pos.get("distance_m")), hl),
             "position": pos.get("basis"), "distance": distance(pos.get("distance_m")),
             "uvc": _reading_text(g.get("uvc")), "far_uvc": _reading_text(g.get("far_uvc")),
             "spectra": spectra, "violet_blue": _reading_text(vb) if vb else None,
@@ -964,7 +1015,7 @@ def finding(result: Result, claims: list[dict[str, Any]] | None = None) -> str:
     est = is_estimate(result)
     peak = sp.get("peak_nm")
     st = g.get("status")
-    gpos = distance((g.get("position") or {}).get("distance_m"))
+    gpos = place((g.get("position") or {}).get("distance_m"))
     lamp = "On this estimate the lamp" if est else "This lamp"
     if est:
         s.append("ESTIMATE from the seller's stated data: nothing was measured, so every figure "
@@ -1026,7 +1077,7 @@ def _risk_sentences(result: Result) -> list[str]:
     est = is_estimate(result)
     is_ = "is estimated to be" if est else "is"
     ev = result.get("evaluation") or {}
-    main = _group_at(result, result, distance(ev.get("distance_m")), "")
+    main = _group_at(result, result, place(ev.get("distance_m")), "")
     u = result.get("use_distance") or {}
     use = _group_at(result, u, distance((u.get("evaluation") or {}).get("distance_m")), "") \
         if u.get("risk_group") else None
@@ -1056,6 +1107,9 @@ def _risk_sentences(result: Result) -> list[str]:
                    if t is not None else
                    f"At {main['where']} it {is_} in risk group {main['group']} "
                    f"({GROUP_TEXT.get(main['group'], '')}).")
+    if no_assessment_distance(result):
+        out.append("That is the group where the spectrum was measured, at an unknown distance: "
+                   + NO_DISTANCE_TEXT + ".")
     if use is not None and use["rank"] > main["rank"]:
         ugov = (u.get("hazards") or {}).get(use["governing"] or "", {})
         t = ugov.get("t_max_s")
@@ -1231,7 +1285,10 @@ def provenance(result: Result, listing: Mapping[str, Any] | None, date: str,
         sc = inp.get("scaling") or []
         inputs.append({"label": "Scaling", "value": "; ".join(
             f"{s.get('method')}: {s.get('text', '')}".strip(": ") for s in sc) if sc else "none (values as in the file)"})
-        if ev:
+        if ev and ev.get("distance_m") is None:
+            inputs.append({"label": "Hazards assessed at", "value": ev.get("distance_rule")
+                           or "the measurement position"})
+        elif ev:
             inputs.append({"label": "Hazards assessed at", "value": f"{distance(ev.get('distance_m'))} "
                            f"({ev.get('distance_rule', '')})"})
         if cond.get("use_distance_m") is not None:
@@ -1314,7 +1371,7 @@ def key_caution(result: Result, cautions: list[dict[str, Any]]) -> dict[str, str
                 use = "distance of use" in (rk.get("where") or "")
                 break
     text = c["text"]
-    d = rk.get("governing_at") if use else distance((result.get("evaluation") or {}).get("distance_m"))
+    d = rk.get("governing_at") if use else place((result.get("evaluation") or {}).get("distance_m"))
     lim = _shortest_limit(result, c["id"], use)
     if c["id"] == "invisible-hazard" and lim is not None:
         where = f"{d}, the distance of use," if use else d
@@ -1375,7 +1432,8 @@ def build_note(result: Result, listing: Mapping[str, Any] | None = None, *,
         "spectral": spectral_facts(result),
         "hazards": hazard_rows(result),
         "uncertainty": uncertainty_block(result),
-        "hazard_note": (result.get("evaluation") or {}).get("distance_rule"),
+        "hazard_note": (NO_DISTANCE_TEXT if no_assessment_distance(result)
+                        else (result.get("evaluation") or {}).get("distance_rule")),
         "germicidal": germicidal_block(result),
         "room": room_block(result),
         "plausibility": [{"id": f.get("id"), "status": f.get("status"),

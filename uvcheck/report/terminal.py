@@ -203,21 +203,59 @@ def _rule_lines(rg: dict) -> list[str]:
     return [f"  {x}" for x in parts]
 
 
+#: What the headline says when no measurement distance was given (our own wording): the
+#: values, and so the group, hold at the measurement position, wherever that was.
+NO_DISTANCE_TEXT = ("this is the group at the measurement position, wherever that was: no "
+                    "measurement distance was given, so the IEC 62471 assessment distance could "
+                    "not be applied and this is not the lamp's IEC 62471 classification; give "
+                    "the measurement distance with --distance")
+
+#: How a hazard distance reads, by its ``bound`` (hazard_distances.<id>.bound): sign before
+#: each distance, suffix for 'at every distance', and why.
+_DISTANCE_BOUND = {"at-least": ("at least ", " so far", "partly measured: lower bounds, the "
+                                "true distances can only be larger"),
+                   "at-most": ("at most ", "", "from the detection limit: upper bounds, the true "
+                               "distances can only be smaller")}
+
+
+def no_assessment_distance(d: Mapping[str, Any]) -> bool:
+    """The hazards were evaluated where the spectrum was measured, at an unknown distance,
+    not at the IEC 62471 assessment distance (``evaluation.distance_m`` is None)."""
+    ev = d.get("evaluation") or {}
+    return bool(ev) and ev.get("distance_m") is None and bool(d.get("hazards"))
+
+
+def _tmax_is_upper_bound(h: Mapping[str, Any]) -> bool:
+    """The hazard value is a lower bound (part of its range not measured), so its t_max is an
+    upper bound: the true time can only be shorter."""
+    return h.get("status") == "partial" or bool(h.get("risk_group_is_lower_bound"))
+
+
+def tmax_text(hid: str, h: Mapping[str, Any]) -> str:
+    """The t_max cell: '2.93 h', '> 8 h', 'unlimited', '—'; for a partly measured hazard
+    '≤ 2.93 h', '> 8 h so far', 'unlimited so far' (the measured part alone gives it)."""
+    if h.get("t_max_s") is not None:
+        return ("≤ " if _tmax_is_upper_bound(h) else "") + format_duration(h["t_max_s"])
+    if h.get("status") in ("not-assessable", "not-applicable") or h.get("value") is None:
+        return "—"
+    tmax = "> 8 h" if hid == "actinic_uv" else "unlimited"
+    return tmax + (" so far" if _tmax_is_upper_bound(h) else "")
+
+
 def render_hazards(hazards: dict, d: dict) -> list[str]:
     ev = d.get("evaluation") or {}
     rg = d.get("risk_group") or {}
     out = [f"Photobiological hazards (IEC 62471 / CIE S 009; limit set {ev.get('limit_set', '?')})"]
     dist = ev.get("distance_m")
-    out.append(f"  evaluated at {sig(dist) + ' m' if dist else 'the measurement position'}"
-               f"{': ' + ev['distance_rule'] if ev.get('distance_rule') else ''}")
+    if no_assessment_distance(d):
+        out.append("  evaluated at the measurement position (no measurement distance given), "
+                   "not at the IEC 62471 assessment distance")
+    else:
+        out.append(f"  evaluated at {sig(dist) + ' m' if dist else 'the measurement position'}"
+                   f"{': ' + ev['distance_rule'] if ev.get('distance_rule') else ''}")
     rows = []
     for hid, h in hazards.items():
-        if h["t_max_s"] is not None:
-            tmax = format_duration(h["t_max_s"])
-        elif h["status"] in ("not-assessable", "not-applicable") or h["value"] is None:
-            tmax = "—"
-        else:
-            tmax = "> 8 h" if hid == "actinic_uv" else "unlimited"
+        tmax = tmax_text(hid, h)
         rows.append([f"{h['symbol']} {SHORT_HAZARD.get(hid, hid)}", _hazard_value(h), h["unit"],
                      sig(h["limit"]) if h["limit"] is not None else "—", tmax,
                      group_text(h["risk_group"], h["risk_group_is_lower_bound"], h.get("risk_group_bound")),
@@ -227,13 +265,21 @@ def render_hazards(hazards: dict, d: dict) -> list[str]:
                       "status"], rows, right=(1, 3, 4, 6)))
     if any(h["risk_group_is_lower_bound"] and h["risk_group"] == "Exempt" for h in hazards.values()):
         out.append("  * partly measured: below the Exempt limit so far, but cannot be called Exempt")
+    if any(_tmax_is_upper_bound(h) and h["status"] not in ("not-assessable", "not-applicable")
+           and h["value"] is not None for h in hazards.values()):
+        out.append("  t_max '≤' or 'so far': partly measured, from the measured part alone; the "
+                   "unmeasured part can only shorten it")
     for hid, h in hazards.items():
         if h.get("reason"):
             out.append(f"  - {h['symbol']}: {h['reason']}")
     out.append("")
-    out.append(f"Overall risk group: {group_text(rg.get('group'), rg.get('is_lower_bound', False))}"
+    at_position = no_assessment_distance(d) and rg.get("group") is not None
+    out.append("Overall risk group" + (" at the measurement position" if at_position else "")
+               + f": {group_text(rg.get('group'), rg.get('is_lower_bound', False))}"
                + (f", set by {rg['governing']}" if rg.get("governing") else "")
                + (f" (decision rule: {rg['decision_rule']} acceptance)" if rg.get("decision_rule") else ""))
+    if at_position:
+        out += wrap(f"({NO_DISTANCE_TEXT})", 2)
     out += _rule_lines(rg)
     if rg.get("note") and rg.get("is_lower_bound"):
         out.append(f"  ({rg['note']})")
@@ -246,11 +292,17 @@ def render_hazards(hazards: dict, d: dict) -> list[str]:
             bn = x.get("boundary_notes") or {}
             every = [g for g in ("Exempt", "RG1", "RG2")
                      if not b.get(g) and (bn.get(g) or "").startswith(f"{g} or lower at every")]
-            bl = ", ".join(f"{g} beyond {sig(b[g])} m" if b.get(g) else f"{g} or lower at every distance"
+            # a distance from a lower-bound value (partly measured) is itself a lower bound:
+            # the true one can only be larger; one from a detection limit is an upper bound
+            sign, so_far, why = _DISTANCE_BOUND.get(x.get("bound") or "", ("", "", ""))
+            bl = ", ".join(f"{g} beyond {sign}{sig(b[g])} m" if b.get(g)
+                           else f"{g} or lower at every distance{so_far}"
                            for g in ("RG2", "RG1", "Exempt")
                            if b.get(g) or (every and g == every[0]))
+            reach = f"out to {sign}" if sign else "closer than "
             lines.append(f"  {x['symbol']}: {format_duration(hd.get('exposure_time_s'))} limit reached "
-                         f"closer than {sig(x['distance_m'])} m" + (f"; {bl}" if bl else ""))
+                         f"{reach}{sig(x['distance_m'])} m" + (f"; {bl}" if bl else "")
+                         + (f" ({why})" if why else ""))
             if x.get("regimes") and x.get("meaning"):   # L_B: what its distances mean
                 lines += wrap(f"({x['meaning']}.)", 4)
     if lines:
@@ -267,7 +319,12 @@ def render_hazards(hazards: dict, d: dict) -> list[str]:
         for hid in ("actinic_uv", "near_uv", "blue_light"):
             h = (use.get("hazards") or {}).get(hid)
             if h and h.get("value") is not None:
+                base = hazards.get(hid) or {}
+                h = {**base, **{k: v for k, v in h.items() if v is not None}}
                 t = format_duration(h["t_max_s"]) if h.get("t_max_s") is not None else "no time limit within the limit's range"
+                if _tmax_is_upper_bound(h):
+                    t = ("≤ " + t + " (measured part only)" if h.get("t_max_s") is not None
+                         else t + " so far (measured part only)")
                 out.append(f"  {h['symbol']} {_hazard_value(h)} {h['unit']}; t_max {t}")
     return out
 
@@ -343,6 +400,34 @@ def partly_measured(block: Mapping[str, Any]) -> bool:
     return isinstance(cov, (int, float)) and not _covers(cov)
 
 
+#: The efficiency verdict in words (germicidal.efficiency.verdict); our own wording.
+_EFFICIENCY_VERDICT = {"within": "within the usual range for this lamp technology",
+                       "below-range": "below the usual range for this lamp technology",
+                       "above-range": "above the usual range for this lamp technology",
+                       "implausible": "implausibly high for this lamp technology"}
+
+
+def efficiency_text(g: Mapping[str, Any]) -> str | None:
+    """'3.18e-05 W/W (within …; the flux is an estimate …)', or with '≤' where the UV-C reading
+    behind it is only an upper bound (``efficiency.status`` 'upper-bound'); None when no
+    efficiency was computed. No verdict is given for an upper bound (the JSON has none)."""
+    eff = g.get("efficiency") or {}
+    if eff.get("efficiency") is None:
+        return None
+    upper = eff.get("status") == "upper-bound"
+    bits = []
+    if upper:
+        reads = (g.get("uvc") or {}).get("status")
+        reason = _EQUIVALENT_BOUND.get(reads, ("", "", "no UV-C output is established"))[2]
+        bits.append(f"upper bound: {reason}")
+    if eff.get("verdict"):
+        bits.append(_EFFICIENCY_VERDICT.get(eff["verdict"], str(eff["verdict"])))
+    if eff.get("note"):
+        bits.append(eff["note"])
+    return (f"{'≤ ' if upper else ''}{eff['efficiency']:.3g} W/W"
+            + (f" ({'; '.join(bits)})" if bits else ""))
+
+
 def render_germicidal(g: dict, d: dict) -> list[str]:
     out = ["Germicidal output" + (f" at {sig(g['position']['distance_m'])} m"
                                   if (g.get("position") or {}).get("distance_m") else
@@ -361,9 +446,9 @@ def render_germicidal(g: dict, d: dict) -> list[str]:
         out.append(f"  ozone (output below 240 nm): {oz.get('status')} — {oz.get('note') or oz.get('basis') or ''}")
     for a in g.get("artefacts") or []:
         out.append(f"  ! {a['kind']}: {a['detail']}")
-    eff = g.get("efficiency") or {}
-    if eff.get("efficiency") is not None:
-        out.append(f"  UV-C efficiency: {eff['efficiency']:.3g} W/W ({eff.get('verdict')}; {eff.get('note') or ''})")
+    line = efficiency_text(g)
+    if line:
+        out += wrap(f"UV-C efficiency: {line}", 2)
     out += render_inactivation(g.get("inactivation") or [])
     return out
 
@@ -591,7 +676,28 @@ def other_findings(claims: list, pl: dict) -> list[dict]:
 def render_uncertainty(u: dict, d: dict) -> list[str]:
     from uvcheck.uncertainty import render_uncertainty_lines
 
-    return render_uncertainty_lines(u, d)
+    lines = render_uncertainty_lines(u, d)
+    ov = (u.get("overall") or {}) if u.get("status") == "evaluated" else {}
+    rg = d.get("risk_group") or {}
+    if ov and (ov.get("is_lower_bound") or rg.get("is_lower_bound")):
+        # the overall group is a lower bound: its line carries the headline's 'at least' (the
+        # probabilities are then of at least each group)
+        lines = [overall_uncertainty_line(ov) if ln.startswith("  overall group ") else ln
+                 for ln in lines]
+    return lines
+
+
+def overall_uncertainty_line(ov: Mapping[str, Any]) -> str:
+    """The uncertainty block's overall line for a lower-bound group: 'overall group at least
+    Exempt*: probability of at least each group: Exempt 100%; by the decision rule: at least
+    Exempt*'."""
+    p = ov.get("risk_group_probability") or {}
+    probs = ", ".join(f"{g} {100 * v:.0f}%" for g, v in p.items() if v >= 0.005) or "—"
+    return (f"  overall group {group_text(ov.get('risk_group'), True)}: "
+            f"probability of at least each group: {probs}"
+            + ("; borderline" if ov.get("borderline") else "")
+            + (f"; by the decision rule: {group_text(ov['risk_group_by_rule'], True)}"
+               if ov.get("risk_group_by_rule") else ""))
 
 
 SECTION_RENDERERS: dict[str, Any] = {"hazards": render_hazards, "germicidal": render_germicidal,
