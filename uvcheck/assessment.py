@@ -256,7 +256,8 @@ def assess(spectrum: Spectrum, conditions: Conditions | None = None, report: Any
         udict = unc.to_dict() if unc is not None else None
         rule = (udict or {}).get("decision_rule", {}).get("rule", "simple") if udict else "simple"
         claims = judge(listing, readings_from_measurement(spectrum, conditions, options.technology),
-                       measured=True, uncertainty=udict, rule=rule)
+                       measured=True, uncertainty=udict, rule=rule,
+                       limit_set=options.limit_set)
     if claims is not None:
         sections["claims"] = claims
     for k, v in (extra or {}).items():

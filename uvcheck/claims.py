@@ -15,7 +15,12 @@ listing can be read — and every claim is judged over them:
   A reading that a plausibility check refutes (an LED voltage that cannot make the stated
   wavelength) is not used as the favourable reading;
 * **safety claims** fail as soon as the *most likely* reading (the measurement; without one,
-  the typical case of the most credible nominal reading) exceeds an exposure limit;
+  the typical case of the most credible nominal reading) exceeds an exposure limit of the
+  assessment's limit set (``judge(limit_set=...)``; a basis names a set other than the
+  default). On an estimate they get no benefit of the doubt either: ``holds`` only when every
+  case (min / typical / max) of every reading the listing does not refute stays within the
+  limits; when the most likely case does but another case does not, ``not-assessable`` (a
+  measurement is needed), naming that case and its time to the limit;
 * a *hard bound* decides ``cannot-hold`` at any shortfall, without the margin: physics (the
   photon energy of the stated wavelength against the LED voltage, energy conservation, the
   wall-plug limit), a cover that blocks the band, the best the technology has reached, or no
@@ -197,6 +202,10 @@ RULE_PRESENCE = ("the presence test (is there emission above the detection limit
 #: Rule of a safety claim.
 RULE_SAFETY = ("the safety rule (the most likely reading against the exposure limit, no benefit "
                "of the doubt)")
+#: Rule of a safety claim on an estimate (nominal min / typical / max cases).
+RULE_SAFETY_ESTIMATE = ("the safety rule on an estimate (every case of every reading the "
+                        "listing does not refute against the exposure limit, no benefit of "
+                        "the doubt)")
 #: Rule of an emission claim that a nominal estimate can only take at its word.
 RULE_TECHNOLOGY_EMITS = "the benefit-of-the-doubt rule (the stated technology emits there)"
 
@@ -276,15 +285,30 @@ class Reading:
                                                 limit_set=key[1])
         return self._cache[key]
 
-    def hazards_at(self, distance_m: float) -> dict[str, Any]:
-        """Hazard values and t_max at a distance of use (the hazard module's use evaluation)."""
-        from uvcheck.hazards import evaluate_hazards
+    def hazards_at(self, distance_m: float, limit_set: str | None = None) -> dict[str, Any]:
+        """Hazard values and t_max at a distance of use (the hazard module's use evaluation),
+        under ``limit_set`` (the default limit set unless one is given)."""
+        from uvcheck.hazards import DEFAULT_LIMIT_SET, evaluate_hazards
 
-        key = ("hd", distance_m)
+        key = ("hd", distance_m, limit_set or DEFAULT_LIMIT_SET)
         if key not in self._cache:
             c = replace(self.conditions, use_distance_m=distance_m)
-            use = evaluate_hazards(self.spectrum, c).use_distance
+            use = evaluate_hazards(self.spectrum, c, limit_set=key[2]).use_distance
             self._cache[key] = use.to_dict() if use is not None else {}
+        return self._cache[key]
+
+    def _room_lamp(self, box: Any, placement: str) -> Any:
+        from uvcheck import room as rm
+
+        key = ("room-lamp", box, placement)
+        if key not in self._cache:
+            if placement == "centre":
+                geom = rm.LampGeometry((box.width_m / 2, box.length_m / 2, box.height_m / 2))
+            else:
+                pattern = "lambertian_down" if self.conditions.emitter == "lambertian" else "isotropic"
+                geom = rm.LampGeometry((box.width_m / 2, box.length_m / 2,
+                                        max(box.height_m - 0.05, box.height_m * 0.9)), pattern)
+            self._cache[key] = rm.lamp_from_spectrum(self.spectrum, geom, self.d_ref)
         return self._cache[key]
 
     def room(self, box: Any, placement: str) -> Any:
@@ -294,15 +318,62 @@ class Reading:
 
         key = ("room", box, placement)
         if key not in self._cache:
-            if placement == "centre":
-                geom = rm.LampGeometry((box.width_m / 2, box.length_m / 2, box.height_m / 2))
-            else:
-                pattern = "lambertian_down" if self.conditions.emitter == "lambertian" else "isotropic"
-                geom = rm.LampGeometry((box.width_m / 2, box.length_m / 2,
-                                        max(box.height_m - 0.05, box.height_m * 0.9)), pattern)
-            lamp = rm.lamp_from_spectrum(self.spectrum, geom, self.d_ref)
+            lamp = self._room_lamp(box, placement)
             self._cache[key] = rm.evaluate_room(box, lamp, grid_step_m=max(box.width_m, box.length_m) / 40)
         return self._cache[key]
+
+    def occupant_exposure(self, box: Any, limit_set: str | None = None) -> dict[str, Any]:
+        """The room occupant's time to the daily actinic UV limit of ``limit_set`` (lamp at the
+        ceiling centre, eyes facing it: the room model's worst case).
+
+        Returns ``time_to_limit_s`` (None: never reached within the limit's durations),
+        ``lower_bound`` (the lamp's output is only partly known: the true time is shorter),
+        ``symbol``, ``eye_height_m`` and ``limit_set``. Under the default limit set this is the
+        room model's own figure (IEC 62471 E_S·t ≤ 30 J/m²); under another set the occupant's
+        worst-case irradiance spectrum (the lamp's flux spectrum times the room model's
+        highest fluence rate per watt at eye height) is weighted and timed with that set's
+        actinic UV entry, as :mod:`uvcheck.hazards` does for a measured irradiance.
+        """
+        from uvcheck.hazards import DEFAULT_LIMIT_SET
+        from uvcheck.spectrum import scaled
+
+        lset = limit_set or DEFAULT_LIMIT_SET
+        key = ("occ", box, lset)
+        if key in self._cache:
+            return self._cache[key]
+        room = self.room(box, "ceiling")
+        occ = room.occupant
+        out: dict[str, Any] = {"eye_height_m": occ.get("eye_height_m"), "limit_set": lset,
+                               "symbol": "E_S",
+                               "lower_bound": bool(occ.get("effective_S_is_lower_bound"))}
+        e_s, phi_s = occ.get("effective_S_W_m2"), room.lamp.get("actinic_flux_W")
+        # (as before: no actinic output at all leaves the occupant exposure unevaluated)
+        out["evaluated"] = occ.get("time_to_limit_s") is not None
+        out["time_to_limit_s"] = occ.get("time_to_limit_s")
+        out["effective_W_m2"] = e_s
+        if lset != DEFAULT_LIMIT_SET:
+            from uvcheck.limits import get_limit_set
+
+            entry = get_limit_set(lset).hazard("actinic_uv")
+            out["symbol"] = entry.symbol
+            out["time_to_limit_s"] = None
+            out["effective_W_m2"] = 0.0
+            if e_s and phi_s and e_s > 0 and phi_s > 0:
+                # the room model gives E_S = (S-weighted flux) × (highest fluence rate per watt
+                # at eye height), so that fluence rate per watt is E_S / (S-weighted flux)
+                eye = scaled(self._room_lamp(box, "ceiling").flux_spectrum, e_s / phi_s,
+                             "irradiance")
+                lo, hi = entry.range_nm
+                integ = integrate(eye, lo, hi, entry.weight())
+                out["effective_W_m2"] = integ.value
+                if integ.value > 0:
+                    # None: within the limit for every duration the limit covers
+                    out["time_to_limit_s"] = entry.t_max(lambda fov: integ.value)[0]
+                # partial data in this limit's own spectral range (the room model's flag is
+                # for its 180–400 nm E_S)
+                out["lower_bound"] = not integ.complete
+        self._cache[key] = out
+        return out
 
 
 @dataclass(frozen=True)
@@ -316,6 +387,27 @@ class Evidence:
     margin: float = MARGIN
     uncertainty: dict[str, Any] | None = None   # the assessment's ``uncertainty`` section
     rule: str = "simple"                        # decision rule: simple | guarded
+    limit_set: str | None = None                # exposure-limit set id; None = the default
+
+    @property
+    def limit_set_id(self) -> str:
+        from uvcheck.limits import DEFAULT_LIMIT_SET
+
+        return self.limit_set or DEFAULT_LIMIT_SET
+
+    def limits_named(self) -> str:
+        """'' under the default limit set, else "; limit set <id>: <name>" for a basis."""
+        from uvcheck.limits import DEFAULT_LIMIT_SET, get_limit_set
+
+        if self.limit_set_id == DEFAULT_LIMIT_SET:
+            return ""
+        return f"; limit set {self.limit_set_id}: {get_limit_set(self.limit_set_id).name}"
+
+    def safety_cases(self) -> list[Reading]:
+        """The readings a safety claim must stay within the limits for: every absolute reading
+        the listing does not refute (the measurement; for an estimate, every min / typical /
+        max case of every reading not refuted)."""
+        return [x for x in self.readings if x.spectrum.is_absolute and not x.refuted]
 
     def relative_interval(self, *path: str) -> tuple[float, float] | None:
         """(low/value, high/value) of a 95 % interval in the uncertainty section, or None."""
@@ -836,6 +928,55 @@ def _ozone(c: Any, ev: Evidence) -> Verdict:
 
 # --- safety -----------------------------------------------------------------------------------
 
+#: The hazards a safety claim at a distance is judged on.
+SAFETY_HAZARDS = ("actinic_uv", "near_uv", "blue_light", "retinal_thermal", "ir_eye")
+#: What a safety claim on an estimate needs when only some of its cases stay within the limits.
+SAFETY_MEASUREMENT_NEEDED = ("a measured spectrum of the lamp as sold (through any cover), with "
+                             "its measurement distance",)
+
+
+def _exposure_at(r: Reading, ev: Evidence, d: float) -> tuple[dict[str, Any],
+                                                              tuple[float, dict] | None, list[str]]:
+    """(hazards, (shortest t_max, its hazard) or None, hazards not fully assessed) of one
+    reading at a distance of use, under the evidence's limit set."""
+    hz = r.hazards_at(d, ev.limit_set_id).get("hazards") or {}
+    worst = None
+    open_h = []
+    for hid in SAFETY_HAZARDS:
+        h = hz.get(hid)
+        if not h:
+            continue
+        if h.get("status") in ("not-assessable", "partial"):
+            open_h.append(h.get("symbol") or hid)
+        tm = h.get("t_max_s")
+        if tm is not None and (worst is None or tm < worst[0]):
+            worst = (tm, h)
+    return hz, worst, open_h
+
+
+def _only_likely_within(c: Any, ev: Evidence, r: Reading, t: float, where: str,
+                        exceed: list[tuple[float, str, Reading]], cases: list[Reading],
+                        assumptions: Sequence[str], details: dict[str, Any]) -> Verdict:
+    """``not-assessable``: the most likely case stays within the limits but another case of the
+    estimate does not (the estimate's range includes an unsafe exposure)."""
+    exceed.sort(key=lambda e: e[0])
+    tm, what, x = exceed[0]
+    n = len(exceed)
+    more = (f"; {n} of the {len(cases)} cases exceed a limit" if n > 1 else "")
+    basis = (f"{where}, within the limits in the most likely case ({r.label}) only: "
+             f"the {x.label} case reaches {what} in {format_duration(tm)}, against "
+             f"{format_duration(t)} of exposure{more}; the estimate's range includes an unsafe "
+             f"exposure, so a measurement is needed{ev.limits_named()}")
+    return Verdict(c.id, c.kind, c.text, "not-assessable", Quantity(t, "s", "exposure time"),
+                   Quantity(tm, "s", f"shortest time to a limit over the estimate's cases "
+                                     f"({x.label})"), tm / t, basis, tuple(assumptions),
+                   SAFETY_MEASUREMENT_NEEDED, r.evidence, x.label,
+                   {**details, "most_likely_reading": r.label,
+                    "cases_exceeding": {e[2].label: e[0] for e in exceed},
+                    "cases_judged": [y.label for y in cases], "limit_set": ev.limit_set_id},
+                   RULE_SAFETY_ESTIMATE)
+
+
 def _safety(c: Any, ev: Evidence) -> Verdict:
     missing = c.missing()
     if missing:
@@ -852,25 +993,58 @@ def _safety(c: Any, ev: Evidence) -> Verdict:
     if "pets" in c.safe_for or "animals" in c.safe_for:
         assumptions.append("no exposure limits exist for animals; the human limits are used as a "
                            "proxy (common practice)")
+    lnamed = ev.limits_named()
+    # an estimate: every case of every reading not refuted must stay within the limits
+    cases = [x for x in ev.safety_cases() if x is not r] if not ev.measured else []
+    labels = " / ".join(x.label for x in ev.safety_cases())
     occupied = "occupied-rooms" in c.safe_for
     box = _room_box(c, ev.listing) if occupied else None
     if occupied and box is not None:
-        room = r.room(box[0], "ceiling")
-        occ = room.occupant
+        occ = r.occupant_exposure(box[0], ev.limit_set_id)
         tl = occ.get("time_to_limit_s")
         assumptions += box[1] + ["lamp at the ceiling centre; occupant's eyes at "
                                  f"{sig(occ.get('eye_height_m'))} m facing the lamp (worst case)"]
-        if tl is None:
+        if not occ.get("evaluated"):
             return _na(c, ev, "the occupant exposure could not be evaluated", (), assumptions)
-        ratio = tl / t
-        verdict = "holds" if ratio >= 1 else "cannot-hold"
-        if verdict == "holds" and occ.get("effective_S_is_lower_bound"):
+        ratio = None if tl is None else tl / t
+        verdict = "holds" if (tl is None or tl >= t) else "cannot-hold"
+        if verdict == "holds" and occ.get("lower_bound"):
             verdict = "not-assessable"
-        basis = (f"an occupant reaches the daily actinic UV limit in {format_duration(tl)} "
-                 f"(needs at least {format_duration(t)})")
+        what = ("the daily actinic UV limit" if not lnamed
+                else f"the daily actinic UV limit ({occ.get('symbol')})")
+        from uvcheck.limits import get_limit_set
+
+        lim = get_limit_set(ev.limit_set_id).hazard("actinic_uv").limit_at(t)
+        # the exposure over t as a share of the limit for t (None: t outside its durations)
+        share = occ["effective_W_m2"] / lim if lim and occ.get("effective_W_m2") is not None else None
+        if tl is not None:
+            basis = (f"an occupant reaches {what} in {format_duration(tl)} "
+                     f"(needs at least {format_duration(t)})")
+        else:
+            basis = f"an occupant stays within {what}" + (
+                f": {sig(100 * share, 2)} % of it in {format_duration(t)}" if share else "")
+        if verdict == "not-assessable":
+            basis += (" (from partial data: the spectrum does not cover the limit's whole range, "
+                      "so the true time may be shorter)")
+        basis += lnamed
+        details = {"for": who, "limit_set": ev.limit_set_id, "hazard": occ.get("symbol"),
+                   "share_of_limit": share}
+        if verdict == "holds" and cases:
+            exceed = []
+            for x in cases:
+                ox = x.occupant_exposure(box[0], ev.limit_set_id)
+                tx = ox.get("time_to_limit_s")
+                if ox.get("evaluated") and tx is not None and tx < t:
+                    exceed.append((tx, what, x))
+            if exceed:
+                return _only_likely_within(c, ev, r, t, "for an occupant", exceed,
+                                           [r] + cases, assumptions, details)
+            basis += f"; so in every case of the estimate ({labels})"
         return Verdict(c.id, c.kind, c.text, verdict, Quantity(t, "s", "exposure time"),
+                       None if tl is None else
                        Quantity(tl, "s", "time to the exposure limit at eye height"), ratio,
-                       basis, tuple(assumptions), (), r.evidence, r.label, rule=RULE_SAFETY)
+                       basis, tuple(assumptions), (), r.evidence, r.label, details,
+                       rule=RULE_SAFETY_ESTIMATE if cases and verdict == "holds" else RULE_SAFETY)
     d = c.distance_m or ev.listing.use_distance_m
     if d is None:
         d = 0.2
@@ -878,18 +1052,7 @@ def _safety(c: Any, ev: Evidence) -> Verdict:
     if r.d_ref is None:
         return _na(c, ev, "the measurement distance is unknown, so exposure at a distance of use "
                           "cannot be worked out", ("--distance",), assumptions)
-    hz = r.hazards_at(d).get("hazards") or {}
-    worst = None
-    open_h = []
-    for hid in ("actinic_uv", "near_uv", "blue_light", "retinal_thermal", "ir_eye"):
-        h = hz.get(hid)
-        if not h:
-            continue
-        if h.get("status") in ("not-assessable", "partial"):
-            open_h.append(h.get("symbol") or hid)
-        tm = h.get("t_max_s")
-        if tm is not None and (worst is None or tm < worst[0]):
-            worst = (tm, h)
+    hz, worst, open_h = _exposure_at(r, ev, d)
     decision = None
     verdict_u = None
     if worst is not None and ev.measured:
@@ -906,24 +1069,54 @@ def _safety(c: Any, ev: Evidence) -> Verdict:
         basis = (f"at {sig(d)} m the {h.get('name') or h.get('symbol')} limit ({h.get('symbol')}) "
                  f"is reached in {format_duration(tm)}, against {format_duration(t)} of exposure"
                  + (" (from partial data: the true time is shorter)" if lower else "")
-                 + (f" (t_max {decision})" if decision else ""))
+                 + (f" (t_max {decision})" if decision else "") + lnamed)
         return Verdict(c.id, c.kind, c.text, verdict, Quantity(t, "s", "exposure time"),
                        Quantity(tm, "s", f"t_max ({h.get('symbol')})"), tm / t, basis,
                        tuple(assumptions), (), r.evidence, r.label,
-                       {"hazard": h.get("symbol"), "distance_m": d, "for": who},
+                       {"hazard": h.get("symbol"), "distance_m": d, "for": who,
+                        "limit_set": ev.limit_set_id},
                        RULE_SAFETY if decision is None else
                        f"{RULE_SAFETY}, with {rule_interval(ev.rule)}")
     if open_h:
         return _na(c, ev, f"within the limits so far, but {', '.join(open_h)} could not be fully "
-                          "assessed, so safety cannot be confirmed",
+                          f"assessed, so safety cannot be confirmed{lnamed}",
                    ("a spectrum covering 200–1400 nm", "the source size (--source-size)"), assumptions)
-    tm = worst[0] if worst else None
+    details = {"distance_m": d, "for": who, "limit_set": ev.limit_set_id}
+    shortest = (worst[0], r) if worst else None
+    if cases:
+        exceed, unconfirmed = [], []
+        for x in cases:
+            if x.d_ref is None:
+                unconfirmed.append(x)
+                continue
+            _, wx, ox = _exposure_at(x, ev, d)
+            if wx is not None and wx[0] < t:
+                h = wx[1]
+                exceed.append((wx[0], f"the {h.get('name') or h.get('symbol')} limit "
+                                      f"({h.get('symbol')})", x))
+            elif ox:
+                unconfirmed.append(x)
+            if wx is not None and (shortest is None or wx[0] < shortest[0]):
+                shortest = (wx[0], x)
+        if exceed:
+            return _only_likely_within(c, ev, r, t, f"at {sig(d)} m", exceed, [r] + cases,
+                                       assumptions, details)
+        if unconfirmed:
+            return _na(c, ev, f"at {sig(d)} m within the limits in the most likely case "
+                              f"({r.label}), but "
+                              f"{', '.join(x.label for x in unconfirmed)} could not be fully "
+                              f"assessed, so safety cannot be confirmed{lnamed}",
+                       SAFETY_MEASUREMENT_NEEDED, assumptions)
+    tm = shortest[0] if shortest else None
+    every = f" in every case of the estimate ({labels})" if cases else ""
     return Verdict(c.id, c.kind, c.text, "holds", Quantity(t, "s", "exposure time"),
                    Quantity(tm, "s", "shortest t_max") if tm else None,
                    (tm / t) if tm else None,
-                   f"at {sig(d)} m every assessed hazard stays within its limit for {format_duration(t)}",
-                   tuple(assumptions), (), r.evidence, r.label, {"distance_m": d, "for": who},
-                   RULE_SAFETY)
+                   f"at {sig(d)} m every assessed hazard stays within its limit for "
+                   f"{format_duration(t)}{every}{lnamed}",
+                   tuple(assumptions), (), r.evidence,
+                   shortest[1].label if shortest else r.label, details,
+                   RULE_SAFETY if not cases else RULE_SAFETY_ESTIMATE)
 
 
 # --- optical power and efficiency ------------------------------------------------------------
@@ -1017,10 +1210,19 @@ HARD_BOUNDS_TEXT = (
     "'unlikely'. Each verdict names the rule that decided it.")
 
 
-def decision_rule_text(margin: float = MARGIN, rule: str | None = None) -> str:
+#: How a safety claim is judged on an estimate (printed with the decision rule of a screening).
+SAFETY_ESTIMATE_TEXT = (
+    "On an estimate, a safety claim holds only when every case (min / typical / max) of every "
+    "reading the listing does not refute stays within the limits; when only some cases do, it "
+    "is 'not-assessable' until a measurement decides. ")
+
+
+def decision_rule_text(margin: float = MARGIN, rule: str | None = None,
+                       estimate: bool = False) -> str:
     head = ("efficacy claims: benefit of the doubt (most favourable reading, most susceptible "
             "organism, lowest dose across studies). Safety claims: fail as soon as the most "
-            "likely reading exceeds an exposure limit. ")
+            "likely reading exceeds an exposure limit. "
+            + (SAFETY_ESTIMATE_TEXT if estimate else ""))
     if rule is None:
         return head + (f"Without measurement uncertainty: 'cannot-hold' only when the favourable "
                        f"reading falls short by more than {sig(margin, 2)}×, 'unlikely' within "
@@ -1039,18 +1241,25 @@ def decision_rule_text(margin: float = MARGIN, rule: str | None = None) -> str:
 
 def judge(listing: Any, readings: Iterable[Reading], measured: bool,
           margin: float = MARGIN, uncertainty: dict[str, Any] | None = None,
-          rule: str = "simple") -> ClaimsResult:
+          rule: str = "simple", limit_set: str | None = None) -> ClaimsResult:
     """Verdicts for a listing's claims over the given readings (see the module docstring).
 
     uncertainty : the assessment's ``uncertainty`` section; with it, measured efficacy and
         safety verdicts are decided on the 95 % intervals under ``rule`` (``simple`` or
         ``guarded`` acceptance) instead of the fixed :data:`MARGIN`.
+    limit_set : the exposure-limit set safety claims are judged against (the assessment's
+        ``AssessOptions.limit_set``); None = the default set. A basis names a set other
+        than the default.
     """
+    from uvcheck.limits import get_limit_set
     from uvcheck.plausibility import screen_listing
 
+    if limit_set is not None:
+        get_limit_set(limit_set)   # an unknown id fails here, naming the available ones
     pl = screen_listing(listing)
-    ev = Evidence(listing, tuple(readings), pl, measured, margin, uncertainty, rule)
+    ev = Evidence(listing, tuple(readings), pl, measured, margin, uncertainty, rule, limit_set)
     verdicts = tuple(evaluate_claims(ev))
     evaluated = bool(uncertainty and uncertainty.get("status") == "evaluated" and measured)
     return ClaimsResult(verdicts, listing, pl, tuple(r.label for r in ev.readings),
-                        decision_rule_text(margin, rule if evaluated else None))
+                        decision_rule_text(margin, rule if evaluated else None,
+                                           estimate=not measured))

@@ -55,7 +55,7 @@ def screen_listing_file(listing: Any, limit_set: str = "iec62471_2006") -> Asses
     pl = screen_listing(listing)
     ests = listing_readings(listing)
     readings = readings_from_listing(listing, pl, ests)
-    verdicts = judge(listing, readings, measured=False)
+    verdicts = judge(listing, readings, measured=False, limit_set=limit_set)
     likely = next((r for r in readings if r.likely), readings[0])
     spec = likely.spectrum.derive(meta={**dict(likely.spectrum.meta), "source": listing.source,
                                         "sha256": listing.sha256, "origin": "nominal",
