@@ -540,6 +540,21 @@ def _emission(c: Any, ev: Evidence) -> Verdict:
     lines = find_lines(r.spectrum)
     pk = peak_info(r.spectrum)
     uvc_ok = g.status in UVC_EMITTING  # (partial: found, part of the band unmeasured)
+    d_lo, d_hi = r.spectrum.range_nm
+    if lam is not None and not (d_lo <= lam <= d_hi and not any(
+            a <= lam <= b for a, b in r.spectrum.gaps_nm)):
+        # the stated wavelength itself was not measured: no presence test can be made there
+        return _na(c, ev, f"the stated {lam:g} nm lies outside the measured "
+                          f"{d_lo:g}–{d_hi:g} nm" + (" (or in a gap of the data)"
+                                                     if d_lo <= lam <= d_hi else ""),
+                   ("a spectrum covering the stated wavelength",))
+    if (lam is None and band is not None and band[1] <= 280.0 and not uvc_ok
+            and g.status == "not-assessed"):
+        cover = integrate(r.spectrum, *band).coverage
+        if cover < 1.0 - 1e-9:
+            # nothing found in the measured part, but UV-C is not ruled out (the germicidal
+            # statement says why): the part of the band not measured could hold the emission
+            return _na(c, ev, g.statement_clause(), ("a spectrum covering the whole band",))
     if lam is not None:
         tol = max(PEAK_TOLERANCE_NM, (pk.fwhm_nm or 0.0) / 2)
         near = [ln for ln in lines if abs(ln.wavelength_nm - lam) <= tol]
@@ -551,7 +566,10 @@ def _emission(c: Any, ev: Evidence) -> Verdict:
                            Quantity(lam, "nm", "stated peak"),
                            Quantity(pk.peak_nm, "nm", "measured peak"), None,
                            f"stated {lam:g} nm, but the output peaks at {sig(pk.peak_nm, 4)} nm "
-                           f"with no germicidal UV-C: {g.statement_clause()}",
+                           + (f"with no germicidal UV-C: {g.statement_clause()}"
+                              if g.status != "not-assessed" else
+                              f"and nothing stands out at {lam:g} nm, which was measured "
+                              f"(the data cover {d_lo:g}–{d_hi:g} nm)"),
                            (), (), ev_kind, r.label, {"uvc_upper_bound_W_m2": ub}, RULE_PRESENCE)
         if near:
             ln = min(near, key=lambda x: abs(x.wavelength_nm - lam))

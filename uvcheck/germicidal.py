@@ -217,7 +217,9 @@ class EffectiveReading:
 class Artefact:
     """A reason to read an apparent UV-C signal as stray light or noise.
 
-    kind : ``pedestal`` | ``noise-floor`` | ``no-emitter``.
+    kind : ``pedestal`` | ``noise-floor`` | ``no-emitter`` | ``data-edge`` (the signal is
+        highest where data that start inside UV-C begin: emission below them or stray light,
+        undecided; the readings keep their measured values).
     detail : what was seen, with numbers.
     """
 
@@ -609,6 +611,14 @@ def uvc_artefacts(spectrum: Spectrum, sigma: float | None = None) -> tuple[Artef
         out.append(Artefact("no-emitter", f"the UV-C signal rises into the {lo_edge:g} nm edge of "
                             "the data, where detectors are least sensitive and noise is amplified"))
         return tuple(out)
+    if i == 0 and lo_edge > UVC_BAND_NM[0] + 1.0 and v.size > 3 and v[0] > v[1] > v[2]:
+        # data that start inside UV-C, highest at their first sample and falling from it, with
+        # no peak in the measured part: emission below the data, or stray light
+        out.append(Artefact("data-edge", f"the UV-C signal is highest at {lo_edge:g} nm, where "
+                            "the data start, and falls from there with no peak in the measured "
+                            f"part: emission below {lo_edge:g} nm or stray light, which these "
+                            "data cannot tell apart"))
+        return tuple(out)
     if i == v.size - 1:
         return tuple(out)  # the tail of a peak above 280 nm (UV-B/UV-A LED or Hg 296.7 nm)
     step = spectrum.step_nm or 1.0
@@ -690,7 +700,8 @@ def detect_technology(spectrum: Spectrum) -> str | None:
 
 
 def _ozone(spec: Spectrum, uvc: Reading, total: float, tech_id: str | None,
-           uvc_peak_nm: float | None, artefact: bool, tech_given: bool = True) -> Ozone:
+           uvc_peak_nm: float | None, artefact: bool, tech_given: bool = True,
+           undecided_uvc: bool = False) -> Ozone:
     unit = spec.integrated_unit
     lo_data = spec.range_nm[0]
     covers_185 = lo_data <= OZONE_LINE_COVERED_NM and not any(
@@ -724,9 +735,10 @@ def _ozone(spec: Spectrum, uvc: Reading, total: float, tech_id: str | None,
                      f"no output found below 240 nm, {'measured' if seen == 'measured' else 'modelled'}"
                      f" down to {lo_data:g} nm "
                      "(including the 184.9 nm mercury line)")
-    if tech_no and not tech_given and uvc.coverage <= 0.0:
-        # a technology guessed from a spectrum without any UV-C: the guess rests on the
-        # visible or UV-A shape alone, and says nothing of an emitter the data do not reach
+    if tech_no and not tech_given and (uvc.coverage <= 0.0 or undecided_uvc):
+        # a technology guessed from a spectrum without any UV-C (or whose UV-C signal rises
+        # into the start of the data): the guess rests on the longer-wavelength shape, and
+        # says nothing of an emitter the data do not reach
         return Ozone("unknown", "not-measurable", None, unit, None, False,
                      f"the data start at {lo_data:g} nm, so output below 240 nm was not "
                      f"measured; the shape looks like a {tech['name']} (a guess from the "
@@ -864,7 +876,9 @@ def evaluate_germicidal(spectrum: Spectrum, conditions: Conditions | None = None
         noise = {"sigma": None, "basis": "unknown"}
     total = total_integral(spec)
     artefacts = () if spec.wavelength_nm.size <= 2 else uvc_artefacts(spec)
-    art = bool(artefacts)
+    # a signal rising into the start of data that begin inside UV-C is undecided, not stray
+    # light: the readings keep their (partial) values and the status says why it is open
+    art = any(a.kind != "data-edge" for a in artefacts)
     uvc = _reading(spec, "uvc", "UV-C 200–280 nm", *UVC_BAND_NM, None, total, art)
     far = _reading(spec, "far_uvc", "far-UVC 200–235 nm", *FAR_UVC_BAND_NM, None, total, art)
     effective = tuple(_effective(spec, a, total, art, REFERENCE_WAVELENGTH_NM, UVC_BAND_NM)
@@ -884,7 +898,8 @@ def evaluate_germicidal(spectrum: Spectrum, conditions: Conditions | None = None
     elif spec.lines:
         uvc_lines = [ln for ln in spec.lines if UVC_BAND_NM[0] <= ln.wavelength_nm < UVC_BAND_NM[1]]
         uvc_peak = max(uvc_lines, key=lambda x: x.value).wavelength_nm if uvc_lines else None
-    ozone = _ozone(spec, uvc, total, tech_id, uvc_peak, art, tech_given=technology is not None)
+    ozone = _ozone(spec, uvc, total, tech_id, uvc_peak, art, tech_given=technology is not None,
+                   undecided_uvc=any(a.kind == "data-edge" for a in artefacts))
     efficiency = _efficiency(uvc, spec, position, cond, tech_id)
     status, statement = _status(spec, uvc, far, artefacts, position, effective, vb)
     # --- inactivation (evaluated on first use: OrganismPlan) ---------------------------------
@@ -1052,6 +1067,12 @@ def _status(spec: Spectrum, uvc: Reading, far: Reading, artefacts: tuple[Artefac
         # nothing above the noise in the measured part: that says nothing of the part not
         # measured, so UV-C is not ruled out (missing range is never read as zero)
         return _not_ruled_out("the noise", lo)
+    if artefacts and all(a.kind == "data-edge" for a in artefacts):
+        a, b = UVC_BAND_NM
+        return "not-assessed", (f"UV-C not established: {artefacts[0].detail}; {a:g}–{lo:g} nm "
+                                "was not measured, so UV-C can be neither confirmed nor ruled "
+                                f"out (apparent {_fmt(uvc.apparent, uvc.unit)}{where} in the "
+                                "measured part).")
     if artefacts:
         reason = "; ".join(a.detail for a in artefacts)
         return "no-uvc", (f"{NO_UVC_HEAD} the apparent UV-C ({_fmt(uvc.upper_bound, uvc.unit)}"

@@ -95,9 +95,12 @@ def _suspect_regions(result: Result) -> list[tuple[float, float, str]]:
     """Wavelength regions to mark, from the germicidal artefacts (UV-C 200–280 nm)."""
     g = result.get("germicidal") or {}
     out = []
-    if g.get("artefacts"):
-        kinds = ", ".join(sorted({a.get("kind", "") for a in g["artefacts"]}))
+    stray = [a for a in g.get("artefacts") or [] if a.get("kind") != "data-edge"]
+    if stray:
+        kinds = ", ".join(sorted({a.get("kind", "") for a in stray}))
         out.append((200.0, 280.0, f"likely stray light ({kinds})"))
+    elif g.get("artefacts"):  # a signal rising into the start of the data: undecided
+        out.append((200.0, 280.0, "UV-C undecided (data-edge)"))
     return out
 
 
