@@ -514,7 +514,8 @@ def render_note_pdf(view: Mapping[str, Any], figures: Sequence[Mapping[str, Any]
                  {"label": "Far-UVC (200–235 nm)", "value": g["far_uvc"]}]
         if g.get("violet_blue"):
             facts.append({"label": "Violet-blue (about 405 nm), weighted", "value": g["violet_blue"]})
-        facts.append({"label": "Where", "value": f"{g['position']} ({g['distance']})"})
+        facts.append({"label": "Where", "value": g["position"] + (
+            f" ({g['distance']})" if g.get("distance") not in (None, "—") else "")})  # as the HTML
         if g.get("technology"):
             facts.append({"label": "Emitter type", "value": f"{g['technology']} — {g['technology_basis']}"})
         facts.append({"label": "Ozone (output below 240 nm)",

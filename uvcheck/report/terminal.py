@@ -637,7 +637,8 @@ def render_nominal(n: dict, d: dict) -> list[str]:
     where = (f"UV-C and UV-A at {dist:g} m; E_S t_max and risk group at {hd:g} m, where IEC 62471 "
              "evaluates them. " if dist and hd and abs(hd - dist) > 1e-9 else "")
     out += wrap(f"Efficacy claims use the max case of a reading the listing does not refute; "
-                f"safety claims and the tables below use the most likely case, '{likely}'. "
+                f"the tables below use the most likely case, '{likely}'; safety claims hold "
+                f"only when every case stays within the limits. "
                 f"{where}Optical W is the emitted power before the cover; the irradiances are "
                 "after it." + (" * not assessable as Exempt (part of a hazard could not be "
                                "evaluated)." if any("≥Exempt*" in r[-1] for r in rows) else ""), 2)
