@@ -160,3 +160,40 @@ def test_assess_with_claims_cli(tmp_path):
     assert [c["verdict"] for c in d["claims"]].count("cannot-hold") >= 2
     assert d["listing"]["name"].startswith("Handheld")
     assert "CANNOT HOLD" in r.output
+
+
+def test_a_claim_about_several_organisms_must_hold_for_each():
+    """ "Kills 99.9 % of A and B" claims both: each organism is judged with the benefit of
+    the doubt and the worst verdict decides (our own rule). Doses from uvcheck's organism
+    table (E. coli and Legionella: the legacy chart rows, data/organisms/organisms.csv);
+    MRSA and Staphylococcus aureus are not in the table. Invented listing."""
+    from uvcheck.io.listing import parse_listing
+    from uvcheck.screening import screen_listing_file
+
+    lst = parse_listing('''format = "uvcheck-listing/1"
+[product]
+name = "multi-organism test lamp (invented)"
+invented = true
+[lamp]
+peak_wavelength = "253.7 nm"
+electrical_power = "8 W"
+[[claims]]
+id = "two_known"
+text = "kills 99.9% of E. coli and Legionella in 10 minutes at 20 cm"
+[[claims]]
+id = "one_unknown"
+text = "eliminates 99.9% of E.coli and Staphylococcus aureus in 5 min at 20cm"
+[[claims]]
+id = "one_fails"
+text = "kills 99.9% of E. coli, Legionella and MRSA in 30 seconds at 2 m"
+''', "multi.toml")
+    v = {x["id"]: x for x in screen_listing_file(lst).to_dict()["claims"]}
+    assert v["two_known"]["verdict"] == "holds"
+    assert v["two_known"]["details"]["organisms"] == {"E. coli": "holds", "Legionella": "holds"}
+    assert v["one_unknown"]["verdict"] == "not-assessable"
+    assert "Staphylococcus aureus decides it" in v["one_unknown"]["basis"]
+    assert v["one_fails"]["verdict"] == "cannot-hold"
+    assert v["one_fails"]["details"]["organisms"]["MRSA"] == "not-assessable"
+    # the deciding organism is the one with the smallest ratio among the failing ones
+    ratios = v["one_fails"]["ratio"]
+    assert ratios is not None and ratios < 0.5

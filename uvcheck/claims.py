@@ -40,6 +40,7 @@ Exposure verdicts are screening results, not certifications.
 from __future__ import annotations
 
 import math
+import re
 from dataclasses import dataclass, field, replace
 from functools import cached_property
 from typing import Any, Iterable, Sequence
@@ -751,7 +752,49 @@ def _best_at_point(g: Any, candidates: list[Any] | None, medium: str, percent: f
     return None if best is None else best[1:]
 
 
+#: Between organisms named together in one claim ("E. coli and S. aureus", "MRSA, E. coli").
+_ORGANISM_LIST_RE = re.compile(r"\s*(?:,|;|&|\band\b|\bund\b|\bplus\b|/)\s*", re.I)
+
+
+def _named_organisms(c: Any) -> list[str]:
+    """The organisms a claim names, where it names more than one that the table does not
+    know as a whole ("E. coli and Staphylococcus aureus"); [] otherwise."""
+    if c.organism is None or c.organism_generic or find_organism(c.organism):
+        return []
+    names = [n.strip(" .") for n in _ORGANISM_LIST_RE.split(c.organism) if n and n.strip(" .")]
+    return names if len(names) > 1 else []
+
+
 def _inactivation(c: Any, ev: Evidence) -> Verdict:
+    names = _named_organisms(c)
+    if names:
+        return _each_organism(c, ev, names)
+    return _one_inactivation(c, ev)
+
+
+def _each_organism(c: Any, ev: Evidence, names: list[str]) -> Verdict:
+    """A claim about several organisms holds only as far as it holds for each: judged per
+    organism (each with the benefit of the doubt), the verdict is the worst of theirs
+    (cannot-hold, then not-assessable, unlikely, holds; among equals the smallest ratio), and
+    the basis says which organism decides it (our own rule: "kills A and B" claims both)."""
+    from uvcheck.io.listing import _GENERIC_ORG_RE, _SPECIFIC_ORG_RE
+
+    subs = []
+    for n in names:
+        generic = bool(_GENERIC_ORG_RE.search(n)) and not _SPECIFIC_ORG_RE.search(n)
+        subs.append((n, _one_inactivation(replace(c, organism=n, organism_generic=generic), ev)))
+    rank = {"cannot-hold": 0, "not-assessable": 1, "unlikely": 2, "holds": 3}
+    name, worst = min(subs, key=lambda nv: (rank.get(nv[1].verdict, 1),
+                                            nv[1].ratio if nv[1].ratio is not None else math.inf))
+    others = "; ".join(f"{n}: {v.verdict}" for n, v in subs if v is not worst)
+    basis = (f"the claim names {len(names)} organisms ({', '.join(names)}) and must hold for each; "
+             f"{name} decides it: {worst.basis}" + (f" (the others: {others})" if others else ""))
+    return replace(worst, id=c.id, text=c.text, basis=basis,
+                   details={**(worst.details or {}),
+                            "organisms": {n: v.verdict for n, v in subs}})
+
+
+def _one_inactivation(c: Any, ev: Evidence) -> Verdict:
     ev_kind = "measured" if ev.measured else "nominal estimate"
     percent, notes = _percent(c)
     missing = list(c.missing(ev.listing))
