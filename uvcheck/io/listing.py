@@ -1054,6 +1054,8 @@ def parse_claim_text(text: str, claim_id: str = "c1") -> Claim:
     ('inactivation', 0.999, 3.0, 'germs', 1800.0)
     >>> parse_claim_text("for rooms up to 20 m²").area_m2
     20.0
+    >>> parse_claim_text("Sterilizes up to 40 square meters").kind
+    'coverage'
     >>> parse_claim_text("safe for pets").safe_for
     ('pets',)
     >>> parse_claim_text("UV-C 254nm").wavelength_nm
@@ -1067,7 +1069,11 @@ def parse_claim_text(text: str, claim_id: str = "c1") -> Claim:
     org, generic = _organism(text)
     has_reduction = "percent" in q or "log" in q
     efficiency = bool(_EFFICIENCY_RE.search(text)) and "percent" in q
-    if _KILL_RE.search(text) or (has_reduction and org and not efficiency):
+    # "sterilises up to 40 m²": a kill word with only a room size (no reduction, organism or
+    # time) is a coverage statement
+    size_only = (not has_reduction and not org and "time_s" not in q and "time_word" not in q
+                 and ("area_m2" in q or "volume_m3" in q))
+    if (_KILL_RE.search(text) and not size_only) or (has_reduction and org and not efficiency):
         kinds.append("inactivation")
     if efficiency:
         kinds.append("efficiency")
