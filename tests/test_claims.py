@@ -197,3 +197,35 @@ text = "kills 99.9% of E. coli, Legionella and MRSA in 30 seconds at 2 m"
     # the deciding organism is the one with the smallest ratio among the failing ones
     ratios = v["one_fails"]["ratio"]
     assert ratios is not None and ratios < 0.5
+
+
+@pytest.mark.parametrize("other, verdict", [
+    ("", "not-assessable"),                                   # the envelope glass decides
+    ('[[claims]]\nid = "em"\ntext = "UVC 253.7nm + ozone 185nm"\n', "unlikely"),
+])
+def test_ozone_free_on_a_mercury_listing(other, verdict):
+    """A low-pressure mercury lamp emits the 184.9 nm line unless its envelope blocks it
+    (technology table, below_240 = "possible"): a listing alone cannot show that glass, so an
+    'ozone-free' claim is not-assessable on the nominal model; when the listing itself says
+    the lamp makes ozone or emits 185 nm, the claim is at most 'unlikely' (our own rule: the
+    seller's own words). Invented listings."""
+    from uvcheck.io.listing import parse_listing
+    from uvcheck.screening import screen_listing_file
+
+    lst = parse_listing('''format = "uvcheck-listing/1"
+[product]
+name = "mercury ozone test lamp (invented)"
+invented = true
+[lamp]
+peak_wavelength = "253.7 nm"
+electrical_power = "8 W"
+[[claims]]
+id = "oz"
+text = "Ozone Free!"
+''' + other, "oz.toml")
+    v = {x["id"]: x for x in screen_listing_file(lst).to_dict()["claims"]}
+    assert v["oz"]["verdict"] == verdict, v["oz"]["basis"]
+    if verdict == "unlikely":
+        assert v["oz"]["details"]["contradicted_by"] == "em"
+    else:
+        assert "envelope" in v["oz"]["basis"]

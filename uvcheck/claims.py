@@ -963,6 +963,21 @@ def _coverage(c: Any, ev: Evidence) -> Verdict:
 
 # --- ozone ------------------------------------------------------------------------------------
 
+#: A statement that the lamp makes ozone or emits the 184.9 nm line ("UVC + ozone 185nm").
+_OZONE_MADE_RE = re.compile(r"\bozone\b|\bO3\b|\b18[45](?:\.\d)?\s*nm", re.I)
+
+
+def _own_ozone_statement(c: Any, ev: Evidence) -> Any | None:
+    """Another claim of the same listing that says the lamp makes ozone (or emits 185 nm)."""
+    from uvcheck.io.listing import _OZONE_FREE_RE
+
+    for o in ev.listing.claims:
+        t = o.text or ""
+        if o is not c and _OZONE_MADE_RE.search(t) and not _OZONE_FREE_RE.search(t):
+            return o
+    return None
+
+
 def _ozone(c: Any, ev: Evidence) -> Verdict:
     r = ev.likely()
     if r is None:
@@ -971,6 +986,27 @@ def _ozone(c: Any, ev: Evidence) -> Verdict:
     status = oz.get("status")
     note = oz.get("note") or oz.get("basis") or ""
     ev_kind = r.evidence
+    own = _own_ozone_statement(c, ev)
+    if own is not None and status != "present":
+        # the seller's own words say otherwise; a measurement down to 185 nm would decide
+        return Verdict(c.id, c.kind, c.text, "unlikely", None, None, None,
+                       f"the listing's own claim {own.id} ({own.text!r}) says the lamp makes "
+                       f"ozone or emits at 185 nm; the data say: {note}", (),
+                       ("a measurement down to 180 nm, or the lamp glass (ozone-free doped "
+                        "quartz)",), ev_kind, r.label,
+                       {"contradicted_by": own.id},
+                       rule="the listing's own statements (at most 'unlikely')")
+    if status == "absent" and r.evidence != "measured":
+        from uvcheck.germicidal import technologies
+
+        tech = technologies().get(r.technology or "", {})
+        if tech.get("below_240") == "possible":
+            # the model leaves out what only the envelope glass decides
+            return _na(c, ev, f"a {tech.get('name', r.technology)} can emit below 240 nm "
+                              f"({tech.get('below_240_source', '')}); the nominal model "
+                              "assumes an envelope that blocks it, which a listing cannot show",
+                       ("a measurement down to 180 nm, or the lamp glass (ozone-free doped "
+                        "quartz)",))
     if status == "absent":
         what = (f"the nominal model of this technology ({r.technology}) has no output below "
                 "240 nm" if r.evidence != "measured" else f"no output below 240 nm: {note}")
