@@ -249,3 +249,19 @@ def test_import_budget_numpy_only():
             "print(sorted(m for m in ('scipy', 'colour', 'matplotlib', 'pandas') if m in sys.modules))")
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
     assert out.stdout.strip() == "[]"
+
+
+def test_a_listing_too_thin_to_model_points_at_the_wavelength_its_claims_name():
+    # our own rule for errors: say what is wrong and what to do; a claim's wavelength is the
+    # statement under test, so it is pointed at, not silently taken as lamp data
+    from uvcheck.errors import ConfigurationError
+    from uvcheck.io.listing import parse_listing
+    from uvcheck.screening import screen_listing_file
+
+    lst = parse_listing('[product]\nname = "thin (invented)"\ninvented = true\n'
+                        '[lamp]\nelectrical_power = "36 W"\n'
+                        '[[claims]]\ntext = "UVC 253.7nm germicidal"\n', "thin.toml")
+    with pytest.raises(ConfigurationError) as err:
+        screen_listing_file(lst)
+    assert "claim c1 names 253.7 nm" in err.value.one_line()
+    assert "lamp.peak_wavelength" in err.value.one_line()

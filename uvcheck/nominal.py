@@ -667,8 +667,13 @@ def nominal_from_listing(listing: Any, *, technology: str | None = None,
     if technology is None:
         technology, why = infer_technology(listing)
         if technology is None:
+            # a wavelength named only in a claim is the claim under test, not lamp data: say
+            # where it is, and let the tester decide whether the listing states it as data
+            said = [c for c in listing.claims if getattr(c, "wavelength_nm", None)]
+            hint = (f" (claim {said[0].id} names {said[0].wavelength_nm:g} nm: if the listing "
+                    "states it as the lamp's data, put it in lamp.peak_wavelength)" if said else "")
             raise ConfigurationError("the listing says too little to model the lamp",
-                                     todo="state lamp.technology or lamp.peak_wavelength")
+                                     todo="state lamp.technology or lamp.peak_wavelength" + hint)
         if listing.technology is None:
             assumptions.append(f"technology inferred: {why}")
     if peak_nm is None:
