@@ -541,3 +541,49 @@ def test_terminal_marks_a_partly_measured_uvc_interval_as_a_lower_bound():
         line = next(x for x in render_uncertainty_lines(d) if x.strip().startswith("UV-C"))
         assert line.strip().startswith(f"UV-C {mark}") and f"(95 %: {mark}" in line, line
         assert (d["uncertainty"]["germicidal"]["uvc"]["interval_is_lower_bound"]) == bool(mark)
+
+
+@pytest.mark.parametrize("reading, u", [("UV-A=1000 uW/cm2 ± 5 %", 0.05),
+                                        ("UV-A=1000 uW/cm2 +/- 100 uW/cm2", 0.10),
+                                        ("UV-A=1000 uW/cm2", None)])
+def test_the_scaling_readings_uncertainty_reaches_every_value(tmp_path, reading, u):
+    """A spectrum scaled by a radiometer reading carries that reading's uncertainty: one
+    factor for every value, on top of the per-band calibration. E_UVA of the scaled spectrum is
+    linear in the factor, so its first-order budget entry is E_UVA · u exactly (GUM, JCGM
+    100:2008 5.1); with no uncertainty given, the default 10 % (k = 1, common practice)
+    applies and the output says it is a default. Invented relative spectrum: a Gaussian at
+    395 nm."""
+    from conftest import gaussian
+    from typer.testing import CliRunner
+
+    from uvcheck.cli import app
+    from uvcheck.uncertainty import SCALE_U_REL_DEFAULT
+
+    wl = np.arange(250.0, 800.0, 1.0)
+    p = tmp_path / "rel.csv"
+    p.write_text("\n".join(f"{a},{b}" for a, b in zip(wl, gaussian(wl, 395, 6, 1.0) + 1e-5)))
+    out = tmp_path / "r.json"
+    r = CliRunner().invoke(app, ["assess", str(p), "--scale-band", reading, "--json", str(out)])
+    assert r.exit_code == 0, r.output
+    d = json.loads(out.read_text())
+    assert d["input"]["scaling"][0]["reading_u_rel"] == (pytest.approx(u) if u else None)
+    used = u if u else SCALE_U_REL_DEFAULT
+    h = d["uncertainty"]["hazards"]["near_uv"]
+    assert h["budget_first_order"]["scaling"] == pytest.approx(h["value"] * used, rel=1e-6)
+    cal = d["uncertainty"]["inputs"]["calibration"]["u_rel_by_band"]["UV"]
+    # Monte Carlo and first order agree on the combined relative uncertainty (≈ √(cal² + u²),
+    # the wavelength term is small): within 5 % of each other with 4000 draws
+    assert h["relative_standard_uncertainty"] == pytest.approx(
+        h["standard_uncertainty_first_order"] / h["value"], rel=0.05)
+    assert h["relative_standard_uncertainty"] > math.hypot(cal, used) * 0.97
+    basis = d["uncertainty"]["inputs"]["scaling"]["basis"]
+    assert basis.startswith("given") if u else "default" in basis
+    assert f"scaling reading {100 * used:.3g} %" in r.output
+
+
+def test_an_unscaled_spectrum_has_no_scaling_term():
+    from uvcheck.uncertainty import default_inputs, scaling_uncertainty
+
+    s = Spectrum(np.arange(200.0, 801.0), np.ones(601), "irradiance")
+    inputs, note = scaling_uncertainty(s, default_inputs())
+    assert inputs.scale_u_rel == 0.0 and note is None

@@ -19,6 +19,7 @@ warned about, with the factor.
 
 from __future__ import annotations
 
+import math
 import re
 
 from uvcheck.bands import BAND_RANGES
@@ -33,6 +34,44 @@ LUX_WARNING = ("SCALED BY A LUX READING: lux says nothing about UV. The UV figur
 BAND_METER_NOTE = ("scaled by a band reading, taken as the unweighted band irradiance (a meter "
                    "with a flat response over the band); a real meter's spectral response "
                    "changes this, so the scaling is indicative unless that response is known")
+
+
+_PLUS_MINUS = re.compile(r"\s*(?:±|\+/-|\+-)\s*")
+
+
+def split_uncertainty(text: str) -> tuple[str, str | None]:
+    """``"120 µW/cm² ± 10 %"`` → (``"120 µW/cm²"``, ``"10 %"``); no ± → (text, None).
+
+    >>> split_uncertainty("350 lx +/- 5 %")
+    ('350 lx', '5 %')
+    """
+    parts = _PLUS_MINUS.split(text.strip(), maxsplit=1)
+    return (parts[0].strip(), parts[1].strip() or None) if len(parts) == 2 else (text.strip(), None)
+
+
+def reading_u_rel(text: str, value: float, kind: str, where: str,
+                  default_unit: str | None = None) -> float | None:
+    """The relative standard uncertainty a reading's text gives after ``±`` (``"± 10 %"``, or
+    in the reading's unit, ``"± 12 µW/cm²"``), taken as k = 1; None when none is given.
+
+    >>> reading_u_rel("120 µW/cm² ± 12 µW/cm²", 1.2, "irradiance", "--scale-band")
+    0.1
+    """
+    _, u_text = split_uncertainty(text)
+    if u_text is None:
+        return None
+    if u_text.endswith("%"):
+        try:
+            u = float(u_text[:-1].strip().replace(",", ".")) / 100.0
+        except ValueError:
+            raise ConfigurationError(f"cannot read the uncertainty {u_text!r}", where,
+                                     "write it as '± 10 %' or '± 12 uW/cm2'") from None
+    else:
+        u = parse_quantity(u_text, kind, where, default_unit=default_unit).value_si / value
+    if not (math.isfinite(u) and 0.0 <= u < 1.0):
+        raise ConfigurationError(f"the uncertainty {u_text!r} must be under 100 % of the reading",
+                                 where)
+    return round(u, 12)
 
 
 def _scaled(spectrum: Spectrum, factor: float, record: dict) -> Spectrum:
@@ -80,6 +119,7 @@ def parse_band_reading(text: str) -> tuple[str, float, float, float]:
         lo, hi = float(m.group(1)), float(m.group(2))
         if not hi > lo:
             raise ConfigurationError(f"band {band!r} is empty", "--scale-band")
+    reading, _ = split_uncertainty(reading)
     value = parse_quantity(reading, "irradiance", "--scale-band").value_si
     if not value > 0:
         raise ConfigurationError("the band reading must be positive", "--scale-band")
@@ -89,6 +129,7 @@ def parse_band_reading(text: str) -> tuple[str, float, float, float]:
 def scale_by_band(spectrum: Spectrum, text: str) -> Spectrum:
     """Scale so the band integral equals a radiometer reading (see :func:`parse_band_reading`)."""
     band, lo, hi, value = parse_band_reading(text)
+    u_rel = reading_u_rel(text.split("=", 1)[1], value, "irradiance", "--scale-band")
     r = integrate(spectrum, lo, hi)
     if r.coverage < 0.999:
         raise ConfigurationError(f"the spectrum covers only {r.coverage:.0%} of the band {band} "
@@ -100,14 +141,17 @@ def scale_by_band(spectrum: Spectrum, text: str) -> Spectrum:
                                  "--scale-band", "scale with a band where the lamp emits")
     return _scaled(spectrum, value / r.value,
                   {"method": "band reading", "band": band, "range_nm": [lo, hi],
-                   "reading_W_m2": value, "text": text, "note": BAND_METER_NOTE})
+                   "reading_W_m2": value, "reading_u_rel": u_rel, "text": text,
+                   "note": BAND_METER_NOTE})
 
 
 def scale_by_lux(spectrum: Spectrum, lux_text: str) -> Spectrum:
     """Scale so that K_m ∫E·V dλ equals a lux reading; always flagged as UV-blind."""
-    value = parse_quantity(lux_text, "illuminance", "--scale-lux", default_unit="lx").value_si
+    reading, _ = split_uncertainty(lux_text)
+    value = parse_quantity(reading, "illuminance", "--scale-lux", default_unit="lx").value_si
     if not value > 0:
         raise ConfigurationError("the lux reading must be positive", "--scale-lux")
+    u_rel = reading_u_rel(lux_text, value, "illuminance", "--scale-lux", default_unit="lx")
     lum, cov = luminous_value(spectrum)
     if cov < 0.99:
         raise ConfigurationError(f"the spectrum covers only {cov:.0%} of V(λ) (360–830 nm)",
@@ -116,13 +160,15 @@ def scale_by_lux(spectrum: Spectrum, lux_text: str) -> Spectrum:
         raise ConfigurationError("the spectrum has no visible output to scale by lux",
                                  "--scale-lux", "use --scale-band with a UV radiometer reading")
     return _scaled(spectrum, value / lum,
-                  {"method": "lux reading", "reading_lx": value, "text": lux_text,
-                   "note": LUX_WARNING})
+                  {"method": "lux reading", "reading_lx": value, "reading_u_rel": u_rel,
+                   "text": lux_text, "note": LUX_WARNING})
 
 
 def scale_by_total(spectrum: Spectrum, text: str) -> Spectrum:
     """Scale so that the integral over the measured range equals a known total."""
-    value = parse_quantity(text, "irradiance", "--scale-total").value_si
+    reading, _ = split_uncertainty(text)
+    value = parse_quantity(reading, "irradiance", "--scale-total").value_si
+    u_rel = reading_u_rel(text, value, "irradiance", "--scale-total") if value > 0 else None
     tot = total_integral(spectrum)
     if not (value > 0 and tot > 0):
         raise ConfigurationError("the total and the spectrum's integral must be positive",
@@ -130,4 +176,4 @@ def scale_by_total(spectrum: Spectrum, text: str) -> Spectrum:
     lo, hi = spectrum.range_nm
     return _scaled(spectrum, value / tot,
                   {"method": "known total", "range_nm": [lo, hi], "total_W_m2": value,
-                   "text": text})
+                   "reading_u_rel": u_rel, "text": text})

@@ -211,6 +211,10 @@ class UncertaintyInputs:
     include_noise : use the spectrum's noise floor.
     organism_spread : draw doses within the range across studies.
     decision_rule : ``simple`` | ``guarded``.
+    scale_u_rel : relative standard uncertainty of the reading a spectrum was scaled by (a
+        band radiometer, a lux meter or a known total): one factor per draw for every value,
+        on top of the per-band calibration (which then stands for the spectral shape); 0 for
+        a spectrum that was not scaled. [-]
     basis : per input key (calibration, wavelength, distance, stray_light, noise,
         organism_data, decision_rule), where the figure comes from.
     """
@@ -228,6 +232,7 @@ class UncertaintyInputs:
     organism_spread: bool = True
     decision_rule: str = "simple"
     basis: Mapping[str, str] = field(default_factory=lambda: MappingProxyType({}))
+    scale_u_rel: float = 0.0
 
     def __post_init__(self) -> None:
         if set(self.calibration_u_rel) != set(self.calibration_bands_nm):
@@ -238,6 +243,9 @@ class UncertaintyInputs:
         if not 0.0 <= self.calibration_correlation <= 1.0:
             raise ConfigurationError("the correlation between bands must be in [0, 1], got "
                                      f"{self.calibration_correlation}")
+        if not (math.isfinite(self.scale_u_rel) and 0.0 <= self.scale_u_rel < 1.0):
+            raise ConfigurationError(f"the scaling reading's uncertainty must be in [0, 1), got "
+                                     f"{self.scale_u_rel}")
         for name in ("stray_light_fraction", "stray_light_level"):
             v = getattr(self, name)
             if v is not None and not (math.isfinite(v) and v >= 0):
@@ -290,6 +298,10 @@ class UncertaintyInputs:
                                      f"{self.stray_light_below_nm:g} nm",
                             "basis": b.get("stray_light", "")},
             "noise": {"include": self.include_noise, "basis": b.get("noise", "")},
+            "scaling": {"u_rel": self.scale_u_rel, "distribution": "normal",
+                        "model": "one factor per draw for every value (the reading the "
+                                 "spectrum was scaled by)",
+                        "basis": b.get("scaling", "not scaled" if not self.scale_u_rel else "")},
             "organism_data": {"include": self.organism_spread, "distribution": "log-uniform",
                               "basis": b.get("organism_data", "")},
         }
@@ -308,7 +320,9 @@ class UncertaintyInputs:
         else:
             stray = "none"
         labels = sorted({v.split(":")[0] for v in self.basis.values() if v})
-        return (f"calibration {cal} (k = 1); wavelength scale {wl}; distance {dist}; UV stray "
+        scale = (f"; scaling reading {100 * self.scale_u_rel:.3g} % (k = 1)"
+                 if self.scale_u_rel else "")
+        return (f"calibration {cal} (k = 1){scale}; wavelength scale {wl}; distance {dist}; UV stray "
                 f"light {stray}; sample noise {'included' if self.include_noise else 'not included'}"
                 f"; organism data {'within the range across studies' if self.organism_spread else 'not varied'}"
                 + (f" [{'; '.join(labels)}]" if labels else ""))
@@ -851,6 +865,36 @@ class _Model:
         return float(np.sum(row[:fn.nb]))
 
 
+#: Relative standard uncertainty (k = 1) of a scaling reading whose uncertainty is not given:
+#: a handheld band radiometer or lux meter with its spectral mismatch on a narrow-band lamp
+#: (common practice, not from a document). [-]
+SCALE_U_REL_DEFAULT = 0.10
+
+
+def scaling_uncertainty(spectrum: Spectrum, inputs: UncertaintyInputs
+                        ) -> tuple[UncertaintyInputs, str | None]:
+    """The inputs with the uncertainty of the reading a scaled spectrum was scaled by (the
+    last scaling: it set the absolute level), and a note saying what was used; unchanged
+    for a spectrum that was not scaled or inputs that already give one."""
+    recs = list((spectrum.meta or {}).get("scaling") or [])
+    if not recs or inputs.scale_u_rel:
+        return inputs, None
+    rec = recs[-1]
+    u = rec.get("reading_u_rel")
+    given = u is not None
+    if not given:
+        u = SCALE_U_REL_DEFAULT
+    what = rec.get("method", "scaling")
+    basis = (f"given with the reading ({rec.get('text')})" if given else
+             f"default {100 * u:g} % (k = 1) for a {what} without a stated uncertainty "
+             "(common practice, not from a document); give it as '… ± 5 %'")
+    note = (f"the spectrum was scaled by a {what}: its uncertainty, {100 * u:.3g} % (k = 1, "
+            f"{'as given' if given else 'default, common practice'}), applies to every value, "
+            "fully correlated, on top of the per-band calibration (which then stands for the "
+            "spectrometer's relative response)")
+    return inputs.with_(scale_u_rel=float(u), basis={"scaling": basis}), note
+
+
 def _monte_carlo_draws(inputs: UncertaintyInputs, d0: float | None, stray: float, m: int,
                        seed: int) -> _Draws:
     """Independent streams per input (SeedSequence children), so changing one input never
@@ -862,6 +906,11 @@ def _monte_carlo_draws(inputs: UncertaintyInputs, d0: float | None, stray: float
     rho = inputs.calibration_correlation
     u = np.array([inputs.calibration_u_rel[b] for b in bands])[:, None]
     f = 1.0 + u * (math.sqrt(rho) * z[0] + math.sqrt(1.0 - rho) * z[1:])
+    if inputs.scale_u_rel > 0:
+        # the scaling reading: one factor for every value (a stream of its own, child 5, so
+        # the other inputs' draws are unchanged)
+        rng_a = np.random.default_rng(np.random.SeedSequence(seed).spawn(6)[5])
+        f = f * (1.0 + inputs.scale_u_rel * rng_a.standard_normal(m))[None, :]
     f = np.maximum(f, 0.0)
     delta = inputs.wavelength_nm.draw(rng_wl, m)
     dd = None
@@ -940,6 +989,11 @@ def _gum_u(model_fn: Callable[[_Draws], np.ndarray], inputs: UncertaintyInputs,
     R = np.full((nb, nb), rho)
     np.fill_diagonal(R, 1.0)
     budget["calibration"] = math.sqrt(max(float(a @ R @ a), 0.0))
+    if inputs.scale_u_rel > 0:
+        dr = _nominal_draws(nb, d0, 2)
+        dr.f[:] = [1.0 + inputs.scale_u_rel, 1.0 - inputs.scale_u_rel]
+        y = model_fn(dr)
+        budget["scaling"] = abs(float(y[0] - y[1])) / 2.0
     uw = inputs.wavelength_nm.standard_uncertainty
     if uw > 0:
         dr = _nominal_draws(nb, d0, 2)
@@ -1492,9 +1546,10 @@ def evaluate_uncertainty(spectrum: Spectrum, conditions: Conditions | None, haza
                                  "attach an uncertainty to", MappingProxyType({}), None, None,
                                  inputs, MappingProxyType(method), MappingProxyType(rule_block),
                                  (SCREENING_NOTE,))
+    inputs, scale_note = scaling_uncertainty(spectrum, inputs)
     model = _Model(spectrum, inputs)
     dr = _monte_carlo_draws(inputs, cond.measurement_distance_m, model.stray_allowance, m, sd)
-    notes = [SCREENING_NOTE]
+    notes = [SCREENING_NOTE] + ([scale_note] if scale_note else [])
     if spectrum.noise_floor is None and inputs.include_noise:
         notes.append("no noise floor is known for this spectrum: sample noise is not included")
     if cond.measurement_distance_m is None:
@@ -1787,13 +1842,19 @@ def uncertainty_note(u: Mapping[str, Any]) -> str:
     alw = m.get("stray_light_allowance") or {}
     if alw.get("capped_by_data"):
         st_t += f" (capped by the data at {sig(alw['used'])} {alw['unit']})"
-    given = [k for k in ("calibration", "wavelength", "distance", "stray_light")
-             if str(inp[k].get("basis", "")).startswith("given")]
+    given = [k for k in ("calibration", "wavelength", "distance", "stray_light", "scaling")
+             if str((inp.get(k) or {}).get("basis", "")).startswith("given")]
     src = ("defaults (common practice, not from a document)" if not given else
            f"given for {', '.join(given)}; other inputs are defaults (common practice)")
+    sc = inp.get("scaling") or {}
+    sc_t = ""
+    if sc.get("u_rel"):
+        how = ("given" if str(sc.get("basis", "")).startswith("given")
+               else "default, common practice")
+        sc_t = f", scaling reading {100 * sc['u_rel']:.3g} % (k = 1, {how})"
     return (f"Uncertainty: Monte Carlo, {m['draws']} draws, seed {m['seed']}, 95 % intervals; "
-            f"inputs {src}: calibration {cal} (k = 1), wavelength scale {wl_t}, distance {di_t}, "
-            f"UV stray light up to {st_t}; decision rule: {u['decision_rule']['name']}.")
+            f"inputs {src}: calibration {cal} (k = 1){sc_t}, wavelength scale {wl_t}, distance "
+            f"{di_t}, UV stray light up to {st_t}; decision rule: {u['decision_rule']['name']}.")
 
 
 def _fmt_iv(iv: Sequence[Any] | None) -> str:
