@@ -162,22 +162,28 @@ def test_assess_with_claims_cli(tmp_path):
     assert "CANNOT HOLD" in r.output
 
 
+def _screen_invented_tube(name: str, claims: str) -> dict:
+    """Verdicts by claim id of an invented 8 W listing stating 253.7 nm, screened alone."""
+    from uvcheck.io.listing import parse_listing
+    from uvcheck.screening import screen_listing_file
+
+    lst = parse_listing(f'''format = "uvcheck-listing/1"
+[product]
+name = "{name} (invented)"
+invented = true
+[lamp]
+peak_wavelength = "253.7 nm"
+electrical_power = "8 W"
+''' + claims, "invented.toml")
+    return {x["id"]: x for x in screen_listing_file(lst).to_dict()["claims"]}
+
+
 def test_a_claim_about_several_organisms_must_hold_for_each():
     """ "Kills 99.9 % of A and B" claims both: each organism is judged with the benefit of
     the doubt and the worst verdict decides (our own rule). Doses from uvcheck's organism
     table (E. coli and Legionella: the legacy chart rows, data/organisms/organisms.csv);
     MRSA and Staphylococcus aureus are not in the table. Invented listing."""
-    from uvcheck.io.listing import parse_listing
-    from uvcheck.screening import screen_listing_file
-
-    lst = parse_listing('''format = "uvcheck-listing/1"
-[product]
-name = "multi-organism test lamp (invented)"
-invented = true
-[lamp]
-peak_wavelength = "253.7 nm"
-electrical_power = "8 W"
-[[claims]]
+    v = _screen_invented_tube("multi-organism test lamp", '''[[claims]]
 id = "two_known"
 text = "kills 99.9% of E. coli and Legionella in 10 minutes at 20 cm"
 [[claims]]
@@ -186,8 +192,7 @@ text = "eliminates 99.9% of E.coli and Staphylococcus aureus in 5 min at 20cm"
 [[claims]]
 id = "one_fails"
 text = "kills 99.9% of E. coli, Legionella and MRSA in 30 seconds at 2 m"
-''', "multi.toml")
-    v = {x["id"]: x for x in screen_listing_file(lst).to_dict()["claims"]}
+''')
     assert v["two_known"]["verdict"] == "holds"
     assert v["two_known"]["details"]["organisms"] == {"E. coli": "holds", "Legionella": "holds"}
     assert v["one_unknown"]["verdict"] == "not-assessable"
@@ -209,21 +214,8 @@ def test_ozone_free_on_a_mercury_listing(other, verdict):
     'ozone-free' claim is not-assessable on the nominal model; when the listing itself says
     the lamp makes ozone or emits 185 nm, the claim is at most 'unlikely' (our own rule: the
     seller's own words). Invented listings."""
-    from uvcheck.io.listing import parse_listing
-    from uvcheck.screening import screen_listing_file
-
-    lst = parse_listing('''format = "uvcheck-listing/1"
-[product]
-name = "mercury ozone test lamp (invented)"
-invented = true
-[lamp]
-peak_wavelength = "253.7 nm"
-electrical_power = "8 W"
-[[claims]]
-id = "oz"
-text = "Ozone Free!"
-''' + other, "oz.toml")
-    v = {x["id"]: x for x in screen_listing_file(lst).to_dict()["claims"]}
+    v = _screen_invented_tube("mercury ozone test lamp",
+                              '[[claims]]\nid = "oz"\ntext = "Ozone Free!"\n' + other)
     assert v["oz"]["verdict"] == verdict, v["oz"]["basis"]
     if verdict == "unlikely":
         assert v["oz"]["details"]["contradicted_by"] == "em"
