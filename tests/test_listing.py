@@ -286,3 +286,29 @@ def test_quantities_convert_to_si():
     assert L.leds.current_A == pytest.approx(0.020)
     assert math.isclose(L.area_m2, 200 * 0.3048 ** 2)
     assert L.room_volume_m3 == 50.0
+
+
+@pytest.mark.parametrize("text, field, value", [
+    # 1 ft = 0.3048 m exactly (international foot, 1959), so 1 sq ft = 0.09290304 m² and
+    # 1 cu ft = 0.028316846592 m³
+    ("for rooms up to 1,000 sq ft", "area_m2", 1000 * 0.09290304),
+    ("covers 1 000 sq ft", "area_m2", 1000 * 0.09290304),
+    ("in a 1,000 cu. ft. room", "volume_m3", 1000 * 0.028316846592),
+    ("covers 2,5 m²", "area_m2", 2.5),                      # a decimal comma stays decimal
+    ("kills 99.9% germs in 1/2 hour at 1 m", "time_s", 1800.0),
+    ("kills 99,9% of germs in 30 min at 2,5 m", "distance_m", 2.5),
+])
+def test_counts_with_thousands_groups_and_fractions(text, field, value):
+    c = parse_claim_text(text)
+    assert getattr(c, field) == pytest.approx(value, rel=1e-12)
+    if "1,000" in text or "1 000" in text:
+        assert "thousands separator" in c.note
+
+
+@pytest.mark.parametrize("text", ["kills 99.9% of germs, 8000 hrs life",
+                                  "Kills 99.9% of germs. Bulb life 10,000 hours",
+                                  "lifetime 20000 h; kills 99.9% of germs at 1 m"])
+def test_a_lamps_life_is_not_a_treatment_time(text):
+    c = parse_claim_text(text)
+    assert c.kind == "inactivation" and c.time_s is None
+    assert "lamp's life" in c.note

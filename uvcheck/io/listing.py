@@ -32,7 +32,7 @@ from types import MappingProxyType
 from typing import Any, Mapping
 
 from uvcheck.errors import InputFormatError, UvcheckError
-from uvcheck.units import parse_quantity
+from uvcheck.units import format_duration, parse_quantity
 
 #: The format identifier a listing may declare in its top-level ``format`` key.
 FORMAT_ID = "uvcheck-listing/1"
@@ -852,7 +852,15 @@ def read_listing(path: str | Path) -> Listing:
 _NUM = r"(\d+(?:[.,]\d+)?)"
 _PERCENT_RE = re.compile(rf"{_NUM}\s*(?:%|percent\b|per\s*cent\b)", re.I)
 _LOG_RE = re.compile(rf"{_NUM}\s*-?\s*logs?(?:10)?\b|\blog\s*-?\s*{_NUM}\b", re.I)
-_TIME_RE = re.compile(rf"{_NUM}\s*(seconds?|secs?|s|minutes?|mins?|min|hours?|hrs?|h)\b", re.I)
+#: A count written with thousands groups ("1,000", "12 000"): areas, volumes, times, distances
+#: and powers; percentages keep the decimal comma ("99,9 %").
+_BIG = r"(\d{1,3}(?:[,\u00a0\u202f ]\d{3})+(?![\d,.])|\d+(?:[.,]\d+)?|\d+\s*/\s*\d+)"
+_TIME_RE = re.compile(rf"{_BIG}\s*(seconds?|secs?|s|minutes?|mins?|min|hours?|hrs?|h)\b", re.I)
+#: Words after a time that make it a lamp's life, not a treatment time ("8000 hrs life").
+_LIFETIME_AFTER_RE = re.compile(r"^\W{0,3}(?:of\s+)?(?:\w+\s+)?(?:life(?:time|span)?|service|"
+                                r"lebensdauer|durée)", re.I)
+_LIFETIME_BEFORE_RE = re.compile(r"(?:life(?:time|span)?|lebensdauer|durée de vie)\W{0,3}"
+                                 r"(?:of\s+|up\s+to\s+|:\s*)?$", re.I)
 #: Times worded without a number -> the longest time the words allow [s]. "In seconds" means
 #: less than a minute, "in minutes" less than an hour, "in hours" less than a day, "instantly"
 #: within a second (uvcheck's reading of plain English, not a standard). An efficacy claim gets
@@ -863,15 +871,15 @@ VAGUE_TIMES = {"seconds": (60.0, "less than a minute"), "minutes": (3600.0, "les
 _VAGUE_TIME_RE = re.compile(
     r"(?<![\d.,])(?<![\d.,]\s)\b(?:(?:just|only|mere|a\s+few|few|a\s+couple\s+of|several)\s+)?"
     r"(seconds|minutes|hours)\b|\b(instant(?:ly)?|immediately)\b", re.I)
-_AREA_RE = re.compile(rf"{_NUM}\s*(m²|m2\b|m\^2|sq\.?\s*m\b|sqm\b|square\s+met(?:re|er)s?|"
+_AREA_RE = re.compile(rf"{_BIG}\s*(m²|m2\b|m\^2|sq\.?\s*m\b|sqm\b|square\s+met(?:re|er)s?|"
                       r"ft²|ft2\b|sq\.?\s*ft\b|square\s+f(?:ee|oo)t)", re.I)
-_VOLUME_RE = re.compile(rf"{_NUM}\s*(m³|m3\b|m\^3|cubic\s+met(?:re|er)s?|ft³|ft3\b|cu\.?\s*ft\b)",
+_VOLUME_RE = re.compile(rf"{_BIG}\s*(m³|m3\b|m\^3|cubic\s+met(?:re|er)s?|ft³|ft3\b|cu\.?\s*ft\b)",
                         re.I)
-_DIST_RE = re.compile(rf"{_NUM}\s*(mm|cm|m|metres?|meters?|inch(?:es)?|ft|feet)(?![\w²³^])", re.I)
+_DIST_RE = re.compile(rf"{_BIG}\s*(mm|cm|m|metres?|meters?|inch(?:es)?|ft|feet)(?![\w²³^])", re.I)
 _WL_RANGE_RE = re.compile(r"(\d{3}(?:[.,]\d+)?)\s*(?:nm)?\s*(?:-|–|to)\s*(\d{3}(?:[.,]\d+)?)\s*nm\b",
                           re.I)
 _WL_RE = re.compile(r"(\d{3}(?:[.,]\d+)?)\s*nm\b", re.I)
-_POWER_RE = re.compile(rf"{_NUM}\s*(mW|W|watts?)\b")
+_POWER_RE = re.compile(rf"{_BIG}\s*(mW|W|watts?)\b")
 _KILL_RE = re.compile(r"\b(kill\w*|inactivat\w*|eliminat\w*|destroy\w*|remov\w*|disinfect\w*|"
                       r"sterili[sz]\w*|saniti[sz]\w*|neutrali[sz]\w*|reduc\w*|"
                       r"get\s+rid\s+of|wipes?\s+out)\b", re.I)
@@ -917,6 +925,21 @@ def _num(s: str) -> float:
     return float(s.replace(",", "."))
 
 
+def _big(s: str, found: dict[str, Any] | None = None) -> float:
+    """A number as written in a count: thousands groups ("1,000" → 1000, "12 000" → 12000,
+    noted in ``found['thousands']``), a fraction ("1/2" → 0.5), else :func:`_num`."""
+    t = s.strip()
+    if re.fullmatch(r"\d{1,3}(?:[,\u00a0\u202f ]\d{3})+", t) and not t.startswith("0"):
+        if found is not None:
+            found.setdefault("thousands", t)
+        return float(re.sub(r"\D", "", t))
+    m = re.fullmatch(r"(\d+)\s*/\s*(\d+)", t)
+    if m:
+        den = int(m.group(2))
+        return int(m.group(1)) / den if den else math.nan
+    return _num(t)
+
+
 def _area_unit(u: str) -> str:
     k = re.sub(r"\s+", "", u.lower()).rstrip(".")
     if k in _AREA_UNITS:
@@ -945,12 +968,12 @@ def _find_quantities(text: str) -> dict[str, Any]:
         return all(m.end() <= a or m.start() >= b for a, b in spans)
 
     for m in _AREA_RE.finditer(text):
-        found.setdefault("area_m2", parse_quantity(f"{_num(m.group(1))} {_area_unit(m.group(2))}",
-                                                   "area").value_si)
+        found.setdefault("area_m2", parse_quantity(
+            f"{_big(m.group(1), found)} {_area_unit(m.group(2))}", "area").value_si)
         spans.append(m.span())
     for m in _VOLUME_RE.finditer(text):
         found.setdefault("volume_m3", parse_quantity(
-            f"{_num(m.group(1))} {_volume_unit(m.group(2))}", "volume").value_si)
+            f"{_big(m.group(1), found)} {_volume_unit(m.group(2))}", "volume").value_si)
         spans.append(m.span())
     m = _WL_RANGE_RE.search(text)
     if m:
@@ -972,9 +995,14 @@ def _find_quantities(text: str) -> dict[str, Any]:
         spans.append(m.span())
     for m in _TIME_RE.finditer(text):
         if free(m):
-            found.setdefault("time_s", parse_quantity(f"{_num(m.group(1))} {m.group(2).lower()}",
-                                                      "time").value_si)
             spans.append(m.span())
+            if (_LIFETIME_AFTER_RE.match(text[m.end():]) or _LIFETIME_BEFORE_RE.search(
+                    text[:m.start()])):
+                found.setdefault("lifetime_s", parse_quantity(
+                    f"{_big(m.group(1))} {m.group(2).lower()}", "time").value_si)
+                continue  # the lamp's life, not how long a treatment takes
+            found.setdefault("time_s", parse_quantity(
+                f"{_big(m.group(1), found)} {m.group(2).lower()}", "time").value_si)
     if "time_s" not in found:
         for m in _VAGUE_TIME_RE.finditer(text):
             if free(m):
@@ -985,12 +1013,12 @@ def _find_quantities(text: str) -> dict[str, Any]:
     for m in _DIST_RE.finditer(text):
         if free(m):
             found.setdefault("distance_m", parse_quantity(
-                f"{_num(m.group(1))} {_dist_unit(m.group(2))}", "length").value_si)
+                f"{_big(m.group(1), found)} {_dist_unit(m.group(2))}", "length").value_si)
             spans.append(m.span())
     for m in _POWER_RE.finditer(text):
         if free(m):
             unit = "W" if m.group(2).lower().startswith("watt") else m.group(2)
-            found.setdefault("power_W", parse_quantity(f"{_num(m.group(1))} {unit}",
+            found.setdefault("power_W", parse_quantity(f"{_big(m.group(1), found)} {unit}",
                                                        "power").value_si)
             spans.append(m.span())
     return found
@@ -1136,6 +1164,12 @@ def parse_claim_text(text: str, claim_id: str = "c1") -> Claim:
     others = [k for k in kinds[1:] if not (k == "emission" and kind in ("optical-power",
                                                                          "efficiency"))]
     notes = [f"read from the wording as {_article(kind)} {kind} claim"]
+    if q.get("thousands"):
+        notes.append(f"{q['thousands']!r} read as {_big(q['thousands']):g} (the comma or space "
+                     "taken as a thousands separator)")
+    if q.get("lifetime_s") and kind == "inactivation":
+        notes.append(f"{format_duration(q['lifetime_s'])} read as the lamp's life, not as the "
+                     "time of a treatment")
     if kind == "inactivation" and q.get("time_word"):
         word = q["time_word"]
         notes.append(vague_time_text(word))
