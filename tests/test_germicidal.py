@@ -310,3 +310,32 @@ def test_ozone_is_not_ruled_out_from_a_technology_guessed_without_any_uv_c():
     assert guessed.ozone.status == "unknown" and "a guess" in guessed.ozone.note
     given = evaluate_germicidal(s, technology=guessed.technology["id"])
     assert given.ozone.status == "absent" and given.ozone.basis == "technology"
+
+
+def test_a_pedestal_under_a_uv_a_led_and_an_unsubtracted_dark_level_are_not_uv_c():
+    # invented spectra. A 365 nm LED has almost nothing in 380–780 nm, so the pedestal test
+    # compares with the strongest output above 280 nm; a flat dark level that lifts the whole
+    # spectrum (counts, 6 % of the peak) is recognised by the floor it shares with the rest
+    # (our own rules; stray-light levels of compact array spectrometers, 0.01–1 % of the peak,
+    # from memory)
+    from conftest import gaussian
+
+    from uvcheck.germicidal import uvc_artefacts
+
+    wl = np.arange(200.0, 800.5, 0.5)
+    rng = np.random.default_rng(11)
+    led = gaussian(wl, 365.0, 10.0 / 2.3548, 2.0)
+    ped = Spectrum(wl, led + 3e-3 * led.max() + rng.normal(0, 2e-6, wl.size), "irradiance",
+                   noise_floor=2e-6)
+    g = evaluate_germicidal(ped, Conditions(measurement_distance_m=0.1))
+    assert [a.kind for a in g.artefacts] == ["pedestal"] and g.status == "no-uvc"
+    assert g.uvc.value is None and g.ozone.status != "present"
+    counts = 16000 * gaussian(wl, 395.0, 6.0, 1.0) / gaussian(wl, 395.0, 6.0, 1.0).max()
+    dark = Spectrum(wl, counts + 1000.0 + rng.normal(0, 5.0, wl.size), "relative", noise_floor=5.0)
+    kinds = [a.kind for a in uvc_artefacts(dark)]
+    assert kinds == ["pedestal"]
+    assert "offset" in uvc_artefacts(dark)[0].detail
+    # a real UV-C LED on a clean floor is left alone
+    uvc = Spectrum(wl, gaussian(wl, 275.0, 5.0, 0.05) + rng.normal(0, 2e-6, wl.size),
+                   "irradiance", noise_floor=2e-6)
+    assert uvc_artefacts(uvc) == ()

@@ -45,7 +45,7 @@ from uvcheck.geometry import (distance_scaling, far_field_deviation, flux_from_i
 from uvcheck.inactivation import (InactivationEstimate, Organism, estimate, get_organism,
                                   most_susceptible)
 from uvcheck.inactivation import organisms as organism_table
-from uvcheck.spectrum import (Integral, Spectrum, integrate, median, restricted, scaled,
+from uvcheck.spectrum import (Integral, Spectrum, integrate, median, quantile, restricted, scaled,
                               total_integral)
 from uvcheck.units import sig, to_trade
 from uvcheck.weighting import Weighting, constant_weighting, get_weighting
@@ -74,6 +74,8 @@ PEDESTAL_MAX_RELATIVE = 0.01    # a flat UV-C level under 1 % of the visible pea
                                 # stray-light levels of compact array spectrometers are about
                                 # 0.01-1 % (from memory)
 PEDESTAL_FLATNESS = 2.0         # no UV-C sample reaches twice the band's median: flat
+BASELINE_QUANTILE = 0.05        # the floor of a spectrum outside UV-C: its 5th percentile
+BASELINE_MATCH = 1.5            # a flat UV-C level within 1.5× that floor is the floor (ours)
 FEATURE_SNR = 5.0               # 5 σ: the threshold features.find_lines uses for a feature
 LINE_TOLERANCE_NM = 2.0         # wavelength calibration of compact spectrometers ±1-2 nm (from memory)
 MIN_SIGNIFICANT_SHARE = 0.01    # ozone band "present": above 1 % of the UV-C (or of the total)
@@ -562,7 +564,9 @@ def uvc_artefacts(spectrum: Spectrum, sigma: float | None = None) -> tuple[Artef
 
     * ``noise-floor``: no UV-C sample rises ``FEATURE_SNR`` (5) σ above zero;
     * ``pedestal``: a flat UV-C level (no sample at twice the band median) under
-      ``PEDESTAL_MAX_RELATIVE`` (1 %) of the visible peak (380–780 nm);
+      ``PEDESTAL_MAX_RELATIVE`` (1 %) of the strongest output above 280 nm, or no higher than
+      ``BASELINE_MATCH`` (1.5) times the level the spectrum never goes below there (its 5th
+      percentile: an un-subtracted dark level or stray light lifts the whole spectrum);
     * ``no-emitter``: the UV-C maximum is a feature standing out of the band but sits at no
       known line (``data/emitters/emission_lines.csv`` and ``data/technologies.toml``, within
       ±2 nm) and is not an LED-like band (230–290 nm, FWHM ≥ 5 nm), **and** there is a source
@@ -590,14 +594,25 @@ def uvc_artefacts(spectrum: Spectrum, sigma: float | None = None) -> tuple[Artef
                             f"(highest {vmax / sigma:.1f} σ, σ = {sig(sigma)} {spectrum.spectral_unit})"))
         return tuple(out)
     med = median(v)
-    wv, vv = _band_samples(spectrum, 380.0, 780.0)
-    vis_peak = float(vv.max()) if vv.size else 0.0
-    if med > 0 and vmax < PEDESTAL_FLATNESS * med and vis_peak > 0 \
-            and med < PEDESTAL_MAX_RELATIVE * vis_peak:
+    # the strongest output outside UV-C (a UV-A LED at 365 nm has almost nothing in 380–780 nm),
+    # and the level the spectrum never goes below there (its floor: the 5th percentile)
+    ow = spectrum.wavelength_nm > UVC_BAND_NM[1]
+    wv, vv = spectrum.wavelength_nm[ow], spectrum.values[ow]
+    out_peak = float(vv.max()) if vv.size else 0.0
+    floor = quantile(vv, BASELINE_QUANTILE) if vv.size >= 20 else 0.0
+    flat = med > 0 and vmax < PEDESTAL_FLATNESS * med and out_peak > 0
+    if flat and med < PEDESTAL_MAX_RELATIVE * out_peak:
         out.append(Artefact("pedestal", f"flat UV-C level ({sig(med)} {spectrum.spectral_unit}, "
-                            f"{med / vis_peak:.2g} of the visible peak at "
+                            f"{med / out_peak:.2g} of the peak at "
                             f"{float(wv[int(np.argmax(vv))]):g} nm) with no feature: typical of "
                             "stray light in an array spectrometer"))
+        return tuple(out)
+    if flat and floor > 0 and med <= BASELINE_MATCH * floor:
+        out.append(Artefact("pedestal", f"flat UV-C level ({sig(med)} {spectrum.spectral_unit}) "
+                            f"no higher than the level the whole spectrum sits on outside UV-C "
+                            f"({sig(floor)}, its {100 * BASELINE_QUANTILE:g}th percentile above "
+                            "280 nm): an offset (a dark level not subtracted, or stray light), "
+                            "not emission"))
         return tuple(out)
     i = int(np.argmax(v))
     lam = float(wl[i])
