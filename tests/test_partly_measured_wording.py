@@ -152,3 +152,25 @@ def test_hazard_figure_marks_a_partly_measured_bound_so_far(led278):
     for h, d in hz.items():
         if d["status"] in ("complete", "below-detection"):
             assert not pts[h].get("so_far")
+
+
+def test_equivalents_and_batch_status_of_a_radiance_spectrum(tmp_path):
+    # an invented 222 nm band given as a radiance (W m-2 sr-1 nm-1): the equivalents are
+    # radiances, and a batch row (whose uvc_W_m2 column is an irradiance) says why it is empty
+    from uvcheck.batch import _fill
+    from uvcheck.report.terminal import render_germicidal
+
+    wl = np.arange(200.0, 800.5, 0.5)
+    v = 1e-3 * np.exp(-0.5 * ((wl - 222.0) / 2.0) ** 2) + 1e-8
+    p = tmp_path / "rad.csv"
+    p.write_text("# invented radiance spectrum\nwavelength (nm),radiance (W/(m2 sr nm))\n"
+                 + "".join(f"{a:.1f},{b:.6e}\n" for a, b in zip(wl, v)), encoding="utf-8")
+    spec, report = read_spectrum(p)
+    d = assess(spec, Conditions(measurement_distance_m=0.5), report).to_dict()
+    g = d["germicidal"]
+    assert g["unit"] == "W m-2 sr-1"
+    line = next(x for x in render_germicidal(g, d) if "254-nm-equivalent:" in x)
+    assert "W m-2 sr-1" in line
+    row: dict = {}
+    _fill(row, d)
+    assert row["uvc_W_m2"] is None and row["uvc_status"] == "not-irradiance (W m-2 sr-1)"

@@ -65,7 +65,8 @@ from uvcheck.errors import ConfigurationError, InputFormatError, UvcheckError
 #: Summary columns, in this order (our own names). ``uvc_W_m2`` is the UV-C (200–280 nm)
 #: irradiance where the spectrum is an irradiance and the value is established; its status
 #: says why it is empty otherwise (``below-detection``, ``likely-stray-light``, ``not-covered``,
-#: ``shape-only``, …; ``partial-below-detection`` and ``partial-likely-stray-light`` where the
+#: ``shape-only``, ``not-irradiance (W m-2 sr-1)`` for a radiance or flux spectrum, …;
+#: ``partial-below-detection`` and ``partial-likely-stray-light`` where the
 #: data cover UV-C in part, so that holds in the measured part only and UV-C is not ruled
 #: out): an empty cell is never a zero. ``origin`` is
 #: ``measured``, or ``nominal`` for a listing screened without a spectrum (every figure of
@@ -414,6 +415,10 @@ def _fill(row: dict[str, Any], result: Mapping[str, Any]) -> None:
     uvc = (result.get("germicidal") or {}).get("uvc") or {}
     row["uvc_W_m2"] = uvc.get("value") if uvc.get("unit") == "W m-2" else None
     row["uvc_status"] = uvc.get("status")
+    if uvc.get("value") is not None and uvc.get("unit") != "W m-2":
+        # a radiance or flux spectrum: its UV-C is not an irradiance (see the JSON), so the
+        # empty cell says why rather than read as missing
+        row["uvc_status"] = f"not-irradiance ({uvc.get('unit')})"
     if row["uvc_status"] in ("below-detection", "likely-stray-light") and partly_measured(uvc):
         # so in the part measured only: UV-C is not ruled out
         row["uvc_status"] = "partial-" + row["uvc_status"]

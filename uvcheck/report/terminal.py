@@ -360,7 +360,7 @@ _EQUIVALENT_BOUND = {"partial": ("≥ ", "lower bound", "part of UV-C was not me
                                             "the apparent UV-C is likely stray light or noise")}
 
 
-def _equivalent_span(eq: Mapping[str, Any]) -> str:
+def _equivalent_span(eq: Mapping[str, Any], unit: str = "W m-2") -> str:
     """'0.0412–0.0484 W m-2', or with the bound each end is ('≤ 2.33e-06–2.45e-06 W m-2
     (≤ upper bound: …)'): an upper bound used as the favourable reading is never shown as a
     value, and one of a band measured in part says so."""
@@ -380,10 +380,10 @@ def _equivalent_span(eq: Mapping[str, Any]) -> str:
     if lo_r == hi_r:
         span = f"{lo}–{hi}" if lo != hi else lo
         sign = _EQUIVALENT_BOUND[lo_r][0] if lo_r in _EQUIVALENT_BOUND else ""
-        body = f"{sign}{span} W m-2"
+        body = f"{sign}{span} {unit}"
     else:
         signs = [_EQUIVALENT_BOUND[r][0] if r in _EQUIVALENT_BOUND else "" for r in (lo_r, hi_r)]
-        body = f"{signs[0]}{lo} to {signs[1]}{hi} W m-2"
+        body = f"{signs[0]}{lo} to {signs[1]}{hi} {unit}"
     return body + (f" ({'; '.join(why)})" if why else "")
 
 
@@ -436,7 +436,7 @@ def render_germicidal(g: dict, d: dict) -> list[str]:
     out.append(f"  UV-C 200–280 nm: {_trade(g['uvc'])}; far-UVC 200–235 nm: {_trade(g['far_uvc'])}")
     eq = (g.get("effective") or {}).get("equivalent_254") or {}
     if eq.get("most_favourable") is not None:
-        out.append(f"  254-nm-equivalent: {_equivalent_span(eq)} "
+        out.append(f"  254-nm-equivalent: {_equivalent_span(eq, g.get('unit') or 'W m-2')} "
                    f"across action spectra (claims use the most favourable, {eq['most_favourable_id']})")
     vb = (g.get("effective") or {}).get("violet_blue_405")
     if vb and vb.get("value") is not None:
