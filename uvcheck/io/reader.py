@@ -788,7 +788,7 @@ def _metadata(lines: Iterable[tuple[int, str]]) -> tuple[dict[str, str], list[st
             section = m.group(1).strip()
             continue
         body = _COMMENT.sub("", s, count=1).strip() if _COMMENT.match(s) else s
-        m = _KEYVAL.match(body)
+        m = _KEYVAL.match(body) or _DIST_NO_SEP.match(body)
         if m and m.group(1).strip():
             key = m.group(1).strip()
             if section:
@@ -798,6 +798,61 @@ def _metadata(lines: Iterable[tuple[int, str]]) -> tuple[dict[str, str], list[st
         else:
             other.append(s)
     return meta, other
+
+
+# Measurement distance in the metadata. The key: "distance", "measurement distance",
+# "distance de mesure", "dist.", a key starting "dist" ("Distancia", "Distanza"; not
+# "distortion", "distribution"), "d", German "Abstand", "Messabstand", "Entfernung", with or
+# without a unit in brackets ("Distance to lamp [cm]", "Distance (mm)"); not a key about the
+# unit itself ("distance unit"; its unit is used for a bare number when the key gives none).
+# The one-letter "d" only in lower case ("D" is as often a diameter). A line with no separator ("Abstand 20cm") is read too when it
+# starts with one of these words and a number follows (our own rule: only these words, so
+# that no other free text becomes metadata).
+_DIST_WORDS = r"(?:(?:measure(?:ment)?\s*)?distance|dist\b\.?|messabstand|abstand|entfernung)"
+_DIST_KEY = re.compile(r"^d$|(?i:distance|abstand|entfernung|^dist(?!or|rib|ill|inct))")
+_DIST_NOT = re.compile(r"(?i)\bunits?\b|einheit|unit[eé]")
+_DIST_UNITS = r"(?:mm|cm|m|in|inch|inches|ft)"
+_DIST_NO_SEP = re.compile(rf"(?i)^\s*({_DIST_WORDS}(?:\s+de\s+mesure)?"
+                          rf"(?:\s*[\[(]\s*{_DIST_UNITS}\s*[\])])?)\s+([-+]?\d.*?)\s*$")
+_DIST_VALUE = re.compile(rf"(?i)^\s*(?:(?:ca|approx|env)\.?\s*|about\s+|~\s*|≈\s*)?"
+                         rf"([-+]?\d+(?:[.,]\d+)?\s*{_DIST_UNITS})(?![a-z])")
+_DIST_BARE = re.compile(r"^\s*([-+]?\d+(?:[.,]\d+)?)\s*$")
+_DIST_KEY_UNIT = re.compile(rf"(?i)(?:[\[(]\s*({_DIST_UNITS})\s*[\])]|[\s_/]in\s+({_DIST_UNITS})"
+                            rf"|_({_DIST_UNITS}))\s*$")
+
+
+def _distance_entry(meta: dict[str, str]) -> tuple[str, str] | None:
+    """The first metadata entry that states the measurement distance, as (key, value)."""
+    for k, v in meta.items():
+        key = k.rsplit("/", 1)[-1].strip()
+        if v and _DIST_KEY.search(key) and not _DIST_NOT.search(key):
+            return k, v
+    return None
+
+
+def _read_distance(key: str, value: str, meta: dict[str, str]) -> float | None:
+    """The distance in metres from a metadata entry, else None: a number with a unit
+    ("0,5 m", "20cm", "12 in", "ca. 20 cm"), or a bare number with the unit given in the key
+    ("Distance (mm): 200") or in a "distance unit" entry."""
+    m = _DIST_VALUE.match(value)
+    b = _DIST_BARE.match(value)
+    text = m.group(1) if m else value
+    if not m and b:
+        ku = _DIST_KEY_UNIT.search(key.rsplit("/", 1)[-1])
+        unit = next(g for g in ku.groups() if g) if ku else None
+        if unit is None:
+            unit = next((v.strip() for k, v in meta.items()
+                         if _DIST_KEY.search(k.rsplit("/", 1)[-1])
+                         and _DIST_NOT.search(k.rsplit("/", 1)[-1])
+                         and re.fullmatch(rf"(?i)\s*{_DIST_UNITS}\s*", v)), None)
+        if unit is not None:
+            text = f"{b.group(1)} {unit}"
+    text = re.sub(r"(?i)(?<=\d)\s*(inch|inches)$", " in", text.strip())
+    try:
+        dist = parse_quantity(text, "length").value_si
+    except UnitError:
+        return None
+    return dist if dist > 0 else None
 
 
 def _meta_lookup(meta: dict[str, str], *patterns: str) -> tuple[str, str] | None:
@@ -1332,6 +1387,10 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
                                                 and text.strip() != names[val_idx].strip()):
                     unusable.append(f"{text!r} {how}: {exc.what}")
                 continue
+        if unit_text is not None:
+            conflict = _unit_conflict(unit_text, unit_how, cands)
+            if conflict:
+                warnings.append(conflict)
     if unit_text is None:
         su = parse_spectral_unit("relative")
         unit_label = "relative"
@@ -1387,6 +1446,8 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
                                f"{MAX_ABS_VALUE:g} {_spectral_unit_text(su)})",
                                row_place(k, val_idx),
                                "the row is corrupt or the column is not a spectrum; repair the file")
+    # a flat top, in the file's order and as written (before sorting and averaging)
+    flat = _flat_top(v_raw[finite] if n_drop else v_raw, wl_nm, su.quantity, unit_label)
     d = wl_nm[1:] - wl_nm[:-1]  # numpy.diff, without its wrapper
     if (d > 0).all():
         order = "ascending"
@@ -1426,10 +1487,9 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
     clipped = _clipped_at_zero(values)
     if clipped:
         warnings.append(clipped)
-    if su.quantity == "relative":
-        sat = _saturation(values)
-        if sat:
-            warnings.append(sat)
+    sat = _saturation(values) if su.quantity == "relative" else None
+    if sat or flat:
+        warnings.append(sat or flat)
     noise = estimate_noise(values)
     if noise.method == "dynamic-range floor":
         warnings.append(f"the data show almost no noise (estimate {noise.data_sigma:.3g} "
@@ -1437,7 +1497,7 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
                         f"noise floor is set to {noise.floor_fraction:g} of the peak (a "
                         "dynamic-range floor, common practice: no spectrometer resolves less), "
                         "so values under it are reported as below detection")
-    negative = _mostly_negative(values)
+    negative = _mostly_negative(values) or _negative_offset(values, noise.sigma, su)
     if negative:
         warnings.append(negative)
     if su.quantity != "relative":
@@ -1450,15 +1510,10 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
                 "(--unit relative) and scale it with a reading")
     # ---- metadata of interest ---------------------------------------------------------
     dist = None
-    found = _meta_lookup(meta, r"(measure(ment)?\s*)?distance", r"abstand", r"^dist")
+    found = _distance_entry(meta)
     if found:
-        m = re.match(r"^\s*([-+]?\d+(?:[.,]\d+)?\s*(?:mm|cm|m|in|ft)\b)", found[1])
-        try:
-            dist = parse_quantity(m.group(1) if m else found[1], "length").value_si
-            if not dist > 0:
-                raise UnitError("not positive")
-        except UnitError:
-            dist = None
+        dist = _read_distance(found[0], found[1], meta)
+        if dist is None:
             warnings.append(f"metadata {found[0]} = {found[1]!r} could not be read as a distance")
     sha = file_sha256(p) if raw is None else hashlib.sha256(raw).hexdigest()
     step = {"median": median(steps), "min": float(steps.min()), "max": float(steps.max()),
@@ -1535,6 +1590,116 @@ def _mostly_negative(values: np.ndarray) -> str | None:
             "positive. Check the dark (background) subtraction (sign flipped, or the dark and "
             "the lamp spectrum swapped? a dark taken with the lamp on?), the value column "
             "(--column) and the unit; results from it are not meaningful until it is fixed")
+
+
+def _unit_conflict(used: str, used_how: str, cands: list[tuple[str, str]]) -> str | None:
+    """A warning when the file states the value unit in two places and they disagree (another
+    quantity, photon or energy units, or another scale), else None. The first readable one in
+    the reader's order (units row, header, column name, metadata) is used; the warning names
+    both and which was used, as a difference of scale is a factor on every result."""
+    a = parse_spectral_unit(used)
+    for text, how in cands:
+        if how == used_how or text.strip() == used.strip():
+            continue
+        try:
+            b = parse_spectral_unit(text)
+        except UnitError:
+            continue
+        if (a.quantity, a.photon) == (b.quantity, b.photon) and \
+                math.isclose(a.factor, b.factor, rel_tol=1e-9):
+            continue
+        apart = ""
+        if (a.quantity, a.photon) == (b.quantity, b.photon) and a.factor > 0 and b.factor > 0:
+            apart = f", a factor {max(a.factor, b.factor) / min(a.factor, b.factor):.4g} apart"
+        return (f"the value unit is stated twice and the two disagree: {used!r} {used_how} and "
+                f"{text!r} {how}{apart}; {used!r} ({used_how.removeprefix('from ')}) was used. "
+                "Check which is right, or give --unit")
+    return None
+
+
+def _negative_offset(values: np.ndarray, sigma: float | None, su: Any) -> str | None:
+    """A warning when the whole baseline sits below zero, else None: a dark (background) level
+    subtracted too large, which lowers every band and hazard integral by the offset times the
+    range. Our own rule: more than half of the samples negative *and* their median below
+    −½ σ, σ being the reader's noise estimate (:func:`uvcheck.features.estimate_noise`; with
+    an offset −b it is the RMS of the negative samples, about √(b² + σ₀²), so the rule fires
+    for b ≳ 0.6 σ₀). Zero-mean noise gives a median at or above about 0 (the lamp's samples
+    are positive), off by some 1.25 σ/√n: with at least 100 samples (required) that is 0.125 σ
+    or less, so −½ σ is 4 standard errors away (smoothing over L samples leaves about n/L
+    independent ones and halves that margin at L = 4). A spectrum below zero as a whole is
+    :func:`_mostly_negative`'s."""
+    n = int(values.size)
+    if n < 100 or not sigma or not sigma > 0:
+        return None
+    n_neg = int(np.count_nonzero(values < 0))
+    if 2 * n_neg <= n:
+        return None
+    med = median(values)
+    if not med < -0.5 * sigma:
+        return None
+    unit = _spectral_unit_text(su)
+    return (f"most samples are below zero ({n_neg} of {n}; median {med:.3g} {unit}, noise "
+            f"{sigma:.3g}): a dark level subtracted too large? Band and hazard values are then "
+            "understated; check the dark (background) measurement")
+
+
+def _flat_top(raw: np.ndarray, wl: np.ndarray, quantity: str, unit_label: str) -> str | None:
+    """A warning when the values as written hold a run of at least 5 consecutive samples
+    exactly equal to their maximum, else None: a spectrum clipped flat at the top, as a
+    saturated detector leaves it, whatever the unit after calibration. A smooth peak, even
+    a rounded one, does not repeat its maximum exactly 5 times (our own rule; the relative
+    counts at an ADC full scale are :func:`_saturation`'s). ``raw`` and ``wl`` in file order.
+    A spectrum that is one constant throughout is not flagged (nothing rises to the top), nor
+    a run that the rounding of the values as written explains: a broad peak written with 3
+    significant digits repeats its maximum over several samples, its neighbours then one
+    step of the rounding below. So the run's neighbours must lie more than 2 such steps below
+    the maximum, the step being the last decimal place the values in the upper half are
+    written to (our own rule; only worked out when a run of 5 is found)."""
+    if raw.size < 5:
+        return None
+    vmax = float(raw.max())
+    if not vmax > 0:
+        return None
+    at = raw == vmax
+    n_at = int(np.count_nonzero(at))
+    if n_at < 5 or n_at == raw.size:
+        return None
+    start, length = _longest_run(at)
+    if length < 5:
+        return None
+    step = _decimal_step(raw[raw >= 0.5 * vmax])
+    neighbours = raw[[k for k in (start - 1, start + length) if 0 <= k < raw.size]]
+    if neighbours.size and bool((neighbours >= vmax - 2.0 * step).all()):
+        return None  # the rounding of the values as written explains the run
+    lo, hi = sorted((float(wl[start]), float(wl[start + length - 1])))
+    text = (f"{length} consecutive samples at {vmax:g} ({unit_label}), exactly the maximum, "
+            f"{lo:g}–{hi:g} nm: the spectrum is clipped flat there, so the detector is "
+            "probably saturated; shorten the integration time")
+    if quantity != "relative":
+        text += ". Band and hazard values are then understated"
+    return text
+
+
+def _decimal_step(v: np.ndarray) -> float:
+    """10⁻ᵏ for the smallest k (−3 to 15) with every value a whole number of 10⁻ᵏ (to 1 part
+    in 10⁶: a decimal as a float), i.e. the last decimal place written; 0 when there is none
+    (values written to full float precision)."""
+    for k in range(-3, 16):
+        s = v * 10.0 ** k
+        if bool(np.all(np.abs(s - np.round(s)) <= 1e-6 * np.abs(s) + 1e-9)):
+            return 10.0 ** -k
+    return 0.0
+
+
+def _longest_run(mask: np.ndarray) -> tuple[int, int]:
+    """(start, length) of the longest run of True in a boolean array ((0, 0) when none)."""
+    d = np.diff(np.concatenate(([0], mask.view(np.int8), [0])))
+    starts = np.flatnonzero(d == 1)
+    if starts.size == 0:
+        return 0, 0
+    lengths = np.flatnonzero(d == -1) - starts
+    k = int(lengths.argmax())
+    return int(starts[k]), int(lengths[k])
 
 
 def _spectral_unit_text(su: Any) -> str:
@@ -1781,10 +1946,7 @@ def _saturation(v: np.ndarray) -> str | None:
     if vmax <= 0:
         return None
     at = v >= vmax * (1 - 1e-9)
-    run = best = 0
-    for flag in at:
-        run = run + 1 if flag else 0
-        best = max(best, run)
+    best = _longest_run(at)[1]  # the longest run of samples at the maximum
     if best >= 3 and float(vmax).is_integer() and vmax in (255.0, 1023.0, 4095.0, 16383.0, 65535.0,
                                                            65536.0, 262143.0):
         return (f"{best} consecutive samples at {vmax:g} counts: the detector is probably "

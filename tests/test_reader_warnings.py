@@ -1,0 +1,222 @@
+"""Reader warnings for a dark level subtracted too large, a flat (clipped) top in absolute units,
+a measurement distance written in other ways, and a value unit stated twice in disagreement.
+
+All spectra here are invented test data, written by the tests themselves (the catalogue files
+for the same cases are in tests/data/bad/spectrum/, run by tests/test_bad_inputs.py).
+"""
+
+from __future__ import annotations
+
+import re
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+from uvcheck.io import reader
+from uvcheck.io.reader import read_spectrum
+
+WL = np.arange(200.0, 800.01, 0.5)
+HEADER = "Wavelength [nm],Irradiance [W/m2/nm]"
+
+
+def led(wl: np.ndarray, centre: float = 395.0, fwhm: float = 12.0, area: float = 1.0) -> np.ndarray:
+    s = fwhm / 2.3548
+    return area / (s * np.sqrt(2 * np.pi)) * np.exp(-0.5 * ((wl - centre) / s) ** 2)
+
+
+def write(tmp_path: Path, name: str, head: list[str], wl: np.ndarray, v: np.ndarray,
+          fmt: str = "{:.6g}") -> Path:
+    p = tmp_path / name
+    rows = [f"{a:g}," + fmt.format(b) for a, b in zip(wl, v)]
+    p.write_text("\n".join(["# invented test data"] + head + rows) + "\n", encoding="utf-8")
+    return p
+
+
+def warnings_of(p: Path) -> tuple[str, ...]:
+    return read_spectrum(p)[1].warnings
+
+
+def matching(ws, pattern: str) -> list[str]:
+    return [w for w in ws if re.search(pattern, w)]
+
+
+# ---------------------------------------------------------------------------------------------
+# 1. A constant negative dark offset
+# ---------------------------------------------------------------------------------------------
+
+OFFSET = r"most samples are below zero \((\d+) of (\d+); median (\S+) .*a dark level subtracted too large\? Band and hazard values are then understated"
+
+
+def test_a_constant_negative_offset_is_warned(tmp_path):
+    rng = np.random.default_rng(3)
+    v = 0.04 * led(WL) + rng.normal(0, 1e-5, WL.size) - 2e-5
+    p = write(tmp_path, "offset.csv", ["Distance: 5 cm", HEADER], WL, v)
+    got = matching(warnings_of(p), OFFSET)
+    assert len(got) == 1, warnings_of(p)
+    n_neg, n, med = re.search(OFFSET, got[0]).groups()
+    written = np.array([float(f"{x:.6g}") for x in v])
+    assert int(n_neg) == int(np.count_nonzero(written < 0)) and int(n) == WL.size
+    assert float(med) == pytest.approx(float(np.median(written)), rel=6e-3)  # 3 digits
+    # not also the "below zero as a whole" warning: the peak stands far above the dips
+    assert not matching(warnings_of(p), r"are negative: a lamp spectrum is mostly positive")
+
+
+@pytest.mark.parametrize("seed", range(6))
+@pytest.mark.parametrize("smooth", [1, 9])
+def test_zero_mean_noise_is_not_an_offset(tmp_path, seed, smooth):
+    rng = np.random.default_rng(seed)
+    noise = np.convolve(rng.normal(0, 1e-5, WL.size + smooth), np.ones(smooth) / smooth,
+                        "same")[:WL.size]
+    for name, v in (("peak.csv", 0.04 * led(WL) + noise), ("dark.csv", noise)):
+        p = write(tmp_path, name, [HEADER], WL, v)
+        assert not matching(warnings_of(p), r"most samples are below zero"), name
+
+
+def test_a_sign_flipped_spectrum_gets_one_negative_warning(tmp_path):
+    rng = np.random.default_rng(5)
+    v = -(0.04 * led(WL) + rng.normal(0, 1e-5, WL.size))
+    ws = warnings_of(write(tmp_path, "flipped.csv", [HEADER], WL, v))
+    assert matching(ws, r"are negative: a lamp spectrum is mostly positive")
+    assert not matching(ws, r"most samples are below zero")
+
+
+# ---------------------------------------------------------------------------------------------
+# 2. A flat (clipped) top in absolute units
+# ---------------------------------------------------------------------------------------------
+
+def test_a_clipped_top_in_absolute_units_is_warned(tmp_path):
+    rng = np.random.default_rng(4)
+    v = np.minimum(0.04 * led(WL) + rng.normal(0, 1e-6, WL.size), 2.0e-3)
+    p = write(tmp_path, "clipped.csv", [HEADER], WL, v)
+    n_top = int(np.count_nonzero(v == 2.0e-3))
+    got = matching(warnings_of(p), rf"^{n_top} consecutive samples at 0\.002 \(W/m2/nm\), exactly "
+                                   r"the maximum, [\d.]+–[\d.]+ nm: .*probably saturated.*"
+                                   r"Band and hazard values are then understated")
+    assert n_top >= 5 and len(got) == 1, warnings_of(p)
+
+
+def test_a_smooth_peak_and_a_short_flat_top_are_not_warned(tmp_path):
+    rng = np.random.default_rng(4)
+    v = 0.04 * led(WL) + rng.normal(0, 1e-6, WL.size)
+    assert not matching(warnings_of(write(tmp_path, "smooth.csv", [HEADER], WL, v)),
+                        r"consecutive samples at")
+    top = int(np.argmax(v))
+    v[top - 2:top + 2] = v[top]  # four equal samples: not five
+    assert not matching(warnings_of(write(tmp_path, "four.csv", [HEADER], WL, v)),
+                        r"consecutive samples at")
+
+
+def test_a_broad_peak_written_with_3_digits_is_not_clipped_but_its_clipped_twin_is(tmp_path):
+    # a broad peak written with 3 significant digits repeats its maximum (0.01) over several
+    # samples, its neighbours one rounding step (1e-5) below: that is rounding, not clipping
+    wl = np.arange(300.0, 800.01, 0.5)
+    v = 0.01 * np.exp(-0.5 * ((wl - 570.0) / 47.0) ** 2)
+    rounded = np.array([float(f"{x:.3g}") for x in v])
+    top = int(np.argmax(v))
+    assert (rounded[top - 2:top + 3] == rounded.max()).all()  # the run is there
+    p = write(tmp_path, "broad.csv", [HEADER], wl, v, "{:.3g}")
+    assert not matching(warnings_of(p), r"consecutive samples at")
+    p = write(tmp_path, "broad_clipped.csv", [HEADER], wl, np.minimum(v, 0.006), "{:.3g}")
+    assert matching(warnings_of(p), r"consecutive samples at 0\.006 \(W/m2/nm\), exactly the maximum")
+
+
+def test_the_counts_saturation_warning_is_kept(tmp_path):
+    v = np.minimum(1000 + 2e6 * led(WL), 65535.0)
+    p = write(tmp_path, "counts.csv", ["Wavelength,Counts"], WL, v, "{:.0f}")
+    ws = warnings_of(p)
+    assert len(matching(ws, r"consecutive samples at")) == 1
+    assert matching(ws, r"consecutive samples at 65535 counts: the detector is probably saturated")
+
+
+@pytest.mark.parametrize("seed", range(20))
+def test_longest_run_equals_a_plain_count(seed):
+    rng = np.random.default_rng(seed)
+    mask = rng.random(int(rng.integers(0, 60))) < rng.random()
+    best = run = start = best_start = 0
+    for k, flag in enumerate(mask):
+        run = run + 1 if flag else 0
+        if run > best:
+            best, best_start = run, k - run + 1
+    assert reader._longest_run(mask) == ((best_start, best) if best else (0, 0))
+
+
+# ---------------------------------------------------------------------------------------------
+# 3. The measurement distance in the metadata
+# ---------------------------------------------------------------------------------------------
+
+@pytest.mark.parametrize("line, metres", [
+    ("d=0.5m", 0.5),
+    ("Abstand 20cm", 0.2),
+    ("Entfernung: 0,5 m", 0.5),
+    ("Messabstand: 30 cm", 0.3),
+    ("Distance de mesure : 50 cm", 0.5),
+    ("Distance to lamp [cm]: 20", 0.2),
+    ("Distance (mm): 200", 0.2),
+    ("Abstand [mm] 200", 0.2),
+    ("Distance: 20 cm", 0.2),
+    ("Distanza: 15 cm", 0.15),
+])
+def test_distance_is_read(tmp_path, line, metres):
+    p = write(tmp_path, "d.csv", [line, HEADER], WL, 0.04 * led(WL))
+    spec, rep = read_spectrum(p)
+    assert rep.measurement_distance_m == pytest.approx(metres)
+    assert not matching(rep.warnings, r"could not be read as a distance")
+
+
+def test_a_distance_unit_entry_gives_the_unit_of_a_bare_number(tmp_path):
+    p = write(tmp_path, "d.csv", ["Distance unit: cm", "Distance: 25", HEADER], WL, 0.04 * led(WL))
+    assert read_spectrum(p)[1].measurement_distance_m == pytest.approx(0.25)
+
+
+@pytest.mark.parametrize("lines", [
+    ["Distance unit: cm"],
+    ["Wavelength: 254 nm"],
+    ["D: 20 mm"],  # D is as often a diameter
+    ["Distortion: 2 mm"],
+    ["Abstand zur Wand wurde nicht gemessen"],
+])
+def test_unrelated_keys_are_no_distance(tmp_path, lines):
+    p = write(tmp_path, "d.csv", lines + [HEADER], WL, 0.04 * led(WL))
+    spec, rep = read_spectrum(p)
+    assert rep.measurement_distance_m is None
+    assert not matching(rep.warnings, r"could not be read as a distance")
+
+
+def test_a_bare_distance_without_a_unit_is_still_said(tmp_path):
+    p = write(tmp_path, "d.csv", ["Distance: 20", HEADER], WL, 0.04 * led(WL))
+    spec, rep = read_spectrum(p)
+    assert rep.measurement_distance_m is None
+    assert matching(rep.warnings, r"metadata Distance = '20' could not be read as a distance")
+
+
+# ---------------------------------------------------------------------------------------------
+# 4. A value unit stated twice
+# ---------------------------------------------------------------------------------------------
+
+def test_a_unit_stated_twice_in_disagreement_is_warned(tmp_path):
+    p = write(tmp_path, "u.csv", ["Units: uW/cm2/nm", "Wavelength [nm],Irradiance [mW/m2/nm]"],
+              WL, 40 * led(WL))
+    spec, rep = read_spectrum(p)
+    assert rep.value_unit == "mW/m2/nm"
+    got = matching(rep.warnings, r"the value unit is stated twice and the two disagree: "
+                                 r"'mW/m2/nm' from the header and 'uW/cm2/nm' from metadata "
+                                 r"'Units', a factor 10 apart; 'mW/m2/nm' \(the header\) was used")
+    assert len(got) == 1, rep.warnings
+
+
+@pytest.mark.parametrize("meta, header", [
+    ("Units: W/m2/nm", "Wavelength [nm],Irradiance [W m-2 nm-1]"),  # the same unit, written otherwise
+    ("Units: uW/cm2/nm", "Wavelength [nm],Irradiance [10 mW/m2/nm]"),  # unreadable header unit
+    ("Operator: A. Invented", "Wavelength [nm],Irradiance [mW/m2/nm]"),
+])
+def test_agreeing_or_single_units_are_not_warned(tmp_path, meta, header):
+    p = write(tmp_path, "u.csv", [meta, header], WL, 40 * led(WL))
+    assert not matching(read_spectrum(p)[1].warnings, r"stated twice")
+
+
+def test_a_unit_given_on_the_command_line_is_not_questioned(tmp_path):
+    p = write(tmp_path, "u.csv", ["Units: uW/cm2/nm", "Wavelength [nm],Irradiance [mW/m2/nm]"],
+              WL, 40 * led(WL))
+    rep = read_spectrum(p, unit="mW/m2/nm")[1]
+    assert not matching(rep.warnings, r"stated twice")
