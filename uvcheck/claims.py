@@ -72,6 +72,7 @@ ORGANISM_ALIASES = {
     "staph": "staphylococcus", "mrsa": "staphylococcus aureus", "s. aureus": "staphylococcus aureus",
     "covid": "coronavirus", "covid-19": "coronavirus", "sars-cov-2": "sars-cov-2",
     "corona": "coronavirus", "coronavirus": "coronavirus", "flu": "influenza",
+    "flu virus": "influenza", "flu viruses": "influenza", "swine flu": "h1n1",
     "influenza": "influenza", "tb": "tuberculosis", "tuberculosis": "tuberculosis",
     "legionella": "legionella", "norovirus": "norovirus", "salmonella": "salmonella",
     "listeria": "listeria", "mould": "aspergillus", "mold": "aspergillus",
@@ -221,6 +222,23 @@ def _with_rule(v: "Verdict") -> "Verdict":
     if not v.rule or v.verdict == "not-assessable" or v.basis.endswith(f"decided by {v.rule}"):
         return v
     return replace(v, basis=f"{v.basis}; decided by {v.rule}")
+
+
+def pct(percent: float) -> str:
+    """A reduction percentage with enough digits that its nines show (99.9999, not 100.00).
+
+    Four significant figures below 99 %; from 99 % on, as many decimals as the nines need
+    (at least two), so no reduction short of 100 % prints as 100.
+
+    Examples
+    --------
+    >>> [pct(p) for p in (90.0, 99.9, 99.99, 99.999, 99.9999, 100 * (1 - 10 ** -6))]
+    ['90.00', '99.90', '99.99', '99.999', '99.9999', '99.9999']
+    """
+    if not (math.isfinite(percent) and 99.0 <= percent < 100.0):
+        return sig(percent, 4)
+    decimals = max(2, math.ceil(-math.log10(100.0 - percent) - 1e-6))
+    return f"{percent:.{decimals}f}"
 
 
 def _mj_cm2(j_m2: float) -> str:
@@ -511,16 +529,93 @@ def _unrecognised(c: Any, ev: Evidence) -> Verdict:
 
 # --- emission ----------------------------------------------------------------------------
 
+#: Worst first, for a claim judged in parts (several organisms, bands or wavelengths).
+_PART_RANK = {"cannot-hold": 0, "not-assessable": 1, "unlikely": 2, "holds": 3}
+
+
+def _worst_part(subs: list[tuple[str, Verdict]]) -> tuple[str, Verdict, str]:
+    """(name, verdict) of the part that decides a claim judged in parts: the worst verdict
+    (cannot-hold, then not-assessable, unlikely, holds; among equals the smallest ratio), and
+    the others' verdicts in words."""
+    name, worst = min(subs, key=lambda nv: (_PART_RANK.get(nv[1].verdict, 1),
+                                            nv[1].ratio if nv[1].ratio is not None else math.inf))
+    others = "; ".join(f"{n}: {v.verdict}" for n, v in subs if v is not worst)
+    return name, worst, others
+
+
+def _emission_parts(c: Any) -> list[tuple[str, Any]]:
+    """The bands and wavelengths of an emission claim that names more than one of either
+    ("UVA + UVC", "365nm & 254nm"), each as a claim of its own: [(name, claim)], bands first.
+    [] for a claim naming one band and/or one wavelength (judged as a whole, as before)."""
+    from uvcheck.io.listing import BANDS_NM
+
+    wls, bands = tuple(c.wavelengths_nm or ()), tuple(c.bands or ())
+    if len(wls) < 2 and len(bands) < 2:
+        return []
+    if not wls and c.wavelength_nm is not None:
+        wls = (c.wavelength_nm,)
+    if not bands and c.band_name:
+        bands = (c.band_name,)
+    one = dict(bands=(), wavelengths_nm=())
+    parts = [(b, replace(c, wavelength_nm=None, band_name=b, band_nm=BANDS_NM[b], **one))
+             for b in bands]
+    if c.band_nm is not None and c.band_name is None:   # a range written as wavelengths
+        lo, hi = c.band_nm
+        parts.append((f"{lo:g}–{hi:g} nm", replace(c, wavelength_nm=None, **one)))
+    parts += [(f"{w:g} nm", replace(c, wavelength_nm=w, band_name=None, band_nm=None, **one))
+              for w in wls]
+    return parts
+
+
 def _emission(c: Any, ev: Evidence) -> Verdict:
+    """An emission claim; one that names several bands or wavelengths ("UVA + UVC") holds only
+    as far as the lamp emits in each: every band and wavelength is judged on its own and the
+    worst verdict decides, naming the band or wavelength that decides it (our own rule, as for
+    several organisms in :func:`_each_organism`)."""
+    parts = _emission_parts(c)
+    if not parts:
+        return _one_emission(c, ev)
+    subs = [(name, _one_emission(sub, ev)) for name, sub in parts]
+    name, worst, others = _worst_part(subs)
+    nb = sum(1 for n, p in parts if p.wavelength_nm is None)
+    nw = len(parts) - nb
+    what = " and ".join(x for x in (
+        f"{nb} band{'s' if nb > 1 else ''}" if nb else "",
+        f"{nw} wavelength{'s' if nw > 1 else ''}" if nw else "") if x)
+    basis = (f"the claim names {what} ({', '.join(n for n, _ in parts)}) and the lamp must emit "
+             f"at each; {name} decides it: {worst.basis}"
+             + (f" (the others: {others})" if others else ""))
+    return replace(worst, id=c.id, text=c.text, basis=basis,
+                   details={**(worst.details or {}), "decided_by": name,
+                            "parts": {n: v.verdict for n, v in subs}})
+
+
+#: Below this share of a nominal reading's output a band is taken as one the stated technology
+#: does not emit in (our own rule; a nominal model has no noise floor to compare with). [-]
+NOMINAL_BAND_SHARE_MIN = 1e-3
+
+
+def rule_technology_tolerance(tol_nm: float) -> str:
+    return (f"the wavelength tolerance against the stated technology's lines and peak window "
+            f"(data/technologies.toml; holds within {sig(tol_nm, 2)} nm, beyond it at most "
+            "'unlikely': technology data, not a hard bound)")
+
+
+#: Rule of a band claim on an estimate: where the technology's nominal model emits.
+RULE_TECHNOLOGY_BAND = ("the stated technology's nominal spectrum (technology data: at most "
+                        "'unlikely', not a hard bound)")
+
+
+def _one_emission(c: Any, ev: Evidence) -> Verdict:
     ev_kind = "measured" if ev.measured else "nominal estimate"
     lam = c.wavelength_nm
     band = c.band_nm
     if lam is None and band is None:
         return _na(c, ev, "no wavelength or band stated", c.missing())
-    # listing evidence against it (die voltage, "254 nm LED", a cover that blocks UV-C)
-    refuting = _plausibility_against(ev, lam, band)
     if not ev.measured:
         fav = ev.favourable()
+        # listing evidence against it (die voltage, "254 nm LED", a cover that blocks the band)
+        refuting = _listing_against(c, ev, lam, band)
         if refuting:
             f = refuting[0]
             return Verdict(c.id, c.kind, c.text, f.status, _q(f.needed), _q(f.available),
@@ -529,6 +624,9 @@ def _emission(c: Any, ev: Evidence) -> Verdict:
         if not fav:
             return _na(c, ev, "no power stated and no spectrum: the emission cannot be estimated",
                        ("a spectrum", "lamp.optical_power or lamp.electrical_power"))
+        v = _technology_emits(c, ev, fav, lam, band)
+        if v is not None:
+            return v
         r = fav[0]
         return Verdict(c.id, c.kind, c.text, "holds", None, None, None,
                        f"consistent with the stated technology ({r.technology}); an estimate from "
@@ -623,21 +721,122 @@ def _q(a: Any) -> Quantity | None:
     return Quantity(a.value, a.unit, a.what)
 
 
-def _plausibility_against(ev: Evidence, lam: float | None, band: tuple[float, float] | None) -> list[Any]:
-    if ev.plausibility is None:
+def _listing_against(c: Any, ev: Evidence, lam: float | None,
+                     band: tuple[float, float] | None) -> list[Any]:
+    """The plausibility checks (:mod:`uvcheck.plausibility`) of the listing's stated data that
+    speak against this emission claim, worst first: the photon energy of the claim's
+    wavelength against the LED voltage, an LED at a mercury wavelength, and the stated cover
+    at that wavelength (a cover that blocks it is a hard bound). A band is checked at the
+    listing's stated peak where that lies in the band, else at the band's longest wavelength
+    (the most favourable for the photon energy and for a cover)."""
+    from uvcheck import plausibility as pl
+    from uvcheck.germicidal import technologies
+
+    L, rep = ev.listing, ev.plausibility
+    if lam is not None:
+        w, w_note = lam, f"wavelength: the claim's {lam:g} nm"
+    elif band is not None:
+        pk = L.peak_wavelength_nm
+        if pk is not None and band[0] <= pk <= band[1]:
+            w, w_note = pk, ("wavelength: stated peak wavelength (lamp.peak_wavelength), in the "
+                             "claim's band")
+        else:
+            w, w_note = band[1], (f"wavelength: {band[1]:g} nm, the longest of the claim's band "
+                                  "(most favourable)")
+    else:
         return []
-    uv = (lam is not None and lam < 280.0) or (band is not None and band[1] <= 280.0)
-    out = []
-    for f in ev.plausibility.findings:
-        base = f.id.split(":")[0]
-        if f.status not in ("cannot-hold", "unlikely"):
-            continue
-        if base in ("die-voltage-vs-photon-energy", "led-wavelength") and (lam is not None or uv):
-            out.append(f)
-        elif base == "cover" and uv:
-            out.append(f)
+    tech = rep.technology if rep is not None else None
+    is_led = L.leds is not None or technologies().get(tech or "", {}).get("family") == "led"
+    dv = rep.die_voltage_V if rep is not None else None
+    found = []
+    if is_led and dv is not None:
+        found.append(pl.check_die_voltage(w, dv))
+    if is_led and w < 300.0:
+        found.append(pl.check_led_wavelength(w))
+    if L.cover is not None and L.cover != "none":
+        w_cover = lam if lam is not None else band[1]  # type: ignore[index]
+        found.append(pl.check_cover(L.cover, w_cover, L.cover_text))
+    out = [replace(f, assumptions=tuple(f.assumptions) + (w_note,)) if f.id != "cover-transmission"
+           else f for f in found if f.status in ("cannot-hold", "unlikely")]
     out.sort(key=lambda f: 0 if f.status == "cannot-hold" else 1)
     return out
+
+
+def _tech_name(tech: str | None, techs: Any) -> str:
+    """'a Low-pressure mercury discharge lamp (lp_mercury)', 'an incandescent lamp'."""
+    if not tech:
+        return "the lamp"
+    t = techs.get(tech)
+    n = f"{t['name']} ({tech})" if t and t.get("name") else f"{tech.replace('_', ' ')} lamp"
+    return f"{'an' if n[:1].lower() in 'aeiou' else 'a'} {n}"
+
+
+def _technology_emits(c: Any, ev: Evidence, fav: list[Reading], lam: float | None,
+                      band: tuple[float, float] | None) -> Verdict | None:
+    """On an estimate: does the stated technology emit where the claim says? A wavelength is
+    held against the technology's lines and peak window (data/technologies.toml) with the
+    same tolerance as a measured peak; a band against the share of the nominal spectrum in it.
+    Either gives at most 'unlikely' (technology data are not a hard bound). None for a
+    wavelength when no favourable reading has a technology in the table."""
+    from uvcheck.germicidal import technologies
+
+    techs = technologies()
+    known = [(r, techs[r.technology]) for r in fav if r.technology in techs]
+    if lam is not None:
+        if not known:
+            return None
+        tol = max(PEAK_TOLERANCE_NM, (ev.listing.fwhm_nm or 0.0) / 2)
+        best = None
+        for r, t in known:
+            lines = [float(x) for x in (t.get("lines_nm") or ())]
+            lo, hi = (float(x) for x in t["peak_window_nm"])
+            d_win = 0.0 if lo <= lam <= hi else min(abs(lam - lo), abs(lam - hi))
+            dist = min([d_win] + [abs(lam - x) for x in lines])
+            where = ((f"lines {', '.join(f'{x:g}' for x in lines)} nm; " if lines else "")
+                     + f"peak window {lo:g}–{hi:g} nm")
+            if best is None or dist < best[0]:
+                best = (dist, r, t, where)
+        dist, r, t, where = best
+        name = _tech_name(r.technology, techs)
+        if dist <= tol:
+            return Verdict(c.id, c.kind, c.text, "holds", Quantity(lam, "nm", "stated wavelength"),
+                           None, None,
+                           f"the stated {lam:g} nm is within {sig(tol, 2)} nm of where {name} "
+                           f"emits ({where}); an estimate from the listing, not a measurement",
+                           (), (), "nominal estimate", r.label,
+                           {"technology": r.technology, "distance_nm": dist},
+                           rule_technology_tolerance(tol))
+        return Verdict(c.id, c.kind, c.text, "unlikely", Quantity(lam, "nm", "stated wavelength"),
+                       None, None,
+                       f"no line or peak of {name} lies within {sig(tol, 2)} nm of the stated "
+                       f"{lam:g} nm ({where}; the nearest is {sig(dist, 3)} nm away); an estimate "
+                       "from the listing, not a measurement",
+                       (), ("a measured spectrum",), "nominal estimate", r.label,
+                       {"technology": r.technology, "distance_nm": dist},
+                       rule_technology_tolerance(tol))
+    lo, hi = band  # type: ignore[misc]
+    best_share, best_r = -1.0, fav[0]
+    for r in fav:
+        tot = integrate(r.spectrum, *r.spectrum.range_nm).value
+        share = integrate(r.spectrum, lo, hi).value / tot if tot > 0 else 0.0
+        if share > best_share:
+            best_share, best_r = share, r
+    name = _tech_name(best_r.technology, techs)
+    label = c.band_name or f"{lo:g}–{hi:g} nm"
+    if best_share >= NOMINAL_BAND_SHARE_MIN:
+        return Verdict(c.id, c.kind, c.text, "holds", None, None, None,
+                       f"the nominal spectrum of {name} puts {sig(100 * best_share, 3)} % of its "
+                       f"output in {label} ({lo:g}–{hi:g} nm); an estimate from the listing, not "
+                       "a measurement", (), (), "nominal estimate", best_r.label,
+                       {"technology": best_r.technology, "share": best_share}, RULE_TECHNOLOGY_BAND)
+    return Verdict(c.id, c.kind, c.text, "unlikely", None, None, None,
+                   f"the nominal spectrum of {name} puts {sig(100 * best_share, 2)} % of its "
+                   f"output in {label} ({lo:g}–{hi:g} nm), under the "
+                   f"{sig(100 * NOMINAL_BAND_SHARE_MIN, 1)} % taken as emission there (our own "
+                   "rule): the stated technology does not emit in that band; an estimate from "
+                   "the listing, not a measurement", (), ("a measured spectrum",),
+                   "nominal estimate", best_r.label,
+                   {"technology": best_r.technology, "share": best_share}, RULE_TECHNOLOGY_BAND)
 
 
 # --- inactivation and coverage --------------------------------------------------------------
@@ -685,24 +884,40 @@ def _room_box(c: Any, listing: Any) -> tuple[Any, list[str]] | None:
     return Box(side, side, h), notes
 
 
-#: Generic words and the organism groups of the table they cover (None: every group).
+#: Generic words (and phrases: "mold spores" are fungal spores only) and the organism groups
+#: of the table they cover (None: every group).
 GENERIC_GROUPS = {"bacteria": ("bacterium",), "bacterium": ("bacterium",),
                   "viruses": ("virus",), "virus": ("virus",), "fungi": ("fungal_spore",),
-                  "mould": ("fungal_spore",), "mold": ("fungal_spore",),
-                  "spores": ("bacterial_spore", "fungal_spore")}
+                  "fungus": ("fungal_spore",), "mould": ("fungal_spore",),
+                  "mold": ("fungal_spore",), "moulds": ("fungal_spore",),
+                  "molds": ("fungal_spore",), "mould spores": ("fungal_spore",),
+                  "mold spores": ("fungal_spore",), "mould spore": ("fungal_spore",),
+                  "mold spore": ("fungal_spore",), "fungal spores": ("fungal_spore",),
+                  "fungal spore": ("fungal_spore",), "fungus spores": ("fungal_spore",),
+                  "bacterial spores": ("bacterial_spore",), "bacterial spore": ("bacterial_spore",),
+                  "spores": ("bacterial_spore", "fungal_spore"),
+                  "spore": ("bacterial_spore", "fungal_spore")}
 
 
 def _generic_groups(name: str | None) -> tuple[str, ...] | None:
     if not name:
         return None
-    words = set(name.lower().replace(",", " ").replace("/", " ").split())
+    low = name.lower()
+    words = set(low.replace(",", " ").replace("/", " ").split())
     groups: list[str] = []
-    for w in words:
-        if w in GENERIC_GROUPS:
-            groups += GENERIC_GROUPS[w]
+    for item in re.split(r"[,/;&]|\band\b", low):
+        item = " ".join(item.split())
+        if item in GENERIC_GROUPS:           # a phrase first ("mold spores")
+            groups += GENERIC_GROUPS[item]
+            continue
+        for w in item.split():
+            if w in GENERIC_GROUPS:
+                groups += GENERIC_GROUPS[w]
     if not groups or words & {"germs", "pathogens", "microbes", "microorganisms", "all"}:
         return None
-    return tuple(dict.fromkeys(groups + ["mixed"]))
+    # the table's 'mixed' rows pool bacteria ("most bacteria except spores"): they stand for
+    # bacteria, not for viruses or fungal spores
+    return tuple(dict.fromkeys(groups + (["mixed"] if "bacterium" in groups else [])))
 
 
 def _organism_candidates(c: Any, medium: str) -> tuple[list[Any] | None, str | None]:
@@ -783,10 +998,7 @@ def _each_organism(c: Any, ev: Evidence, names: list[str]) -> Verdict:
     for n in names:
         generic = bool(_GENERIC_ORG_RE.search(n)) and not _SPECIFIC_ORG_RE.search(n)
         subs.append((n, _one_inactivation(replace(c, organism=n, organism_generic=generic), ev)))
-    rank = {"cannot-hold": 0, "not-assessable": 1, "unlikely": 2, "holds": 3}
-    name, worst = min(subs, key=lambda nv: (rank.get(nv[1].verdict, 1),
-                                            nv[1].ratio if nv[1].ratio is not None else math.inf))
-    others = "; ".join(f"{n}: {v.verdict}" for n, v in subs if v is not worst)
+    name, worst, others = _worst_part(subs)
     basis = (f"the claim names {len(names)} organisms ({', '.join(names)}) and must hold for each; "
              f"{name} decides it: {worst.basis}" + (f" (the others: {others})" if others else ""))
     return replace(worst, id=c.id, text=c.text, basis=basis,
@@ -897,13 +1109,13 @@ def _one_inactivation(c: Any, ev: Evidence) -> Verdict:
     if c.organism is None or c.organism_generic:
         assumptions.append(f"'{c.organism or 'germs'}' judged with {who}; most real pathogens need more")
     in_t = format_duration(t) + (f" ('{vague}', not quantified)" if vague else "")
-    basis = (f"{sig(percent, 4)} % of {who} needs {_mj_cm2(best['need'])} in {in_t} "
+    basis = (f"{pct(percent)} % of {who} needs {_mj_cm2(best['need'])} in {in_t} "
              f"{best['place']}; this lamp gives at most {_mj_cm2(best['avail'])} there "
              f"({_uw_cm2(best['e'])} × {format_duration(t)}): {_short(ratio)}")
     if decision is not None:
         basis += f" (dose {decision})"
     return Verdict(c.id, c.kind, c.text, verdict,
-                   Quantity(best["need"], "J m-2", f"dose for {sig(percent, 4)} %"),
+                   Quantity(best["need"], "J m-2", f"dose for {pct(percent)} %"),
                    Quantity(best["avail"], "J m-2", "dose this lamp gives, most favourable reading"),
                    ratio, basis, tuple(assumptions), (), ev_kind, best["reading"],
                    {"organism_id": o.id, "medium": best["medium"], "time_s": t,
@@ -963,17 +1175,15 @@ def _coverage(c: Any, ev: Evidence) -> Verdict:
 
 # --- ozone ------------------------------------------------------------------------------------
 
-#: A statement that the lamp makes ozone or emits the 184.9 nm line ("UVC + ozone 185nm").
-_OZONE_MADE_RE = re.compile(r"\bozone\b|\bO3\b|\b18[45](?:\.\d)?\s*nm", re.I)
-
-
 def _own_ozone_statement(c: Any, ev: Evidence) -> Any | None:
-    """Another claim of the same listing that says the lamp makes ozone (or emits 185 nm)."""
-    from uvcheck.io.listing import _OZONE_FREE_RE
+    """Another claim of the same listing that says the lamp makes ozone (or emits 185 nm):
+    "produces ozone", "not ozone-free", "UV-C + ozone", "254nm + 185nm"; an ozone-free wording
+    ("0 ozone emission", "Ozonfrei") is not one
+    (:func:`uvcheck.io.listing.says_ozone_made`)."""
+    from uvcheck.io.listing import says_ozone_made
 
     for o in ev.listing.claims:
-        t = o.text or ""
-        if o is not c and _OZONE_MADE_RE.search(t) and not _OZONE_FREE_RE.search(t):
+        if o is not c and o.kind != "ozone-free" and says_ozone_made(o.text):
             return o
     return None
 

@@ -110,6 +110,11 @@ class Claim:
     wavelength_nm : stated peak wavelength (emission). [nm]
     band_name, band_nm : stated band (emission, optical-power): a name from :data:`BANDS_NM`
         and its edges, or edges alone. [nm]
+    bands : every band an emission claim names, in the order written, when it names more
+        than one ("UVA + UVC" -> ``('UV-A', 'UV-C')``); band_name is then the first. Empty
+        for one band or none.
+    wavelengths_nm : every wavelength an emission claim states, when it states more than one
+        ("365nm & 254nm"); wavelength_nm is then the first. Empty for one or none. [nm]
     reduction_fraction : stated reduction as a fraction (0.999 for 99.9 %). [-]
     log_reduction : the same as a log10 reduction (3 for 99.9 %); None for 100 %. [-]
     reduction_stated_as : ``percent`` | ``log`` | None.
@@ -139,6 +144,8 @@ class Claim:
     wavelength_nm: float | None = None
     band_name: str | None = None
     band_nm: tuple[float, float] | None = None
+    bands: tuple[str, ...] = ()
+    wavelengths_nm: tuple[float, ...] = ()
     reduction_fraction: float | None = None
     log_reduction: float | None = None
     reduction_stated_as: str | None = None
@@ -161,6 +168,8 @@ class Claim:
             raise InputFormatError(f"unknown claim kind {self.kind!r}",
                                    todo=f"use one of: {', '.join(CLAIM_KINDS)}")
         object.__setattr__(self, "safe_for", tuple(self.safe_for))
+        object.__setattr__(self, "bands", tuple(self.bands))
+        object.__setattr__(self, "wavelengths_nm", tuple(self.wavelengths_nm))
 
     def missing(self, listing: "Listing | None" = None) -> tuple[str, ...]:
         """The data this claim needs but does not state (nor the listing, where given).
@@ -210,7 +219,7 @@ class Claim:
         d: dict[str, Any] = {"id": self.id, "kind": self.kind, "text": self.text,
                              "structured": self.structured, "line": self.line}
         fields_by_kind = {
-            "emission": ("wavelength_nm", "band_name", "band_nm"),
+            "emission": ("wavelength_nm", "band_name", "band_nm", "bands", "wavelengths_nm"),
             "inactivation": ("reduction_fraction", "log_reduction", "reduction_stated_as",
                              "organism", "organism_generic", "time_s", "time_word", "distance_m",
                              "area_m2", "volume_m3", "medium"),
@@ -733,9 +742,29 @@ def _claim(ctx: _Ctx, raw: Any, i: int) -> Claim:
     kw: dict[str, Any] = {"id": cid, "kind": kind, "text": text, "structured": True, "line": line}
     f = lambda k: f"{base}.{k}"  # noqa: E731
     if "wavelength" in raw:
-        kw["wavelength_nm"] = _wavelength_nm(ctx, f("wavelength"), raw["wavelength"])
+        v = raw["wavelength"]
+        if isinstance(v, list) and kind == "emission":
+            # several wavelengths, every one of which the claim says the lamp emits
+            if not v:
+                raise ctx.fail(f("wavelength"), "the list of wavelengths is empty",
+                               "e.g. wavelength = [\"365 nm\", \"254 nm\"]")
+            wls = list(dict.fromkeys(_wavelength_nm(ctx, f("wavelength"), x) for x in v))
+            kw["wavelength_nm"] = wls[0]
+            if len(wls) > 1:
+                kw["wavelengths_nm"] = tuple(wls)
+        else:
+            kw["wavelength_nm"] = _wavelength_nm(ctx, f("wavelength"), v)
     if "band" in raw:
-        kw["band_name"], kw["band_nm"] = _band(ctx, f("band"), raw["band"])
+        v = raw["band"]
+        if (kind == "emission" and isinstance(v, list) and v
+                and all(isinstance(x, str) and band_from_name(x) for x in v)):
+            # several band names (["UV-A", "UV-C"]): the claim says the lamp emits in each
+            names = list(dict.fromkeys(band_from_name(x) for x in v))
+            kw["band_name"], kw["band_nm"] = names[0], BANDS_NM[names[0]]
+            if len(names) > 1:
+                kw["bands"] = tuple(names)
+        else:
+            kw["band_name"], kw["band_nm"] = _band(ctx, f("band"), v)
     if "reduction" in raw and "log_reduction" in raw:
         raise ctx.fail(f("log_reduction"), "give reduction or log_reduction, not both")
     if "reduction" in raw:
@@ -886,18 +915,74 @@ _KILL_RE = re.compile(r"\b(kill\w*|inactivat\w*|eliminat\w*|destroy\w*|remov\w*|
 _SPECIFIC_ORG_RE = re.compile(
     r"\b(e\.?\s*coli|s(?:taph(?:ylococcus)?)?\.\s*aureus|staphylococcus\s+aureus|mrsa|"
     r"sars[\s-]*cov[\s-]*2|covid(?:[\s-]*19)?|coronavirus(?:es)?|influenza|flu\s+virus(?:es)?|"
+    r"h\d{1,2}n\d{1,2}|(?:swine\s+|bird\s+|avian\s+)?flu|"
     r"norovirus|ms2|legionella|pseudomonas|salmonella|listeria|candida|aspergillus|"
     r"c\.?\s*diff(?:icile)?|tubercul\w*|dust\s+mites?|mites?)\b", re.I)
 _GENERIC_ORG_RE = re.compile(
     r"\b(germs?|bacteria|bacterium|virus(?:es)?|microbes?|micro-?organisms?|pathogens?|"
-    r"mou?lds?|fungi|fungus|spores?)\b", re.I)
+    r"(?:mou?ld|fung(?:al|us))\s+spores?|bacterial\s+spores?|mou?lds?|fungi|fungus|spores?)\b",
+    re.I)
 _AIR_RE = re.compile(r"\b(air(?:borne)?|aerosols?)\b", re.I)
 _SURFACE_RE = re.compile(r"\b(surfaces?|objects?|items?|phones?|toothbrush\w*|keyboards?|masks?|"
                          r"bedding|mattress\w*|toys?|countertops?|bottles?|shoes?)\b", re.I)
-_OZONE_FREE_RE = re.compile(r"ozone[\s-]*free|\bno\s+ozone|without\s+(?:any\s+)?ozone|"
-                            r"zero\s+ozone|non[\s-]*ozone|(?:does\s+not|doesn'?t|won'?t|will\s+not|"
-                            r"never)\s+(?:produce|generate|emit|create|make)\s+(?:any\s+)?ozone",
-                            re.I)
+#: Ozone written in the languages and misspellings listings use (ozone, ozon, ozono, O3).
+_OZ = r"(?:ozon[eo]?|o3)"
+#: Wordings that the lamp makes no ozone ("ozone-free", "0 ozone", "Ozonfrei", "sans ozone").
+_OZONE_FREE_RE = re.compile(
+    rf"\b{_OZ}[\s-]*(?:free|frei|fee)\b|\b(?:no|zero|z[ée]ro|non|sans|ohne|kein\w*|sin|"
+    rf"libre\s+de)[\s-]+{_OZ}\b|\bwithout\s+(?:any\s+)?{_OZ}\b|\b0\s*(?:ppm\s+)?{_OZ}\b|"
+    rf"\b{_OZ}\s*[:=]\s*(?:none|no|nil|zero|0)\b|"
+    rf"(?:does\s+not|doesn'?t|won'?t|will\s+not|never)\s+(?:produce|generate|emit|create|make|"
+    rf"release)\s+(?:any\s+)?{_OZ}\b|\b(?:no|without)\s+(?:the\s+)?18[45](?:\.\d)?\s*nm",
+    re.I)
+#: "not ozone-free", "isn't ozone free": the negation of an ozone-free wording.
+_OZONE_NOT_FREE_RE = re.compile(
+    rf"\b(?:not|isn'?t|aren'?t|nicht|pas|never)\s+(?:an?\s+|100\s*%\s+|fully\s+|completely\s+|"
+    rf"entirely\s+|totally\s+|really\s+)?{_OZ}[\s-]*(?:free|frei)", re.I)
+#: "produces ozone", "generates ozone": the lamp makes ozone (unless negated before the verb).
+_OZONE_MAKES_RE = re.compile(
+    rf"\b(?:produc|generat|emit|creat|mak|releas|form|giv)\w*\s+(?:off\s+)?"
+    rf"(?:some\s+|a\s+little\s+|small\s+amounts?\s+of\s+|traces?\s+of\s+)?{_OZ}\b"
+    rf"(?![\s-]*(?:free|frei))", re.I)
+_OZONE_VERB_NEGATED_RE = re.compile(r"(?:\bnot|n't|\bnever|\bno)\s+(?:\w+\s+)?$", re.I)
+#: Any mention of ozone or of the 184.9 nm line that makes it ("UVC + ozone 185nm").
+_OZONE_MENTION_RE = re.compile(rf"\b{_OZ}\b|\bozonfrei|\b18[45](?:\.\d)?\s*nm", re.I)
+
+
+def _makes_ozone_wording(text: str) -> bool:
+    """The text says outright that the lamp makes ozone ("produces ozone", "not ozone-free")."""
+    if _OZONE_NOT_FREE_RE.search(text):
+        return True
+    return any(not _OZONE_VERB_NEGATED_RE.search(text[max(0, m.start() - 24):m.start()])
+               for m in _OZONE_MAKES_RE.finditer(text))
+
+
+def says_ozone_free(text: str | None) -> bool:
+    """The wording claims the lamp makes no ozone ("ozone-free", "0 ozone emission",
+    "Ozonfrei", "sans ozone", "ozone: none"), and does not negate it ("not ozone-free",
+    "produces ozone").
+
+    Examples
+    --------
+    >>> [says_ozone_free(t) for t in ("0 ozone emission", "ozon free", "not ozone free")]
+    [True, True, False]
+    """
+    t = text or ""
+    return bool(_OZONE_FREE_RE.search(t)) and not _makes_ozone_wording(t)
+
+
+def says_ozone_made(text: str | None) -> bool:
+    """The wording says (or implies) that the lamp makes ozone or emits the 185 nm line that
+    makes it: it mentions ozone or 185 nm and is not an ozone-free wording ("produces ozone",
+    "UV-C + ozone", "not ozone-free", "254nm + 185nm").
+
+    Examples
+    --------
+    >>> [says_ozone_made(t) for t in ("produces ozone", "0 ozone emission", "UV-C + ozone")]
+    [True, False, True]
+    """
+    t = text or ""
+    return bool(_OZONE_MENTION_RE.search(t)) and not says_ozone_free(t)
 _SAFE_RE = re.compile(r"\bsafe\b|\bsafely\b|harmless|\bno\s+harm\b|-safe\b", re.I)
 _NEGATION_RE = re.compile(r"\b(not\s+safe|unsafe|do\s+not|don'?t|never\s+(?:look|expose)|avoid|"
                           r"harmful|dangerous|warning|caution)\b", re.I)
@@ -981,10 +1066,14 @@ def _find_quantities(text: str) -> dict[str, Any]:
         if lo < hi:
             found["band_nm"] = (lo, hi)
         spans.append(m.span())
-    for m in _WL_RE.finditer(text):
-        if free(m):
+    wl_matches = [m for m in _WL_RE.finditer(text) if free(m)]
+    for m, neg in zip(wl_matches, _negated(text, wl_matches)):
+        spans.append(m.span())
+        if not neg:  # "no 185 nm" says what the lamp does not emit
+            found.setdefault("wavelengths_nm", [])
+            if _num(m.group(1)) not in found["wavelengths_nm"]:
+                found["wavelengths_nm"].append(_num(m.group(1)))
             found.setdefault("wavelength_nm", _num(m.group(1)))
-            spans.append(m.span())
     for m in _PERCENT_RE.finditer(text):
         found.setdefault("percent", _num(m.group(1)))
         found.setdefault("percent_span", m.span())
@@ -1033,15 +1122,48 @@ def _organism(text: str) -> tuple[str | None, bool]:
     return ", ".join(re.sub(r"\s+", " ", n) for n in names), not spec
 
 
-def _band_of_text(text: str) -> str | None:
+#: Words that deny what follows ("no UV-A", "without 185 nm", "UV-B free" is handled apart).
+_DENY_RE = re.compile(r"\b(?:no|not(?!\s+only)|non|without|zero|free\s+of|nor|except|excluding|"
+                      r"never|ohne|kein\w*|sans|sin)\b|n't\b", re.I)
+#: Between two items of one list ("no UV-A, UV-B or ozone").
+_LIST_SEP_RE = re.compile(r"\s*(?:,|/|&|\+|\bor\b|\band\b|\bnor\b)\s*", re.I)
+
+
+def _negated(text: str, matches: list[re.Match]) -> list[bool]:
+    """For each match (in text order): is it denied ("no UV-A", "without 185 nm", "UV-B
+    free")? A denial reaches to the end of its clause (a comma or a stop ends it) and over a
+    list that follows it ("no UV-A, UV-B or UV-C"). Our own reading of plain wording."""
+    out: list[bool] = []
+    prev_end, prev_neg = 0, False
+    for m in matches:
+        between = text[prev_end:m.start()]
+        cut = max(between.rfind(ch) for ch in ",.;:!?()[]\n")
+        if prev_neg and prev_end and _LIST_SEP_RE.fullmatch(between):
+            neg = True
+        else:
+            neg = bool(_DENY_RE.search(between[cut + 1:]))
+        if re.match(r"[\s-]*free\b", text[m.end():], re.I):
+            neg = True
+        out.append(neg)
+        prev_end, prev_neg = m.end(), neg
+    return out
+
+
+def _bands_of_text(text: str) -> list[str]:
+    """Every band named and not denied, in order, once each ("UVA + UVC" -> UV-A, UV-C)."""
+    found: list[tuple[re.Match, str]] = []
     for m in _BAND_WORD_RE.finditer(text):
         w = m.group(0)
-        if re.search(r"far", w, re.I):
-            return "far-UVC"
-        name = band_from_name(w)
+        name = "far-UVC" if re.search(r"far", w, re.I) else band_from_name(w)
         if name is not None:
-            return name
-    return None
+            found.append((m, name))
+    neg = _negated(text, [m for m, _ in found])
+    return list(dict.fromkeys(name for (m, name), n in zip(found, neg) if not n))
+
+
+def _band_of_text(text: str) -> str | None:
+    bands = _bands_of_text(text)
+    return bands[0] if bands else None
 
 
 def vague_time_text(word: str) -> str:
@@ -1107,7 +1229,7 @@ def parse_claim_text(text: str, claim_id: str = "c1") -> Claim:
         kinds.append("efficiency")
     if ("area_m2" in q or "volume_m3" in q) and "inactivation" not in kinds:
         kinds.append("coverage")
-    ozone_free = bool(_OZONE_FREE_RE.search(text))
+    ozone_free = says_ozone_free(text)
     if ozone_free:
         kinds.append("ozone-free")
     safe = bool(_SAFE_RE.search(text)) and not _NEGATION_RE.search(text)
@@ -1123,7 +1245,9 @@ def parse_claim_text(text: str, claim_id: str = "c1") -> Claim:
         if "power_W" in q:
             note = ("a wattage without 'output', 'optical' or 'UV power' is usually the "
                     "electrical input: give it as lamp.electrical_power")
-        elif re.search(r"ozone", text, re.I):
+        elif _makes_ozone_wording(text):
+            note = "says the lamp makes ozone, so it is not an ozone-free claim"
+        elif _OZONE_MENTION_RE.search(text):
             note = "mentions ozone but does not say 'ozone-free'"
         elif _SAFE_RE.search(text):
             note = "reads as a warning or a negation, not a safety claim"
@@ -1161,6 +1285,12 @@ def parse_claim_text(text: str, claim_id: str = "c1") -> Claim:
             kw["band_nm"] = q["band_nm"]
         elif band_name:
             kw["band_name"], kw["band_nm"] = band_name, BANDS_NM[band_name]
+        # "UVA + UVC", "365nm & 254nm": the claim says the lamp emits in every one
+        bands = _bands_of_text(text)
+        if len(bands) > 1:
+            kw["bands"] = tuple(bands)
+        if len(q.get("wavelengths_nm", ())) > 1:
+            kw["wavelengths_nm"] = tuple(q["wavelengths_nm"])
     others = [k for k in kinds[1:] if not (k == "emission" and kind in ("optical-power",
                                                                          "efficiency"))]
     notes = [f"read from the wording as {_article(kind)} {kind} claim"]
@@ -1170,6 +1300,9 @@ def parse_claim_text(text: str, claim_id: str = "c1") -> Claim:
     if q.get("lifetime_s") and kind == "inactivation":
         notes.append(f"{format_duration(q['lifetime_s'])} read as the lamp's life, not as the "
                      "time of a treatment")
+    if kind == "emission" and (kw.get("bands") or kw.get("wavelengths_nm")):
+        named = list(kw.get("bands", ())) + [f"{w:g} nm" for w in kw.get("wavelengths_nm", ())]
+        notes.append(f"names {', '.join(named)}: the lamp must emit at each")
     if kind == "inactivation" and q.get("time_word"):
         word = q["time_word"]
         notes.append(vague_time_text(word))
