@@ -264,3 +264,34 @@ def test_cli_screen_follows_limits(tmp_path):
     acg = _safety_basis(base + ["--limits", ACGIH], tmp_path)
     assert "limit set" not in iec["basis"] and ACGIH in acg["basis"]
     assert iec["basis"] != acg["basis"]
+
+
+def test_a_safety_claim_resting_on_a_stated_far_uvc_filter_is_not_confirmed():
+    """An estimate of a filtered KrCl* lamp is within the limits because the listing says a
+    filter removes the longer-wavelength UV-C; a listing cannot show that filter, so the safety
+    claim is not-assessable, not 'holds' (our own rule, as for a mercury lamp's ozone-free
+    envelope). Invented listing; far-UVC limits of the ACGIH 2022 set are from memory."""
+    from uvcheck.io.listing import parse_listing
+    from uvcheck.screening import screen_listing_file
+
+    text = '''format = "uvcheck-listing/1"
+[product]
+name = "filtered far-UVC test unit (invented)"
+invented = true
+[lamp]
+technology = "krcl_excimer"
+peak_wavelength = "222 nm"
+electrical_power = "5 W"
+filtered = true
+cover = "quartz"
+[use]
+distance = "2.5 m"
+[[claims]]
+id = "safe"
+text = "safe for people and pets"
+'''
+    res = screen_listing_file(parse_listing(text, "f.toml"), limit_set="acgih_2022_far_uvc")
+    v = {x["id"]: x for x in res.to_dict()["claims"]}["safe"]
+    assert v["verdict"] == "not-assessable"
+    assert "filter the listing states" in v["basis"]
+    assert v["missing"] == ["a measured spectrum of the lamp as sold, through its filter"]

@@ -1285,6 +1285,26 @@ def _only_likely_within(c: Any, ev: Evidence, r: Reading, t: float, where: str,
 
 
 def _safety(c: Any, ev: Evidence) -> Verdict:
+    v = _safety_verdict(c, ev)
+    if v.verdict == "holds" and not ev.measured and _rests_on_stated_filter(ev):
+        # the estimate is within the limits because the seller says a filter removes the
+        # longer-wavelength UV-C; a listing cannot show that filter (as the envelope glass
+        # of a mercury lamp for 'ozone-free')
+        return _na(c, ev, f"{v.basis.split('; decided by')[0]}, but only because the far-UVC "
+                          "filter the listing states removes the longer-wavelength UV-C, which "
+                          "a listing cannot show",
+                   ("a measured spectrum of the lamp as sold, through its filter",),
+                   v.assumptions)
+    return v
+
+
+def _rests_on_stated_filter(ev: Evidence) -> bool:
+    """The estimate models a KrCl* lamp with the far-UVC filter the listing states."""
+    return bool(getattr(ev.listing, "filtered", None)) and any(
+        getattr(r, "technology", None) == "krcl_excimer" for r in ev.readings)
+
+
+def _safety_verdict(c: Any, ev: Evidence) -> Verdict:
     missing = c.missing()
     if missing:
         return _na(c, ev, "the claim does not say who or what it is safe for", missing)
