@@ -290,7 +290,7 @@ def hazard_figure(result: Result) -> Any:
         ax.set_xlabel("hazard value / Exempt limit (log scale)")
         ax.set_title(f"Hazard values against their limits{where}", loc="left", y=1.0)
         ax.spines["right"].set_visible(False)
-        fig.subplots_adjust(left=0.38, right=0.78, top=1 - 0.42 / (0.5 * n + 1.2),
+        fig.subplots_adjust(left=0.38, right=0.68, top=1 - 0.42 / (0.5 * n + 1.2),
                             bottom=0.6 / (0.5 * n + 1.2))  # margins in inches: title, x label
     return fig
 
