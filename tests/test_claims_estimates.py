@@ -15,6 +15,7 @@ in the tests from the formulas named beside them, not copied from the program's 
 from __future__ import annotations
 
 import json
+import math
 from pathlib import Path
 
 import numpy as np
@@ -295,3 +296,40 @@ text = "safe for people and pets"
     assert v["verdict"] == "not-assessable"
     assert "filter the listing states" in v["basis"]
     assert v["missing"] == ["a measured spectrum of the lamp as sold, through its filter"]
+
+
+def test_a_room_claim_uses_the_flux_the_lamp_emits_not_a_point_source_s():
+    """The room used for a coverage claim may place the lamp favourably, but its flux comes
+    from the irradiance with the lamp's own pattern: a Lambertian emitter's on-axis irradiance
+    E at d gives Φ = E·πd², a point source's E·4πd² (NOTES-style formulas, analytic). Before,
+    every lamp was turned into flux as a point source: a Lambertian LED got 4× its flux, and an
+    invented 0.5 W UV-C LED panel 'held' for a 4000 m² room. Invented listing."""
+    from uvcheck import room as rm
+    from uvcheck.screening import screen_listing_file
+    from uvcheck.spectrum import total_integral
+
+    text = '''format = "uvcheck-listing/1"
+[product]
+name = "275 nm LED panel (invented)"
+invented = true
+[lamp]
+technology = "uvc_led"
+peak_wavelength = "275 nm"
+optical_power = "0.5 W"
+optical_power_band = "UV-C"
+cover = "quartz"
+emitter = "lambertian"
+[use]
+room_height = "2.5 m"
+[[claims]]
+id = "room"
+text = "for rooms up to 4000 m²"
+'''
+    lst = parse_listing(text, "panel.toml")
+    v = {x["id"]: x for x in screen_listing_file(lst).to_dict()["claims"]}["room"]
+    assert v["verdict"] == "cannot-hold", v["basis"]
+    r = next(x for x in readings_from_listing(lst, screen_listing(lst)) if x.spectrum.is_absolute)
+    box = rm.Box(10.0, 10.0, 2.5)
+    centre = total_integral(r._room_lamp(box, "centre").flux_spectrum)
+    e_axis = total_integral(r.spectrum)
+    assert centre == pytest.approx(e_axis * math.pi * r.d_ref ** 2, rel=1e-6)

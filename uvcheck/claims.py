@@ -321,14 +321,32 @@ class Reading:
 
         key = ("room-lamp", box, placement)
         if key not in self._cache:
+            ceiling = (box.width_m / 2, box.length_m / 2,
+                       max(box.height_m - 0.05, box.height_m * 0.9))
+            # the flux comes from the irradiance with the lamp's own emission pattern (a
+            # Lambertian LED emits E·πd², not the E·4πd² of a point source; a tube by the
+            # cylinder model): the placement may be favourable, the flux may not be invented
+            own = self._emission_geometry(ceiling)
+            lamp = rm.lamp_from_spectrum(self.spectrum, own, self.d_ref)
             if placement == "centre":
-                geom = rm.LampGeometry((box.width_m / 2, box.length_m / 2, box.height_m / 2))
-            else:
-                pattern = "lambertian_down" if self.conditions.emitter == "lambertian" else "isotropic"
-                geom = rm.LampGeometry((box.width_m / 2, box.length_m / 2,
-                                        max(box.height_m - 0.05, box.height_m * 0.9)), pattern)
-            self._cache[key] = rm.lamp_from_spectrum(self.spectrum, geom, self.d_ref)
+                lamp = rm.RoomLamp(rm.LampGeometry((box.width_m / 2, box.length_m / 2,
+                                                    box.height_m / 2)), lamp.flux_spectrum,
+                                   lamp.basis + "; placed at the room's centre, radiating in all "
+                                   "directions (the most favourable placement for the air)")
+            self._cache[key] = lamp
         return self._cache[key]
+
+    def _emission_geometry(self, position: tuple[float, float, float]) -> Any:
+        """The lamp's own emission pattern at ``position``: Lambertian downwards, a cylinder
+        of the stated tube length, or a point source (isotropic)."""
+        from uvcheck import room as rm
+
+        emitter = self.conditions.emitter
+        if emitter == "lambertian":
+            return rm.LampGeometry(position, "lambertian_down")
+        if emitter == "tube" and self.conditions.tube_length_m:
+            return rm.LampGeometry(position, "cylinder", tube_length_m=self.conditions.tube_length_m)
+        return rm.LampGeometry(position)
 
     def room(self, box: Any, placement: str) -> Any:
         """The room model for this reading; ``placement``: ``centre`` (favourable, isotropic)
