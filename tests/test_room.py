@@ -312,3 +312,20 @@ def test_room_command_errors_name_their_option(args, option):
     r = CliRunner().invoke(app, ["room", "--uvc-flux", "2 W", *args])
     assert r.exit_code == 2, r.output
     assert f"error: {option}:" in r.output
+
+
+def test_a_lamp_at_eye_height_gives_no_occupant_figure():
+    """Within 0.3 m of eye height an eye can come as close to the lamp as it likes: the grid's
+    nearest point gave '1.59e+11 W/m²' and a limit 'reached in 0.000381 µs' (r² clamped at
+    1e-12 m²), a number that depends on where the grid falls, not a bound. Our own rule: no
+    figure, the 8-h limit flagged as exceedable."""
+    res = CliRunner().invoke(_app(), ["room", "--uvc-flux", "2 W", "--size", "4 x 5 x 2.7 m",
+                                      "--lamp-at", "2, 2.5, 1.7 m", "--json", "-", "--quiet"])
+    assert res.exit_code == 0, res.output
+    d = json.loads(res.stdout[res.stdout.index("{"):])
+    occ = d["room"]["occupant"] if "room" in d else d["occupant"]
+    assert occ["unbounded"] is True and occ["exceeds_8h_limit"] is True
+    assert occ["irradiance_W_m2"] is None and occ["time_to_limit_s"] is None
+    text = CliRunner().invoke(_app(), ["room", "--uvc-flux", "2 W", "--size", "4 x 5 x 2.7 m",
+                                       "--lamp-at", "2, 2.5, 1.7 m"]).output
+    assert "CAN BE EXCEEDED IN MOMENTS" in text and "e+11" not in text

@@ -37,6 +37,13 @@ def _triple(text: str, where: str) -> tuple[float, float, float]:
     return vals  # type: ignore[return-value]
 
 
+def _unbounded_lines(occ: dict) -> list[str]:
+    """The occupant block when the lamp is within reach of the eyes: no figure, a warning."""
+    return ["  UV-C and E_S: no bound (the lamp is within 0.3 m of eye height) — the 8-h "
+            "actinic limit CAN BE EXCEEDED IN MOMENTS",
+            f"  {occ['note']}"]
+
+
 def _fmt(value: float | None, si: str) -> str:
     from uvcheck.units import sig, to_trade
 
@@ -107,12 +114,13 @@ def render_room(d: dict) -> str:
     ams = d.get("air_most_susceptible")
     if ams:
         lines.append(f"  ({ams['note']})")
-    lines += ["", f"Occupant at eye height {sig(occ['eye_height_m'])} m (worst point, eyes facing the lamp):",
+    lines += ["", f"Occupant at eye height {sig(occ['eye_height_m'])} m (worst point, eyes facing the lamp):"]
+    lines += (_unbounded_lines(occ) if occ.get("unbounded") else [
               f"  UV-C {_fmt(occ['irradiance_W_m2'], 'W m-2')}, E_S {_fmt(occ['effective_S_W_m2'], 'W m-2')}"
               + (" (lower bound)" if occ["effective_S_is_lower_bound"] else ""),
               f"  8-h actinic limit reached in {format_duration(occ['time_to_limit_s'])}"
               + ("  — EXCEEDS the 8-h limit" if occ["exceeds_8h_limit"] else ""),
-              f"  {occ['note']}"]
+              f"  {occ['note']}"])
     if notes:
         lines += [""] + [f"Note: {n}" for n in notes]
     return "\n".join(lines) + "\n"
@@ -142,13 +150,14 @@ def _room_bounds(d: dict) -> list[str]:
         if d.get("fluence_rate_avg_upper_bound_W_m2") is not None:
             lines.append(f"  volume-average fluence rate at most "
                          f"{_fmt(d['fluence_rate_avg_upper_bound_W_m2'], 'W m-2')} (254-nm-equivalent)")
-    lines += ["", f"Occupant at eye height {sig(occ['eye_height_m'])} m (worst point, eyes facing the lamp):",
+    lines += ["", f"Occupant at eye height {sig(occ['eye_height_m'])} m (worst point, eyes facing the lamp):"]
+    lines += (_unbounded_lines(occ) if occ.get("unbounded") else [
               f"  E_S {_fmt(occ['effective_S_W_m2'], 'W m-2')}"
               + (" (lower bound)" if occ["effective_S_is_lower_bound"] else "")
               + f"; 8-h actinic limit reached in {format_duration(occ['time_to_limit_s'])}"
               + ("  — EXCEEDS the 8-h limit" if occ["exceeds_8h_limit"] else ""),
-              f"  {occ['note']}",
-              "  UV-A and blue-light hazards of this lamp: see 'uvcheck assess'."]
+              f"  {occ['note']}"])
+    lines.append("  UV-A and blue-light hazards of this lamp: see 'uvcheck assess'.")
     rest = [n for n in d["notes"][1:]] if d["notes"] else []
     if rest:
         lines += [""] + [f"Note: {n}" for n in rest]

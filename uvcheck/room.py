@@ -813,6 +813,14 @@ def evaluate_room(room: Box, lamp: RoomLamp, *, reflectance: float = DEFAULT_REF
     if abs(geom.position_m[2] - eye_height_m) < 0.3:
         notes.append("the lamp is within 0.3 m of eye height: next to it the exposure has no "
                      "useful bound; shield it or mount it higher")
+        # the eye can come as close as it likes: the grid's nearest point (which can sit on
+        # the lamp) gives a number, not a bound, so none is given (our own rule)
+        occupant.update({"irradiance_W_m2": None, "irradiance_upper_bound_W_m2": None,
+                         "effective_S_W_m2": None, "time_to_limit_s": None,
+                         "exceeds_8h_limit": True, "unbounded": True})
+        occupant["note"] = ("unbounded: the lamp is within 0.3 m of eye height, so an eye can "
+                            "come as close to it as it likes and no exposure figure holds; the "
+                            "8-h limit can be exceeded in moments. " + occupant["note"])
     lamp_d = {
         "position_m": list(geom.position_m), "pattern": geom.pattern,
         "tube_length_m": geom.tube_length_m or None, "axis": geom.axis if geom.tube_length_m else None,
