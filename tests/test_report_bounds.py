@@ -207,3 +207,32 @@ def test_uncertainty_overall_line_says_at_least_for_a_lower_bound_group():
     # the note's uncertainty paragraph says the same
     u = note.uncertainty_block(d)
     assert "at least each group" in u["overall"] and u["overall_by_rule"] == "at least Exempt"
+
+
+def test_finding_risk_box_and_cautions_keep_at_most_for_a_partly_measured_time(tmp_path):
+    """The hazard table says 'at most 48.4 s' for a hazard measured in part; the finding, the
+    risk box and the cautions said 'is reached in 48.4 s'. Invented mercury-like lines on a
+    spectrum measured from 250 nm (its actinic value is a lower bound, so its time an upper
+    bound)."""
+    from uvcheck.assessment import assess
+    from uvcheck.conditions import Conditions
+    from uvcheck.io.reader import read_spectrum
+    from uvcheck.report.note import build_note
+
+    wl = np.arange(250.0, 800.5, 0.5)
+    v = sum(a * np.exp(-0.5 * ((wl - c) / 0.8) ** 2) for c, a in
+            ((253.7, 0.5), (365.0, 0.02), (404.7, 0.02), (435.8, 0.03), (546.1, 0.03))) + 1e-7
+    p = tmp_path / "hg250.csv"
+    p.write_text("# invented\nwavelength (nm),irradiance (W/m2/nm)\n"
+                 + "".join(f"{a:.1f},{b:.6e}\n" for a, b in zip(wl, v)), encoding="utf-8")
+    spec, rep = read_spectrum(p)
+    d = json.loads(json.dumps(assess(spec, Conditions(measurement_distance_m=1.0), rep).to_dict(),
+                              default=str))
+    assert d["hazards"]["actinic_uv"]["status"] == "partial"
+    note = build_note(d)
+    text = json.dumps(note, ensure_ascii=False)
+    assert "is reached in at most" in text
+    import re
+
+    plain = re.findall(r"is reached in (?!at most)[0-9]", text)
+    assert not plain, plain

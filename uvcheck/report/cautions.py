@@ -243,7 +243,11 @@ def _dist(d: Result) -> str:
 def _when_invisible(d: Result, li: Mapping[str, Any] | None) -> str | None:
     t = actinic_time_s(d)
     if emits_uvc(d) and t is not None:
-        return f"UV-C was measured; the actinic UV limit is reached in {_fmt_t(t)}{_dist(d)}"
+        from uvcheck.report.terminal import tmax_is_upper_bound
+
+        most = "at most " if tmax_is_upper_bound((d.get("hazards") or {}).get("actinic_uv") or {}) else ""
+        return (f"UV-C was measured; the actinic UV limit is reached in {most}{_fmt_t(t)}"
+                f"{_dist(d)}")
     if emits_uvc(d):
         return "UV-C was measured"
     if uvc_unknown(d) and claims_uvc(d, li):

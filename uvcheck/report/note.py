@@ -19,7 +19,7 @@ from typing import Any, Iterable, Mapping
 
 from uvcheck.germicidal import UVC_EMITTING
 from uvcheck.limits import GROUPS
-from uvcheck.report.terminal import is_estimate, partly_measured, status_text
+from uvcheck.report.terminal import is_estimate, partly_measured, status_text, tmax_is_upper_bound
 from uvcheck.report.cautions import DOES_NOT_COVER, LOCAL_CODES, applicable
 from uvcheck.units import format_duration, sig, to_trade
 
@@ -587,7 +587,7 @@ def _group_at(result: Result, section: Mapping[str, Any], where: str,
             detail += f"; set by {gov.get('name', gid)}" + (
                 f" ({gov.get('symbol')})" if gov.get("symbol") else "")
             if gov.get("t_max_s") is not None:
-                detail += f": the limit is reached in {format_duration(gov['t_max_s'])}"
+                detail += f": the limit {_reached(gov, gov['t_max_s'])}"
             # another hazard (a lower group) can still reach its limit sooner: say so
             times = [(h.get("t_max_s"), k) for k, h in hz.items() if h.get("t_max_s") is not None]
             if times:
@@ -1102,7 +1102,7 @@ def _risk_sentences(result: Result) -> list[str]:
         t = gov.get("t_max_s")
         out.append(f"It is hazardous: at {main['where']} the "
                    f"{LIMIT_WORDS.get(main['governing'] or '', 'exposure limit')} "
-                   f"is reached in {format_duration(t)}{' (estimated)' if est else ''} "
+                   f"{_reached(gov, t)}{' (estimated)' if est else ''} "
                    f"(risk group {main['group']}, {GROUP_TEXT.get(main['group'], '')})."
                    if t is not None else
                    f"At {main['where']} it {is_} in risk group {main['group']} "
@@ -1116,7 +1116,8 @@ def _risk_sentences(result: Result) -> list[str]:
         out.append(f"At the distance of use, {use['where']}, it {is_} in risk group {use['group']}"
                    + (" or higher" if use["is_lower_bound"] else "")
                    + (f": the {LIMIT_WORDS.get(use['governing'] or '', 'exposure limit')} "
-                      f"is reached in {format_duration(t)}." if t is not None else "."))
+                      f"{_reached({**(hz.get(use['governing'] or '') or {}), **ugov}, t)}."
+                      if t is not None else "."))
     return out
 
 
@@ -1339,16 +1340,26 @@ _CAUTION_HAZARDS = {"invisible-hazard": ("actinic_uv", "near_uv"),
                     "thermal-eye": ("retinal_thermal", "retinal_thermal_weak_stimulus", "ir_eye")}
 
 
-def _shortest_limit(result: Result, cid: str, use: bool) -> tuple[str, float] | None:
+def _reached(h: Mapping[str, Any], t: float) -> str:
+    """'is reached in 8.96 min', or 'is reached in at most 8.96 min' for a hazard measured in
+    part (its value a lower bound, so its time an upper bound), as the hazard table says."""
+    return ("is reached in at most " if tmax_is_upper_bound(h) else "is reached in ") + \
+        format_duration(t)
+
+
+def _shortest_limit(result: Result, cid: str, use: bool) -> tuple[str, float, str] | None:
     """(limit in words, time) of the caution's hazard with the shortest time limit, at the
     distance of use (use=True) or at the assessment distance."""
     sec = (result.get("use_distance") or {}) if use else result
     hz = sec.get("hazards") or {}
     best = None
     for hid in _CAUTION_HAZARDS.get(cid, ()):
-        t = (hz.get(hid) or {}).get("t_max_s")
+        h = hz.get(hid) or {}
+        t = h.get("t_max_s")
         if t is not None and (best is None or t < best[1]):
-            best = (LIMIT_WORDS.get(hid, "exposure limit"), float(t))
+            # 'is reached in at most' where the hazard is only partly measured
+            best = (LIMIT_WORDS.get(hid, "exposure limit"), float(t),
+                    _reached({**((result.get("hazards") or {}).get(hid) or {}), **h}, t))
     return best
 
 
@@ -1375,12 +1386,12 @@ def key_caution(result: Result, cautions: list[dict[str, Any]]) -> dict[str, str
     lim = _shortest_limit(result, c["id"], use)
     if c["id"] == "invisible-hazard" and lim is not None:
         where = f"{d}, the distance of use," if use else d
-        text = (f"At {where} the {lim[0]} is reached in {format_duration(lim[1])}, and the "
+        text = (f"At {where} the {lim[0]} {lim[2]}, and the "
                 "harm shows up only hours later. Never look at the lit lamp, keep skin out of "
                 "its light, and run it only in a room with no people or animals in it.")
     elif c["id"] in _CAUTION_HAZARDS and lim is not None:
         where = f"{d}, the distance of use," if use else d
-        text = f"At {where} the {lim[0]} is reached in {format_duration(lim[1])}. " + text
+        text = f"At {where} the {lim[0]} {lim[2]}. " + text
     return {"title": c["title"], "text": text, "id": c["id"]}
 
 

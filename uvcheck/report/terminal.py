@@ -225,7 +225,7 @@ def no_assessment_distance(d: Mapping[str, Any]) -> bool:
     return bool(ev) and ev.get("distance_m") is None and bool(d.get("hazards"))
 
 
-def _tmax_is_upper_bound(h: Mapping[str, Any]) -> bool:
+def tmax_is_upper_bound(h: Mapping[str, Any]) -> bool:
     """The hazard value is a lower bound (part of its range not measured), so its t_max is an
     upper bound: the true time can only be shorter."""
     return h.get("status") == "partial" or bool(h.get("risk_group_is_lower_bound"))
@@ -235,11 +235,11 @@ def tmax_text(hid: str, h: Mapping[str, Any]) -> str:
     """The t_max cell: '2.93 h', '> 8 h', 'unlimited', '—'; for a partly measured hazard
     '≤ 2.93 h', '> 8 h so far', 'unlimited so far' (the measured part alone gives it)."""
     if h.get("t_max_s") is not None:
-        return ("≤ " if _tmax_is_upper_bound(h) else "") + format_duration(h["t_max_s"])
+        return ("≤ " if tmax_is_upper_bound(h) else "") + format_duration(h["t_max_s"])
     if h.get("status") in ("not-assessable", "not-applicable") or h.get("value") is None:
         return "—"
     tmax = "> 8 h" if hid == "actinic_uv" else "unlimited"
-    return tmax + (" so far" if _tmax_is_upper_bound(h) else "")
+    return tmax + (" so far" if tmax_is_upper_bound(h) else "")
 
 
 def render_hazards(hazards: dict, d: dict) -> list[str]:
@@ -265,7 +265,7 @@ def render_hazards(hazards: dict, d: dict) -> list[str]:
                       "status"], rows, right=(1, 3, 4, 6)))
     if any(h["risk_group_is_lower_bound"] and h["risk_group"] == "Exempt" for h in hazards.values()):
         out.append("  * partly measured: below the Exempt limit so far, but cannot be called Exempt")
-    if any(_tmax_is_upper_bound(h) and h["status"] not in ("not-assessable", "not-applicable")
+    if any(tmax_is_upper_bound(h) and h["status"] not in ("not-assessable", "not-applicable")
            and h["value"] is not None for h in hazards.values()):
         out.append("  t_max '≤' or 'so far': partly measured, from the measured part alone; the "
                    "unmeasured part can only shorten it")
@@ -322,7 +322,7 @@ def render_hazards(hazards: dict, d: dict) -> list[str]:
                 base = hazards.get(hid) or {}
                 h = {**base, **{k: v for k, v in h.items() if v is not None}}
                 t = format_duration(h["t_max_s"]) if h.get("t_max_s") is not None else "no time limit within the limit's range"
-                if _tmax_is_upper_bound(h):
+                if tmax_is_upper_bound(h):
                     t = ("≤ " + t + " (measured part only)" if h.get("t_max_s") is not None
                          else t + " so far (measured part only)")
                 out.append(f"  {h['symbol']} {_hazard_value(h)} {h['unit']}; t_max {t}")
