@@ -463,3 +463,22 @@ def test_note_and_terminal_word_estimate_statuses_alike():
         words = [status_text(b["status"], result) for b in result["bands"].values()]
         assert sorted(shown) == sorted(words)
     assert all("measured" not in w for w in (r["status"] for r in band_rows(nominal)))
+
+
+def test_a_spectrum_file_that_says_it_is_invented_gets_the_banner(tmp_path):
+    """The bundled example spectra open with '# INVENTED DEMO DATA …': their notes must carry
+    the invented-demonstration banner with or without a listing (a note of a real file must
+    not)."""
+    from uvcheck.cli_note import note_result
+    from uvcheck.report.note import build_note
+
+    ex = Path(__file__).resolve().parents[1] / "examples" / "spectra" / "mercury_tube_254nm.txt"
+    res, _ = note_result(ex, None)
+    assert res["input"]["invented"] is True and build_note(res)["invented"] is True
+    plain = tmp_path / "plain.csv"
+    wl = np.arange(200.0, 801.0)
+    plain.write_text("wavelength (nm),irradiance (W/m2/nm)\n"
+                     + "".join(f"{a},{1e-3 * np.exp(-0.5 * ((a - 450) / 10) ** 2) + 1e-7:.6e}\n"
+                               for a in wl), encoding="utf-8")
+    res, _ = note_result(plain, None)
+    assert res["input"]["invented"] is False and build_note(res)["invented"] is False

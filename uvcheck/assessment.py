@@ -192,6 +192,7 @@ def input_section(spectrum: Spectrum, report: Any | None) -> dict[str, Any]:
         "path": meta.get("source"),
         "sha256": meta.get("sha256"),
         "origin": meta.get("origin", "measured"),
+        "invented": bool(meta.get("invented")),
         "quantity": spectrum.quantity,
         "unit": spectrum.spectral_unit,
         "range_nm": [lo, hi],

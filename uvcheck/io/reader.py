@@ -1535,8 +1535,18 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
     spec = Spectrum(wavelength_nm=wl_nm, values=values, quantity=su.quantity,
                     noise_floor=noise.sigma, gaps_nm=tuple(gaps),
                     meta={"source": str(p), "sha256": sha, "file_name": p.name,
-                          "instrument": _instrument_notes(meta), "origin": "measured"})
+                          "instrument": _instrument_notes(meta), "origin": "measured",
+                          "invented": _says_invented(head[:block.start])})
     return spec, report
+
+
+_INVENTED_RE = re.compile(r"\b(invented|made[\s-]up|fictitious|synthetic (?:demo|test))\b", re.I)
+
+
+def _says_invented(lines: list[str]) -> bool:
+    """Whether the lines above the data say the file is invented (demo or test data): the
+    note then carries the invented-demonstration banner whatever listing comes with it."""
+    return any(_INVENTED_RE.search(ln) for ln in lines)
 
 
 def _flag_ambiguous_separators(cols: list[_SepColumn], head: list[str], start: int, delim: str,

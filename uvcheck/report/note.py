@@ -1419,7 +1419,8 @@ def build_note(result: Result, listing: Mapping[str, Any] | None = None, *,
     claims = claim_rows(result)
     cautions = applicable(result, li)
     inp = result.get("input") or {}
-    inv = bool(invented) if invented is not None else bool(product and product["invented"])
+    inv = (bool(invented) if invented is not None else
+           bool(product and product["invented"]) or bool((result.get("input") or {}).get("invented")))
     name = title or (product["name"] if product else None) or (
         os.path.basename(str(inp.get("path"))) if inp.get("path") else "Lamp")
     return {
