@@ -33,8 +33,19 @@ DOES_NOT_COVER = (
     "This is a screening assessment of the measured sample, not a certification. The results "
     "apply to that sample, at the stated distance and operating conditions, with the stated "
     "uncertainty. The check does not show that the lamp works against a particular germ on a "
-    "particular surface, and it does not assess ozone, mercury, electrical or mechanical "
-    "hazards. Exposure limits are guidance values, not a sharp line between safe and harmful."
+    "particular surface, and it does not measure ozone or assess mercury, electrical or "
+    "mechanical hazards. Exposure limits are guidance values, not a sharp line between safe and harmful."
+)
+
+#: Shown instead of :data:`DOES_NOT_COVER` for a note of a listing alone (nothing measured).
+DOES_NOT_COVER_ESTIMATE = (
+    "This is a screening estimate from the seller's stated data, not a measurement and not a "
+    "certification. The results are what a lamp of the stated kind and output would give at "
+    "the stated distance; the lamp as sold can differ in either direction, and only a "
+    "measurement shows which. The check does not show that the lamp works against a particular "
+    "germ on a particular surface, and it does not measure ozone or assess mercury, electrical "
+    "or mechanical hazards. Exposure limits are guidance values, not a sharp line between safe "
+    "and harmful."
 )
 
 #: Always shown.

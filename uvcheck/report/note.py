@@ -20,7 +20,7 @@ from typing import Any, Iterable, Mapping
 from uvcheck.germicidal import UVC_EMITTING
 from uvcheck.limits import GROUPS
 from uvcheck.report.terminal import is_estimate, partly_measured, status_text, tmax_is_upper_bound
-from uvcheck.report.cautions import DOES_NOT_COVER, LOCAL_CODES, applicable
+from uvcheck.report.cautions import DOES_NOT_COVER, DOES_NOT_COVER_ESTIMATE, LOCAL_CODES, applicable
 from uvcheck.units import format_duration, sig, to_trade
 
 Result = Mapping[str, Any]
@@ -337,7 +337,8 @@ def _estimated(text: str, result: Result) -> str:
     if not is_estimate(result) or not text:
         return text
     for a, b in (("not measured", "not covered by the model"), ("unmeasured", "not modelled"),
-                 ("measured", "estimated"), ("Measured", "Estimated")):
+                 ("measurable", "modelled"), ("measured", "estimated"),
+                 ("Measured", "Estimated")):
         text = text.replace(a, b)
     return text
 
@@ -441,12 +442,12 @@ def hazard_rows(result: Result) -> list[dict[str, Any]] | None:
             "value": _value_text(h), "limit": quantity(h.get("limit"), h.get("unit")),
             "limit_basis": h.get("limit_basis") or "",
             "ratio": None if r is None else r, "ratio_text": "—" if r is None else f"{sig(r)}×",
-            "t_max": _tmax_text(h), "t_max_interval": _tmax_interval_text(h),
+            "t_max": _estimated(_tmax_text(h), result), "t_max_interval": _tmax_interval_text(h),
             "group": _group_text(h),
             "distance": distance(ev.get("distance_m")) if ev.get("distance_m") is not None
             else "measurement position",
             "coverage": percent(h.get("coverage")), "status": h.get("status"),
-            "reason": h.get("reason"),
+            "reason": _estimated(h.get("reason") or "", result) or None,
             "interval": _interval_text(h),
             "borderline": bool(h.get("borderline")),
             "group_probability": _probability_text(h.get("risk_group_probability")),
@@ -615,6 +616,7 @@ def _not_assessable_reason(result: Result) -> str:
                     if h.get("status") == "not-assessable")
     why = "; ".join(reasons) if reasons else (
         (result.get("risk_group") or {}).get("note") or "no hazard could be assessed")
+    why = _estimated(why, result)
     return why[:1].upper() + why[1:] + "."
 
 
@@ -1280,7 +1282,7 @@ def provenance(result: Result, listing: Mapping[str, Any] | None, date: str,
             meta.setdefault(k, v)
         for k, v in meta.items():
             inputs.append({"label": f"File note: {k}", "value": str(v)})
-        inputs.append({"label": "Measurement distance",
+        inputs.append({"label": "Model placed at" if is_estimate(result) else "Measurement distance",
                        "value": distance(cond.get("measurement_distance_m"))
                        if cond.get("measurement_distance_m") is not None else "not given"})
         sc = inp.get("scaling") or []
@@ -1312,7 +1314,8 @@ def provenance(result: Result, listing: Mapping[str, Any] | None, date: str,
     assumptions += [n for n in result.get("notes") or [] if not n.startswith("Screening assessment")]
     for c in result.get("claims") or []:
         assumptions += list(c.get("assumptions") or [])
-    assumptions = [a for a in _uniq(assumptions) if not a.startswith("Screening assessment")]
+    assumptions = [_estimated(a, result) for a in _uniq(assumptions)
+                   if not a.startswith("Screening assessment")]
     tool = result.get("tool") or {}
     return {"inputs": inputs, "tool": f"{tool.get('name', 'uvcheck')} {tool.get('version', '')}".strip(),
             "schema": result.get("schema"), "date": date,
@@ -1428,7 +1431,7 @@ def build_note(result: Result, listing: Mapping[str, Any] | None = None, *,
         "subtitle": "Consumer-safety note",
         "invented": inv, "invented_text": INVENTED_TEXT,
         "screening_title": SCREENING_TITLE,
-        "screening_text": DOES_NOT_COVER,
+        "screening_text": DOES_NOT_COVER_ESTIMATE if is_estimate(result) else DOES_NOT_COVER,
         "local_codes": LOCAL_CODES,
         "product": product,
         "finding": finding(result, claims),
@@ -1458,6 +1461,6 @@ def build_note(result: Result, listing: Mapping[str, Any] | None = None, *,
         "estimate": is_estimate(result),
         "data_word": "estimated" if is_estimate(result) else "measured",
         "cautions": cautions,
-        "does_not_cover": DOES_NOT_COVER,
+        "does_not_cover": DOES_NOT_COVER_ESTIMATE if is_estimate(result) else DOES_NOT_COVER,
         "provenance": provenance(result, li, date or generated_date(), references),
     }
