@@ -268,3 +268,38 @@ def test_a_band_the_nominal_spectrum_does_not_reach():
     assert v["c1"].details["share"] < 1e-3
     assert "an incandescent lamp" in v["c1"].basis
     assert v["vis"].verdict == "holds" and v["vis"].details["share"] > 0.05
+
+
+def test_a_text_that_makes_several_claims_is_judged_on_each():
+    """'no ozone, safe for children' was judged on ozone only and shown as holding, while the
+    note's caution said to keep the lamp from children. Every kind a text makes is judged and
+    the worst decides (our own rule, as for several organisms or bands). Invented listing: a
+    violet LED lamp stated at 405 nm, 10 W, used at 10 cm."""
+    from uvcheck.io.listing import parse_claim_text, parse_listing
+    from uvcheck.screening import screen_listing_file
+
+    c = parse_claim_text("no ozone, safe for children")
+    assert c.kind == "ozone-free" and c.also_kinds == ("safety",)
+    assert parse_claim_text("no ozone, safe for children", kind="safety").kind == "safety"
+    lst = parse_listing('''format = "uvcheck-listing/1"
+[product]
+name = "violet room lamp (invented)"
+invented = true
+[lamp]
+technology = "violet_led"
+peak_wavelength = "405 nm"
+electrical_power = "10 W"
+[use]
+distance = "10 cm"
+[[claims]]
+id = "both"
+text = "no ozone, safe for children"
+[[claims]]
+id = "ozone"
+text = "no ozone"
+''', "both.toml")
+    v = {x["id"]: x for x in screen_listing_file(lst).to_dict()["claims"]}
+    assert v["ozone"]["verdict"] == "holds"
+    assert v["both"]["verdict"] != "holds"
+    assert set(v["both"]["details"]["parts"]) == {"ozone-free", "safety"}
+    assert "the safety part decides it" in v["both"]["basis"]

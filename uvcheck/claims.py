@@ -524,13 +524,41 @@ def evaluate_claims(evidence: Evidence) -> list[Verdict]:
     """A verdict for every claim of the listing (in the listing's order)."""
     out = []
     for c in evidence.listing.claims:
-        fn = _JUDGES.get(c.kind, _unrecognised)
-        try:
-            v = fn(c, evidence)
-        except ConfigurationError as exc:
-            v = _na(c, evidence, f"cannot be evaluated: {exc.what}", ())
-        out.append(_with_rule(v))
+        v = _judge_one(c, evidence)
+        if getattr(c, "also_kinds", ()) and not c.structured and c.text:
+            v = _every_kind(c, v, evidence)
+        out.append(v)
     return out
+
+
+def _judge_one(c: Any, evidence: Evidence) -> Verdict:
+    fn = _JUDGES.get(c.kind, _unrecognised)
+    try:
+        v = fn(c, evidence)
+    except ConfigurationError as exc:
+        v = _na(c, evidence, f"cannot be evaluated: {exc.what}", ())
+    return _with_rule(v)
+
+
+def _every_kind(c: Any, first: Verdict, ev: Evidence) -> Verdict:
+    """A text that makes several claims ("no ozone, safe for children") holds only as far as
+    each does: every kind it makes is judged, and the worst decides (our own rule, as for
+    several organisms or bands), the basis naming the part that decides."""
+    from uvcheck.io.listing import parse_claim_text
+
+    subs = [(c.kind, first)]
+    for k in c.also_kinds:
+        part = parse_claim_text(c.text, c.id, kind=k)
+        if part.kind == k:
+            subs.append((k, _judge_one(part, ev)))
+    if len(subs) == 1:
+        return first
+    name, worst, others = _worst_part(subs)
+    basis = (f"the text makes {len(subs)} claims ({', '.join(n for n, _ in subs)}) and holds "
+             f"only as far as each does; the {name} part decides it: {worst.basis}"
+             + (f" (the others: {others})" if others else ""))
+    return replace(worst, id=c.id, text=c.text, basis=basis,
+                   details={**(worst.details or {}), "parts": {n: v.verdict for n, v in subs}})
 
 
 def _na(c: Any, ev: Evidence, basis: str, missing: Sequence[str],

@@ -162,6 +162,7 @@ class Claim:
     efficiency_fraction: float | None = None
     efficiency_of: str | None = None
     note: str | None = None
+    also_kinds: tuple[str, ...] = ()
 
     def __post_init__(self) -> None:
         if self.kind not in CLAIM_KINDS:
@@ -1186,7 +1187,7 @@ def _article(word: str) -> str:
     return "an" if word[:1] in "aeiou" else "a"
 
 
-def parse_claim_text(text: str, claim_id: str = "c1") -> Claim:
+def parse_claim_text(text: str, claim_id: str = "c1", kind: str | None = None) -> Claim:
     """Turn a claim as worded in a listing into a structured :class:`Claim`.
 
     Recognised patterns (case-insensitive; one claim per text, the first kind in this order):
@@ -1252,7 +1253,11 @@ def parse_claim_text(text: str, claim_id: str = "c1") -> Claim:
         elif _SAFE_RE.search(text):
             note = "reads as a warning or a negation, not a safety claim"
         return Claim(id=claim_id, kind="unrecognised", text=text, structured=False, note=note)
-    kind = kinds[0]
+    # ``kind``: read the text as that one of the kinds it makes (each part of a text that
+    # makes several claims is judged; claims.evaluate_claims)
+    first = kind if kind in kinds else kinds[0]
+    kinds = [first] + [k for k in kinds if k != first]
+    kind = first
     kw: dict[str, Any] = {"id": claim_id, "kind": kind, "text": text, "structured": False}
     if kind == "inactivation":
         if "log" in q:
@@ -1312,6 +1317,7 @@ def parse_claim_text(text: str, claim_id: str = "c1") -> Claim:
                    "reduction_stated_as": "percent"})
     if others:
         notes.append(f"the text also makes {_article(others[0])} " + ", ".join(others)
-                     + " claim: give each as a separate claim to have it checked")
+                     + " claim: each is judged, and the worst decides")
+        kw["also_kinds"] = tuple(others)
     kw["note"] = "; ".join(notes)
     return Claim(**kw)
