@@ -435,7 +435,9 @@ def test_files_of_the_usual_shapes_read_as_written(tmp_path, shape, eol):
                                    "instrument": ({"Integration time": "100 ms",
                                                    "Distance": "20 cm", "Model": "invented"}
                                                   if shape == "metadata" else {}),
-                                   "origin": "measured"}
+                                   "origin": "measured",
+                                   # 'Model: invented' above the data marks the file invented
+                                   "invented": shape == "metadata"}
         assert spec.noise_floor == estimate_noise(v).sigma and spec.gaps_nm == ()
 
 
