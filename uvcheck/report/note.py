@@ -577,9 +577,11 @@ def _group_at(result: Result, section: Mapping[str, Any], where: str,
     base = result.get("hazards") or {}
     gid = rg.get("governing") or ""
     gov = {**base.get(gid, {}), **{a: b for a, b in (hz.get(gid) or {}).items() if b is not None}}
+    box = None
     if rg.get("is_lower_bound"):
         qual, why = _bound_words(result, section)
         detail = f"{g} {qual}; {why}."
+        box = why[:1].upper() + why[1:] + "."   # under a headline that already says "g qual"
     else:
         qual = ""
         words = GROUP_TEXT.get(g, "")
@@ -598,6 +600,7 @@ def _group_at(result: Result, section: Mapping[str, Any], where: str,
                                f"({LIMIT_WORDS.get(k, k)})")
         detail += "."
     return {"group": g, "rank": _RANK.get(g, -1), "qualifier": qual, "detail": detail,
+            "box_detail": box or detail,
             "is_lower_bound": bool(rg.get("is_lower_bound")), "where": where, "label": label,
             "governing": gid or None, "governing_t_max": gov.get("t_max_s") if gov else None,
             "text": f"{g} {qual}".strip()}
@@ -636,6 +639,7 @@ def risk_summary(result: Result) -> dict[str, Any] | None:
         # the values hold where the spectrum was measured: not the lamp's classification
         main["where"] = "the measurement position, not at the IEC 62471 assessment distance"
         main["detail"] += f" This is the group at the measurement position: {NO_DISTANCE_TEXT}."
+        main["box_detail"] += f" This is the group at the measurement position: {NO_DISTANCE_TEXT}."
     u = result.get("use_distance") or {}
     use = None
     if u.get("risk_group"):
@@ -701,7 +705,7 @@ def risk_summary(result: Result) -> dict[str, Any] | None:
     if est:
         overview = "Estimated: " + overview
     return {"group": first["group"], "headline": headline, "qualifier": first["qualifier"],
-            "where": where, "detail": first["detail"], "other": other,
+            "where": where, "detail": first["box_detail"], "other": other,
             "is_lower_bound": first["is_lower_bound"],
             "distance": here, "distance_rule": rule,
             "governing": first["governing"], "governing_t_max": first["governing_t_max"],
