@@ -102,7 +102,7 @@ def test_lower_bound_from_partial_coverage_says_measured_range():
                           "upper_bound": "RG2", "open_hazards": ["actinic_uv"]}}
     rk = note.risk_summary(res)
     assert rk["headline"] == "Exempt" and rk["qualifier"] == "on the measured range"
-    assert "the unmeasured range could raise it (up to RG2)" in rk["detail"].lower()
+    assert "the unmeasured range could raise it (up to rg2)" in rk["detail"].lower()
     assert "E_S only partly measured" in rk["detail"]
     # under the headline "Exempt on the measured range" the box does not say it again
     assert "Exempt on the measured range" not in rk["detail"]
