@@ -984,6 +984,8 @@ def says_ozone_made(text: str | None) -> bool:
     """
     t = text or ""
     return bool(_OZONE_MENTION_RE.search(t)) and not says_ozone_free(t)
+
+
 _SAFE_RE = re.compile(r"\bsafe\b|\bsafely\b|harmless|\bno\s+harm\b|-safe\b", re.I)
 _NEGATION_RE = re.compile(r"\b(not\s+safe|unsafe|do\s+not|don'?t|never\s+(?:look|expose)|avoid|"
                           r"harmful|dangerous|warning|caution)\b", re.I)
