@@ -125,6 +125,10 @@ def test_worse_group_in_the_overview_of_the_demo(tmp_path):
     cell = text_of(re.search(r'<td class="group">(.*?)</td>', row.group(0), re.S).group(1))
     assert cell.startswith(d["use_distance"]["risk_group"]["group"])
     assert "distance of use" in cell
+    # the overview carries a caution of its own, not only the notes it links to
+    from uvcheck.report.cautions import OVERVIEW_CAUTION
+
+    assert OVERVIEW_CAUTION in htmlmod.unescape(idx)
 
 
 # ---------------------------------------------------------------------------------------------

@@ -48,6 +48,13 @@ DOES_NOT_COVER_ESTIMATE = (
     "and harmful."
 )
 
+#: The caution on an overview of several notes (each note has its own, chosen for its lamp).
+OVERVIEW_CAUTION = (
+    "UV-C and strong UV-A or violet light can injure the eyes and skin without being felt at "
+    "the time. Never look at a lit lamp or shine it at people or animals, keep lamps away from "
+    "children, and read each product's own note for its cautions and exposure times."
+)
+
 #: Always shown.
 LOCAL_CODES = ("Local codes, regulations and the advice of licensed professionals take "
                "precedence over this note.")

@@ -87,9 +87,11 @@ def render_overview_html(title: str, items: Sequence[Mapping[str, Any]], *, inve
     """
     from markupsafe import Markup
 
+    from uvcheck.report.cautions import OVERVIEW_CAUTION
     from uvcheck.report.note import DOES_NOT_COVER, INVENTED_TEXT, LOCAL_CODES, SCREENING_TITLE
 
     t = environment().get_template("overview.html.j2")
     return t.render(title=title, items=items, invented=invented, invented_text=INVENTED_TEXT,
                     intro=intro, date=date, tool=tool, screening_title=SCREENING_TITLE,
-                    local_codes=LOCAL_CODES, does_not_cover=DOES_NOT_COVER, css=Markup(css()))
+                    local_codes=LOCAL_CODES, does_not_cover=DOES_NOT_COVER,
+                    overview_caution=OVERVIEW_CAUTION, css=Markup(css()))

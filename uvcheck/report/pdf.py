@@ -635,6 +635,9 @@ def render_overview_pdf(title: str, items: Sequence[Mapping[str, Any]], *, inven
         rows.append((it["title"], it["finding"], it["risk"], verdicts, Path(it["html"]).name))
     _table(pdf, ("Product", "Finding", "Risk group", "Claims", "Note"), rows, (16, 40, 14, 20, 10),
            size=7.2, bold_col=0)
+    from uvcheck.report.cautions import OVERVIEW_CAUTION
+
+    _box(pdf, "Caution", OVERVIEW_CAUTION, (255, 249, 232), (192, 138, 0), size=8.5)
     _box(pdf, "What this check does not cover", DOES_NOT_COVER + " " + LOCAL_CODES,
          (238, 242, 247), (47, 79, 127), size=8.5)
     _para(pdf, tool, size=7, color=MUTED)
