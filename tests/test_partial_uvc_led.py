@@ -58,3 +58,12 @@ def test_emission_claim_on_a_partly_measured_uvc_band_is_judged_on_the_emission(
     d = json.loads(r.stdout[r.stdout.index("{"):])
     assert d["germicidal"]["status"] == "partial"
     assert d["claims"][0]["verdict"] == "holds", d["claims"][0]["basis"]
+
+
+def test_uncertainty_block_keeps_the_bound_of_organism_times(led_file):
+    # UV-C measured only from 230 nm: the organism times are upper bounds (the organism table
+    # says '≤'), and the uncertainty block's 99.9 % lines say so too
+    r = CliRunner().invoke(app, ["assess", str(led_file)])
+    assert r.exit_code == 0, r.output
+    lines = [ln for ln in r.output.splitlines() if ln.strip().startswith("99.9 % of")]
+    assert lines and all(": ≤ " in ln for ln in lines), lines

@@ -92,7 +92,7 @@ from uvcheck.errors import ConfigurationError
 from uvcheck.geometry import scale_factor
 from uvcheck.limits import GROUPS, HazardLimits, get_limit_set, solid_angle_sr
 from uvcheck.spectrum import Spectrum, median, trapezoid_weights
-from uvcheck.units import format_duration, parse_quantity, sig
+from uvcheck.units import BOUND_SIGN, bounded_duration, format_duration, parse_quantity, sig
 
 DEFAULTS_FILE = "uncertainty_defaults.toml"
 #: Coverage probability of every interval. [-]
@@ -1943,8 +1943,11 @@ def render_uncertainty_lines(u: Mapping[str, Any], d: Mapping[str, Any] | None =
         for label, e in shown.items():
             iv = e.get("time_to_99_9_interval_95_s")
             if iv:
+                # the times carry the bound the organism table gives them (germicidal.times_are)
+                b = e.get("times_are")
                 out.append(f"  99.9 % of {e['organism']} ({label}): "
-                           f"{format_duration(e.get('time_to_99_9_s'))} (95 %: {_fmt_t(iv)})")
+                           f"{bounded_duration(e.get('time_to_99_9_s'), b)} "
+                           f"(95 %: {BOUND_SIGN.get(b or '', '')}{_fmt_t(iv)})")
     out.append(f"  Decision rule: {u['decision_rule']['statement']}")
     out.append(f"  {uncertainty_note(u)}")
     return out

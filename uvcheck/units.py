@@ -600,6 +600,22 @@ def to_trade(value_si: float | None, si_unit: str) -> tuple[float | None, str]:
     return (None if value_si is None else value_si * f), label
 
 
+#: The sign a time carries when it is a bound (``germicidal.times_are``: at_least / at_most).
+BOUND_SIGN = {"at_least": "≥ ", "at_most": "≤ "}
+
+
+def bounded_duration(seconds: float | None, bound: str | None = None) -> str:
+    """:func:`format_duration` with the sign of its bound ('≤ 5.9 min' for ``at_most``); no
+    time, no sign.
+
+    >>> bounded_duration(354.0, "at_most")
+    '≤ 5.9 min'
+    """
+    if seconds is None:
+        return format_duration(None)
+    return BOUND_SIGN.get(bound or "", "") + format_duration(seconds)
+
+
 def format_duration(seconds: float | None) -> str:
     """Human-readable duration: '45 s', '12 min', '3.2 h', '5.1 days', '> 1 year'.
 

@@ -21,7 +21,7 @@ from uvcheck.germicidal import UVC_EMITTING
 from uvcheck.limits import GROUPS
 from uvcheck.report.terminal import is_estimate, partly_measured, status_text, tmax_is_upper_bound
 from uvcheck.report.cautions import DOES_NOT_COVER, DOES_NOT_COVER_ESTIMATE, LOCAL_CODES, applicable
-from uvcheck.units import format_duration, sig, to_trade
+from uvcheck.units import bounded_duration, format_duration, sig, to_trade
 
 Result = Mapping[str, Any]
 
@@ -120,8 +120,7 @@ def duration(seconds: float | None, bound: str | None = None) -> str:
     """format_duration with a bound sign: at_least → '≥', at_most → '≤'."""
     if seconds is None:
         return "—"
-    sign = {"at_least": "≥ ", "at_most": "≤ "}.get(bound or "", "")
-    return sign + format_duration(seconds)
+    return bounded_duration(seconds, bound)
 
 
 def place(d_m: float | None) -> str:

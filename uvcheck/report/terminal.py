@@ -8,7 +8,7 @@ from __future__ import annotations
 
 from typing import Any, Mapping, Sequence
 
-from uvcheck.units import format_duration, sig, to_trade
+from uvcheck.units import bounded_duration, format_duration, sig, to_trade
 
 STATUS_TEXT = {"complete": "measured", "partial": "partly measured (lower bound)",
                "not-covered": "not measured", "below-detection": "below detection limit",
@@ -463,8 +463,7 @@ ROWS_PER_MEDIUM = 4
 def _time_cell(e: dict, key: str, percent: str) -> str:
     t = e.get(key)
     if t is not None:
-        pre = {"at_least": "≥ ", "at_most": "≤ "}.get(e.get("times_are"), "")
-        return pre + format_duration(t)
+        return bounded_duration(t, e.get("times_are"))
     why = (e.get("time_missing_reason") or {}).get(percent) or ""
     if why.startswith("not reached") and e.get("max_log_reduction") is not None:
         return f"not reached (data ≤ {e['max_log_reduction']:g} log)"
