@@ -66,3 +66,20 @@ def test_cct_refused_for_violet_led():
     s = Spectrum(wl, np.exp(-0.5 * ((wl - 395) / 6) ** 2), "irradiance")
     p = photometry(s, 0.2)
     assert p.cct_K is None and "not a white source" in p.cct_note
+
+
+def test_no_chromaticity_when_the_visible_output_is_below_detection():
+    """A UV-C LED whose visible band is noise got 'CCT 5879 K, Duv +0.0437', the colour of the
+    noise. Where the luminous value is below its detection limit (3 σ, IUPAC convention) no
+    chromaticity is given. Invented spectrum."""
+    import numpy as np
+
+    from uvcheck.photometry import photometry
+    from uvcheck.spectrum import Spectrum
+
+    wl = np.arange(230.0, 850.0, 0.5)
+    rng = np.random.default_rng(21)
+    v = 1.8e-3 * np.exp(-0.5 * ((wl - 266) / 5.2) ** 2) + rng.normal(0, 1.5e-6, wl.size)
+    ph = photometry(Spectrum(wl, v, "irradiance", noise_floor=1.5e-6))
+    assert ph.status == "below-detection"
+    assert ph.x is None and ph.cct_K is None and "detection limit" in ph.cct_note

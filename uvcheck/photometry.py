@@ -167,7 +167,12 @@ def photometry(spectrum: Spectrum, visible_fraction: float | None = None) -> Pho
     S = X + Y + Z
     x = y = cct = duv = None
     note = None
-    if cov < 0.99:
+    status, value, why = _luminous_status(spectrum, qty, unit, val, cov, dl)
+    if status in ("below-detection", "not-meaningful"):
+        # a colour of the noise is no colour: no chromaticity where the visible output itself
+        # is not established (a UV-C lamp's visible band below its detection limit)
+        note = "no visible output above the detection limit"
+    elif cov < 0.99:
         note = f"V(λ) only {cov:.0%} covered by the measured range"
     elif not (S > 0 and X >= 0 and Y > 0 and Z >= 0):
         note = "no measurable visible output"
@@ -182,7 +187,6 @@ def photometry(spectrum: Spectrum, visible_fraction: float | None = None) -> Pho
             note = f"chromaticity too far from the Planckian locus (Duv {dv:+.3f}) for a CCT"
         else:
             cct, duv = t, dv
-    status, value, why = _luminous_status(spectrum, qty, unit, val, cov, dl)
     return Photometry(quantity=qty, unit=unit if spectrum.is_absolute else "relative",
                       value=value, coverage=cov, x=x, y=y, cct_K=cct, duv=duv, cct_note=note,
                       status=status, detection_limit=dl if spectrum.is_absolute else None,
