@@ -312,3 +312,16 @@ def test_a_lamps_life_is_not_a_treatment_time(text):
     c = parse_claim_text(text)
     assert c.kind == "inactivation" and c.time_s is None
     assert "lamp's life" in c.note
+
+
+@pytest.mark.parametrize("text, organism, time_s", [
+    ("Lampe UV-C 265nm, tue 99,9% des bactéries en 5 min", "bacteria", 300.0),
+    ("tötet 99,9 % der Keime in 10 Minuten", "germs", 600.0),
+    ("élimine 99% des germes en 2 heures à 1 m", "germs", 7200.0),
+])
+def test_french_and_german_kill_claims_are_read(text, organism, time_s):
+    # a French kill claim beside '265nm' was judged on the wavelength alone and 'held'; the
+    # kill words, generic organisms and time units of a short list of our own are now read
+    c = parse_claim_text(text)
+    assert c.kind == "inactivation" and c.organism == organism and c.time_s == time_s
+    assert c.reduction_fraction is not None

@@ -885,7 +885,11 @@ _LOG_RE = re.compile(rf"{_NUM}\s*-?\s*logs?(?:10)?\b|\blog\s*-?\s*{_NUM}\b", re.
 #: A count written with thousands groups ("1,000", "12 000"): areas, volumes, times, distances
 #: and powers; percentages keep the decimal comma ("99,9 %").
 _BIG = r"(\d{1,3}(?:[,\u00a0\u202f ]\d{3})+(?![\d,.])|\d+(?:[.,]\d+)?|\d+\s*/\s*\d+)"
-_TIME_RE = re.compile(rf"{_BIG}\s*(seconds?|secs?|s|minutes?|mins?|min|hours?|hrs?|h)\b", re.I)
+_TIME_RE = re.compile(rf"{_BIG}\s*(seconds?|secs?|s|minutes?|mins?|min|hours?|hrs?|h|"
+                      r"sekunden|minuten|stunden?|secondes?|heures?)\b", re.I)
+#: Time units of other languages, as the unit parser writes them.
+_FOREIGN_TIME = {"sekunden": "s", "minuten": "min", "stunde": "h", "stunden": "h",
+                 "seconde": "s", "secondes": "s", "heure": "h", "heures": "h"}
 #: Words after a time that make it a lamp's life, not a treatment time ("8000 hrs life").
 _LIFETIME_AFTER_RE = re.compile(r"^\W{0,3}(?:of\s+)?(?:\w+\s+)?(?:life(?:time|span)?|service|"
                                 r"lebensdauer|durée)", re.I)
@@ -912,7 +916,14 @@ _WL_RE = re.compile(r"(\d{3}(?:[.,]\d+)?)\s*nm\b", re.I)
 _POWER_RE = re.compile(rf"{_BIG}\s*(mW|W|watts?)\b")
 _KILL_RE = re.compile(r"\b(kill\w*|inactivat\w*|eliminat\w*|destroy\w*|remov\w*|disinfect\w*|"
                       r"sterili[sz]\w*|saniti[sz]\w*|neutrali[sz]\w*|reduc\w*|"
-                      r"get\s+rid\s+of|wipes?\s+out)\b", re.I)
+                      r"get\s+rid\s+of|wipes?\s+out|"
+                      # French and German wordings of the same (our own short list)
+                      r"tuent?|élimin\w*|détrui\w*|désinfect\w*|tötet|abtöt\w*|vernicht\w*|"
+                      r"beseitig\w*|desinfizier\w*)\b", re.I)
+#: Generic organism words of other languages, read as their English word.
+_FOREIGN_ORG = {"bactéries": "bacteria", "bacteries": "bacteria", "germes": "germs",
+                "microbes": "microbes", "bakterien": "bacteria", "keime": "germs",
+                "viren": "viruses", "erreger": "pathogens", "moisissures": "mold", "schimmel": "mold"}
 _SPECIFIC_ORG_RE = re.compile(
     r"\b(e\.?\s*coli|s(?:taph(?:ylococcus)?)?\.\s*aureus|staphylococcus\s+aureus|mrsa|"
     r"sars[\s-]*cov[\s-]*2|covid(?:[\s-]*19)?|coronavirus(?:es)?|influenza|flu\s+virus(?:es)?|"
@@ -921,7 +932,8 @@ _SPECIFIC_ORG_RE = re.compile(
     r"c\.?\s*diff(?:icile)?|tubercul\w*|dust\s+mites?|mites?)\b", re.I)
 _GENERIC_ORG_RE = re.compile(
     r"\b(germs?|bacteria|bacterium|virus(?:es)?|microbes?|micro-?organisms?|pathogens?|"
-    r"(?:mou?ld|fung(?:al|us))\s+spores?|bacterial\s+spores?|mou?lds?|fungi|fungus|spores?)\b",
+    r"(?:mou?ld|fung(?:al|us))\s+spores?|bacterial\s+spores?|mou?lds?|fungi|fungus|spores?|"
+    r"bact[ée]ries|germes|bakterien|keime|viren|erreger|moisissures|schimmel)\b",
     re.I)
 _AIR_RE = re.compile(r"\b(air(?:borne)?|aerosols?)\b", re.I)
 _SURFACE_RE = re.compile(r"\b(surfaces?|objects?|items?|phones?|toothbrush\w*|keyboards?|masks?|"
@@ -1090,11 +1102,13 @@ def _find_quantities(text: str) -> dict[str, Any]:
             spans.append(m.span())
             if (_LIFETIME_AFTER_RE.match(text[m.end():]) or _LIFETIME_BEFORE_RE.search(
                     text[:m.start()])):
+                unit = m.group(2).lower()
                 found.setdefault("lifetime_s", parse_quantity(
-                    f"{_big(m.group(1))} {m.group(2).lower()}", "time").value_si)
+                    f"{_big(m.group(1))} {_FOREIGN_TIME.get(unit, unit)}", "time").value_si)
                 continue  # the lamp's life, not how long a treatment takes
+            unit = m.group(2).lower()
             found.setdefault("time_s", parse_quantity(
-                f"{_big(m.group(1), found)} {m.group(2).lower()}", "time").value_si)
+                f"{_big(m.group(1), found)} {_FOREIGN_TIME.get(unit, unit)}", "time").value_si)
     if "time_s" not in found:
         for m in _VAGUE_TIME_RE.finditer(text):
             if free(m):
@@ -1118,7 +1132,8 @@ def _find_quantities(text: str) -> dict[str, Any]:
 
 def _organism(text: str) -> tuple[str | None, bool]:
     spec = [m.group(0) for m in _SPECIFIC_ORG_RE.finditer(text)]
-    gen = [m.group(0).lower() for m in _GENERIC_ORG_RE.finditer(text)]
+    gen = [_FOREIGN_ORG.get(m.group(0).lower(), m.group(0).lower())
+           for m in _GENERIC_ORG_RE.finditer(text)]
     names = list(dict.fromkeys(spec + gen))
     if not names:
         return None, False
