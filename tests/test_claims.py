@@ -221,3 +221,17 @@ def test_ozone_free_on_a_mercury_listing(other, verdict):
         assert v["oz"]["details"]["contradicted_by"] == "em"
     else:
         assert "envelope" in v["oz"]["basis"]
+
+
+def test_ozone_free_on_a_uv_c_led_listing_follows_the_technology_rule():
+    """A UV-C LED peaking at or above 255 nm emits nothing below 240 nm (technology table,
+    no_below_240_if_peak_above_nm, [memory]); the envelope-glass caveat of mercury lamps does
+    not apply to it, so its 'ozone-free' claim on a listing alone holds on the model."""
+    from uvcheck.io.listing import LedArray, Listing, parse_claim_text
+    from uvcheck.screening import screen_listing_file
+
+    lst = Listing(name="275 nm LED test lamp (invented)", peak_wavelength_nm=275.0,
+                  leds=LedArray(count=10), electrical_power_W=5.0,
+                  claims=(parse_claim_text("ozone-free", "c1"),))
+    v = screen_listing_file(lst).to_dict()["claims"][0]
+    assert v["verdict"] == "holds", v["basis"]

@@ -1253,10 +1253,12 @@ def _ozone(c: Any, ev: Evidence) -> Verdict:
                        {"contradicted_by": own.id},
                        rule="the listing's own statements (at most 'unlikely')")
     if status == "absent" and r.evidence != "measured":
-        from uvcheck.germicidal import technologies
+        from uvcheck.features import peak_info
+        from uvcheck.germicidal import rules_out_below_240, technologies
 
         tech = technologies().get(r.technology or "", {})
-        if tech.get("below_240") == "possible":
+        peak = peak_info(r.spectrum).peak_nm
+        if tech.get("below_240") == "possible" and not rules_out_below_240(r.technology, peak):
             # the model leaves out what only the envelope glass decides
             return _na(c, ev, f"a {tech.get('name', r.technology)} can emit below 240 nm "
                               f"({tech.get('below_240_source', '')}); the nominal model "

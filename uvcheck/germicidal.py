@@ -714,6 +714,16 @@ def detect_technology(spectrum: Spectrum) -> str | None:
     return None
 
 
+def rules_out_below_240(tech_id: str | None, uvc_peak_nm: float | None) -> bool:
+    """Whether the technology table says this emitter has no output below 240 nm: always
+    (``below_240 = "no"``), or at a UV-C peak at or above its ``no_below_240_if_peak_above_nm``
+    (a UV-C LED peaking at 255 nm or more; data/technologies.toml gives the source)."""
+    tech = technologies().get(tech_id or "", {})
+    edge = tech.get("no_below_240_if_peak_above_nm")
+    return tech.get("below_240") == "no" or (
+        edge is not None and uvc_peak_nm is not None and uvc_peak_nm >= edge)
+
+
 def _ozone(spec: Spectrum, uvc: Reading, total: float, tech_id: str | None,
            uvc_peak_nm: float | None, artefact: bool, tech_given: bool = True,
            undecided_uvc: bool = False) -> Ozone:
@@ -733,9 +743,7 @@ def _ozone(spec: Spectrum, uvc: Reading, total: float, tech_id: str | None,
         ref = uvc.apparent if uvc.apparent > 0 else total
         present = r.value > dl and ref > 0 and r.value > MIN_SIGNIFICANT_SHARE * ref
     tech = technologies().get(tech_id or "", {})
-    tech_no = tech.get("below_240") == "no" or (
-        tech.get("no_below_240_if_peak_above_nm") is not None and uvc_peak_nm is not None
-        and uvc_peak_nm >= tech["no_below_240_if_peak_above_nm"])
+    tech_no = rules_out_below_240(tech_id, uvc_peak_nm)
     if present and not artefact:
         return Ozone("present", "measured" if _seen(spec) == "measured" else "modelled", below, unit, checked, covers_185,
                      f"output below 240 nm is present ({sig(below)} {unit} over "
