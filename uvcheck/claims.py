@@ -43,12 +43,12 @@ import math
 import re
 from dataclasses import dataclass, field, replace
 from functools import cached_property
-from typing import Any, Iterable, Sequence
+from typing import Any, Iterable, Mapping, Sequence
 
 from uvcheck.conditions import WORKDAY_S, Conditions
 from uvcheck.errors import ConfigurationError
-from uvcheck.germicidal import UVC_EMITTING
-from uvcheck.spectrum import Spectrum, integrate
+from uvcheck.germicidal import UVC_BAND_NM, UVC_EMITTING
+from uvcheck.spectrum import Spectrum, covers_all, integrate
 from uvcheck.units import format_duration, sig
 
 VERDICTS = ("holds", "unlikely", "cannot-hold", "not-assessable")
@@ -525,7 +525,7 @@ def evaluate_claims(evidence: Evidence) -> list[Verdict]:
     out = []
     for c in evidence.listing.claims:
         v = _judge_one(c, evidence)
-        if getattr(c, "also_kinds", ()) and not c.structured and c.text:
+        if c.also_kinds:   # only the free-text reader fills it
             v = _every_kind(c, v, evidence)
         out.append(v)
     return out
@@ -548,17 +548,10 @@ def _every_kind(c: Any, first: Verdict, ev: Evidence) -> Verdict:
 
     subs = [(c.kind, first)]
     for k in c.also_kinds:
-        part = parse_claim_text(c.text, c.id, kind=k)
-        if part.kind == k:
-            subs.append((k, _judge_one(part, ev)))
-    if len(subs) == 1:
-        return first
-    name, worst, others = _worst_part(subs)
-    basis = (f"the text makes {len(subs)} claims ({', '.join(n for n, _ in subs)}) and holds "
-             f"only as far as each does; the {name} part decides it: {worst.basis}"
-             + (f" (the others: {others})" if others else ""))
-    return replace(worst, id=c.id, text=c.text, basis=basis,
-                   details={**(worst.details or {}), "parts": {n: v.verdict for n, v in subs}})
+        subs.append((k, _judge_one(parse_claim_text(c.text, c.id, kind=k), ev)))
+    return _in_parts(c, subs, f"the text makes {len(subs)} claims "
+                              f"({', '.join(n for n, _ in subs)}) and holds only as far as each does",
+                     "the {name} part", "parts")
 
 
 def _na(c: Any, ev: Evidence, basis: str, missing: Sequence[str],
@@ -587,6 +580,19 @@ def _worst_part(subs: list[tuple[str, Verdict]]) -> tuple[str, Verdict, str]:
                                             nv[1].ratio if nv[1].ratio is not None else math.inf))
     others = "; ".join(f"{n}: {v.verdict}" for n, v in subs if v is not worst)
     return name, worst, others
+
+
+def _in_parts(c: Any, subs: list[tuple[str, Verdict]], intro: str, decides: str,
+              details_key: str, extra: Mapping[str, Any] | None = None) -> Verdict:
+    """The verdict of a claim judged in parts: the worst part's (:func:`_worst_part`), with a
+    basis '<intro>; <decides> decides it: <its basis> (the others: …)' and the parts' verdicts
+    under ``details[details_key]`` (our own rule: a claim holds only as far as every part)."""
+    name, worst, others = _worst_part(subs)
+    basis = (f"{intro}; {decides.format(name=name)} decides it: {worst.basis}"
+             + (f" (the others: {others})" if others else ""))
+    return replace(worst, id=c.id, text=c.text, basis=basis,
+                   details={**(worst.details or {}), **(extra or {}),
+                            details_key: {n: v.verdict for n, v in subs}})
 
 
 def _emission_parts(c: Any) -> list[tuple[str, Any]]:
@@ -622,18 +628,14 @@ def _emission(c: Any, ev: Evidence) -> Verdict:
     if not parts:
         return _one_emission(c, ev)
     subs = [(name, _one_emission(sub, ev)) for name, sub in parts]
-    name, worst, others = _worst_part(subs)
     nb = sum(1 for n, p in parts if p.wavelength_nm is None)
     nw = len(parts) - nb
     what = " and ".join(x for x in (
         f"{nb} band{'s' if nb > 1 else ''}" if nb else "",
         f"{nw} wavelength{'s' if nw > 1 else ''}" if nw else "") if x)
-    basis = (f"the claim names {what} ({', '.join(n for n, _ in parts)}) and the lamp must emit "
-             f"at each; {name} decides it: {worst.basis}"
-             + (f" (the others: {others})" if others else ""))
-    return replace(worst, id=c.id, text=c.text, basis=basis,
-                   details={**(worst.details or {}), "decided_by": name,
-                            "parts": {n: v.verdict for n, v in subs}})
+    return _in_parts(c, subs, f"the claim names {what} ({', '.join(n for n, _ in parts)}) and "
+                              "the lamp must emit at each", "{name}", "parts",
+                     {"decided_by": _worst_part(subs)[0]})
 
 
 #: Below this share of a nominal reading's output a band is taken as one the stated technology
@@ -686,17 +688,15 @@ def _one_emission(c: Any, ev: Evidence) -> Verdict:
     pk = peak_info(r.spectrum)
     uvc_ok = g.status in UVC_EMITTING  # (partial: found, part of the band unmeasured)
     d_lo, d_hi = r.spectrum.range_nm
-    if lam is not None and not (d_lo <= lam <= d_hi and not any(
-            a <= lam <= b for a, b in r.spectrum.gaps_nm)):
+    if lam is not None and not any(a <= lam <= b for a, b in r.spectrum.segments()):
         # the stated wavelength itself was not measured: no presence test can be made there
         return _na(c, ev, f"the stated {lam:g} nm lies outside the measured "
                           f"{d_lo:g}–{d_hi:g} nm" + (" (or in a gap of the data)"
                                                      if d_lo <= lam <= d_hi else ""),
                    ("a spectrum covering the stated wavelength",))
-    if (lam is None and band is not None and band[1] <= 280.0 and not uvc_ok
+    if (lam is None and band is not None and band[1] <= UVC_BAND_NM[1] and not uvc_ok
             and g.status == "not-assessed"):
-        cover = integrate(r.spectrum, *band).coverage
-        if cover < 1.0 - 1e-9:
+        if not covers_all(integrate(r.spectrum, *band).coverage):
             # nothing found in the measured part, but UV-C is not ruled out (the germicidal
             # statement says why): the part of the band not measured could hold the emission
             return _na(c, ev, g.statement_clause(), ("a spectrum covering the whole band",))
@@ -704,7 +704,7 @@ def _one_emission(c: Any, ev: Evidence) -> Verdict:
         tol = max(PEAK_TOLERANCE_NM, (pk.fwhm_nm or 0.0) / 2)
         near = [ln for ln in lines if abs(ln.wavelength_nm - lam) <= tol]
         close = [ln for ln in lines if abs(ln.wavelength_nm - lam) <= tol + PEAK_UNLIKELY_NM]
-        in_uvc = lam < 280.0
+        in_uvc = lam < UVC_BAND_NM[1]
         if in_uvc and not uvc_ok:
             ub = g.uvc.upper_bound
             return Verdict(c.id, c.kind, c.text, "cannot-hold",
@@ -736,7 +736,7 @@ def _one_emission(c: Any, ev: Evidence) -> Verdict:
     integ = integrate(r.spectrum, lo, hi)
     tot = integrate(r.spectrum, *r.spectrum.range_nm).value
     dl = integ.detection_limit or 0.0
-    uvc_band = hi <= 280.0
+    uvc_band = hi <= UVC_BAND_NM[1]
     if integ.coverage <= 0:
         return _na(c, ev, f"the spectrum does not cover {lo:g}–{hi:g} nm", ("a spectrum covering the band",))
     if uvc_band and not uvc_ok:
@@ -1044,12 +1044,8 @@ def _each_organism(c: Any, ev: Evidence, names: list[str]) -> Verdict:
     for n in names:
         generic = bool(_GENERIC_ORG_RE.search(n)) and not _SPECIFIC_ORG_RE.search(n)
         subs.append((n, _one_inactivation(replace(c, organism=n, organism_generic=generic), ev)))
-    name, worst, others = _worst_part(subs)
-    basis = (f"the claim names {len(names)} organisms ({', '.join(names)}) and must hold for each; "
-             f"{name} decides it: {worst.basis}" + (f" (the others: {others})" if others else ""))
-    return replace(worst, id=c.id, text=c.text, basis=basis,
-                   details={**(worst.details or {}),
-                            "organisms": {n: v.verdict for n, v in subs}})
+    return _in_parts(c, subs, f"the claim names {len(names)} organisms ({', '.join(names)}) and "
+                              "must hold for each", "{name}", "organisms")
 
 
 def _one_inactivation(c: Any, ev: Evidence) -> Verdict:
@@ -1338,7 +1334,7 @@ def _safety(c: Any, ev: Evidence) -> Verdict:
         # the estimate is within the limits because the seller says a filter removes the
         # longer-wavelength UV-C; a listing cannot show that filter (as the envelope glass
         # of a mercury lamp for 'ozone-free')
-        return _na(c, ev, f"{v.basis.split('; decided by')[0]}, but only because the far-UVC "
+        return _na(c, ev, f"{v.basis}, but only because the far-UVC "
                           "filter the listing states removes the longer-wavelength UV-C, which "
                           "a listing cannot show",
                    ("a measured spectrum of the lamp as sold, through its filter",),
