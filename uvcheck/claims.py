@@ -321,6 +321,8 @@ class Reading:
 
         key = ("room-lamp", box, placement)
         if key not in self._cache:
+            # a ceiling lamp 5 cm below the ceiling, or at 90 % of a low room's height (our own
+            # rule for a typical surface mounting)
             ceiling = (box.width_m / 2, box.length_m / 2,
                        max(box.height_m - 0.05, box.height_m * 0.9))
             # the flux comes from the irradiance with the lamp's own emission pattern (a
@@ -356,6 +358,7 @@ class Reading:
         key = ("room", box, placement)
         if key not in self._cache:
             lamp = self._room_lamp(box, placement)
+            # 40 grid steps over the room's longer side (our own rule)
             self._cache[key] = rm.evaluate_room(box, lamp, grid_step_m=max(box.width_m, box.length_m) / 40)
         return self._cache[key]
 
@@ -797,7 +800,7 @@ def _listing_against(c: Any, ev: Evidence, lam: float | None,
     found = []
     if is_led and dv is not None:
         found.append(pl.check_die_voltage(w, dv))
-    if is_led and w < 300.0:
+    if is_led and w < pl.LED_UV_CHECK_BELOW_NM:
         found.append(pl.check_led_wavelength(w))
     if L.cover is not None and L.cover != "none":
         w_cover = lam if lam is not None else band[1]  # type: ignore[index]
@@ -1217,6 +1220,11 @@ def _coverage(c: Any, ev: Evidence) -> Verdict:
 
 # --- ozone ------------------------------------------------------------------------------------
 
+#: What decides an ozone-free claim the data cannot.
+OZONE_EVIDENCE_NEEDED = ("a measurement down to 180 nm, or the lamp glass (ozone-free doped "
+                         "quartz)",)
+
+
 def _own_ozone_statement(c: Any, ev: Evidence) -> Any | None:
     """Another claim of the same listing that says the lamp makes ozone (or emits 185 nm):
     "produces ozone", "not ozone-free", "UV-C + ozone", "254nm + 185nm"; an ozone-free wording
@@ -1244,8 +1252,7 @@ def _ozone(c: Any, ev: Evidence) -> Verdict:
         return Verdict(c.id, c.kind, c.text, "unlikely", None, None, None,
                        f"the listing's own claim {own.id} ({own.text!r}) says the lamp makes "
                        f"ozone or emits at 185 nm; the data say: {note}", (),
-                       ("a measurement down to 180 nm, or the lamp glass (ozone-free doped "
-                        "quartz)",), ev_kind, r.label,
+                       OZONE_EVIDENCE_NEEDED, ev_kind, r.label,
                        {"contradicted_by": own.id},
                        rule="the listing's own statements (at most 'unlikely')")
     if status == "absent" and r.evidence != "measured":
@@ -1259,8 +1266,7 @@ def _ozone(c: Any, ev: Evidence) -> Verdict:
             return _na(c, ev, f"a {tech.get('name', r.technology)} can emit below 240 nm "
                               f"({tech.get('below_240_source', '')}); the nominal model "
                               "assumes an envelope that blocks it, which a listing cannot show",
-                       ("a measurement down to 180 nm, or the lamp glass (ozone-free doped "
-                        "quartz)",))
+                       OZONE_EVIDENCE_NEEDED)
     if status == "absent":
         what = (f"the nominal model of this technology ({r.technology}) has no output below "
                 "240 nm" if r.evidence != "measured" else f"no output below 240 nm: {note}")
@@ -1273,13 +1279,15 @@ def _ozone(c: Any, ev: Evidence) -> Verdict:
                        ev_kind, r.label, rule=RULE_PRESENCE)
     return Verdict(c.id, c.kind, c.text, "not-assessable", None, None, None,
                    f"cannot be known from the data: {note}", (),
-                   ("a measurement down to 180 nm, or the lamp glass (ozone-free doped quartz)",),
+                   OZONE_EVIDENCE_NEEDED,
                    ev_kind, r.label)
 
 
 # --- safety -----------------------------------------------------------------------------------
 
-#: The hazards a safety claim at a distance is judged on.
+#: The hazards a safety claim at a distance is judged on: the eye and skin hazards of IEC
+#: 62471:2006 clause 4.3 that a lamp's irradiance gives; E_H, the skin's thermal hazard, is
+#: left out because its limit covers exposures up to 10 s only (from memory).
 SAFETY_HAZARDS = ("actinic_uv", "near_uv", "blue_light", "retinal_thermal", "ir_eye")
 #: What a safety claim on an estimate needs when only some of its cases stay within the limits.
 SAFETY_MEASUREMENT_NEEDED = ("a measured spectrum of the lamp as sold (through any cover), with "

@@ -278,6 +278,11 @@ def check_die_voltage(wavelength_nm: float, die_voltage_V: float) -> Finding:
                    rule="physics: photon energy E = hc/λ against the die voltage")
 
 
+#: Below this stated wavelength an LED's wavelength is checked against what LEDs reach (UV-C
+#: LEDs sit at about 255–285 nm, NOTES.md §6 [doc]); the 300 nm edge is our own rule. [nm]
+LED_UV_CHECK_BELOW_NM = 300.0
+
+
 def check_led_wavelength(wavelength_nm: float) -> Finding:
     """Is this a wavelength an LED product plausibly has? Flags the "254 nm LED".
 
@@ -667,7 +672,7 @@ def infer_technology(listing: Any) -> tuple[str | None, str]:
                 lo, hi = t["peak_window_nm"]
                 if lo <= lam <= hi:
                     return k, f"LEDs stating {_nm(lam)} nm: {k} (peak window {lo:g}–{hi:g} nm)"
-        if lam < 300.0:
+        if lam < LED_UV_CHECK_BELOW_NM:
             return "uvc_led", f"LEDs stating {_nm(lam)} nm (UV): uvc_led"
         return None, f"no LED technology in data/technologies.toml covers {_nm(lam)} nm"
     if lam is None:
@@ -748,7 +753,7 @@ def screen_listing(listing: Any) -> PlausibilityReport:
         findings.append(fv)
         dv = fv.available.value if fv.available is not None else None
     if is_led and lam is not None:
-        if lam < 300.0:
+        if lam < LED_UV_CHECK_BELOW_NM:
             findings.append(check_led_wavelength(lam))
         if dv is not None:
             f = check_die_voltage(lam, dv)

@@ -13,6 +13,7 @@ from __future__ import annotations
 from typing import Any
 
 from uvcheck.assessment import AssessOptions, Assessment, assess
+from uvcheck.limits import DEFAULT_LIMIT_SET
 from uvcheck.spectrum import integrate
 
 
@@ -46,7 +47,7 @@ def _summary(readings: Any, limit_set: str) -> list[dict[str, Any]]:
     return out
 
 
-def screen_listing_file(listing: Any, limit_set: str = "iec62471_2006") -> Assessment:
+def screen_listing_file(listing: Any, limit_set: str = DEFAULT_LIMIT_SET) -> Assessment:
     """The screening assessment of a listing (see the module docstring)."""
     from uvcheck.claims import judge, readings_from_listing
     from uvcheck.nominal import ESTIMATE_LABEL, listing_readings

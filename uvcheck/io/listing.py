@@ -962,11 +962,16 @@ _OZONE_VERB_NEGATED_RE = re.compile(r"(?:\bnot|n't|\bnever|\bno)\s+(?:\w+\s+)?$"
 _OZONE_MENTION_RE = re.compile(rf"\b{_OZ}\b|\bozonfrei|\b18[45](?:\.\d)?\s*nm", re.I)
 
 
+#: How far before "produces ozone" a negation is looked for ("does not produce"): two short
+#: words (our own rule). [characters]
+NEGATION_REACH = 24
+
+
 def _makes_ozone_wording(text: str) -> bool:
     """The text says outright that the lamp makes ozone ("produces ozone", "not ozone-free")."""
     if _OZONE_NOT_FREE_RE.search(text):
         return True
-    return any(not _OZONE_VERB_NEGATED_RE.search(text[max(0, m.start() - 24):m.start()])
+    return any(not _OZONE_VERB_NEGATED_RE.search(text[max(0, m.start() - NEGATION_REACH):m.start()])
                for m in _OZONE_MAKES_RE.finditer(text))
 
 
