@@ -52,3 +52,13 @@ def test_coarse_grids_allow_the_width_they_impose():
     assert line_like(10.0, 5.0) and not line_like(10.0, 0.5)
     assert line_like(LINE_MAX_FWHM_NM, 0.1) and not line_like(LINE_MAX_FWHM_NM + 0.1, 0.1)
     assert line_like(None, 1.0)
+
+
+def test_a_full_line_list_keeps_the_strongest_continuum_peaks():
+    # a model's discrete lines come first; the continuum peaks that fill the rest of the list
+    # are the strongest ones, not the shortest-wavelength ones (invented spectrum)
+    wl = np.arange(300.0, 800.0, 0.5)
+    v = sum(gaussian(wl, c, 1.0, a) for c, a in ((320, 1e-4), (340, 2e-4), (600, 5e-2), (700, 4e-2)))
+    s = Spectrum(wl, v + 1e-9, "irradiance", noise_floor=1e-9, lines=((253.7, 1.0),))
+    got = [round(ln.wavelength_nm) for ln in find_lines(s, min_relative=1e-4, max_lines=3)]
+    assert got == [254, 600, 700]

@@ -322,6 +322,10 @@ def find_lines(spectrum: Spectrum, min_snr: float = 5.0, min_relative: float = 0
         _find_lines(spectrum, min_snr, min_relative, max_lines))))
 
 
+#: A continuum peak this close to a nominal model's discrete line is that line (our own rule). [nm]
+SAME_LINE_NM = 1.0
+
+
 def _find_lines(spectrum: Spectrum, min_snr: float, min_relative: float,
                 max_lines: int) -> list[DetectedLine]:
     # a nominal line source reports its lines; the peaks of a continuum beside them (a
@@ -334,9 +338,10 @@ def _find_lines(spectrum: Spectrum, min_snr: float, min_relative: float,
     if not discrete:
         return found
     rest = [d for d in found
-            if not any(abs(d.wavelength_nm - x.wavelength_nm) < 1.0 for x in discrete)]
-    keep = discrete + rest[:max(0, max_lines - len(discrete))]
-    return sorted(keep, key=lambda d: d.wavelength_nm)
+            if not any(abs(d.wavelength_nm - x.wavelength_nm) < SAME_LINE_NM for x in discrete)]
+    # the strongest continuum peaks fill the list (found is sorted by wavelength)
+    rest = sorted(rest, key=lambda d: -d.height)[:max(0, max_lines - len(discrete))]
+    return sorted(discrete + rest, key=lambda d: d.wavelength_nm)
 
 
 def _continuum_peaks(spectrum: Spectrum, min_snr: float, min_relative: float,
