@@ -240,7 +240,7 @@ def assess(spectrum: Spectrum, conditions: Conditions | None = None, report: Any
     sections["hazards"] = hz
     g = evaluate_germicidal(spectrum, conditions, technology=options.technology)
     sections["germicidal"] = g
-    if any(a.kind != "data-edge" for a in g.artefacts):
+    if any(a.is_stray for a in g.artefacts):
         notes.append("The UV-C signal looks like stray light or noise (see germicidal.artefacts); "
                      "the actinic UV hazard E_S still counts it, which can only overstate that "
                      "hazard, never understate it.")

@@ -215,6 +215,10 @@ class EffectiveReading:
         return d
 
 
+#: Artefact kinds that leave the UV-C undecided rather than read it as stray light.
+UNDECIDED_KINDS = frozenset({"data-edge"})
+
+
 @dataclass(frozen=True)
 class Artefact:
     """A reason to read an apparent UV-C signal as stray light or noise.
@@ -227,6 +231,11 @@ class Artefact:
 
     kind: str
     detail: str
+
+    @property
+    def is_stray(self) -> bool:
+        """A reason to read the UV-C as stray light or noise; ``data-edge`` is undecided."""
+        return self.kind not in UNDECIDED_KINDS
 
     def to_dict(self) -> dict:
         return {"kind": self.kind, "detail": self.detail}
@@ -901,7 +910,7 @@ def evaluate_germicidal(spectrum: Spectrum, conditions: Conditions | None = None
     artefacts = () if spec.wavelength_nm.size <= 2 else uvc_artefacts(spec)
     # a signal rising into the start of data that begin inside UV-C is undecided, not stray
     # light: the readings keep their (partial) values and the status says why it is open
-    art = any(a.kind != "data-edge" for a in artefacts)
+    art = any(a.is_stray for a in artefacts)
     uvc = _reading(spec, "uvc", "UV-C 200–280 nm", *UVC_BAND_NM, None, total, art)
     far = _reading(spec, "far_uvc", "far-UVC 200–235 nm", *FAR_UVC_BAND_NM, None, total, art)
     effective = tuple(_effective(spec, a, total, art, REFERENCE_WAVELENGTH_NM, UVC_BAND_NM)
@@ -922,7 +931,7 @@ def evaluate_germicidal(spectrum: Spectrum, conditions: Conditions | None = None
         uvc_lines = [ln for ln in spec.lines if UVC_BAND_NM[0] <= ln.wavelength_nm < UVC_BAND_NM[1]]
         uvc_peak = max(uvc_lines, key=lambda x: x.value).wavelength_nm if uvc_lines else None
     ozone = _ozone(spec, uvc, total, tech_id, uvc_peak, art, tech_given=technology is not None,
-                   undecided_uvc=any(a.kind == "data-edge" for a in artefacts))
+                   undecided_uvc=any(not a.is_stray for a in artefacts))
     efficiency = _efficiency(uvc, spec, position, cond, tech_id)
     status, statement = _status(spec, uvc, far, artefacts, position, effective, vb)
     # --- inactivation (evaluated on first use: OrganismPlan) ---------------------------------
@@ -1090,7 +1099,7 @@ def _status(spec: Spectrum, uvc: Reading, far: Reading, artefacts: tuple[Artefac
         # nothing above the noise in the measured part: that says nothing of the part not
         # measured, so UV-C is not ruled out (missing range is never read as zero)
         return _not_ruled_out("the noise", lo)
-    if artefacts and all(a.kind == "data-edge" for a in artefacts):
+    if artefacts and not any(a.is_stray for a in artefacts):
         a, b = UVC_BAND_NM
         return "not-assessed", (f"UV-C not established: {artefacts[0].detail}; {a:g}–{lo:g} nm "
                                 "was not measured, so UV-C can be neither confirmed nor ruled "

@@ -807,7 +807,7 @@ def evaluate_room(room: Box, lamp: RoomLamp, *, reflectance: float = DEFAULT_REF
         occupant["note"] += (" For far-UVC the ACGIH 2022 threshold limit values (at 222 nm about "
                              "161 mJ/cm² for the eye and 479 mJ/cm² for the skin; from memory, via "
                              "a secondary source) are higher than this IEC/ICNIRP limit.")
-    if bound and any(a.kind != "data-edge" for a in g.artefacts):
+    if bound and any(a.is_stray for a in g.artefacts):
         occupant["note"] += (" E_S counts the apparent UV-C signal, which is likely stray light: "
                              "that can only overstate the actinic exposure, never understate it.")
     if abs(geom.position_m[2] - eye_height_m) < 0.3:

@@ -95,7 +95,9 @@ def _suspect_regions(result: Result) -> list[tuple[float, float, str]]:
     """Wavelength regions to mark, from the germicidal artefacts (UV-C 200–280 nm)."""
     g = result.get("germicidal") or {}
     out = []
-    stray = [a for a in g.get("artefacts") or [] if a.get("kind") != "data-edge"]
+    from uvcheck.germicidal import UNDECIDED_KINDS
+
+    stray = [a for a in g.get("artefacts") or [] if a.get("kind") not in UNDECIDED_KINDS]
     if stray:
         kinds = ", ".join(sorted({a.get("kind", "") for a in stray}))
         out.append((200.0, 280.0, f"likely stray light ({kinds})"))
