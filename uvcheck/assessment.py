@@ -79,8 +79,9 @@ class Assessment:
     def line_warnings(self) -> tuple[str, ...]:
         """A warning per peak that may be a stronger line's second diffraction order (of a
         measured spectrum only: a nominal model built from a listing has no spectrometer)."""
-        meta = self.spectrum.meta or {}
-        if meta.get("estimate") or meta.get("origin") == "nominal":
+        from uvcheck.spectrum import is_nominal
+
+        if is_nominal(self.spectrum):
             return ()
         return tuple(
             f"the peak at {suspect.wavelength_nm:.1f} nm lies at twice the "

@@ -45,7 +45,7 @@ from uvcheck.geometry import (distance_scaling, far_field_deviation, flux_from_i
 from uvcheck.inactivation import (InactivationEstimate, Organism, estimate, get_organism,
                                   most_susceptible)
 from uvcheck.inactivation import organisms as organism_table
-from uvcheck.spectrum import (Integral, Spectrum, integrate, median, quantile, restricted, scaled,
+from uvcheck.spectrum import (Integral, Spectrum, integrate, is_nominal, median, quantile, restricted, scaled,
                               total_integral)
 from uvcheck.units import sig, to_trade
 from uvcheck.weighting import Weighting, constant_weighting, get_weighting
@@ -1070,8 +1070,7 @@ def _fmt(value: float | None, unit: str) -> str:
 def _seen(spec: Spectrum) -> str:
     """How the spectrum's output is known, for the wording: "estimated" for a nominal
     spectrum built from a listing's statements, else "measured"."""
-    meta = spec.meta or {}
-    return "estimated" if meta.get("estimate") or meta.get("origin") == "nominal" else "measured"
+    return "estimated" if is_nominal(spec) else "measured"
 
 
 def _not_ruled_out(above: str, lo: float) -> tuple[str, str]:

@@ -243,6 +243,12 @@ _SPECTRUM_FIELDS = tuple(f.name for f in fields(Spectrum))
 Weight = Callable[[np.ndarray], np.ndarray]
 
 
+def is_nominal(spectrum: "Spectrum") -> bool:
+    """A spectrum modelled from a listing's stated data (an estimate), not a measurement."""
+    meta = spectrum.meta or {}
+    return bool(meta.get("estimate")) or meta.get("origin") == "nominal"
+
+
 def covers_all(coverage: float | None) -> bool:
     """True when a coverage (the measured share of a band or weighting) is the whole of it,
     to rounding: the one test of "complete" for integrals and for the readings reported from

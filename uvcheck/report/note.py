@@ -19,7 +19,8 @@ from typing import Any, Iterable, Mapping
 
 from uvcheck.germicidal import UVC_EMITTING
 from uvcheck.limits import GROUPS
-from uvcheck.report.terminal import is_estimate, partly_measured, status_text, tmax_is_upper_bound
+from uvcheck.report.terminal import (is_estimate, no_assessment_distance, partly_measured,
+                                     status_text, tmax_is_upper_bound)
 from uvcheck.report.cautions import DOES_NOT_COVER, DOES_NOT_COVER_ESTIMATE, LOCAL_CODES, applicable
 from uvcheck.units import bounded_duration, format_duration, sig, to_trade
 
@@ -140,13 +141,6 @@ def place(d_m: float | None) -> str:
 NO_DISTANCE_TEXT = ("no measurement distance was given, so the IEC 62471 assessment distance "
                     "could not be applied and this is not the lamp's IEC 62471 classification; "
                     "give the measurement distance (--distance)")
-
-
-def no_assessment_distance(result: Result) -> bool:
-    """The hazards hold at the measurement position, at an unknown distance, and not at the
-    IEC 62471 assessment distance (``evaluation.distance_m`` is None)."""
-    ev = result.get("evaluation") or {}
-    return bool(ev) and ev.get("distance_m") is None and bool(result.get("hazards"))
 
 
 # ---------------------------------------------------------------------------------------------

@@ -235,7 +235,7 @@ def tmax_text(hid: str, h: Mapping[str, Any]) -> str:
     """The t_max cell: '2.93 h', '> 8 h', 'unlimited', '—'; for a partly measured hazard
     '≤ 2.93 h', '> 8 h so far', 'unlimited so far' (the measured part alone gives it)."""
     if h.get("t_max_s") is not None:
-        return ("≤ " if tmax_is_upper_bound(h) else "") + format_duration(h["t_max_s"])
+        return bounded_duration(h["t_max_s"], "at_most" if tmax_is_upper_bound(h) else None)
     if h.get("status") in ("not-assessable", "not-applicable") or h.get("value") is None:
         return "—"
     tmax = "> 8 h" if hid == "actinic_uv" else "unlimited"
@@ -321,10 +321,12 @@ def render_hazards(hazards: dict, d: dict) -> list[str]:
             if h and h.get("value") is not None:
                 base = hazards.get(hid) or {}
                 h = {**base, **{k: v for k, v in h.items() if v is not None}}
-                t = format_duration(h["t_max_s"]) if h.get("t_max_s") is not None else "no time limit within the limit's range"
-                if tmax_is_upper_bound(h):
-                    t = ("≤ " + t + " (measured part only)" if h.get("t_max_s") is not None
-                         else t + " so far (measured part only)")
+                upper = tmax_is_upper_bound(h)
+                if h.get("t_max_s") is not None:
+                    t = bounded_duration(h["t_max_s"], "at_most" if upper else None)
+                else:
+                    t = "no time limit within the limit's range" + (" so far" if upper else "")
+                t += " (measured part only)" if upper else ""
                 out.append(f"  {h['symbol']} {_hazard_value(h)} {h['unit']}; t_max {t}")
     return out
 
