@@ -406,7 +406,7 @@ def summary_row(product: Product, result: Mapping[str, Any] | None, error: str |
 
 
 def _fill(row: dict[str, Any], result: Mapping[str, Any]) -> None:
-    from uvcheck.report.terminal import partly_measured
+    from uvcheck.spectrum import partly_measured
 
     row["status"] = "ok"
     row["origin"] = (result.get("input") or {}).get("origin")

@@ -243,6 +243,13 @@ _SPECTRUM_FIELDS = tuple(f.name for f in fields(Spectrum))
 Weight = Callable[[np.ndarray], np.ndarray]
 
 
+def partly_measured(block: Mapping[str, Any]) -> bool:
+    """A reading (its dict) whose band the data cover only in part: its coverage is given and
+    short of the whole (:func:`covers_all`)."""
+    cov = block.get("coverage")
+    return isinstance(cov, (int, float)) and not covers_all(cov)
+
+
 def is_nominal(spectrum: "Spectrum") -> bool:
     """A spectrum modelled from a listing's stated data (an estimate), not a measurement."""
     meta = spectrum.meta or {}

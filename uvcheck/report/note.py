@@ -19,8 +19,9 @@ from typing import Any, Iterable, Mapping
 
 from uvcheck.germicidal import UVC_EMITTING
 from uvcheck.limits import GROUPS
-from uvcheck.report.terminal import (is_estimate, no_assessment_distance, partly_measured,
-                                     status_text, tmax_is_upper_bound)
+from uvcheck.report.terminal import (is_estimate, no_assessment_distance, status_text,
+                                     tmax_is_upper_bound)
+from uvcheck.spectrum import partly_measured
 from uvcheck.report.cautions import DOES_NOT_COVER, DOES_NOT_COVER_ESTIMATE, LOCAL_CODES, applicable
 from uvcheck.units import bounded_duration, format_duration, sig, to_trade
 

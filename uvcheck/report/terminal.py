@@ -8,6 +8,7 @@ from __future__ import annotations
 
 from typing import Any, Mapping, Sequence
 
+from uvcheck.spectrum import partly_measured
 from uvcheck.units import bounded_duration, format_duration, sig, to_trade
 
 STATUS_TEXT = {"complete": "measured", "partial": "partly measured (lower bound)",
@@ -375,7 +376,7 @@ def _equivalent_span(eq: Mapping[str, Any], unit: str = "W m-2") -> str:
             if f"{sign}{kind}: {reason}" not in why:
                 why.append(f"{sign}{kind}: {reason}")
     if any(_EQUIVALENT_BOUND.get(reads, ("", ""))[1] == "upper bound"
-           and isinstance(cov, (int, float)) and not _covers(cov) for _, reads, cov in ends):
+           and partly_measured({"coverage": cov}) for _, reads, cov in ends):
         why.append("part of UV-C was not measured, and the upper bound holds for the measured "
                    "part only")
     (lo, lo_r, _), (hi, hi_r, _) = ends
@@ -387,19 +388,6 @@ def _equivalent_span(eq: Mapping[str, Any], unit: str = "W m-2") -> str:
         signs = [_EQUIVALENT_BOUND[r][0] if r in _EQUIVALENT_BOUND else "" for r in (lo_r, hi_r)]
         body = f"{signs[0]}{lo} to {signs[1]}{hi} {unit}"
     return body + (f" ({'; '.join(why)})" if why else "")
-
-
-def _covers(coverage: float) -> bool:
-    from uvcheck.spectrum import covers_all
-
-    return covers_all(coverage)
-
-
-def partly_measured(block: Mapping[str, Any]) -> bool:
-    """A reading (its dict) whose band the data cover only in part: its coverage is given and
-    short of the whole (:func:`uvcheck.spectrum.covers_all`)."""
-    cov = block.get("coverage")
-    return isinstance(cov, (int, float)) and not _covers(cov)
 
 
 #: The efficiency verdict in words (germicidal.efficiency.verdict); our own wording.
