@@ -39,9 +39,8 @@ def _triple(text: str, where: str) -> tuple[float, float, float]:
 
 def _unbounded_lines(occ: dict) -> list[str]:
     """The occupant block when the lamp is within reach of the eyes: no figure, a warning."""
-    return ["  UV-C and E_S: no bound (the lamp is within 0.3 m of eye height) — the 8-h "
-            "actinic limit CAN BE EXCEEDED IN MOMENTS",
-            f"  {occ['note']}"]
+    return ["  UV-C and E_S: no bound — the 8-h actinic limit CAN BE EXCEEDED IN MOMENTS",
+            f"  {occ['note']}"]   # the note says why (the lamp within reach of the eyes)
 
 
 def _fmt(value: float | None, si: str) -> str:

@@ -70,7 +70,7 @@ UVC_EMITTING = ("germicidal-uvc", "partial")
 
 #: Heuristic thresholds (ours unless a source is named).
 NO_UVC_FRACTION = 1e-3          # UV-C under 0.1 % of the measured output: "essentially no UV-C"
-PEDESTAL_MAX_RELATIVE = 0.01    # a flat UV-C level under 1 % of the visible peak: typical
+PEDESTAL_MAX_RELATIVE = 0.01    # a flat UV-C level under 1 % of the peak above 280 nm: typical
                                 # stray-light levels of compact array spectrometers are about
                                 # 0.01-1 % (from memory)
 PEDESTAL_FLATNESS = 2.0         # no UV-C sample reaches twice the band's median: flat

@@ -34,7 +34,6 @@ def emitter_options(emitter: str | None, tube_length: str | None,
     """Conditions fields from --emitter and --tube-length (empty when neither is given, so a
     listing's emitter model applies). names : where an error points (:data:`CLI_NAMES`)."""
     from uvcheck.conditions import EMITTERS
-    from uvcheck.errors import ConfigurationError
 
     out: dict[str, Any] = {}
     if emitter is not None:
@@ -61,7 +60,6 @@ def conditions_from_options(d0: float | None, source_size: str | None, alpha: fl
     (emitter model, tube length, source size, electrical power, distance of use).
     names : where an error points (:data:`CLI_NAMES`)."""
     from uvcheck.conditions import Conditions
-    from uvcheck.errors import ConfigurationError
     from uvcheck.units import parse_quantity
 
     if source_size is not None and alpha is not None:
@@ -108,8 +106,6 @@ def _length(text: str | None, where: str, default_unit: str | None = None) -> fl
 
     q = parse_quantity(text, "length", where, default_unit=default_unit).value_si
     if not q > 0:
-        from uvcheck.errors import ConfigurationError
-
         raise ConfigurationError(f"{text!r} must be a positive distance", where)
     return q
 
@@ -159,6 +155,11 @@ class ProductInputs:
                                 **emitter_options(self.emitter, self.tube_length, names))
 
 
+#: A distance option within 1 % of the file's stated distance agrees with it (our own rule:
+#: rounding of '10 cm' against '0.1 m'). [-]
+DISTANCE_AGREE = 0.01
+
+
 def assess_files(spectrum_file: Path | None, listing: Any | None, inputs: ProductInputs,
                  options: Any, read_opts: Any = None, *,
                  extra: Callable[[Any, Any], Mapping[str, Any] | None] | None = None,
@@ -201,7 +202,7 @@ def assess_files(spectrum_file: Path | None, listing: Any | None, inputs: Produc
     d0 = (_length(inputs.distance, names["distance"]) if inputs.distance
           else report.measurement_distance_m)
     d_file = report.measurement_distance_m
-    if inputs.distance and d_file is not None and abs(d0 - d_file) > 0.01 * d_file:
+    if inputs.distance and d_file is not None and abs(d0 - d_file) > DISTANCE_AGREE * d_file:
         # the option wins, but a file that states another distance is worth a second look
         report = replace(report, warnings=tuple(report.warnings) + (
             f"the file states a measurement distance of {d_file:g} m, but "

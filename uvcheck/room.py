@@ -74,6 +74,9 @@ MAX_GRID_NODES = 201                # per side
 DEFAULT_ORDER = 24                  # Gauss-Legendre points per mapped quadrant side
 DEFAULT_SEGMENTS = 16               # Gauss-Legendre points along a tube
 ACTINIC_LIMIT_J_M2 = 30.0           # IEC 62471:2006 clause 4.3.1: E_S·t ≤ 30 J m⁻² in 8 h
+#: A lamp closer than this to eye height is within reach of the eyes: no occupant exposure
+#: figure bounds it (our own rule). [m]
+EYE_CLEARANCE_M = 0.3
 
 
 # ---------------------------------------------------------------------------------------------
@@ -810,15 +813,15 @@ def evaluate_room(room: Box, lamp: RoomLamp, *, reflectance: float = DEFAULT_REF
     if bound and any(a.is_stray for a in g.artefacts):
         occupant["note"] += (" E_S counts the apparent UV-C signal, which is likely stray light: "
                              "that can only overstate the actinic exposure, never understate it.")
-    if abs(geom.position_m[2] - eye_height_m) < 0.3:
-        notes.append("the lamp is within 0.3 m of eye height: next to it the exposure has no "
+    if abs(geom.position_m[2] - eye_height_m) < EYE_CLEARANCE_M:
+        notes.append(f"the lamp is within {EYE_CLEARANCE_M:g} m of eye height: next to it the exposure has no "
                      "useful bound; shield it or mount it higher")
         # the eye can come as close as it likes: the grid's nearest point (which can sit on
         # the lamp) gives a number, not a bound, so none is given (our own rule)
         occupant.update({"irradiance_W_m2": None, "irradiance_upper_bound_W_m2": None,
                          "effective_S_W_m2": None, "time_to_limit_s": None,
                          "exceeds_8h_limit": True, "unbounded": True})
-        occupant["note"] = ("unbounded: the lamp is within 0.3 m of eye height, so an eye can "
+        occupant["note"] = (f"unbounded: the lamp is within {EYE_CLEARANCE_M:g} m of eye height, so an eye can "
                             "come as close to it as it likes and no exposure figure holds; the "
                             "8-h limit can be exceeded in moments. " + occupant["note"])
     lamp_d = {

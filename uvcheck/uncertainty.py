@@ -899,7 +899,7 @@ def _monte_carlo_draws(inputs: UncertaintyInputs, d0: float | None, stray: float
                        seed: int) -> _Draws:
     """Independent streams per input (SeedSequence children), so changing one input never
     changes the draws of another (common random numbers)."""
-    kids = np.random.SeedSequence(seed).spawn(5)
+    kids = np.random.SeedSequence(seed).spawn(6)   # child i is the same for any count
     rng_cal, rng_wl, rng_d, rng_s = (np.random.default_rng(k) for k in kids[:4])
     bands = inputs.bands
     z = rng_cal.standard_normal((len(bands) + 1, m))
@@ -909,7 +909,7 @@ def _monte_carlo_draws(inputs: UncertaintyInputs, d0: float | None, stray: float
     if inputs.scale_u_rel > 0:
         # the scaling reading: one factor for every value (a stream of its own, child 5, so
         # the other inputs' draws are unchanged)
-        rng_a = np.random.default_rng(np.random.SeedSequence(seed).spawn(6)[5])
+        rng_a = np.random.default_rng(kids[5])
         f = f * (1.0 + inputs.scale_u_rel * rng_a.standard_normal(m))[None, :]
     f = np.maximum(f, 0.0)
     delta = inputs.wavelength_nm.draw(rng_wl, m)

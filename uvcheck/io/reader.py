@@ -677,7 +677,7 @@ def _structured_kind(first_text: str) -> str | None:
     """What a file whose first text line is ``first_text`` is, when it is a structured
     document rather than a table: 'JSON', 'XML' or 'HTML' (from its opening characters)."""
     t = first_text.lstrip("\ufeff").lstrip().lower()
-    if t.startswith(("{", "[{", '["', "[[", "[\"")) or t == "[":
+    if t.startswith(("{", "[{", '["', "[[")) or t == "[":
         return "JSON"
     if t.startswith(("<!doctype html", "<html")):
         return "HTML"
