@@ -107,6 +107,8 @@ from functools import cached_property
 from types import MappingProxyType
 from typing import Any, Callable, Mapping
 
+import numpy as np
+
 from uvcheck.conditions import Conditions
 from uvcheck.constants import K_M_LM_PER_W
 from uvcheck.errors import ConfigurationError
@@ -136,6 +138,75 @@ SCREENING_NOTE = ("Screening assessment, not a certification: it applies to the 
                   "values, and local codes and licensed practice take precedence.")
 _DISTANCE_NOTE = ("Values away from the measurement position use the inverse-square law of a "
                   "point source: an approximation, invalid close to an extended source.")
+#: What each emitter model makes of a move from the measurement distance, in words (the point
+#: model's is :data:`_DISTANCE_NOTE`).
+_MODEL_NOTES = {
+    "lambertian": ("Values away from the measurement position follow the on-axis Lambertian "
+                   "emitter model, E ∝ 1/(a² + d²) for a disc of radius a (a = 0, the "
+                   "inverse-square law, when no source size is given): an approximation, on "
+                   "axis only."),
+    "tube": ("Values away from the measurement position follow the linear-tube model (Keitz "
+             "formula, on the perpendicular bisector facing the tube), the model given for "
+             "this lamp: it ignores the tube's diameter, electrodes and any reflector, so it is "
+             "inaccurate within a few tube diameters and off the bisector."),
+}
+
+
+def distance_note(cond: Conditions) -> str:
+    """How values are moved away from the measurement position under ``cond``'s emitter
+    model, in one sentence."""
+    return _MODEL_NOTES.get(cond.emitter, _DISTANCE_NOTE)
+
+
+def distance_factor(cond: Conditions, d_from: Any, d_to: Any) -> Any:
+    """E(d_to)/E(d_from) on axis by the conditions' emitter model (:mod:`uvcheck.geometry`),
+    the factor that moves a measured irradiance from ``d_from`` to ``d_to``; the point model
+    is the inverse-square law (d_from/d_to)². Scalars or arrays. [-]
+
+    Examples
+    --------
+    >>> distance_factor(Conditions(), 0.5, 0.25)
+    4.0
+    >>> round(float(distance_factor(Conditions(emitter="tube", tube_length_m=0.8), 10.0, 5.0)), 3)
+    3.987
+    """
+    if cond.emitter == "point":
+        return (d_from / d_to) ** 2
+    from uvcheck.geometry import scale_factor
+
+    return scale_factor(d_from, d_to, cond.emitter, cond.tube_length_m, cond.source_size_m)
+
+
+def distance_for_factor(cond: Conditions, d_from: Any, r: Any) -> Any:
+    """The distance d at which ``distance_factor(cond, d_from, d)`` equals 1/r: where a
+    quantity r times its limit at ``d_from`` meets the limit (every model's factor falls
+    with distance). Scalars or arrays (element by element). Where even 1 mm is far enough,
+    1 mm; where even 10 km is not, 20 km (the search range's end, doubled). [m]
+
+    Examples
+    --------
+    >>> distance_for_factor(Conditions(), 0.2, 4.0)
+    0.4
+    >>> tube = Conditions(emitter="tube", tube_length_m=0.8)
+    >>> d = distance_for_factor(tube, 0.2, 4.0)
+    >>> round(float(4.0 * distance_factor(tube, 0.2, d)), 9)
+    1.0
+    """
+    scalar = np.ndim(d_from) == 0 and np.ndim(r) == 0
+    if cond.emitter == "point":
+        return d_from * math.sqrt(r) if scalar else np.asarray(d_from) * np.sqrt(r)
+    d0, rr = np.broadcast_arrays(np.asarray(d_from, dtype=float), np.asarray(r, dtype=float))
+    lo, hi = np.full(d0.shape, _D_MIN_M), np.full(d0.shape, _D_MAX_M)
+    # bisection on log d: 48 halvings take the 10⁷ range to a relative width of 1e-13
+    for _ in range(48):
+        mid = np.sqrt(lo * hi)
+        far = rr * np.asarray(distance_factor(cond, d0, mid)) > 1.0
+        lo, hi = np.where(far, mid, lo), np.where(far, hi, mid)
+    d = np.sqrt(lo * hi)
+    d = np.where(rr * np.asarray(distance_factor(cond, d0, _D_MIN_M)) <= 1.0, _D_MIN_M, d)
+    d = np.where(rr * np.asarray(distance_factor(cond, d0, _D_MAX_M)) > 1.0, 2.0 * _D_MAX_M, d)
+    d = np.where(rr > 0, d, 0.0)
+    return float(d) if scalar else d
 
 
 def _num(x: float | None) -> float | None:
@@ -272,7 +343,9 @@ class EvaluationInfo:
     distance_rule : how it was chosen, in words.
     alpha_rad : angular subtense of the source at that distance (None if unknown). [rad]
     measurement_distance_m : where the spectrum was measured (None if not given). [m]
-    inverse_square_factor : irradiance factor (d_meas/d)² applied (1 if not rescaled). [-]
+    distance_factor : irradiance factor applied, E(d)/E(d_meas) by the emitter model ((d_meas/d)²
+        for the point model; 1 if not rescaled). [-]
+    distance_model : the emitter model of that factor (``point``, ``lambertian``, ``tube``).
     illuminance_lx : illuminance at the evaluation distance, where known. [lx]
     """
 
@@ -281,18 +354,20 @@ class EvaluationInfo:
     alpha_rad: float | None
     limit_set: str
     measurement_distance_m: float | None
-    inverse_square_factor: float
+    distance_factor: float
     rescaled: bool
     input_quantity: str
     source_size_m: float | None
     illuminance_lx: float | None
     assumptions: tuple[str, ...]
+    distance_model: str = "point"
 
     def to_dict(self) -> dict[str, Any]:
         return {"distance_m": _num(self.distance_m), "distance_rule": self.distance_rule,
                 "alpha_rad": _num(self.alpha_rad), "limit_set": self.limit_set,
                 "measurement_distance_m": _num(self.measurement_distance_m),
-                "inverse_square_factor": _num(self.inverse_square_factor),
+                "distance_factor": _num(self.distance_factor),
+                "distance_model": self.distance_model,
                 "rescaled": self.rescaled, "input_quantity": self.input_quantity,
                 "source_size_m": _num(self.source_size_m),
                 "illuminance_lx": _num(self.illuminance_lx),
@@ -492,7 +567,8 @@ class _Geo:
     """Conversion factors at one evaluation distance.
 
     input_quantity : ``irradiance`` or ``radiance`` (the measured spectrum).
-    k : irradiance factor (d_meas / d)², 1 when not rescaled. [-]
+    k : irradiance factor E(d)/E(d_meas) by the emitter model ((d_meas / d)² for a point
+        source), 1 when not rescaled. [-]
     alpha : angular subtense at the evaluation distance, or None. [rad]
     alpha_meas : angular subtense at the measurement distance (where the irradiance was
         measured), or None. [rad]
@@ -555,7 +631,8 @@ class _Source:
     unusable: str | None = None
 
     def geo(self, d_eval: float | None) -> _Geo:
-        k = 1.0 if d_eval is None or self.d_meas is None else (self.d_meas / d_eval) ** 2
+        k = (1.0 if d_eval is None or self.d_meas is None
+             else float(distance_factor(self.cond, self.d_meas, d_eval)))
         a = _alpha_at(self.cond, d_eval, self.d_meas)
         a_meas = a if d_eval is None or self.d_meas is None else _alpha_at(self.cond, self.d_meas,
                                                                            self.d_meas)
@@ -873,7 +950,7 @@ def _assessment_distance(src: _Source, e_v_meas: float | None, e_v_from: str | N
                      "illuminance reading): 200 mm is used, the closest the rule allows and so "
                      "the more cautious choice.")
         return MIN_ASSESSMENT_DISTANCE_M, "200 mm (500 lx distance unknown)", notes
-    d500 = src.d_meas * math.sqrt(e_v_meas / GLS_ILLUMINANCE_LX)
+    d500 = distance_for_factor(cond, src.d_meas, e_v_meas / GLS_ILLUMINANCE_LX)
     notes.append(f"Illuminance at the measurement position {e_v_meas:.4g} lx ({e_v_from}).")
     if d500 < MIN_ASSESSMENT_DISTANCE_M:
         return (MIN_ASSESSMENT_DISTANCE_M, f"200 mm (general lighting service: 500 lx is reached "
@@ -887,7 +964,16 @@ def _evaluation_info(src: _Source, d: float | None, rule: str, e_v_meas: float |
     cond = src.cond
     notes = list(extra)
     rescaled = d is not None and src.d_meas is not None and d != src.d_meas
-    if rescaled:
+    if rescaled and cond.emitter != "point":
+        square = (src.d_meas / d) ** 2  # type: ignore[operator]
+        if math.isclose(geo.k, square, rel_tol=1e-12):
+            how = "which is the inverse-square law here (no source size given)"
+        else:
+            how = f"factor {geo.k:.4g}; the inverse-square law would give {square:.4g}"
+        notes.append(f"Rescaled from the measurement distance {src.d_meas:g} m to {d:.3g} m by "
+                     f"the {cond.emitter} emitter model given ({how}). "
+                     + _MODEL_NOTES[cond.emitter])
+    elif rescaled:
         notes.append(f"Rescaled from the measurement distance {src.d_meas:g} m to {d:.3g} m by "
                      f"the inverse-square law as a point source: an approximation, invalid close "
                      f"to an extended source.")
@@ -896,7 +982,8 @@ def _evaluation_info(src: _Source, d: float | None, rule: str, e_v_meas: float |
         size = cond.source_size_m
         if size is None and cond.alpha_rad is not None and src.d_meas is not None:
             size = 2.0 * src.d_meas * math.tan(cond.alpha_rad / 2.0)
-        if size is not None and min(d, src.d_meas) < POINT_SOURCE_DIAMETERS * size:  # type: ignore[type-var]
+        if (size is not None and cond.emitter == "point"
+                and min(d, src.d_meas) < POINT_SOURCE_DIAMETERS * size):  # type: ignore[type-var]
             notes.append(f"Distance under {POINT_SOURCE_DIAMETERS:g} source sizes "
                          f"({POINT_SOURCE_DIAMETERS * size:.3g} m, common practice limit): the "
                          f"point-source rescaling is unreliable here.")
@@ -912,9 +999,10 @@ def _evaluation_info(src: _Source, d: float | None, rule: str, e_v_meas: float |
         ev = e_v_meas * (solid_angle_sr(geo.alpha) / solid_angle_sr(a_m) if a_m else 1.0)
     return EvaluationInfo(distance_m=d, distance_rule=rule, alpha_rad=geo.alpha,
                           limit_set=src.lset.id, measurement_distance_m=src.d_meas,
-                          inverse_square_factor=geo.k, rescaled=rescaled,
+                          distance_factor=geo.k, rescaled=rescaled,
                           input_quantity=src.quantity, source_size_m=cond.source_size_m,
-                          illuminance_lx=ev, assumptions=tuple(notes))
+                          illuminance_lx=ev, assumptions=tuple(notes),
+                          distance_model=cond.emitter)
 
 
 def _crossing(ratio: Callable[[float], float | None]) -> tuple[float | None, str | None]:
@@ -940,12 +1028,13 @@ def _crossing(ratio: Callable[[float], float | None]) -> tuple[float | None, str
     return b, None
 
 
-def _crossing_inverse_square(r_meas: float | None, d_meas: float,
-                             ) -> tuple[float | None, str | None]:
-    """As :func:`_crossing` for ratio(d) = r_meas·(d_meas/d)²: d = d_meas·√r_meas. [m]"""
+def _crossing_model(r_meas: float | None, d_meas: float, cond: Conditions,
+                    ) -> tuple[float | None, str | None]:
+    """As :func:`_crossing` for ratio(d) = r_meas·k(d), k the emitter model's factor from
+    d_meas (:func:`distance_factor`); for a point source d = d_meas·√r_meas. [m]"""
     if r_meas is None:
         return None, "cannot be computed"
-    d = d_meas * math.sqrt(max(r_meas, 0.0))
+    d = distance_for_factor(cond, d_meas, max(r_meas, 0.0))
     if d <= _D_MIN_M:
         return None, f"within the limit at every distance from {_D_MIN_M * 1e3:g} mm"
     if d > _D_MAX_M:
@@ -1007,10 +1096,11 @@ def _distance_for(src: _Source, hazard_id: str, exposure_s: float) -> HazardDist
             return None if f is None else x * f / lim
         return r
 
-    # Irradiance hazard from an irradiance spectrum, variant fixed: ratio ∝ 1/d², closed form.
+    # Irradiance hazard from an irradiance spectrum, variant fixed: ratio(d) = ratio(d_meas)·k(d),
+    # k the emitter model's factor (1/d² for a point source: closed form).
     fixed = (src.quantity == "irradiance" and entry0.quantity == "irradiance"
              and (len(src.lset.variants(hazard_id)) == 1 or src.geo(src.d_meas).alpha is None))
-    crossing = (lambda r: _crossing_inverse_square(r(src.d_meas), src.d_meas)) if fixed \
+    crossing = (lambda r: _crossing_model(r(src.d_meas), src.d_meas, src.cond)) if fixed \
         else _crossing
     dist, note = crossing(ratio_time)
     if dist is None and note == "cannot be computed":
@@ -1022,7 +1112,7 @@ def _distance_for(src: _Source, hazard_id: str, exposure_s: float) -> HazardDist
     bounds, bnotes = {}, {}
     for i, g in enumerate(GROUPS[:3]):
         bounds[g], bnotes[g] = crossing(ratio_group(i))
-    meaning, regimes = _IRRADIANCE_MEANING, None
+    meaning, regimes = _irradiance_meaning(src.cond), None
     if len(src.lset.variants(hazard_id)) > 1:
         meaning, regimes, bnotes = _blue_regimes(src, hazard_id, x, bounds, bnotes)
     elif entry0.quantity == "radiance":
@@ -1034,6 +1124,14 @@ def _distance_for(src: _Source, hazard_id: str, exposure_s: float) -> HazardDist
 
 _IRRADIANCE_MEANING = ("an irradiance falls as 1/d² from the measurement distance (point-source "
                        "approximation): a boundary distance is where it meets that group's limit")
+
+
+def _irradiance_meaning(cond: Conditions) -> str:
+    if cond.emitter == "point":
+        return _IRRADIANCE_MEANING
+    return (f"an irradiance falls with distance as the {cond.emitter} emitter model given says "
+            f"(from the measurement distance): a boundary distance is where it meets that "
+            f"group's limit")
 _RADIANCE_MEANING = ("a radiance does not fall with distance while the source fills the "
                      "averaging field of view")
 
@@ -1072,7 +1170,7 @@ def _blue_regimes(src: _Source, hazard_id: str, x: float, bounds: Mapping[str, f
     if size is None:
         if src.quantity == "irradiance":
             return (f"no source size given: blue light is evaluated as a small source (E_B, an "
-                    f"irradiance) at every distance, {_IRRADIANCE_MEANING}; a source wider than "
+                    f"irradiance) at every distance, {_irradiance_meaning(src.cond)}; a source wider than "
                     f"{lim_small:g} rad seen from the eye is assessed by its radiance L_B, which "
                     "does not fall with distance while the source fills the field"), None, notes
         return ("measured radiance with no source size: L_B is taken as filling every field at "
@@ -1121,7 +1219,7 @@ def _hazard_distances(src: _Source) -> HazardDistances:
     governing = gov.hazard_id if (gov.distance_m or any(gov.boundaries_m.values())) else None
     return HazardDistances(exposure_time_s=t, entries=entries, governing_uv=governing,
                            note=(f"Distance beyond which t_max ≥ {t:g} s, and beyond which each "
-                                 f"group boundary holds. " + _DISTANCE_NOTE +
+                                 f"group boundary holds. " + distance_note(src.cond) +
                                  " 'at-least' distances come from partial data (true distances "
                                  "can be larger)."))
 
@@ -1332,7 +1430,7 @@ def evaluate_hazards(spectrum: Spectrum, conditions: Conditions | None = None,
             notes.append("A distance of use was given, but without a measurement distance (or "
                          "an absolute spectrum) nothing can be rescaled to it.")
     if main.evaluation.rescaled or use is not None:
-        notes.append(_DISTANCE_NOTE)
+        notes.append(distance_note(cond))
     return HazardEvaluation(
         hazards=main.hazards, risk_group=main.risk_group, evaluation=main.evaluation,
         use_distance=use, limit_set=MappingProxyType(lset.describe()),

@@ -1096,7 +1096,7 @@ def _geometry(cond: Conditions, hz: Any) -> Any:
     d_meas = cond.measurement_distance_m
     alpha_meas = (ev.alpha_rad if ev.distance_m is None or d_meas is None
                   else _alpha_at(cond, d_meas, d_meas))
-    return _Geo(ev.input_quantity, float(ev.inverse_square_factor), ev.alpha_rad, alpha_meas)
+    return _Geo(ev.input_quantity, float(ev.distance_factor), ev.alpha_rad, alpha_meas)
 
 
 def _sig_key(entry: HazardLimits) -> str:
@@ -1118,26 +1118,34 @@ def _probabilities(idx: np.ndarray) -> dict[str, float]:
 
 def _hazard_distance_factor(model: _Model, cond: Conditions, ev: Mapping[str, Any],
                             dr: _Draws) -> np.ndarray:
-    """g per draw: the change of the hazards' irradiance factor k = (d₀/d_eval)² [-]."""
+    """g per draw: the change of the hazards' irradiance factor k = E(d_eval)/E(d₀) by the
+    emitter model ((d₀/d_eval)² for a point source; :func:`uvcheck.hazards.distance_factor`)
+    [-]."""
+    from uvcheck.hazards import distance_factor, distance_for_factor
+
     m = dr.m
     d0 = cond.measurement_distance_m
     if d0 is None or dr.d0 is None or model.spectrum.quantity != "irradiance" \
             or ev.get("distance_m") is None:
         return np.ones(m)
-    k_nom = float(ev["inverse_square_factor"])
+    k_nom = float(ev["distance_factor"])
+
+    def k_of(d_eval: Any) -> np.ndarray:
+        return np.asarray(distance_factor(cond, dr.d0, d_eval), dtype=float)
+
     if not cond.general_lighting:
         d_eval = float(ev["distance_m"])
-        return (dr.d0 / d_eval) ** 2 / k_nom
+        return k_of(d_eval) / k_nom
     # general lighting: evaluated at the 500 lx distance (never under 200 mm), re-derived
     if "lum" in model.functionals and ev.get("_v_ok"):
         e_v = K_M_LM_PER_W * model.integral("lum", dr)
     elif ev.get("illuminance_lx") is not None:
         e_v = np.full(m, float(ev["illuminance_lx"]) / k_nom)   # a reading: held fixed
     else:
-        return (dr.d0 / float(ev["distance_m"])) ** 2 / k_nom
-    d500 = dr.d0 * np.sqrt(np.maximum(e_v, 0.0) / GLS_ILLUMINANCE_LX)
+        return k_of(float(ev["distance_m"])) / k_nom
+    d500 = distance_for_factor(cond, dr.d0, np.maximum(e_v, 0.0) / GLS_ILLUMINANCE_LX)
     d_eval = np.maximum(d500, MIN_ASSESSMENT_DISTANCE_M)
-    return (dr.d0 / d_eval) ** 2 / k_nom
+    return k_of(d_eval) / k_nom
 
 
 def _hazard_section(model: _Model, cond: Conditions, hz: Any, inputs: UncertaintyInputs,

@@ -308,7 +308,10 @@ def render_hazards(hazards: dict, d: dict) -> list[str]:
                 lines += wrap(f"({x['meaning']}.)", 4)
     if lines:
         radiance = any((hd.get(k) or {}).get("regimes") for k in ("blue_light",))
-        out.append("Hazard distances (point-source inverse-square approximation"
+        model = (d.get("evaluation") or {}).get("distance_model") or "point"
+        approx = ("point-source inverse-square approximation" if model == "point"
+                  else f"{model} emitter model given, an approximation")
+        out.append(f"Hazard distances ({approx}"
                    + ("; L_B by the field of view, see below it" if radiance else "") + "):")
         out += lines
     use = d.get("use_distance")
