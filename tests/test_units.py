@@ -107,3 +107,30 @@ def test_parsed_units_are_kept_and_errors_name_each_place():
     with pytest.raises(UnitError) as err:
         parse_quantity("3 furlongs", "length", "distance")
     assert err.value.where == "distance"
+
+
+# Imperial lengths, areas and volumes as listings write them. Exact factors from the
+# international yard and pound agreement (1959), as NIST SP 811 (2008) Appendix B lists them:
+# 1 in = 0.0254 m, 1 ft = 0.3048 m, 1 yd = 0.9144 m, so 1 ft² = 0.09290304 m² and
+# 1 ft³ = 0.028316846592 m³.
+@pytest.mark.parametrize("text,kind,si", [
+    ("6 inches", "length", 6 * 0.0254), ("8 in", "length", 8 * 0.0254),
+    ("2 feet", "length", 2 * 0.3048), ("1 foot", "length", 0.3048), ("2 yd", "length", 1.8288),
+    ("3 yards", "length", 3 * 0.9144),
+    ("200 sq ft", "area", 200 * 0.09290304), ("200 square feet", "area", 200 * 0.09290304),
+    ("200 sq. ft.", "area", 200 * 0.09290304), ("200 Sq.Ft.", "area", 200 * 0.09290304),
+    ("12 sqm", "area", 12.0), ("12 sq m", "area", 12.0), ("12 square metres", "area", 12.0),
+    ("12 square meters", "area", 12.0), ("1 square inch", "area", 0.0254 ** 2),
+    ("1000 cu ft", "volume", 1000 * 0.028316846592), ("1000 cubic feet", "volume", 28.316846592),
+    ("30 cubic metres", "volume", 30.0),
+])
+def test_imperial_and_worded_units(text, kind, si):
+    assert parse_quantity(text, kind).value_si == pytest.approx(si, rel=1e-12)
+
+
+def test_worded_areas_keep_their_kind():
+    # an area is never read as a length, nor a volume as an area
+    with pytest.raises(UnitError):
+        parse_quantity("200 sq ft", "length")
+    with pytest.raises(UnitError):
+        parse_quantity("30 cubic metres", "area")

@@ -87,8 +87,22 @@ def normalise_unit_text(text: str) -> str:
     s = s.replace("\u2212", "-").replace("\u2013", "-")
     s = re.sub(r"(?i)\bper\b", "/", s)
     s = re.sub(r"(?<=[A-Za-z0-9])\.(?=[A-Za-z])", " ", s)  # "W.m-2.nm-1"
+    s = re.sub(r"(?<=[A-Za-z])\.$", "", s)                  # "sq. ft."
+    # areas and volumes as listings write them: "sq ft", "square metres", "sqm", "cu ft"
+    s = _SQUARE_RE.sub(lambda m: _LENGTH_WORD.get(m.group(2).lower(), m.group(2)) + "2", s)
+    s = _CUBIC_RE.sub(lambda m: _LENGTH_WORD.get(m.group(2).lower(), m.group(2)) + "3", s)
+    s = re.sub(r"(?i)\bsqm\b", "m2", s)
     s = re.sub(r"\s+", " ", s)
     return s.strip()
+
+
+#: Length words as listings write them, to their symbols (for "square feet" and the like).
+_LENGTH_WORD = {"feet": "ft", "foot": "ft", "ft": "ft", "inch": "in", "inches": "in", "in": "in",
+                "yard": "yd", "yards": "yd", "yd": "yd", "m": "m", "metre": "m", "metres": "m",
+                "meter": "m", "meters": "m", "cm": "cm", "mm": "mm"}
+_LENGTH_ALT = "|".join(sorted(_LENGTH_WORD, key=len, reverse=True))
+_SQUARE_RE = re.compile(rf"(?i)\b(sq|square)\.?\s*({_LENGTH_ALT})\b")
+_CUBIC_RE = re.compile(rf"(?i)\b(cu|cubic)\.?\s*({_LENGTH_ALT})\b")
 
 
 # ---------------------------------------------------------------------------------------------
@@ -135,7 +149,13 @@ _SYMBOLS: dict[str, tuple[float, dict[str, int]]] = {
     "eV": (1.602176634e-19, {"W": 1, "s": 1}),  # SI exact (2019): 1 eV = e × 1 V
     "in": (0.0254, {"m": 1}),  # international inch, exact
     "inch": (0.0254, {"m": 1}),
+    "inches": (0.0254, {"m": 1}),
     "ft": (0.3048, {"m": 1}),  # international foot, exact
+    "feet": (0.3048, {"m": 1}),
+    "foot": (0.3048, {"m": 1}),
+    "yd": (0.9144, {"m": 1}),  # international yard, exact
+    "yard": (0.9144, {"m": 1}),
+    "yards": (0.9144, {"m": 1}),
     "L": (1e-3, {"m": 3}),
     "l": (1e-3, {"m": 3}),
 }
