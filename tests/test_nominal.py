@@ -261,7 +261,12 @@ def test_a_listing_too_thin_to_model_points_at_the_wavelength_its_claims_name():
     lst = parse_listing('[product]\nname = "thin (invented)"\ninvented = true\n'
                         '[lamp]\nelectrical_power = "36 W"\n'
                         '[[claims]]\ntext = "UVC 253.7nm germicidal"\n', "thin.toml")
+    from uvcheck.nominal import nominal_from_listing
+
     with pytest.raises(ConfigurationError) as err:
-        screen_listing_file(lst)
+        nominal_from_listing(lst)
     assert "claim c1 names 253.7 nm" in err.value.one_line()
     assert "lamp.peak_wavelength" in err.value.one_line()
+    # the screening lists the claims (no lamp model) and carries the same pointer
+    said = " ".join(screen_listing_file(lst).to_dict()["warnings"])
+    assert "claim c1 names 253.7 nm" in said and "lamp.peak_wavelength" in said

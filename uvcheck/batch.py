@@ -70,7 +70,8 @@ from uvcheck.errors import ConfigurationError, InputFormatError, UvcheckError
 #: data cover UV-C in part, so that holds in the measured part only and UV-C is not ruled
 #: out): an empty cell is never a zero. ``origin`` is
 #: ``measured``, or ``nominal`` for a listing screened without a spectrum (every figure of
-#: such a row is an ESTIMATE from the stated data). ``risk_group`` is at the IEC 62471
+#: such a row is an ESTIMATE from the stated data), or ``listing-only`` for a listing that
+#: states too little to model the lamp (claims counted, no figures). ``risk_group`` is at the IEC 62471
 #: assessment distance where the measurement distance is known (``risk_group_position``
 #: ``assessment-distance``), else at the unknown measurement position
 #: (``measurement-position``: not the lamp's classification; give a distance);

@@ -557,11 +557,20 @@ def _every_kind(c: Any, first: Verdict, ev: Evidence) -> Verdict:
                      "the {name} part", "parts")
 
 
+#: Why a claim cannot be judged when there is neither a measurement nor a lamp model (a listing
+#: that states claims only), and what would decide it.
+NO_LAMP_DATA = ("no measurement, and the listing states nothing the lamp's output can be modelled "
+                "from (no technology, wavelength or band)")
+NO_LAMP_DATA_NEEDS = ("a measured spectrum",
+                      "lamp.technology or lamp.peak_wavelength, with lamp.optical_power or "
+                      "lamp.electrical_power")
+
+
 def _na(c: Any, ev: Evidence, basis: str, missing: Sequence[str],
         assumptions: Sequence[str] = ()) -> Verdict:
     return Verdict(c.id, c.kind, c.text, "not-assessable", None, None, None, basis,
                    tuple(assumptions), tuple(missing),
-                   "measured" if ev.measured else "nominal estimate")
+                   "measured" if ev.measured else ("nominal estimate" if ev.readings else "listing"))
 
 
 def _unrecognised(c: Any, ev: Evidence) -> Verdict:
@@ -672,6 +681,8 @@ def _one_emission(c: Any, ev: Evidence) -> Verdict:
             return Verdict(c.id, c.kind, c.text, f.status, _q(f.needed), _q(f.available),
                            f.ratio, f.message, tuple(f.assumptions), (), "listing", None,
                            {"finding": f.id, "basis": f.basis}, f.rule)
+        if not ev.readings:
+            return _na(c, ev, NO_LAMP_DATA, NO_LAMP_DATA_NEEDS)
         if not fav:
             return _na(c, ev, "no power stated and no spectrum: the emission cannot be estimated",
                        ("a spectrum", "lamp.optical_power or lamp.electrical_power"))
@@ -1065,6 +1076,8 @@ def _one_inactivation(c: Any, ev: Evidence) -> Verdict:
                    + (f"; {notes[-1]}" if vague else ""), missing, notes)
     t = c.time_s
     fav = ev.favourable()
+    if not fav and not ev.readings:
+        return _na(c, ev, NO_LAMP_DATA, NO_LAMP_DATA_NEEDS)
     if not fav:
         return _na(c, ev, "no absolute output: the spectrum is relative and no power is stated",
                    ("a scaled spectrum (--scale-band) or lamp.optical_power / lamp.electrical_power",))
@@ -1241,7 +1254,15 @@ def _own_ozone_statement(c: Any, ev: Evidence) -> Any | None:
 def _ozone(c: Any, ev: Evidence) -> Verdict:
     r = ev.likely()
     if r is None:
-        return _na(c, ev, "no reading of the lamp", ("a spectrum or the lamp technology",))
+        own = _own_ozone_statement(c, ev)
+        if own is not None:
+            # the seller's own words say otherwise, with no lamp data at all
+            return Verdict(c.id, c.kind, c.text, "unlikely", None, None, None,
+                           f"the listing's own claim {own.id} ({own.text!r}) says the lamp makes "
+                           f"ozone or emits at 185 nm; there are no lamp data", (),
+                           OZONE_EVIDENCE_NEEDED, "listing", None, {"contradicted_by": own.id},
+                           rule="the listing's own statements (at most 'unlikely')")
+        return _na(c, ev, NO_LAMP_DATA, NO_LAMP_DATA_NEEDS)
     oz = r.germicidal_at(None).ozone.to_dict()
     status = oz.get("status")
     note = oz.get("note") or oz.get("basis") or ""
@@ -1361,7 +1382,9 @@ def _safety_verdict(c: Any, ev: Evidence) -> Verdict:
     if missing:
         return _na(c, ev, "the claim does not say who or what it is safe for", missing)
     r = ev.likely()
-    if r is None or not r.spectrum.is_absolute:
+    if r is None:
+        return _na(c, ev, NO_LAMP_DATA, NO_LAMP_DATA_NEEDS)
+    if not r.spectrum.is_absolute:
         return _na(c, ev, "no absolute reading of the lamp: exposure cannot be worked out",
                    ("a scaled spectrum, or lamp.optical_power / lamp.electrical_power",))
     t = c.time_s or WORKDAY_S

@@ -258,7 +258,8 @@ def screen(
     quiet: Annotated[bool, typer.Option(help="Print nothing but errors.")] = False,
 ) -> None:
     """Screen a listing's statements without a measurement: nominal spectra from the stated
-    data (an ESTIMATE), the full hazard and germicidal evaluation, and a verdict per claim."""
+    data (an ESTIMATE), the full hazard and germicidal evaluation, and a verdict per claim.
+    A listing that states too little to model the lamp gets its claims listed, no figures."""
     from uvcheck.io.listing import read_listing
     from uvcheck.report.jsonout import write_json
     from uvcheck.report.terminal import render_assessment

@@ -105,7 +105,8 @@ def batch_command(
     (the group at the distance of use), claims_holds, claims_unlikely,
     claims_cannot_hold, claims_not_assessable, worst_claim_id,
     worst_claim_verdict, worst_claim_ratio, note_path, origin (measured, or
-    nominal: a listing without a spectrum, every figure an ESTIMATE),
+    nominal: a listing without a spectrum, every figure an ESTIMATE; or
+    listing-only: a listing too thin to model the lamp, claims only),
     inputs_sha256 (files, options and settings: --resume keeps a row only when
     it is unchanged).
     """

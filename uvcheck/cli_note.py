@@ -167,7 +167,11 @@ def render_note(result: dict[str, Any], spectrum: Any, *, pdf: bool = True,
     view = build_note(result, invented=invented, date=date)
     from uvcheck.report.terminal import is_estimate
 
-    if is_estimate(result):
+    from uvcheck.report.terminal import listing_only
+
+    if listing_only(result):
+        view["title"] = view["title"] + " — screening of the listing alone (no lamp data)"
+    elif is_estimate(result):
         view["title"] = view["title"] + " — screening of the stated data (ESTIMATE)"
     figs = figures.render(result, spectrum, svg=True, png=pdf, salt=salt)
     text = html.render_note_html(view, result, figs)

@@ -51,3 +51,8 @@ class ConfigurationError(UvcheckError):
 
 class OutputExistsError(UvcheckError):
     """An output file exists and --force was not given."""
+
+
+class UnmodelledListingError(ConfigurationError):
+    """A listing states too little to model the lamp's output (no technology, wavelength or
+    band); its claims can still be listed, each not assessable."""

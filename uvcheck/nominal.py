@@ -644,6 +644,17 @@ def optical_power_range(listing: Any, technology: str, basis: str = "auto",
                       f"data/technologies.toml [{technology}]: {src}")
 
 
+def claim_wavelength_hint(listing: Any) -> str | None:
+    """Where a listing with no lamp wavelength names one in a claim, that hint, else None:
+    the wavelength of a claim is the claim under test, not lamp data, so the tester decides
+    whether the listing states it as the lamp's data."""
+    said = [c for c in listing.claims if getattr(c, "wavelength_nm", None)]
+    if not said:
+        return None
+    return (f"claim {said[0].id} names {said[0].wavelength_nm:g} nm: if the listing states it "
+            "as the lamp's data, put it in lamp.peak_wavelength")
+
+
 def nominal_from_listing(listing: Any, *, technology: str | None = None,
                          peak_nm: float | None = None, reading: str = "as-stated",
                          power_basis: str = "auto") -> NominalEstimate:
@@ -667,13 +678,12 @@ def nominal_from_listing(listing: Any, *, technology: str | None = None,
     if technology is None:
         technology, why = infer_technology(listing)
         if technology is None:
-            # a wavelength named only in a claim is the claim under test, not lamp data: say
-            # where it is, and let the tester decide whether the listing states it as data
-            said = [c for c in listing.claims if getattr(c, "wavelength_nm", None)]
-            hint = (f" (claim {said[0].id} names {said[0].wavelength_nm:g} nm: if the listing "
-                    "states it as the lamp's data, put it in lamp.peak_wavelength)" if said else "")
-            raise ConfigurationError("the listing says too little to model the lamp",
-                                     todo="state lamp.technology or lamp.peak_wavelength" + hint)
+            from uvcheck.errors import UnmodelledListingError
+
+            hint = claim_wavelength_hint(listing)
+            raise UnmodelledListingError("the listing says too little to model the lamp",
+                                         todo="state lamp.technology or lamp.peak_wavelength"
+                                         + (f" ({hint})" if hint else ""))
         if listing.technology is None:
             assumptions.append(f"technology inferred: {why}")
     if peak_nm is None:

@@ -192,6 +192,14 @@ def assess_files(spectrum_file: Path | None, listing: Any | None, inputs: Produc
         from uvcheck.screening import screen_listing_file
 
         a = screen_listing_file(listing, limit_set=options.limit_set)
+        if a.spectrum is None and extra is not None:
+            # a listing with no lamp model: nothing to place in a room
+            from uvcheck.errors import UnmodelledListingError
+
+            raise UnmodelledListingError(f"{a.reason}, so there is no output to evaluate "
+                                         "further", listing.source,
+                                         "measure the lamp, or state lamp.technology or "
+                                         "lamp.peak_wavelength (with its power)")
         more = extra(a.spectrum, a.conditions) if extra is not None else None
         return replace(a, sections={**a.sections, **more}) if more else a
     from uvcheck.assessment import assess

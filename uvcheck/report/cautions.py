@@ -48,6 +48,15 @@ DOES_NOT_COVER_ESTIMATE = (
     "and harmful."
 )
 
+#: Shown instead of :data:`DOES_NOT_COVER` for a listing with no lamp model (claims only).
+DOES_NOT_COVER_LISTING = (
+    "This is a screening of the seller's statements alone: nothing was measured, and the "
+    "listing states too little to model the lamp, so there are no figures. It shows which "
+    "claims can be checked and what would decide them; it says nothing about whether the lamp "
+    "is safe or works. It is not a certification, and it does not measure ozone or assess "
+    "mercury, electrical or mechanical hazards."
+)
+
 #: The caution on an overview of several notes (each note has its own, chosen for its lamp).
 OVERVIEW_CAUTION = (
     "UV-C and strong UV-A or violet light can injure the eyes and skin without being felt at "
@@ -97,7 +106,10 @@ def emits_uvc(d: Result) -> bool:
 
 
 def uvc_unknown(d: Result) -> bool:
-    """UV-C could not be assessed (not measured, or a relative shape only)."""
+    """UV-C could not be assessed (not measured, a relative shape only, or a listing with no
+    lamp model)."""
+    if (d.get("input") or {}).get("origin") == "listing-only":
+        return True
     g = _germ(d)
     if g:
         return g.get("status") in ("not-assessed", "shape-only")

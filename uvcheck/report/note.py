@@ -19,10 +19,11 @@ from typing import Any, Iterable, Mapping
 
 from uvcheck.germicidal import UVC_EMITTING
 from uvcheck.limits import GROUPS
-from uvcheck.report.terminal import (is_estimate, no_assessment_distance, status_text,
+from uvcheck.report.terminal import (is_estimate, listing_only, no_assessment_distance, status_text,
                                      tmax_is_upper_bound)
 from uvcheck.spectrum import partly_measured
-from uvcheck.report.cautions import DOES_NOT_COVER, DOES_NOT_COVER_ESTIMATE, LOCAL_CODES, applicable
+from uvcheck.report.cautions import (DOES_NOT_COVER, DOES_NOT_COVER_ESTIMATE,
+                                     DOES_NOT_COVER_LISTING, LOCAL_CODES, applicable)
 from uvcheck.units import bounded_duration, format_duration, sig, to_trade
 
 Result = Mapping[str, Any]
@@ -1013,6 +1014,10 @@ def finding(result: Result, claims: list[dict[str, Any]] | None = None) -> str:
     sp = result.get("spectral") or {}
     inp = result.get("input") or {}
     est = is_estimate(result)
+    if listing_only(result):
+        s.append("Nothing was measured, and the listing states too little to model the lamp "
+                 "(no technology, wavelength or band): there are no figures, and nothing here "
+                 "says whether the lamp is safe or works.")
     peak = sp.get("peak_nm")
     st = g.get("status")
     gpos = place((g.get("position") or {}).get("distance_m"))
@@ -1151,7 +1156,11 @@ def not_assessed(result: Result, listing: Mapping[str, Any] | None = None) -> li
                         if lo is not None else k,
                         "why": "outside the measured range; missing data are never read as zero"})
     g = result.get("germicidal")
-    if result.get("input") and g is None:
+    if listing_only(result):
+        out.append({"what": "The lamp's output, hazards and germicidal dose",
+                    "why": "no measurement, and the listing states nothing the output can be "
+                           "modelled from (no technology, wavelength or band)"})
+    elif result.get("input") and g is None:
         out.append({"what": "Germicidal output", "why": "not part of this result"})
     if g:
         oz = g.get("ozone") or {}
@@ -1265,7 +1274,9 @@ def provenance(result: Result, listing: Mapping[str, Any] | None, date: str,
     cond = result.get("conditions") or {}
     ev = result.get("evaluation") or {}
     inputs: list[dict[str, str]] = []
-    if inp:
+    if inp and listing_only(result):
+        inputs.append({"label": "Data", "value": "none: the listing alone (no lamp model)"})
+    elif inp:
         inputs.append({"label": "Spectrum file", "value": os.path.basename(str(inp.get("path")))})
         inputs.append({"label": "sha256", "value": str(inp.get("sha256"))})
         lo, hi = inp.get("range_nm") or (None, None)
@@ -1396,6 +1407,12 @@ def key_caution(result: Result, cautions: list[dict[str, Any]]) -> dict[str, str
     return {"title": c["title"], "text": text, "id": c["id"]}
 
 
+def _does_not_cover(result: Result) -> str:
+    if listing_only(result):
+        return DOES_NOT_COVER_LISTING
+    return DOES_NOT_COVER_ESTIMATE if is_estimate(result) else DOES_NOT_COVER
+
+
 def build_note(result: Result, listing: Mapping[str, Any] | None = None, *,
                invented: bool | None = None, title: str | None = None, date: str | None = None,
                references: list[dict[str, Any]] | None = None) -> dict[str, Any]:
@@ -1429,7 +1446,7 @@ def build_note(result: Result, listing: Mapping[str, Any] | None = None, *,
         "subtitle": "Consumer-safety note",
         "invented": inv, "invented_text": INVENTED_TEXT,
         "screening_title": SCREENING_TITLE,
-        "screening_text": DOES_NOT_COVER_ESTIMATE if is_estimate(result) else DOES_NOT_COVER,
+        "screening_text": _does_not_cover(result),
         "local_codes": LOCAL_CODES,
         "product": product,
         "finding": finding(result, claims),
@@ -1459,6 +1476,6 @@ def build_note(result: Result, listing: Mapping[str, Any] | None = None, *,
         "estimate": is_estimate(result),
         "data_word": "estimated" if is_estimate(result) else "measured",
         "cautions": cautions,
-        "does_not_cover": DOES_NOT_COVER_ESTIMATE if is_estimate(result) else DOES_NOT_COVER,
+        "does_not_cover": _does_not_cover(result),
         "provenance": provenance(result, li, date or generated_date(), references),
     }

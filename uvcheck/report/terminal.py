@@ -26,6 +26,12 @@ def is_estimate(d: dict) -> bool:
     return (d.get("input") or {}).get("origin") == "nominal" or d.get("nominal") is not None
 
 
+def listing_only(d: Mapping[str, Any]) -> bool:
+    """A listing screened with no lamp model (:class:`uvcheck.screening.ListingOnly`): only
+    its claims, no figures."""
+    return (d.get("input") or {}).get("origin") == "listing-only"
+
+
 def status_text(status: str, d: dict) -> str:
     """A band or hazard status in words; an estimate is never called 'measured'."""
     return (ESTIMATE_STATUS_TEXT if is_estimate(d) else STATUS_TEXT).get(status, status)
@@ -87,8 +93,38 @@ def render_import(inp: dict) -> list[str]:
     return lines
 
 
+def render_listing_only(d: dict) -> str:
+    """The terminal summary of a listing that states too little to model the lamp
+    (:class:`uvcheck.screening.ListingOnly`): no figures, only its claims."""
+    inp = d.get("input") or {}
+    out: list[str] = [f"uvcheck {d['tool']['version']}: listing screening (no lamp model)", "",
+                      f"Input: listing {inp.get('path')}"
+                      + (" (INVENTED example)" if inp.get("invented") else "")]
+    out.append("")
+    out.append("Warnings")
+    out += [f"  ! {w}" for w in d.get("warnings", [])]
+    out.append("")
+    out += render_claims(d.get("claims") or [], d)
+    from uvcheck.report.cautions import LOCAL_CODES, applicable
+
+    cautions = applicable(d)
+    if cautions:
+        # no figures to show, so the cautions that a lamp sold like this calls for
+        out.append("")
+        out.append("Cautions (for a lamp sold like this; none of them rests on a measurement)")
+        for c in cautions:
+            item = wrap(f"{c['title']}: {c['text']}", 4)
+            out += ["  - " + item[0][4:]] + item[1:]
+        out += wrap(LOCAL_CODES, 2)
+    out.append("")
+    out += [f"Note: {n}" for n in d.get("notes", [])]
+    return "\n".join(out) + "\n"
+
+
 def render_assessment(d: dict) -> str:
     """The whole terminal summary of an assessment dict."""
+    if listing_only(d):
+        return render_listing_only(d)
     out: list[str] = [f"uvcheck {d['tool']['version']}: lamp assessment", ""]
     out += render_import(d["input"])
     for s in d["input"].get("scaling", []):
@@ -539,7 +575,9 @@ def wrap(text: str, indent: int, width: int = 100) -> list[str]:
 def render_claims(claims: list, d: dict) -> list[str]:
     lst = d.get("listing") or {}
     origin = (d.get("input") or {}).get("origin")
-    on = "the measured spectrum" if origin == "measured" else "a nominal ESTIMATE from the listing"
+    on = {"measured": "the measured spectrum",
+          "listing-only": "the listing alone: no lamp data"}.get(origin,
+                                                                 "a nominal ESTIMATE from the listing")
     out = [f"Claims of \"{lst.get('name', 'the product')}\" (judged on {on})"]
     for c in claims:
         label = VERDICT_TEXT.get(c["verdict"], c["verdict"])
