@@ -235,3 +235,27 @@ def test_ozone_free_on_a_uv_c_led_listing_follows_the_technology_rule():
                   claims=(parse_claim_text("ozone-free", "c1"),))
     v = screen_listing_file(lst).to_dict()["claims"][0]
     assert v["verdict"] == "holds", v["basis"]
+
+
+def test_an_unlikely_part_outranks_a_part_that_cannot_be_assessed():
+    """A claim made of parts is no better than its worst part (our own rule), and 'unlikely'
+    is the worse finding than 'not-assessable' (the one verdict order, claims.VERDICT_ORDER,
+    that the batch's worst claim and --fail-on use too). E. coli dose from uvcheck's organism
+    table (data/organisms/organisms.csv); Staphylococcus aureus is not in the table. The time
+    is chosen so that E. coli falls short by less than the 2× margin. Invented listing."""
+    from uvcheck.batch import VERDICT_ORDER as batch_order
+    from uvcheck.claims import VERDICT_ORDER
+
+    assert batch_order is VERDICT_ORDER
+    v = _screen_invented_tube("mixed-parts test lamp", '''[[claims]]
+id = "alone"
+text = "kills 99.9% of E. coli in 8 seconds at 20 cm"
+[[claims]]
+id = "mixed"
+text = "kills 99.9% of E. coli and Staphylococcus aureus in 8 seconds at 20 cm"
+''')
+    assert v["alone"]["verdict"] == "unlikely" and 0.5 <= v["alone"]["ratio"] < 1.0
+    assert v["mixed"]["details"]["organisms"] == {"E. coli": "unlikely",
+                                                  "Staphylococcus aureus": "not-assessable"}
+    assert v["mixed"]["verdict"] == "unlikely"
+    assert "E. coli decides it" in v["mixed"]["basis"]

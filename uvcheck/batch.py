@@ -101,8 +101,8 @@ OPTION_KEYS = MANIFEST_COLUMNS[3:]
 SPECTRUM_SUFFIXES = (".csv", ".tsv", ".txt", ".dat", ".asc")
 LISTING_SUFFIXES = (".toml",)
 
-#: Verdicts from best to worst (the order ``--fail-on`` uses).
-VERDICT_ORDER = ("holds", "not-assessable", "unlikely", "cannot-hold")
+#: Verdicts from best to worst (the order ``--fail-on`` uses): the claims module's one order.
+from uvcheck.claims import VERDICT_ORDER  # noqa: E402
 
 
 def fails(worst_verdict: str | None, fail_on: str | None) -> bool:

@@ -52,6 +52,12 @@ from uvcheck.spectrum import Spectrum, covers_all, integrate
 from uvcheck.units import format_duration, sig
 
 VERDICTS = ("holds", "unlikely", "cannot-hold", "not-assessable")
+#: The verdicts from best to worst, the one order every part of uvcheck ranks them by (the
+#: worst claim of a batch row, ``--fail-on``, the part that decides a claim judged in parts):
+#: a claim that cannot be assessed is a weaker finding against the product than one that is
+#: unlikely to hold, and a claim made of parts is no better than its worst part, so an
+#: unlikely part outranks a part that cannot be assessed.
+VERDICT_ORDER = ("holds", "not-assessable", "unlikely", "cannot-hold")
 #: Decision margin of the simple rule: a claim is ``cannot-hold`` only when the most favourable
 #: reading falls short by more than this factor (covers calibration, distance and organism-data
 #: scatter; common practice in screening, not a standard value). The uncertainty module
@@ -580,15 +586,14 @@ def _unrecognised(c: Any, ev: Evidence) -> Verdict:
 
 # --- emission ----------------------------------------------------------------------------
 
-#: Worst first, for a claim judged in parts (several organisms, bands or wavelengths).
-_PART_RANK = {"cannot-hold": 0, "not-assessable": 1, "unlikely": 2, "holds": 3}
-
-
 def _worst_part(subs: list[tuple[str, Verdict]]) -> tuple[str, Verdict, str]:
-    """(name, verdict) of the part that decides a claim judged in parts: the worst verdict
-    (cannot-hold, then not-assessable, unlikely, holds; among equals the smallest ratio), and
-    the others' verdicts in words."""
-    name, worst = min(subs, key=lambda nv: (_PART_RANK.get(nv[1].verdict, 1),
+    """(name, verdict) of the part that decides a claim judged in parts: the worst verdict in
+    :data:`VERDICT_ORDER` (cannot-hold, then unlikely, not-assessable, holds; among equals the
+    smallest ratio), and the others' verdicts in words."""
+    def rank(v: str) -> int:
+        return -VERDICT_ORDER.index(v) if v in VERDICT_ORDER else -1
+
+    name, worst = min(subs, key=lambda nv: (rank(nv[1].verdict),
                                             nv[1].ratio if nv[1].ratio is not None else math.inf))
     others = "; ".join(f"{n}: {v.verdict}" for n, v in subs if v is not worst)
     return name, worst, others
@@ -1050,7 +1055,7 @@ def _inactivation(c: Any, ev: Evidence) -> Verdict:
 def _each_organism(c: Any, ev: Evidence, names: list[str]) -> Verdict:
     """A claim about several organisms holds only as far as it holds for each: judged per
     organism (each with the benefit of the doubt), the verdict is the worst of theirs
-    (cannot-hold, then not-assessable, unlikely, holds; among equals the smallest ratio), and
+    (cannot-hold, then unlikely, not-assessable, holds; among equals the smallest ratio), and
     the basis says which organism decides it (our own rule: "kills A and B" claims both)."""
     from uvcheck.io.listing import _GENERIC_ORG_RE, _SPECIFIC_ORG_RE
 
