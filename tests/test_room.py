@@ -329,3 +329,33 @@ def test_a_lamp_at_eye_height_gives_no_occupant_figure():
     text = CliRunner().invoke(_app(), ["room", "--uvc-flux", "2 W", "--size", "4 x 5 x 2.7 m",
                                        "--lamp-at", "2, 2.5, 1.7 m"]).output
     assert "CAN BE EXCEEDED IN MOMENTS" in text and "e+11" not in text
+
+
+# A lamp on a room surface. Shares by solid angle [derived]: an isotropic source on a plane
+# sends half its flux into it; in the edge of two walls 3/4 (only one quadrant of directions
+# points away from both); in a corner of three faces 7/8. A downward Lambertian fitting on the
+# ceiling sends nothing into it, the same fitting on the floor everything.
+@pytest.mark.parametrize("pos,pattern,share", [
+    ((0.0, 2.5, 1.5), "isotropic", 0.5),
+    ((0.0, 0.0, 1.5), "isotropic", 0.75),
+    ((0.0, 0.0, 0.0), "isotropic", 0.875),
+    ((2.0, 2.5, 2.7), "lambertian_down", 0.0),
+    ((2.0, 2.5, 0.0), "lambertian_down", 1.0),
+    ((2.0, 2.5, 1.5), "isotropic", 0.0),
+])
+def test_share_of_the_output_heading_into_a_near_surface(pos, pattern, share):
+    from uvcheck.room import into_near_surfaces
+
+    got, faces = into_near_surfaces(Box(4.0, 5.0, 2.7), LampGeometry(pos, pattern))
+    assert got == pytest.approx(share, abs=2e-3)
+    assert bool(faces) == (pos != (2.0, 2.5, 1.5))
+
+
+def test_room_result_warns_of_a_lamp_on_a_wall():
+    box = Box(4.0, 5.0, 2.7)
+    on_wall = evaluate_room(box, lamp_from_uvc_flux(2.0, LampGeometry((0.0, 2.5, 1.5))))
+    said = " ".join(on_wall.warnings)
+    assert "within 0.1 m of the wall at x = 0: 50% of its output" in said
+    assert "up to 2× higher" in said
+    centre = evaluate_room(box, lamp_from_uvc_flux(2.0, LampGeometry((2.0, 2.5, 2.0))))
+    assert not any("heads straight into" in w for w in centre.warnings)

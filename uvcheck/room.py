@@ -77,6 +77,11 @@ ACTINIC_LIMIT_J_M2 = 30.0           # IEC 62471:2006 clause 4.3.1: E_S·t ≤ 30
 #: A lamp closer than this to eye height is within reach of the eyes: no occupant exposure
 #: figure bounds it (our own rule). [m]
 EYE_CLEARANCE_M = 0.3
+#: A lamp closer than this to a wall, the floor or the ceiling is taken as mounted on it (our
+#: own rule): the part of its pattern that heads into that surface is reported. [m]
+SURFACE_CLEARANCE_M = 0.1
+#: Share of the output heading into a surface above which that is said (our own rule). [-]
+SURFACE_SHARE_WARN = 0.05
 
 
 # ---------------------------------------------------------------------------------------------
@@ -190,6 +195,48 @@ class LampGeometry:
             return np.clip(-dirs[..., 2], 0.0, None) / math.pi
         c = dirs @ AXES[self.axis]
         return np.sqrt(np.clip(1.0 - c * c, 0.0, None)) / math.pi ** 2
+
+
+_FACES = (("the wall at x = 0", 0, -1.0), ("the wall at x = W", 0, 1.0),
+          ("the wall at y = 0", 1, -1.0), ("the wall at y = L", 1, 1.0),
+          ("the floor", 2, -1.0), ("the ceiling", 2, 1.0))
+
+
+def into_near_surfaces(room: Box, lamp: LampGeometry,
+                       clearance_m: float = SURFACE_CLEARANCE_M,
+                       n_dirs: int = 4000) -> tuple[float, tuple[str, ...]]:
+    """(share of the lamp's flux heading into the room surfaces closer than ``clearance_m``
+    to it, those surfaces). A lamp on a surface sends that share straight into it, which the
+    model counts only as reflected light; a fitting mounted there emits into the room instead.
+    The share is Σ I(Ω) dΩ over the directions with a positive component along a near face's
+    outward normal (directions on a Fibonacci sphere, equal solid angles), averaged over the
+    lamp's point sources. [-]
+
+    Examples
+    --------
+    >>> share, faces = into_near_surfaces(Box(4.0, 5.0, 2.7), LampGeometry((0.0, 2.5, 1.5)))
+    >>> round(share, 2), faces            # an isotropic lamp on a wall: half [derived]
+    (0.5, ('the wall at x = 0',))
+    """
+    k = np.arange(n_dirs) + 0.5
+    z = 1.0 - 2.0 * k / n_dirs
+    phi = math.pi * (1.0 + math.sqrt(5.0)) * k
+    r = np.sqrt(1.0 - z * z)
+    dirs = np.column_stack([r * np.cos(phi), r * np.sin(phi), z])
+    dw = 4.0 * math.pi / n_dirs
+    ext = room.extent
+    pts, wts = lamp.sources()
+    share, named = 0.0, []
+    for p, w in zip(pts, wts):
+        into = np.zeros(n_dirs, dtype=bool)
+        for name, axis, sign in _FACES:
+            gap = p[axis] if sign < 0 else ext[axis] - p[axis]
+            if gap < clearance_m:
+                into |= sign * dirs[:, axis] > 0
+                if name not in named:
+                    named.append(name)
+        share += w * float(np.sum(lamp.intensity_per_W(dirs[into])) * dw)
+    return share, tuple(named)
 
 
 # ---------------------------------------------------------------------------------------------
@@ -703,6 +750,16 @@ def evaluate_room(room: Box, lamp: RoomLamp, *, reflectance: float = DEFAULT_REF
         notes.append(f"{g.statement} The room figures are {FIGURES_ARE[figures]}."
                      if figures != "estimate" else
                      f"{g.statement} The room figures below are what this weak UV-C gives.")
+    share, faces = into_near_surfaces(room, geom)
+    if share > SURFACE_SHARE_WARN:
+        warnings.append(f"the lamp is within {SURFACE_CLEARANCE_M:g} m of "
+                        f"{' and '.join(faces)}: {share:.0%} of its output ({geom.pattern} "
+                        "pattern) heads straight into it and reaches the room only as "
+                        "reflection. A fitting mounted there sends that output into the room, so "
+                        f"the direct figures, the occupant's exposure among them, can be up to "
+                        f"{1.0 / max(1.0 - share, 1e-9):.2g}× higher than shown; give the "
+                        "fitting's own pattern (lambertian-down for a ceiling fitting) or its "
+                        "real position.")
     if geom.pattern == "cylinder" and geom.tube_length_m <= 0:
         warnings.append("cylinder pattern without a tube length: the tube is modelled as one "
                         "point with the cylinder's sin ψ pattern (a short tube), and the flux "
