@@ -134,3 +134,22 @@ def test_worded_areas_keep_their_kind():
         parse_quantity("200 sq ft", "length")
     with pytest.raises(UnitError):
         parse_quantity("30 cubic metres", "area")
+
+
+# Spectral units as exports write them without separators or with a quotient in parentheses;
+# factors by the SI prefixes (1 µW/cm² = 10 mW/m², 1 mW/cm² = 10 W/m²).
+@pytest.mark.parametrize("text,factor", [
+    ("W/m2nm", 1.0), ("uW/cm2nm", 0.01), ("(W/m2)/nm", 1.0), ("(mW/cm2)/nm", 10.0),
+    ("W/(m2 nm)", 1.0), ("µW/(cm²·nm)", 0.01),
+])
+def test_run_together_and_parenthesised_spectral_units(text, factor):
+    u = parse_spectral_unit(text)
+    assert u.quantity == "irradiance"
+    assert u.factor == pytest.approx(factor, rel=1e-12)
+
+
+def test_a_quotient_in_a_denominator_inverts():
+    from uvcheck.units import parse_unit
+
+    # nm/(W/m2) = nm·m²/W: dimensions m³ W⁻¹ (SI definitions)
+    assert dict(parse_unit("nm/(W/m2)").dims_key()) == {"m": 3, "W": -1}

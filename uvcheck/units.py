@@ -92,6 +92,7 @@ def normalise_unit_text(text: str) -> str:
     s = _SQUARE_RE.sub(lambda m: _LENGTH_WORD.get(m.group(2).lower(), m.group(2)) + "2", s)
     s = _CUBIC_RE.sub(lambda m: _LENGTH_WORD.get(m.group(2).lower(), m.group(2)) + "3", s)
     s = re.sub(r"(?i)\bsqm\b", "m2", s)
+    s = re.sub(r"(?<=[A-Za-z]\d)(?=[A-Za-z])", " ", s)     # "W/m2nm" -> "W/m2 nm"
     s = re.sub(r"\s+", " ", s)
     return s.strip()
 
@@ -248,6 +249,10 @@ def _tokens_to_unit(text: str, where: str) -> tuple[float, dict[str, int]]:
             raise UnitError(f"empty denominator in unit {text!r}", where)
         if piece.startswith("(") and piece.endswith(")") and piece.count("(") == 1:
             piece = piece[1:-1]
+            if "/" in piece:
+                # a quotient in parentheses: "(W/m2)/nm", "nm/(W/m2)"
+                add(*_tokens_to_unit(piece, where), sign)
+                continue
         if "(" in piece:
             raise UnitError(f"cannot read nested parentheses in unit {text!r}", where)
         for tok in piece.split():
