@@ -243,3 +243,25 @@ def test_comma_groups_decide_the_decimal_mark(tmp_path):
     assert np.array_equal(spec.values, n.astype(float))
     assert any("',' is a thousands separator in this file ('1,202,000' on line 92)" in x
                for x in rep.warnings)
+
+
+def test_the_one_calibrated_column_beside_raw_ones_is_used(tmp_path):
+    # raw counts beside a calibrated spectral irradiance (uW/cm²/nm: 1 µW/cm² = 10 mW/m² by
+    # the SI prefixes): the column with the absolute unit is the spectrum, and the report
+    # says which was used and why
+    text = ("Pixel\tWavelength (nm)\tDark\tSample\tIrradiance (uW/cm2/nm)\n"
+            + "\n".join(f"{i}\t{a}\t{100 + i % 3}\t{2000 + i}\t{b * 100:.6e}"
+                        for i, (a, b) in enumerate(zip(WL, E))))
+    spec, rep = read_spectrum(write(tmp_path, "calibrated.txt", text))
+    assert rep.value_column == "Irradiance (uW/cm2/nm)"
+    assert spec.quantity == "irradiance"
+    assert integrate(spec, 250, 800).value == pytest.approx(AREA, rel=1e-4)
+    said = " ".join(rep.warnings)
+    assert "only one with an absolute spectral unit" in said and "'Dark'" in said
+
+
+def test_two_calibrated_columns_still_ask(tmp_path):
+    text = ("Wavelength (nm),Irradiance (W/m2/nm),Irradiance (uW/cm2/nm)\n"
+            + "\n".join(f"{a},{b:.6e},{b * 100:.6e}" for a, b in zip(WL, E)))
+    with pytest.raises(InputFormatError, match=r"2 value columns .*--column"):
+        read_spectrum(write(tmp_path, "two.csv", text))

@@ -41,7 +41,7 @@ from dataclasses import dataclass, field, fields, replace
 from collections import Counter
 from itertools import islice, repeat
 from pathlib import Path
-from typing import Any, Iterable, Iterator
+from typing import Any, Iterable, Iterator, Sequence
 
 import numpy as np
 
@@ -1313,7 +1313,8 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
     data = [np.frombuffer(c, dtype=np.float64) for c in cols]
     line_no = np.frombuffer(row_lines, dtype=np.dtype(f"u{row_lines.itemsize}"))
     # ---- choose columns -------------------------------------------------------------
-    wl_idx, val_idx, idx_note = _pick_columns(names, data, opts, where, block.start, hint)
+    wl_idx, val_idx, idx_note = _pick_columns(names, data, opts, where, block.start, hint,
+                                              col_units)
     if idx_note:
         warnings.append(idx_note)
     wl_raw = data[wl_idx]
@@ -1738,8 +1739,19 @@ def _instrument_notes(meta: dict[str, str]) -> dict[str, str]:
     return {k: v for k, v in list(meta.items()) if rx.search(k)}
 
 
+def _absolute_unit(text: str | None) -> bool:
+    """Whether a column's unit text is an absolute spectral unit (irradiance, radiance, flux)."""
+    if not text:
+        return False
+    try:
+        return parse_spectral_unit(text).quantity != "relative"
+    except UnitError:
+        return False
+
+
 def _pick_columns(names: list[str], data: list[np.ndarray], opts: ReadOptions, where: str,
-                  start: int, hint: str = "") -> tuple[int, int, str | None]:
+                  start: int, hint: str = "", col_units: Sequence[str | None] | None = None
+                  ) -> tuple[int, int, str | None]:
     n = len(names)
     seen: dict[int, bool] = {}
     fin = [_finite_values(c) for c in data]  # each column's finite values, found once
@@ -1801,6 +1813,18 @@ def _pick_columns(names: list[str], data: list[np.ndarray], opts: ReadOptions, w
         raise InputFormatError("no value column next to the wavelengths", f"{where} line {start + 1}",
                                "the file needs a wavelength column and a value column")
     if len(cands) > 1:
+        # raw columns beside a calibrated one (dark, reference, sample counts and the
+        # spectral irradiance): the one column with an absolute spectral unit is the spectrum
+        units = list(col_units) if col_units is not None else [None] * n
+        calibrated = [k for k in cands
+                      if _absolute_unit(units[k] or _unit_from_header(names[k]))]
+        if len(calibrated) == 1:
+            k = calibrated[0]
+            others = ", ".join(f"{j + 1} {names[j]!r}" for j in cands if j != k)
+            used = (f"column {k + 1} ({names[k]!r}) was used: of the {len(cands)} value columns "
+                    f"it is the only one with an absolute spectral unit (the others, {others}, "
+                    "have none); give --column to choose another")
+            return wl_idx, k, used if note is None else f"{note}; {used}"
         listing = ", ".join(f"{k + 1} {names[k]!r}" for k in cands)
         raise InputFormatError(f"{len(cands)} value columns ({listing}){hint}",
                                f"{where} line {start + 1}",
