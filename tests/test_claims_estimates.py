@@ -333,3 +333,35 @@ text = "for rooms up to 4000 m²"
     centre = total_integral(r._room_lamp(box, "centre").flux_spectrum)
     e_axis = total_integral(r.spectrum)
     assert centre == pytest.approx(e_axis * math.pi * r.d_ref ** 2, rel=1e-6)
+
+
+def test_every_case_rule_is_one_rule_for_distance_and_occupant():
+    """Our own rule (DEVELOPERS.md, honest results): on an estimate, a safety claim holds only
+    when every case stays within the limits; a case that exceeds a limit, or whose figure is
+    not confirmed (not assessed, or a lower bound), leaves it not assessable. One helper,
+    claims._other_cases, applies it to the distance and the room-occupant branches alike
+    (before, the occupant branch let an unconfirmed case pass)."""
+    from types import SimpleNamespace
+
+    from uvcheck.claims import _other_cases
+
+    c = SimpleNamespace(id="s", kind="safety", text="safe in occupied rooms")
+    ev = SimpleNamespace(measured=False, readings=(1,), limit_set_id="iec62471_2006",
+                         limits_named=lambda: "")
+    likely = SimpleNamespace(label="typical", evidence="nominal estimate")
+    low, high = SimpleNamespace(label="min"), SimpleNamespace(label="max")
+    t = 8 * 3600.0
+
+    def probe(table):
+        return lambda x: table[x.label]
+
+    ok = {"min": (9e4, "E_S", True), "max": (4e4, "E_S", True)}
+    v, shortest = _other_cases(c, ev, likely, t, "for an occupant", [low, high], probe(ok), [], {})
+    assert v is None and shortest == (4e4, high)
+    unconfirmed = {"min": (9e4, "E_S", True), "max": (4e4, "E_S", False)}
+    v, _ = _other_cases(c, ev, likely, t, "for an occupant", [low, high], probe(unconfirmed),
+                        [], {})
+    assert v.verdict == "not-assessable" and "max could not be fully assessed" in v.basis
+    exceeds = {"min": (9e4, "E_S", True), "max": (600.0, "the daily actinic UV limit", True)}
+    v, _ = _other_cases(c, ev, likely, t, "for an occupant", [low, high], probe(exceeds), [], {})
+    assert v.verdict == "not-assessable" and "the max case reaches" in v.basis

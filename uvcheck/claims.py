@@ -43,7 +43,7 @@ import math
 import re
 from dataclasses import dataclass, field, replace
 from functools import cached_property
-from typing import Any, Iterable, Mapping, Sequence
+from typing import Any, Callable, Iterable, Mapping, Sequence
 
 from uvcheck.conditions import WORKDAY_S, Conditions
 from uvcheck.errors import ConfigurationError
@@ -1362,6 +1362,37 @@ def _only_likely_within(c: Any, ev: Evidence, r: Reading, t: float, where: str,
                    RULE_SAFETY_ESTIMATE)
 
 
+def _other_cases(c: Any, ev: Evidence, r: Reading, t: float, where: str, cases: list[Reading],
+                 probe: Callable[[Reading], tuple[float | None, str, bool]],
+                 assumptions: Sequence[str], details: dict[str, Any]
+                 ) -> tuple[Verdict | None, tuple[float, Reading] | None]:
+    """The one rule for a safety claim on an estimate whose most likely case stays within the
+    limits: every other case must too. ``probe(x)`` gives a case's (time to a limit or None,
+    which limit in words, whether its figure is confirmed: fully assessed, not a lower
+    bound). Returns (the verdict when a case exceeds a limit, or when one cannot be
+    confirmed: ``not-assessable`` either way; else None) and the shortest time to a limit over
+    the cases, with its case."""
+    exceed, unconfirmed = [], []
+    shortest: tuple[float, Reading] | None = None
+    for x in cases:
+        tx, what, confirmed = probe(x)
+        if tx is not None and tx < t:
+            exceed.append((tx, what, x))
+        elif not confirmed:
+            unconfirmed.append(x)
+        if tx is not None and (shortest is None or tx < shortest[0]):
+            shortest = (tx, x)
+    if exceed:
+        return _only_likely_within(c, ev, r, t, where, exceed, [r] + cases, assumptions,
+                                   details), shortest
+    if unconfirmed:
+        return _na(c, ev, f"{where} within the limits in the most likely case ({r.label}), but "
+                          f"{', '.join(x.label for x in unconfirmed)} could not be fully "
+                          f"assessed, so safety cannot be confirmed{ev.limits_named()}",
+                   SAFETY_MEASUREMENT_NEEDED, assumptions), shortest
+    return None, shortest
+
+
 def _safety(c: Any, ev: Evidence) -> Verdict:
     v = _safety_verdict(c, ev)
     if v.verdict == "holds" and not ev.measured and _rests_on_stated_filter(ev):
@@ -1437,15 +1468,16 @@ def _safety_verdict(c: Any, ev: Evidence) -> Verdict:
         details = {"for": who, "limit_set": ev.limit_set_id, "hazard": occ.get("symbol"),
                    "share_of_limit": share}
         if verdict == "holds" and cases:
-            exceed = []
-            for x in cases:
-                ox = x.occupant_exposure(box[0], ev.limit_set_id)
-                tx = ox.get("time_to_limit_s")
-                if ox.get("evaluated") and tx is not None and tx < t:
-                    exceed.append((tx, what, x))
-            if exceed:
-                return _only_likely_within(c, ev, r, t, "for an occupant", exceed,
-                                           [r] + cases, assumptions, details)
+            def occupant(x: Reading) -> tuple[float | None, str, bool]:
+                ox = x.occupant_exposure(box[0], ev.limit_set_id)  # type: ignore[index]
+                ok = bool(ox.get("evaluated"))
+                return (ox.get("time_to_limit_s") if ok else None, what,
+                        ok and not ox.get("lower_bound"))
+
+            other, _ = _other_cases(c, ev, r, t, "for an occupant", cases, occupant,
+                                    assumptions, details)
+            if other is not None:
+                return other
             basis += f"; so in every case of the estimate ({labels})"
         return Verdict(c.id, c.kind, c.text, verdict, Quantity(t, "s", "exposure time"),
                        None if tl is None else
@@ -1491,29 +1523,22 @@ def _safety_verdict(c: Any, ev: Evidence) -> Verdict:
     details = {"distance_m": d, "for": who, "limit_set": ev.limit_set_id}
     shortest = (worst[0], r) if worst else None
     if cases:
-        exceed, unconfirmed = [], []
-        for x in cases:
+        def at_distance(x: Reading) -> tuple[float | None, str, bool]:
             if x.d_ref is None:
-                unconfirmed.append(x)
-                continue
+                return None, "", False
             _, wx, ox = _exposure_at(x, ev, d)
-            if wx is not None and wx[0] < t:
-                h = wx[1]
-                exceed.append((wx[0], f"the {h.get('name') or h.get('symbol')} limit "
-                                      f"({h.get('symbol')})", x))
-            elif ox:
-                unconfirmed.append(x)
-            if wx is not None and (shortest is None or wx[0] < shortest[0]):
-                shortest = (wx[0], x)
-        if exceed:
-            return _only_likely_within(c, ev, r, t, f"at {sig(d)} m", exceed, [r] + cases,
-                                       assumptions, details)
-        if unconfirmed:
-            return _na(c, ev, f"at {sig(d)} m within the limits in the most likely case "
-                              f"({r.label}), but "
-                              f"{', '.join(x.label for x in unconfirmed)} could not be fully "
-                              f"assessed, so safety cannot be confirmed{lnamed}",
-                       SAFETY_MEASUREMENT_NEEDED, assumptions)
+            if wx is None:
+                return None, "", not ox
+            h = wx[1]
+            return wx[0], f"the {h.get('name') or h.get('symbol')} limit ({h.get('symbol')})", \
+                not ox
+
+        other, short_x = _other_cases(c, ev, r, t, f"at {sig(d)} m", cases, at_distance,
+                                      assumptions, details)
+        if other is not None:
+            return other
+        if short_x is not None and (shortest is None or short_x[0] < shortest[0]):
+            shortest = short_x
     tm = shortest[0] if shortest else None
     every = f" in every case of the estimate ({labels})" if cases else ""
     return Verdict(c.id, c.kind, c.text, "holds", Quantity(t, "s", "exposure time"),
