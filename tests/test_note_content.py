@@ -488,3 +488,15 @@ def test_a_spectrum_file_that_says_it_is_invented_gets_the_banner(tmp_path):
                                for a in wl), encoding="utf-8")
     res, _ = note_result(plain, None)
     assert res["input"]["invented"] is False and build_note(res)["invented"] is False
+
+
+def test_note_names_action_spectra_and_patterns_in_words(tube):
+    # readers see names, not internal ids (our own wording rule); the ids stay as data
+    # attributes for tools that read the HTML
+    text = text_of(tube["html"].split("<h2", 1)[1])
+    table = text_of(re.search(r'<table class="spectra">.*?</table>', tube["html"], re.S).group(0))
+    assert "DNA nucleobase absorption" in table and "germicidal_dna" not in table
+    assert "uvc_unweighted" not in table and "Unweighted UV-C" in table
+    assert 'data-action-spectrum="germicidal_dna"' in tube["html"]
+    assert "cylinder (a bare tube)" in text
+    assert "alpha_min" not in text

@@ -77,13 +77,15 @@ def render_room(d: dict) -> str:
         return "\n".join(lines) + "\n"
     notes = list(d["notes"])
     from uvcheck.germicidal import UVC_EMITTING
+    from uvcheck.room import PATTERN_WORDS
 
     if st.get("germicidal_status") not in (None, *UVC_EMITTING):
         lines += [f"Note first: {notes.pop(0) if notes else st.get('statement')}", ""]
     lines += [
         f"Room {sig(dim['width'])} × {sig(dim['length'])} × {sig(dim['height'])} m "
         f"({sig(d['volume_m3'])} m³), wall reflectance {sig(d['reflectance'] * 100)} %",
-        f"Lamp at ({', '.join(sig(v) for v in lamp['position_m'])}) m, {lamp['pattern']}"
+        f"Lamp at ({', '.join(sig(v) for v in lamp['position_m'])}) m, "
+        f"{PATTERN_WORDS.get(lamp['pattern'], lamp['pattern'])}"
         + (f", tube {sig(lamp['tube_length_m'])} m along {lamp['axis']}" if lamp["tube_length_m"] else ""),
         f"  UV-C flux {_fmt(lamp['uvc_flux_W'], 'W')}; 254-nm-equivalent "
         f"{_fmt(lamp['equivalent_254_flux_W'], 'W')}  [{lamp['flux_basis']}]",
@@ -128,6 +130,7 @@ def render_room(d: dict) -> str:
 def _room_bounds(d: dict) -> list[str]:
     """The room, the labelled upper bounds and the occupant block for a lamp whose UV-C is
     likely stray light or below detection (nothing here is presented as delivered)."""
+    from uvcheck.room import PATTERN_WORDS
     from uvcheck.units import format_duration, sig
 
     dim = d["dimensions_m"]
@@ -135,7 +138,7 @@ def _room_bounds(d: dict) -> list[str]:
     occ = d["occupant"]
     lines = [f"Room {sig(dim['width'])} × {sig(dim['length'])} × {sig(dim['height'])} m "
              f"({sig(d['volume_m3'])} m³); lamp at ({', '.join(sig(v) for v in lamp['position_m'])}) m, "
-             f"{lamp['pattern']}"]
+             f"{PATTERN_WORDS.get(lamp['pattern'], lamp['pattern'])}"]
     ub = lamp.get("uvc_flux_upper_bound_W")
     if ub is not None:
         lines.append("Upper bound only, as if the whole apparent UV-C signal were real output "

@@ -65,6 +65,10 @@ from uvcheck.spectrum import Spectrum, integrate, scaled
 from uvcheck.weighting import get_weighting
 
 PATTERNS = ("isotropic", "lambertian_down", "cylinder")
+#: The patterns in words, for reports.
+PATTERN_WORDS = {"isotropic": "isotropic (all directions alike)",
+                 "lambertian_down": "downward Lambertian (a ceiling fitting)",
+                 "cylinder": "cylinder (a bare tube)"}
 AXES = {"x": np.array([1.0, 0.0, 0.0]), "y": np.array([0.0, 1.0, 0.0])}
 DEFAULT_REFLECTANCE = 0.05          # ordinary paint at 254 nm, about 5 % (from memory)
 DEFAULT_WORK_PLANE_M = 0.75         # desk height (common practice)
@@ -542,7 +546,7 @@ def lamp_from_spectrum(spectrum: Spectrum, geometry: LampGeometry,
                   note={"method": "irradiance to flux", "from_m": measured_at_m,
                         "pattern": geometry.pattern})
     return RoomLamp(geometry, flux, f"flux estimated from the irradiance at {measured_at_m:g} m "
-                                    f"on the lamp's axis ({geometry.pattern} pattern)")
+                                    f"on the lamp's axis ({PATTERN_WORDS[geometry.pattern]} pattern)")
 
 
 def lamp_from_uvc_flux(flux_W: float, geometry: LampGeometry,
@@ -753,7 +757,7 @@ def evaluate_room(room: Box, lamp: RoomLamp, *, reflectance: float = DEFAULT_REF
     share, faces = into_near_surfaces(room, geom)
     if share > SURFACE_SHARE_WARN:
         warnings.append(f"the lamp is within {SURFACE_CLEARANCE_M:g} m of "
-                        f"{' and '.join(faces)}: {share:.0%} of its output ({geom.pattern} "
+                        f"{' and '.join(faces)}: {share:.0%} of its output ({PATTERN_WORDS[geom.pattern]} "
                         "pattern) heads straight into it and reaches the room only as "
                         "reflection. A fitting mounted there sends that output into the room, so "
                         f"the direct figures, the occupant's exposure among them, can be up to "

@@ -845,6 +845,12 @@ def times_caption(where: str, rows: list[dict[str, Any]]) -> str:
                   "organism is not a typical germ.")
 
 
+def _pattern_words(pattern: str | None) -> str | None:
+    from uvcheck.room import PATTERN_WORDS
+
+    return PATTERN_WORDS.get(pattern or "", pattern)
+
+
 def germicidal_block(result: Result) -> dict[str, Any] | None:
     g = result.get("germicidal")
     if not g:
@@ -857,9 +863,11 @@ def germicidal_block(result: Result) -> dict[str, Any] | None:
         # none is established) or, for a band measured in part, a lower bound
         sign = ("≤ " if e.get("equivalent") is None else
                 "≥ " if e.get("status") == "partial" else "") if eq is not None else ""
-        spectra.append({"id": aid, "value": _reading_text(e),
+        name = e.get("name") or aid
+        spectra.append({"id": aid, "label": name, "value": _reading_text(e),
                         "equivalent": sign + quantity(eq, e.get("unit")),
-                        "from_memory": bool(e.get("from_memory"))})
+                        # said once: a name that says it already needs no flag
+                        "from_memory": bool(e.get("from_memory")) and "from memory" not in name})
     vb = eff.get("violet_blue_405") or {}
     unc = result.get("uncertainty") or {}
     hl, rows = organism_rows(g, unc.get("germicidal") if unc.get("status") == "evaluated" else None)
@@ -902,7 +910,7 @@ def room_block(result: Result) -> dict[str, Any] | None:
         "volume": f"{sig(r.get('volume_m3'))} m³",
         "reflectance": percent(r.get("reflectance")),
         "lamp_at": ", ".join(sig(v) for v in lamp.get("position_m") or []) + " m",
-        "pattern": lamp.get("pattern"), "flux_basis": lamp.get("flux_basis"),
+        "pattern": _pattern_words(lamp.get("pattern")), "flux_basis": lamp.get("flux_basis"),
         "uvc_flux": quantity(lamp.get("uvc_flux_W"), "W"),
         "plane_height": distance(pl.get("height_m")),
         "plane": [{"label": k, "value": quantity(pl.get(f"{k}_W_m2"), "W m-2")}

@@ -526,7 +526,7 @@ def render_note_pdf(view: Mapping[str, Any], figures: Sequence[Mapping[str, Any]
                  size=8, bold_lead="Suspect signal.")
         if g.get("spectra"):
             _table(pdf, ("Action spectrum", "Effective irradiance", "254-nm-equivalent"),
-                   [(s["id"] + (" (from memory)" if s["from_memory"] else ""), s["value"], s["equivalent"])
+                   [(s["label"] + (" (from memory)" if s["from_memory"] else ""), s["value"], s["equivalent"])
                     for s in g["spectra"]], (30, 40, 30), size=7.5)
         if g.get("highlight"):
             _subheading(pdf, f"Times to 90 % and 99.9 % ({g['pathway']})")
