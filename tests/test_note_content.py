@@ -500,3 +500,18 @@ def test_note_names_action_spectra_and_patterns_in_words(tube):
     assert 'data-action-spectrum="germicidal_dna"' in tube["html"]
     assert "cylinder (a bare tube)" in text
     assert "alpha_min" not in text
+
+
+@pytest.mark.skipif(not POPPLER, reason="poppler (pdftotext) not installed")
+def test_pdf_table_heading_is_never_left_alone_at_a_page_foot(tmp_path):
+    # our own layout rule: a table's heading goes to the page where its first row fits
+    pdf_doc = pdf._new("footer", "t")
+    pdf_doc.set_y(pdf_doc.h - pdf_doc.b_margin - 12)  # room for the heading, not for the row
+    tall = "\n".join(f"line {k} of a long basis" for k in range(12))
+    pdf._table(pdf_doc, ("Claim as sold", "Basis"), [("a claim", tall)], (30, 70))
+    out = tmp_path / "t.pdf"
+    out.write_bytes(bytes(pdf_doc.output()))
+    pages = [subprocess.run(["pdftotext", "-f", str(k), "-l", str(k), str(out), "-"],
+                            capture_output=True, text=True, check=True).stdout for k in (1, 2)]
+    assert "Claim as sold" not in pages[0]
+    assert "Claim as sold" in pages[1] and "line 11 of a long basis" in pages[1]

@@ -341,10 +341,7 @@ def _table(pdf: Any, headings: Sequence[str] | None, rows: Sequence[Sequence[str
         if head is not None:
             draw(*head, fill=(236, 236, 232))
 
-    if head is not None and pdf.get_y() + head[3] + lh + 2 * pad_y > bottom:
-        pdf.add_page()
-    heading()
-    for i, row in enumerate(rows):
+    def row_style(i: int, row: Sequence[str]) -> tuple[list[str], list[tuple]]:
         styles, colours = [], []
         for j in range(len(row)):
             if verdict_col is not None and j == verdict_col and verdicts:
@@ -353,6 +350,16 @@ def _table(pdf: Any, headings: Sequence[str] | None, rows: Sequence[Sequence[str
             else:
                 styles.append("B" if bold_col is not None and j == bold_col else "")
                 colours.append(INK)
+        return styles, colours
+
+    # the heading goes where its first row fits too (no heading left alone at a page's foot)
+    first = layout(rows[0], row_style(0, rows[0])[0])[1] if rows else lh + 2 * pad_y
+    need = (head[3] if head is not None else 0.0) + first
+    if pdf.get_y() + need > bottom and need < bottom - pdf.t_margin:
+        pdf.add_page()
+    heading()
+    for i, row in enumerate(rows):
+        styles, colours = row_style(i, row)
         lines, h = layout(row, styles)
         if pdf.get_y() + h > bottom and h < bottom - pdf.t_margin:
             pdf.add_page()
