@@ -515,3 +515,13 @@ def test_pdf_table_heading_is_never_left_alone_at_a_page_foot(tmp_path):
                             capture_output=True, text=True, check=True).stdout for k in (1, 2)]
     assert "Claim as sold" not in pages[0]
     assert "Claim as sold" in pages[1] and "line 11 of a long basis" in pages[1]
+
+
+def test_note_writes_units_in_one_style(wand, tube):
+    # the science modules write SI ids ("W m-2 nm-1") inside sentences; the note shows them
+    # as it shows every other unit (W/(m²·nm), W/m²), in the HTML text and the PDF view
+    for case in (wand, tube):
+        html_text = text_of(re.sub(r"<script.*?</script>", "", case["html"], flags=re.S))
+        assert not re.search(r"W m-2|J m-2|nm-1", html_text)
+    assert note.units_in_words("E_S 1.2 W m-2 sr-1 nm-1 and 3 J m-2") == \
+        "E_S 1.2 W/(m²·sr·nm) and 3 J/m²"

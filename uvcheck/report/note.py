@@ -15,6 +15,7 @@ from __future__ import annotations
 
 import datetime as _dt
 import os
+import re
 from typing import Any, Iterable, Mapping
 
 from uvcheck.germicidal import UVC_EMITTING
@@ -59,6 +60,39 @@ PDF_CHOICE = ("The PDF is written by fpdf2, a pure-Python library: it needs no w
 
 _SI_LABEL = {"W m-2": "W/m²", "J m-2": "J/m²", "W m-2 sr-1": "W/(m²·sr)", "W": "W",
              "W m-2 nm-1": "W/(m²·nm)", "lx": "lx"}
+
+
+#: SI unit ids as the science modules write them inside sentences, longest first, and their
+#: display forms (the note shows one unit style throughout).
+_UNIT_IN_TEXT = [(re.compile(r"(?<![\w/^])" + re.escape(k) + r"(?![\w^])"), v) for k, v in (
+    ("W m-2 sr-1 nm-1", "W/(m²·sr·nm)"), ("W m-2 nm-1", "W/(m²·nm)"), ("W m-2 sr-1", "W/(m²·sr)"),
+    ("J m-2 sr-1", "J/(m²·sr)"), ("W m-2", "W/m²"), ("J m-2", "J/m²"), ("W nm-1", "W/nm"))]
+#: View keys whose texts are data, not prose (kept as they are).
+_DATA_KEYS = {"id", "file", "sha256", "schema", "json"}
+
+
+def units_in_words(view: Any) -> Any:
+    """The view with SI unit ids inside its texts ('2.9e-05 W m-2 nm-1') in the note's display
+    form ('2.9e-05 W/(m²·nm)'), keys in :data:`_DATA_KEYS` left alone.
+
+    Examples
+    --------
+    >>> units_in_words({"basis": "a flat level (2.95e-05 W m-2 nm-1) at 1 W m-2", "id": "W m-2"})
+    {'basis': 'a flat level (2.95e-05 W/(m²·nm)) at 1 W/m²', 'id': 'W m-2'}
+    """
+    if isinstance(view, str):
+        if "m-2" not in view and "nm-1" not in view:
+            return view
+        for rx, label in _UNIT_IN_TEXT:
+            view = rx.sub(label, view)
+        return view
+    if isinstance(view, dict):
+        return {k: (v if k in _DATA_KEYS else units_in_words(v)) for k, v in view.items()}
+    if isinstance(view, list):
+        return [units_in_words(v) for v in view]
+    if isinstance(view, tuple):
+        return tuple(units_in_words(v) for v in view)
+    return view
 
 
 def unit_label(unit: str | None) -> str:
@@ -1449,7 +1483,7 @@ def build_note(result: Result, listing: Mapping[str, Any] | None = None, *,
            bool(product and product["invented"]) or bool((result.get("input") or {}).get("invented")))
     name = title or (product["name"] if product else None) or (
         os.path.basename(str(inp.get("path"))) if inp.get("path") else "Lamp")
-    return {
+    return units_in_words({
         "title": name,
         "subtitle": "Consumer-safety note",
         "invented": inv, "invented_text": INVENTED_TEXT,
@@ -1486,4 +1520,4 @@ def build_note(result: Result, listing: Mapping[str, Any] | None = None, *,
         "cautions": cautions,
         "does_not_cover": _does_not_cover(result),
         "provenance": provenance(result, li, date or generated_date(), references),
-    }
+    })
