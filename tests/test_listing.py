@@ -325,3 +325,31 @@ def test_french_and_german_kill_claims_are_read(text, organism, time_s):
     c = parse_claim_text(text)
     assert c.kind == "inactivation" and c.organism == organism and c.time_s == time_s
     assert c.reduction_fraction is not None
+
+
+# Listing wordings met in marketplace texts (our own reading rules; invented examples).
+@pytest.mark.parametrize("text,kind,fields", [
+    ("Effective range: 30㎡", "coverage", {"area_m2": 30.0}),                 # U+33A1
+    ("Sterilisation distance 10㎝, 99% in 60s", "inactivation",
+     {"distance_m": 0.1, "time_s": 60.0, "reduction_fraction": 0.99}),
+    ("Germicidal efficacy 99.9% @ 1m / 30min", "inactivation",
+     {"distance_m": 1.0, "time_s": 1800.0, "reduction_fraction": 0.999}),
+    ("pet friendly", "safety", {"safe_for": ("pets",)}),
+    ("Pet-friendly design", "safety", {"safe_for": ("pets",)}),
+    ("radiation-free", "safety", {"safe_for": ("people",)}),
+    ("No harmful radiation to the human body", "safety", {"safe_for": ("people",)}),
+    ("not harmful to pets", "safety", {"safe_for": ("pets",)}),
+])
+def test_marketplace_wordings(text, kind, fields):
+    c = parse_claim_text(text)
+    assert c.kind == kind
+    assert c.text == text                      # the claim keeps the seller's own characters
+    for k, v in fields.items():
+        got = getattr(c, k)
+        assert got == (pytest.approx(v) if isinstance(v, float) else v), k
+
+
+@pytest.mark.parametrize("text", ["eco-friendly", "UV light is harmful",
+                                  "Warning: harmful UV, not safe for eyes"])
+def test_wordings_that_are_not_safety_claims(text):
+    assert parse_claim_text(text).kind == "unrecognised"

@@ -915,6 +915,7 @@ _WL_RANGE_RE = re.compile(r"(\d{3}(?:[.,]\d+)?)\s*(?:nm)?\s*(?:-|–|to)\s*(\d{3
 _WL_RE = re.compile(r"(\d{3}(?:[.,]\d+)?)\s*nm\b", re.I)
 _POWER_RE = re.compile(rf"{_BIG}\s*(mW|W|watts?)\b")
 _KILL_RE = re.compile(r"\b(kill\w*|inactivat\w*|eliminat\w*|destroy\w*|remov\w*|disinfect\w*|"
+                      r"efficacy|germicidal\s+(?:rate|effect)|"
                       r"sterili[sz]\w*|saniti[sz]\w*|neutrali[sz]\w*|reduc\w*|"
                       r"get\s+rid\s+of|wipes?\s+out|"
                       # French and German wordings of the same (our own short list)
@@ -1003,9 +1004,24 @@ def says_ozone_made(text: str | None) -> bool:
     return bool(_OZONE_MENTION_RE.search(t)) and not says_ozone_free(t)
 
 
-_SAFE_RE = re.compile(r"\bsafe\b|\bsafely\b|harmless|\bno\s+harm\b|-safe\b", re.I)
+_SAFE_RE = re.compile(r"\bsafe\b|\bsafely\b|harmless|\bno\s+harm\b|-safe\b|\bnot\s+harmful\b|"
+                      r"\b(?:pets?|animals?|child(?:ren)?|kids?|bab(?:y|ies)|family)[\s-]*friendly\b|"
+                      r"\bradiation[\s-]*free\b|\bno\s+(?:harmful\s+)?radiation\b", re.I)
+#: "radiation-free": a UV lamp emits radiation by its nature, so the wording is read as a
+#: safety claim for people (our own reading).
+_RADIATION_FREE_RE = re.compile(r"\bradiation[\s-]*free\b|\bno\s+(?:harmful\s+)?radiation\b",
+                                re.I)
+#: Unit characters of CJK fonts (U+3380 block) as listings use them, with their spelling.
+_UNIT_CHARS = str.maketrans({"\u33a1": "m²", "\u33a5": "m³", "\u339d": "cm", "\u339c": "mm",
+                             "\u339a": "nm", "\u338e": "mg", "\u33a0": "cm²", "\u33a4": "cm³",
+                             "\u33be": "kW", "\u33bd": "mW", "\u33b3": "ms"})
+
+
+def _unit_characters(text: str) -> str:
+    """Unit characters such as '㎡' and '㎝' written out ('m²', 'cm')."""
+    return text.translate(_UNIT_CHARS)
 _NEGATION_RE = re.compile(r"\b(not\s+safe|unsafe|do\s+not|don'?t|never\s+(?:look|expose)|avoid|"
-                          r"harmful|dangerous|warning|caution)\b", re.I)
+                          r"(?<!no\s)(?<!not\s)harmful|dangerous|warning|caution)\b", re.I)
 _SUBJECT_RES = (
     ("people", re.compile(r"\b(people|humans?|persons?|adults?|family|families|everyone|users?)\b",
                           re.I)),
@@ -1237,6 +1253,7 @@ def parse_claim_text(text: str, claim_id: str = "c1", kind: str | None = None) -
     if not isinstance(text, str) or not text.strip():
         return Claim(id=claim_id, kind="unrecognised", text=text, structured=False,
                      note="empty text")
+    original, text = text, _unit_characters(text)
     q = _find_quantities(text)
     kinds: list[str] = []
     org, generic = _organism(text)
@@ -1274,13 +1291,13 @@ def parse_claim_text(text: str, claim_id: str = "c1", kind: str | None = None) -
             note = "mentions ozone but does not say 'ozone-free'"
         elif _SAFE_RE.search(text):
             note = "reads as a warning or a negation, not a safety claim"
-        return Claim(id=claim_id, kind="unrecognised", text=text, structured=False, note=note)
+        return Claim(id=claim_id, kind="unrecognised", text=original, structured=False, note=note)
     # ``kind``: read the text as that one of the kinds it makes (each part of a text that
     # makes several claims is judged; claims.evaluate_claims)
     first = kind if kind in kinds else kinds[0]
     kinds = [first] + [k for k in kinds if k != first]
     kind = first
-    kw: dict[str, Any] = {"id": claim_id, "kind": kind, "text": text, "structured": False}
+    kw: dict[str, Any] = {"id": claim_id, "kind": kind, "text": original, "structured": False}
     if kind == "inactivation":
         if "log" in q:
             kw.update(_reduction(None, q["log"]))
@@ -1299,6 +1316,8 @@ def parse_claim_text(text: str, claim_id: str = "c1", kind: str | None = None) -
         kw["area_m2"], kw["volume_m3"] = q.get("area_m2"), q.get("volume_m3")
     elif kind == "safety":
         kw["safe_for"] = tuple(s for s, rx in _SUBJECT_RES if rx.search(text))
+        if not kw["safe_for"] and _RADIATION_FREE_RE.search(text):
+            kw["safe_for"] = ("people",)
         kw["distance_m"] = q.get("distance_m")
         # a worded time ("in seconds") bounds nothing useful for exposure: only numbers count
         kw["time_s"] = None if q.get("time_word") else q.get("time_s")
