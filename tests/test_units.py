@@ -153,3 +153,10 @@ def test_a_quotient_in_a_denominator_inverts():
 
     # nm/(W/m2) = nm·m²/W: dimensions m³ W⁻¹ (SI definitions)
     assert dict(parse_unit("nm/(W/m2)").dims_key()) == {"m": 3, "W": -1}
+
+
+def test_cjk_unit_characters():
+    # U+33A1 SQUARE M SQUARED, U+339D SQUARE CM, U+33BD SQUARE MW (Unicode names)
+    assert parse_quantity("30㎡", "area").value_si == pytest.approx(30.0)
+    assert parse_quantity("10㎝", "length").value_si == pytest.approx(0.1)
+    assert parse_quantity("5 ㎽", "power").value_si == pytest.approx(0.005)

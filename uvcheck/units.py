@@ -66,6 +66,13 @@ _SUPERSCRIPTS = str.maketrans({"⁰": "0", "¹": "1", "²": "2", "³": "3", "⁴
                                "⁶": "6", "⁷": "7", "⁸": "8", "⁹": "9", "⁻": "-", "⁺": "+"})
 
 
+#: Unit characters of CJK fonts (the U+3380 block) as listings and exports use them, with
+#: their spelling.
+UNIT_CHARACTERS = str.maketrans({"\u33a1": "m²", "\u33a5": "m³", "\u339d": "cm", "\u339c": "mm",
+                                 "\u339a": "nm", "\u33a0": "cm²", "\u33a4": "cm³",
+                                 "\u33bd": "mW", "\u33be": "kW", "\u33b3": "ms"})
+
+
 def normalise_unit_text(text: str) -> str:
     """Fold the usual spellings of a unit text to plain ASCII.
 
@@ -79,7 +86,7 @@ def normalise_unit_text(text: str) -> str:
     >>> normalise_unit_text("W/(m^2*nm)")
     'W/(m2 nm)'
     """
-    s = text.strip().translate(_SUPERSCRIPTS)
+    s = text.strip().translate(UNIT_CHARACTERS).translate(_SUPERSCRIPTS)
     s = s.replace("\u00b5", "u").replace("\u03bc", "u").replace("\u00c2", "")
     s = s.replace("**", "").replace("^", "")
     for ch in ("\u00b7", "\u22c5", "*", "\u00d7", "\u2219", "\u2022"):

@@ -1011,15 +1011,11 @@ _SAFE_RE = re.compile(r"\bsafe\b|\bsafely\b|harmless|\bno\s+harm\b|-safe\b|\bnot
 #: safety claim for people (our own reading).
 _RADIATION_FREE_RE = re.compile(r"\bradiation[\s-]*free\b|\bno\s+(?:harmful\s+)?radiation\b",
                                 re.I)
-#: Unit characters of CJK fonts (U+3380 block) as listings use them, with their spelling.
-_UNIT_CHARS = str.maketrans({"\u33a1": "m²", "\u33a5": "m³", "\u339d": "cm", "\u339c": "mm",
-                             "\u339a": "nm", "\u338e": "mg", "\u33a0": "cm²", "\u33a4": "cm³",
-                             "\u33be": "kW", "\u33bd": "mW", "\u33b3": "ms"})
-
-
 def _unit_characters(text: str) -> str:
     """Unit characters such as '㎡' and '㎝' written out ('m²', 'cm')."""
-    return text.translate(_UNIT_CHARS)
+    from uvcheck.units import UNIT_CHARACTERS
+
+    return text.translate(UNIT_CHARACTERS)
 _NEGATION_RE = re.compile(r"\b(not\s+safe|unsafe|do\s+not|don'?t|never\s+(?:look|expose)|avoid|"
                           r"(?<!no\s)(?<!not\s)harmful|dangerous|warning|caution)\b", re.I)
 _SUBJECT_RES = (
