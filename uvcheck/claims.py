@@ -1599,9 +1599,128 @@ def _efficiency(c: Any, ev: Evidence) -> Verdict:
                    tuple(f.missing), "listing", None, {"finding": f.id, "basis": f.basis}, f.rule)
 
 
+# --- a stated risk group, a claimed approval ----------------------------------------------------
+
+#: Rule of a risk-group claim.
+RULE_RISK_GROUP = ("the risk-group rule (the IEC 62471:2006 group at its assessment distance, "
+                   "no benefit of the doubt; on an estimate, every case)")
+#: Rule of an approval claim (our own reading of public agency guidance; not legal advice).
+RULE_APPROVAL = ("agency practice (public agency guidance as the project's practice notes "
+                 "summarise it; at most 'unlikely'; not legal advice)")
+_GROUP_ORDER = ("Exempt", "RG1", "RG2", "RG3")
+
+
+def _group_span(r: Reading) -> tuple[int, int, Any] | None:
+    """(lowest, highest group index the data allow, the OverallRiskGroup) of a reading under
+    IEC 62471:2006, or None when no hazard could be assessed."""
+    from uvcheck.hazards import DEFAULT_LIMIT_SET
+
+    rg = r.hazards(DEFAULT_LIMIT_SET).risk_group
+    if rg.group is None:
+        return None
+    return (_GROUP_ORDER.index(rg.group), _GROUP_ORDER.index(rg.upper_bound or rg.group), rg)
+
+
+def _risk_group(c: Any, ev: Evidence) -> Verdict:
+    """A stated IEC 62471 risk group ("RG0", "Exempt (EN 62471)") against the group the data
+    give at the standard's assessment distance: it holds when the highest group the data
+    allow is no higher; it cannot hold when the lowest already is; otherwise (a group known
+    only as a lower bound) it is not assessable. On an estimate every case must hold (our own
+    rule, as for safety claims). Risk groups are those of IEC 62471:2006, whatever limit set
+    the rest of the assessment uses."""
+    if c.risk_group is None:
+        return _na(c, ev, "no risk group stated", c.missing())
+    r = ev.likely()
+    if r is None:
+        return _na(c, ev, NO_LAMP_DATA, NO_LAMP_DATA_NEEDS)
+    if not r.spectrum.is_absolute:
+        return _na(c, ev, "no absolute reading of the lamp: no risk group can be given",
+                   ("a scaled spectrum, or lamp.optical_power / lamp.electrical_power",))
+    if r.d_ref is None:
+        return _na(c, ev, "the measurement distance is unknown, so the risk group holds at the "
+                          "unknown measurement position, not at the IEC 62471 assessment "
+                          "distance", ("--distance",))
+    stated = _GROUP_ORDER.index(c.risk_group)
+    span = _group_span(r)
+    if span is None:
+        return _na(c, ev, "no hazard could be assessed from the data",
+                   ("a spectrum covering 200–1400 nm",))
+    lo, hi, rg = span
+    hz = r.hazards()
+
+    def sym(hid: str | None) -> str:
+        try:
+            return hz.hazard(hid).symbol if hid else "?"
+        except (KeyError, StopIteration, ConfigurationError):
+            return str(hid)
+
+    at = hz.evaluation.distance_m
+    where = f"at {sig(at)} m (the IEC 62471 assessment distance)"
+    details = {"stated": c.risk_group, "group": rg.group, "upper_bound": rg.upper_bound,
+               "governing": rg.governing, "distance_m": at}
+    label = (f"at least {rg.group}" if rg.is_lower_bound else rg.group)
+    if lo > stated:
+        return Verdict(c.id, c.kind, c.text, "cannot-hold", None, None, None,
+                       f"{where} the lamp is {label} (set by {sym(rg.governing)}), above the stated "
+                       f"{c.risk_group}", (), (), r.evidence, r.label, details, RULE_RISK_GROUP)
+    if hi > stated:
+        return _na(c, ev, f"{where} the lamp is {label} (set by {sym(rg.governing)}); "
+                          f"{', '.join(sym(h) for h in rg.open_hazards)} could not be fully "
+                          f"assessed, so it "
+                          f"could be as high as {rg.upper_bound}, above the stated "
+                          f"{c.risk_group}", ("a spectrum covering 200–1400 nm",
+                                              "the source size (--source-size)"))
+    cases = [x for x in ev.safety_cases() if x is not r] if not ev.measured else []
+    above, open_ = [], []
+    for x in cases:
+        sx = _group_span(x) if x.d_ref is not None else None
+        if sx is None:
+            open_.append(x.label)
+        elif sx[0] > stated:
+            above.append(f"{x.label}: {sx[2].group}")
+        elif sx[1] > stated:
+            open_.append(x.label)
+    if above or open_:
+        why = (f"the {'; '.join(above)} case{'s' if len(above) > 1 else ''} "
+               f"{'are' if len(above) > 1 else 'is'} above it" if above else
+               f"{', '.join(open_)} could not be fully assessed")
+        return _na(c, ev, f"{where} the most likely case ({r.label}) is {label}, within the "
+                          f"stated {c.risk_group}, but {why}; the estimate's range includes a "
+                          "higher group, so a measurement is needed", SAFETY_MEASUREMENT_NEEDED)
+    every = (f" in every case of the estimate ({' / '.join(x.label for x in ev.safety_cases())})"
+             if cases else "")
+    return Verdict(c.id, c.kind, c.text, "holds", None, None, None,
+                   f"{where} the lamp is {label} (set by {sym(rg.governing)}), within the stated "
+                   f"{c.risk_group}{every}", (), (), r.evidence, r.label, details, RULE_RISK_GROUP)
+
+
+def _approval(c: Any, ev: Evidence) -> Verdict:
+    """A claimed approval by an agency. The US EPA approves, certifies and registers no UV
+    lamp: a product that kills germs by light alone is a pesticide *device*, which carries
+    the EPA establishment number of the factory that made it, and that number is not an
+    approval (public agency guidance, as the project's practice notes summarise it): the
+    claim is 'unlikely'. An approval by the US FDA concerns medical devices, which the FDA
+    clears or approves by number; it can be checked only in the FDA's own device listings,
+    not from the lamp's data: 'not-assessable' (from memory; not legal advice)."""
+    if c.agency is None:
+        return _na(c, ev, "no agency named", c.missing())
+    if c.agency == "EPA":
+        return Verdict(c.id, c.kind, c.text, "unlikely", None, None, None,
+                       "the US EPA does not approve, certify or register UV lamps: a device "
+                       "that kills germs by light is a pesticide device, which carries the EPA "
+                       "establishment number of the factory that made it, and that number is "
+                       "not an approval", (), ("the label's EPA establishment number (not an "
+                                               "approval)",), "listing", None,
+                       {"agency": "EPA"}, RULE_APPROVAL)
+    return _na(c, ev, "the US FDA clears or approves medical devices by number (from memory); "
+                      "whether this product has such a number can be checked only in the FDA's "
+                      "own device listings, not from the lamp's data",
+               ("the FDA clearance or approval number, to look up in the FDA's device listings",))
+
+
 _JUDGES = {"emission": _emission, "inactivation": _inactivation, "coverage": _coverage,
            "ozone-free": _ozone, "safety": _safety, "optical-power": _optical_power,
-           "efficiency": _efficiency}
+           "efficiency": _efficiency, "risk-group": _risk_group, "approval": _approval}
 
 
 # ---------------------------------------------------------------------------------------------

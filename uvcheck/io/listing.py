@@ -39,7 +39,13 @@ FORMAT_ID = "uvcheck-listing/1"
 
 #: The fixed set of claim kinds.
 CLAIM_KINDS = ("emission", "inactivation", "coverage", "ozone-free", "safety", "optical-power",
-               "efficiency", "unrecognised")
+               "efficiency", "risk-group", "approval", "unrecognised")
+
+#: The IEC 62471 risk groups a risk-group claim can state (as uvcheck.limits.GROUPS, repeated
+#: so that the listing reader stays free of numpy).
+RISK_GROUPS = ("Exempt", "RG1", "RG2", "RG3")
+#: Agencies an approval claim can name.
+AGENCIES = ("EPA", "FDA")
 
 #: Media an inactivation claim can be about.
 MEDIA = ("surface", "air")
@@ -89,6 +95,8 @@ KIND_FIELDS: dict[str, tuple[str, ...]] = {
     "safety": ("safe_for", "distance", "time"),
     "optical-power": ("power", "band"),
     "efficiency": ("efficiency", "efficiency_of"),
+    "risk-group": ("risk_group",),
+    "approval": ("agency",),
     "unrecognised": (),
 }
 _ALL_CLAIM_KEYS = tuple(dict.fromkeys(_CLAIM_COMMON + sum(KIND_FIELDS.values(), ())))
@@ -161,6 +169,8 @@ class Claim:
     power_W: float | None = None
     efficiency_fraction: float | None = None
     efficiency_of: str | None = None
+    risk_group: str | None = None
+    agency: str | None = None
     note: str | None = None
     also_kinds: tuple[str, ...] = ()
 
@@ -212,6 +222,12 @@ class Claim:
         elif self.kind == "efficiency":
             if self.efficiency_fraction is None:
                 out.append("efficiency")
+        elif self.kind == "risk-group":
+            if self.risk_group is None:
+                out.append("the risk group (Exempt, RG1, RG2 or RG3)")
+        elif self.kind == "approval":
+            if self.agency is None:
+                out.append("the agency (EPA or FDA)")
         elif self.kind == "unrecognised":
             out.append("a statement of a kind uvcheck can check")
         return tuple(out)
@@ -229,6 +245,8 @@ class Claim:
             "safety": ("safe_for", "distance_m", "time_s"),
             "optical-power": ("power_W", "band_name", "band_nm"),
             "efficiency": ("efficiency_fraction", "efficiency_of"),
+            "risk-group": ("risk_group",),
+            "approval": ("agency",),
             "unrecognised": (),
         }
         for name in fields_by_kind[self.kind]:
@@ -816,6 +834,14 @@ def _claim(ctx: _Ctx, raw: Any, i: int) -> Claim:
         kw["efficiency_of"] = _choice(ctx, f("efficiency_of"), raw["efficiency_of"],
                                       {"uv-c": "UV-C", "uvc": "UV-C", "optical": "optical"},
                                       "efficiency basis")
+    if "risk_group" in raw:
+        kw["risk_group"] = _choice(ctx, f("risk_group"), str(raw["risk_group"]).replace(" ", ""),
+                                   {"exempt": "Exempt", "rg0": "Exempt", "0": "Exempt",
+                                    "rg1": "RG1", "1": "RG1", "rg2": "RG2", "2": "RG2",
+                                    "rg3": "RG3", "3": "RG3"}, "risk group")
+    if "agency" in raw:
+        kw["agency"] = _choice(ctx, f("agency"), raw["agency"], {"epa": "EPA", "fda": "FDA"},
+                               "agency")
     return Claim(**kw)
 
 
@@ -1030,6 +1056,34 @@ _SUBJECT_RES = (
     ("skin", re.compile(r"\bskin\b", re.I)),
 )
 _EFFICIENCY_RE = re.compile(r"efficien", re.I)
+#: A stated IEC 62471 risk group: "Risk group 1", "RG0", "RG 2", "risk group: exempt", "exempt
+#: group (EN 62471)"; "exempt" alone counts only beside a risk-group or photobiological wording.
+_RG_RE = re.compile(r"\b(?:risk[\s-]*group|RG)\s*[:#-]?\s*(0|1|2|3|III|II|I|exempt)\b", re.I)
+_RG_CONTEXT_RE = re.compile(r"risk[\s-]*group|\bRG\b|62471|photobiolog", re.I)
+_EXEMPT_RE = re.compile(r"\bexempt\b", re.I)
+_RG_WORDS = {"0": "Exempt", "exempt": "Exempt", "1": "RG1", "i": "RG1", "2": "RG2", "ii": "RG2",
+             "3": "RG3", "iii": "RG3"}
+#: A claimed approval by an agency ("EPA approved", "approved by the FDA", "FDA-certified");
+#: an EPA establishment number is not a claim of approval and does not match.
+_APPROVAL_RE = re.compile(r"\b(EPA|FDA)\b[\s-]*(approv\w*|certifi\w*|register\w*|clear\w*|"
+                          r"authori[sz]\w*)|\b(?:approv\w*|certifi\w*|register\w*|clear\w*)\s+"
+                          r"(?:by\s+)?(?:the\s+)?(?:US\s+)?(EPA|FDA)\b", re.I)
+
+
+def _stated_risk_group(text: str) -> str | None:
+    """The IEC 62471 risk group a text states, or None."""
+    m = _RG_RE.search(text)
+    if m:
+        return _RG_WORDS[m.group(1).lower()]
+    if _EXEMPT_RE.search(text) and _RG_CONTEXT_RE.search(text):
+        return "Exempt"
+    return None
+
+
+def _stated_agency(text: str) -> str | None:
+    """The agency a text says approved the product (EPA, FDA), or None."""
+    m = _APPROVAL_RE.search(text)
+    return None if m is None else (m.group(1) or m.group(3)).upper()
 _OUTPUT_RE = re.compile(r"\b(output|optical|radiant|radiated|emits?|emission|uv[\s-]*c?\s+power|"
                         r"uv[\s-]*c?\s+output|irradiat\w*)\b", re.I)
 _BAND_WORD_RE = re.compile(r"\b(far[\s-]?uv[\s-]?c?|uv[\s-]?[abc])\b", re.I)
@@ -1276,6 +1330,12 @@ def parse_claim_text(text: str, claim_id: str = "c1", kind: str | None = None) -
     band_name = _band_of_text(text)
     if "wavelength_nm" in q or "band_nm" in q or band_name:
         kinds.append("emission")
+    stated_rg = _stated_risk_group(text)
+    if stated_rg is not None:
+        kinds.append("risk-group")
+    agency = _stated_agency(text)
+    if agency is not None:
+        kinds.append("approval")
     if not kinds:
         note = "no pattern recognised"
         if "power_W" in q:
@@ -1317,6 +1377,10 @@ def parse_claim_text(text: str, claim_id: str = "c1", kind: str | None = None) -
         kw["distance_m"] = q.get("distance_m")
         # a worded time ("in seconds") bounds nothing useful for exposure: only numbers count
         kw["time_s"] = None if q.get("time_word") else q.get("time_s")
+    elif kind == "risk-group":
+        kw["risk_group"] = stated_rg
+    elif kind == "approval":
+        kw["agency"] = agency
     elif kind == "optical-power":
         kw["power_W"] = q["power_W"]
         if band_name:
