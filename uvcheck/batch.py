@@ -98,7 +98,7 @@ MANIFEST_COLUMNS = ("id", "spectrum", "listing", "distance", "source_size", "use
 #: The per-product options (manifest columns that are not files or ids).
 OPTION_KEYS = MANIFEST_COLUMNS[3:]
 
-SPECTRUM_SUFFIXES = (".csv", ".tsv", ".txt", ".dat", ".asc")
+SPECTRUM_SUFFIXES = (".csv", ".tsv", ".txt", ".dat", ".asc", ".spdx")  # .spdx: IES TM-27-14
 LISTING_SUFFIXES = (".toml",)
 
 #: Verdicts from best to worst (the order ``--fail-on`` uses): the claims module's one order.

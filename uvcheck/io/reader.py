@@ -40,6 +40,7 @@ import re
 from dataclasses import dataclass, field, fields, replace
 from collections import Counter
 from itertools import islice, repeat
+from types import MappingProxyType
 from pathlib import Path
 from typing import Any, Iterable, Iterator, Sequence
 
@@ -1072,6 +1073,10 @@ def read_spectrum(path: str | Path, options: ReadOptions | None = None, **overri
     if p.is_dir():
         raise InputFormatError("this is a folder, not a file", where)
     head_bytes = _read_head(p)
+    from uvcheck.io.tm2714 import is_tm2714
+
+    if is_tm2714(head_bytes):
+        return _read_tm2714(p, opts)
     decoded = sniff_encoding(head_bytes, opts.encoding, where)
     base = [decoded.guess] if decoded.guess else []
     # a file shorter than the head is held whole: decoded once, hashed from the same bytes
@@ -1091,6 +1096,21 @@ def read_spectrum(path: str | Path, options: ReadOptions | None = None, **overri
                 "read as Latin-1 / Windows-1252: check µ, ² and ° in the units"]
     return _read(p, Decoded("cp1252", "mixed: fell back to Latin-1 / Windows-1252", False),
                  opts, warnings, raw)
+
+
+def _read_tm2714(p: Path, opts: ReadOptions) -> tuple[Spectrum, ImportReport]:
+    """An IES TM-27-14 file (:mod:`uvcheck.io.tm2714`): its spectrum read as the table that
+    module makes of it, with every check of a text export; the report and the spectrum name
+    the XML file's own sha256."""
+    from uvcheck.io.tm2714 import as_table
+
+    table, note = as_table(p, opts.unit)
+    decoded = Decoded("utf-8", "IES TM-27-14 XML, parsed with colour-science", False)
+    spec, report = _read(p, decoded, opts, [note], table)
+    sha = file_sha256(p)
+    report = replace(report, sha256=sha)
+    return spec.derive(meta=MappingProxyType({**dict(spec.meta), "sha256": sha,
+                                              "format": "IES TM-27-14"})), report
 
 
 def _read_head(p: Path) -> bytes:
