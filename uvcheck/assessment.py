@@ -203,6 +203,8 @@ def input_section(spectrum: Spectrum, report: Any | None) -> dict[str, Any]:
         "instrument": dict(meta.get("instrument", {})),
         "inferred": inferred,
         "warnings": warnings,
+        # repeat scans (uvcheck.repeats): how far the scans agree; None for one scan
+        "repeats": meta.get("repeats"),
     }
 
 

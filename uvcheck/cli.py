@@ -75,7 +75,7 @@ def guarded(fn: Callable[..., Any]) -> Callable[..., Any]:
 from uvcheck.cli_options import (  # noqa: E402  (typer only)
     Alpha, Block, CalibrationUncertainty, Column, DataStart, Decimal, DecisionRule, Delimiter,
     Distance, DistanceUncertainty, Draws, ElectricalPower, Emitter, Encoding, ExposureTime, Force,
-    GeneralLighting, Limits, NoUncertainty, Quiet, ScaleBand, ScaleLux, ScaleTotal, SourceSize,
+    GeneralLighting, Limits, NoUncertainty, Quiet, Repeat, ScaleBand, ScaleLux, ScaleTotal, SourceSize,
     StrayLight, TubeLength, Unit, UseDistance, WavelengthUncertainty, WlColumn, WlUnit)
 
 
@@ -129,6 +129,7 @@ def assess(
     encoding: Encoding = None, delimiter: Delimiter = None, decimal: Decimal = None,
     column: Column = None, wavelength_column: WlColumn = None, wavelength_unit: WlUnit = None,
     unit: Unit = None, block: Block = None, data_start: DataStart = None,
+    repeat: Repeat = None,
 ) -> None:
     """Assess a measured spectrum: band breakdown, peak, photometry, IEC 62471 hazards,
     germicidal output, measurement uncertainty, and the verdicts on a listing's claims
@@ -141,7 +142,8 @@ def assess(
                            scale_total=scale_total, source_size=source_size, alpha=alpha,
                            use_distance=use_distance, general_lighting=general_lighting,
                            exposure_time=exposure_time, electrical_power=electrical_power,
-                           emitter=emitter, tube_length=tube_length)
+                           emitter=emitter, tube_length=tube_length,
+                           repeats=tuple(repeat or ()))
     inputs.check()
     check_output_file(json_out, force)
     _check_fail_on(fail_on)

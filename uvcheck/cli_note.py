@@ -21,7 +21,7 @@ from uvcheck.cli_options import (Alpha, Block, CalibrationUncertainty, Column, D
                                  DecisionRule, Delimiter, Distance, DistanceUncertainty, Draws,
                                  ElectricalPower, Encoding, ExposureTime, EyeHeight, Force,
                                  GeneralLighting, LampAt, Limits, NoUncertainty, Quiet,
-                                 Reflectance, RoomPattern, ScaleBand, ScaleLux, ScaleTotal,
+                                 Reflectance, Repeat, RoomPattern, ScaleBand, ScaleLux, ScaleTotal,
                                  SourceSize, StrayLight, TubeAxis, TubeLength, Unit, UseDistance,
                                  WavelengthUncertainty, WlColumn, WlUnit, WorkPlane)
 
@@ -52,7 +52,8 @@ def note_result(spectrum_file: Path | None, listing_file: Path | None, *, read_o
                 electrical_power: str | None = None,
                 room: dict[str, Any] | None = None,
                 room_where: dict[str, str] | None = None,
-                uncertainty: dict[str, Any] | None = None) -> tuple[dict[str, Any], Any]:
+                uncertainty: dict[str, Any] | None = None,
+                repeats: tuple[Path, ...] = ()) -> tuple[dict[str, Any], Any]:
     """(``Assessment.to_dict()`` made strict-JSON, the spectrum it was computed from).
 
     With a spectrum: the measured assessment, with the listing's claims judged against it.
@@ -78,7 +79,8 @@ def note_result(spectrum_file: Path | None, listing_file: Path | None, *, read_o
     inputs = ProductInputs(distance=distance, scale_band=scale_band, scale_lux=scale_lux,
                            scale_total=scale_total, source_size=source_size, alpha=alpha,
                            use_distance=use_distance, general_lighting=general_lighting,
-                           exposure_time=exposure_time, electrical_power=electrical_power)
+                           exposure_time=exposure_time, electrical_power=electrical_power,
+                           repeats=tuple(repeats))
     inputs.check()
     options = assess_options(limits, **(uncertainty or {}))
     listing = None
@@ -245,6 +247,7 @@ def note_command(
     encoding: Encoding = None, delimiter: Delimiter = None, decimal: Decimal = None,
     column: Column = None, wavelength_column: WlColumn = None, wavelength_unit: WlUnit = None,
     unit: Unit = None, block: Block = None, data_start: DataStart = None,
+    repeat: Repeat = None,
 ) -> None:
     """Write the consumer-safety note (self-contained HTML and PDF) for a spectrum and/or a
     listing: the product as sold, a plain-language finding, the claims with verdicts, the
@@ -294,7 +297,7 @@ def note_command(
                                source_size=source_size, alpha=alpha, use_distance=use_distance,
                                general_lighting=general_lighting, exposure_time=exposure_time,
                                limits=limits, electrical_power=electrical_power, room=room_d,
-                               uncertainty=unc)
+                               uncertainty=unc, repeats=tuple(repeat or ()))
     h, p, _ = write_note(result, spec, html_path, pdf=not no_pdf, force=force, salt=stem)
     if not quiet:
         typer.echo(f"wrote {h}" + (f"\nwrote {p}" if p else ""))

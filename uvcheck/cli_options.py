@@ -6,6 +6,7 @@ Typer only: importing this module loads nothing heavy.
 
 from __future__ import annotations
 
+from pathlib import Path
 from typing import Annotated, Optional
 
 import typer
@@ -37,6 +38,10 @@ Block = Annotated[Optional[int], typer.Option(help="Data block to read when a fi
                                               "(from 1).", rich_help_panel=_READ)]
 DataStart = Annotated[Optional[int], typer.Option("--data-start", help="Line where the data rows "
                                                   "start (from 1).", rich_help_panel=_READ)]
+Repeat = Annotated[Optional[list[Path]], typer.Option(
+    "--repeat", help="A repeat scan of the same lamp in the same position (repeatable): the "
+                     "mean of all scans is assessed, and their spread reported.",
+    rich_help_panel=_READ)]
 
 # --- scaling and geometry -----------------------------------------------------------------------
 Distance = Annotated[Optional[str], typer.Option(help="Measurement distance, e.g. '20 cm' "

@@ -14,7 +14,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, replace
 from pathlib import Path
-from typing import Any, Callable, Mapping
+from typing import Any, Callable, Mapping, Sequence
 
 from uvcheck.errors import ConfigurationError
 
@@ -123,6 +123,8 @@ class ProductInputs:
     electrical_power : electrical input power ('8 W').
     emitter, tube_length : the distance model (``point`` | ``lambertian`` | ``tube``) and a
         tube's length; None: the listing's, else a point source.
+    repeats : further scans of the same lamp in the same position (files); the mean of all
+        scans is assessed (:func:`uvcheck.repeats.combine_scans`).
     """
 
     distance: str | None = None
@@ -137,6 +139,7 @@ class ProductInputs:
     electrical_power: str | None = None
     emitter: str | None = None
     tube_length: str | None = None
+    repeats: tuple[Path, ...] = ()
 
     def check(self, names: Mapping[str, str] | None = None) -> None:
         """Refuse a contradictory or unreadable input before any file is read (the texts are
@@ -186,6 +189,9 @@ def assess_files(spectrum_file: Path | None, listing: Any | None, inputs: Produc
     inputs.check(names)
     if isinstance(listing, (str, Path)) and spectrum_file is None:
         listing = _read_listing(listing)
+    if spectrum_file is None and inputs.repeats:
+        raise ConfigurationError("repeat scans need the first scan as the spectrum file",
+                                 todo="give the spectrum file first, then --repeat for the others")
     if spectrum_file is None:
         if listing is None:
             raise ConfigurationError("give a spectrum file, a listing file, or both")
@@ -206,6 +212,8 @@ def assess_files(spectrum_file: Path | None, listing: Any | None, inputs: Produc
     from uvcheck.io.reader import read_spectrum
 
     spec, report = read_spectrum(spectrum_file, read_opts)
+    if inputs.repeats:
+        spec, report = _with_repeats(spec, report, spectrum_file, inputs.repeats, read_opts)
     spec = apply_scaling(spec, inputs.scale_band, inputs.scale_lux, inputs.scale_total)
     d0 = (_length(inputs.distance, names["distance"]) if inputs.distance
           else report.measurement_distance_m)
@@ -225,6 +233,38 @@ def assess_files(spectrum_file: Path | None, listing: Any | None, inputs: Produc
     more = extra(spec, cond) if extra is not None else None
     return assess(spec, cond, report, options, extra=dict(more) if more else None,
                   listing=listing)
+
+
+def _with_repeats(spec: Any, report: Any, first: Path, repeats: Sequence[Path],
+                  read_opts: Any) -> tuple[Any, Any]:
+    """The mean of the first scan and its repeats (each read with the same options), with the
+    first scan's report, its warnings joined by the repeats' own and the summary's."""
+    from uvcheck.io.reader import read_spectrum
+    from uvcheck.repeats import combine_scans
+
+    scans, files, warnings = [spec], [str(first)], list(report.warnings)
+    for f in repeats:
+        s, r = read_spectrum(f, read_opts)
+        scans.append(s)
+        files.append(str(f))
+        warnings += [f"{Path(f).name}: {w}" for w in r.warnings]
+        d0, d1 = report.measurement_distance_m, r.measurement_distance_m
+        if d0 is not None and d1 is not None and abs(d1 - d0) > DISTANCE_AGREE * d0:
+            raise ConfigurationError(f"the repeat scan {Path(f).name} states a measurement "
+                                     f"distance of {d1:g} m, the first scan {d0:g} m",
+                                     str(f), "repeat scans must be taken in one position")
+    mean, summary = combine_scans(scans, files)
+    lo, hi = summary.range_nm
+    warnings.append(f"the mean of {summary.n} scans ({', '.join(Path(f).name for f in files)}) "
+                    f"is assessed, over {lo:g}–{hi:g} nm (the range every scan covers); "
+                    + (f"their totals differ by {summary.spread:.1%}"
+                       if summary.spread is not None else "their totals are zero"))
+    if summary.warning():
+        warnings.append(summary.warning())
+    noise = dict(report.noise)
+    noise.update(sigma=mean.noise_floor, basis=summary.noise_basis,
+                 method=f"mean of {summary.n} scans, σ/√{summary.n}")
+    return mean, replace(report, warnings=tuple(warnings), noise=noise, sha256=mean.meta["sha256"])
 
 
 def _read_listing(path: str | Path) -> Any:

@@ -1320,6 +1320,13 @@ def provenance(result: Result, listing: Mapping[str, Any] | None, date: str,
         inputs.append({"label": "Data", "value": "none: the listing alone (no lamp model)"})
     elif inp:
         inputs.append({"label": "Spectrum file", "value": os.path.basename(str(inp.get("path")))})
+        rep = inp.get("repeats")
+        if rep:
+            inputs.append({"label": "Repeat scans", "value": (
+                f"the mean of {rep['n']} scans ("
+                + ", ".join(os.path.basename(str(f)) for f in rep["files"]) + ")"
+                + (f"; their totals differ by {100 * rep['spread']:.1f} %"
+                   if rep.get("spread") is not None else ""))})
         inputs.append({"label": "sha256", "value": str(inp.get("sha256"))})
         lo, hi = inp.get("range_nm") or (None, None)
         inputs.append({"label": "Data", "value": f"{inp.get('origin')} {inp.get('quantity')} in "

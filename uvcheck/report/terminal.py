@@ -6,6 +6,7 @@ log file or an e-mail. Every absolute value is shown in SI and in the trade unit
 
 from __future__ import annotations
 
+from pathlib import Path
 from typing import Any, Mapping, Sequence
 
 from uvcheck.spectrum import partly_measured
@@ -88,6 +89,12 @@ def render_import(inp: dict) -> list[str]:
     if nz.get("sigma") is not None:
         lines.append(f"  noise floor (1 σ per sample): {sig(inp.get('noise_floor'))} {inp['unit']} "
                      f"({nz['method']}, {nz['n_negative']} negative samples)")
+    rep = inp.get("repeats")
+    if rep:
+        lines.append(f"  repeat scans: the mean of {rep['n']} ("
+                     + ", ".join(Path(f).name for f in rep["files"]) + ")"
+                     + (f"; totals differ by {rep['spread']:.1%}" if rep.get("spread") is not None
+                        else ""))
     if r.get("measurement_distance_m"):
         lines.append(f"  measurement distance in the file: {sig(r['measurement_distance_m'])} m")
     return lines
