@@ -83,7 +83,18 @@ class Assessment:
 
         if is_nominal(self.spectrum):
             return ()
-        return tuple(
+        from uvcheck.features import UNDERSAMPLED_STEPS, undersampled_lines
+
+        thin = undersampled_lines(self.spectrum, self.lines)
+        sampled = () if not thin else (
+            "line" + ("s" if len(thin) > 1 else "") + " at "
+            + ", ".join(f"{x.wavelength_nm:.1f} nm (FWHM {x.fwhm_nm:.2g} nm)" for x in thin)
+            + f" narrower than {UNDERSAMPLED_STEPS:g} sampling steps: the band and hazard "
+            "values of such a line depend on where it falls between samples (by tens of "
+            "percent for a step as wide as the line) unless the instrument's bandpass is "
+            "matched to the step; check the instrument's bandwidth, or measure with a finer "
+            "step",)
+        return sampled + tuple(
             f"the peak at {suspect.wavelength_nm:.1f} nm lies at twice the "
             f"{parent.wavelength_nm:.1f} nm line: possibly that line in the "
             "spectrometer's second diffraction order (no order-sorting filter), not "
