@@ -359,3 +359,29 @@ def test_room_result_warns_of_a_lamp_on_a_wall():
     assert "up to 2× higher" in said
     centre = evaluate_room(box, lamp_from_uvc_flux(2.0, LampGeometry((2.0, 2.5, 2.0))))
     assert not any("heads straight into" in w for w in centre.warnings)
+
+
+# The 80° field-of-view convention at eye height (common practice, from memory): a detector
+# facing horizontally toward the lamp sees sources within 40° of its axis; direct irradiance of
+# a point source I·cos θ/R² [derived: the inverse-square law on a tilted plane].
+def test_fov_irradiance_of_a_point_source_by_hand():
+    from uvcheck.room import fov_irradiance_per_W
+
+    lamp = LampGeometry((2.0, 2.0, 2.5))
+    for d in (0.3, 0.9, 1.5, 3.0):
+        eye = np.array([[2.0 + d, 2.0, 1.7]])
+        dz = 0.8
+        theta = math.atan2(dz, d)
+        R2 = d * d + dz * dz
+        want = (math.cos(theta) / (4 * math.pi * R2)) if theta <= math.radians(40.0) else 0.0
+        assert fov_irradiance_per_W(eye, lamp)[0] == pytest.approx(want, rel=1e-12, abs=1e-15)
+
+
+def test_fov_convention_never_exceeds_the_worst_case():
+    res = evaluate_room(ROOM, lamp_from_uvc_flux(0.5, LampGeometry((2.0, 2.5, 2.6), "lambertian_down")),
+                        reflectance=0.05)
+    occ = res.occupant
+    fv = occ["fov_convention"]
+    assert fv["fov_deg"] == 80.0
+    assert 0.0 < fv["effective_S_W_m2"] <= occ["effective_S_W_m2"]
+    assert fv["time_to_limit_s"] == pytest.approx(30.0 / fv["effective_S_W_m2"])   # 30 J/m²

@@ -37,6 +37,19 @@ def _triple(text: str, where: str) -> tuple[float, float, float]:
     return vals  # type: ignore[return-value]
 
 
+def _fov_lines(occ: dict) -> list[str]:
+    """The occupant's figure under the eye-level field-of-view convention, in one line."""
+    from uvcheck.units import format_duration
+
+    fv = occ.get("fov_convention")
+    if not fv:
+        return []
+    return [f"  {fv['fov_deg']:g}° field-of-view convention (horizontal detector at eye height): "
+            f"E_S {_fmt(fv['effective_S_W_m2'], 'W m-2')}; 8-h limit reached in "
+            f"{format_duration(fv['time_to_limit_s'])}"
+            + ("  — EXCEEDS the 8-h limit" if fv["exceeds_8h_limit"] else "")]
+
+
 def _unbounded_lines(occ: dict) -> list[str]:
     """The occupant block when the lamp is within reach of the eyes: no figure, a warning."""
     return ["  UV-C and E_S: no bound — the 8-h actinic limit CAN BE EXCEEDED IN MOMENTS",
@@ -121,6 +134,7 @@ def render_room(d: dict) -> str:
               + (" (lower bound)" if occ["effective_S_is_lower_bound"] else ""),
               f"  8-h actinic limit reached in {format_duration(occ['time_to_limit_s'])}"
               + ("  — EXCEEDS the 8-h limit" if occ["exceeds_8h_limit"] else ""),
+              *_fov_lines(occ),
               f"  {occ['note']}"])
     if notes:
         lines += [""] + [f"Note: {n}" for n in notes]
@@ -158,6 +172,7 @@ def _room_bounds(d: dict) -> list[str]:
               + (" (lower bound)" if occ["effective_S_is_lower_bound"] else "")
               + f"; 8-h actinic limit reached in {format_duration(occ['time_to_limit_s'])}"
               + ("  — EXCEEDS the 8-h limit" if occ["exceeds_8h_limit"] else ""),
+              *_fov_lines(occ),
               f"  {occ['note']}"])
     lines.append("  UV-A and blue-light hazards of this lamp: see 'uvcheck assess'.")
     rest = [n for n in d["notes"][1:]] if d["notes"] else []

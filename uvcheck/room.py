@@ -427,6 +427,46 @@ def direct_fluence_rate_per_W(points: np.ndarray, lamp: LampGeometry) -> np.ndar
     return out
 
 
+#: Full field of view of the eye-level convention for occupied rooms: a detector at eye height,
+#: facing horizontally, that sees only what lies within 40° of its axis (common practice for
+#: upper-room UV, from memory). [degrees]
+FOV_CONVENTION_DEG = 80.0
+
+
+def fov_irradiance_per_W(points: np.ndarray, lamp: LampGeometry,
+                         fov_deg: float = FOV_CONVENTION_DEG) -> np.ndarray:
+    """Direct irradiance per watt at points (N, 3) on a detector facing horizontally toward the
+    lamp's centre and seeing only directions within fov/2 of its axis: Σ w·I·cos θ/r² over the
+    point sources with θ ≤ fov/2, θ the angle between the ray and the detector's axis. A point
+    straight below or above the lamp (no horizontal direction) sees it at 90°, outside any
+    field narrower than 180°. [m⁻²]
+
+    Examples
+    --------
+    >>> lamp = LampGeometry((0.0, 0.0, 2.0))
+    >>> eye = np.array([[1.0, 0.0, 1.0], [0.2, 0.0, 1.0]])   # 45° and 79° below the lamp
+    >>> [round(float(v), 5) for v in fov_irradiance_per_W(eye, lamp, 100.0)]   # 50° half-field
+    [0.02813, 0.0]
+    """
+    half = math.radians(fov_deg) / 2.0
+    pts, wts = lamp.sources()
+    centre = np.array(lamp.position_m)
+    h = centre[None, :2] - points[:, :2]                     # toward the lamp, horizontally
+    hn = np.sqrt(np.einsum("ij,ij->i", h, h))
+    axis = np.zeros_like(points)
+    ok = hn > 1e-12
+    axis[ok, :2] = h[ok] / hn[ok, None]
+    out = np.zeros(points.shape[0])
+    for p, w in zip(pts, wts):
+        r = p[None, :] - points                               # eye -> source
+        R2 = np.maximum(np.einsum("ij,ij->i", r, r), 1e-12)
+        R = np.sqrt(R2)
+        cos = np.einsum("ij,ij->i", r, axis) / R
+        seen = ok & (cos >= math.cos(half))
+        out += np.where(seen, w * lamp.intensity_per_W(-r / R[:, None]) * cos / R2, 0.0)
+    return out
+
+
 def direct_irradiance_per_W(points: np.ndarray, normal: Sequence[float],
                             lamp: LampGeometry) -> np.ndarray:
     """Direct irradiance per watt on surfaces with unit normal ``normal`` at points (N, 3). [m⁻²]"""
@@ -844,6 +884,12 @@ def evaluate_room(room: Box, lamp: RoomLamp, *, reflectance: float = DEFAULT_REF
     e_s = s_act.value * eye_max
     t_lim = ACTINIC_LIMIT_J_M2 / e_s if e_s > 0 else None
     lower = s_act.coverage < 1.0 - 1e-9
+    # the eye-level convention for occupied rooms: a horizontal detector with an 80° field;
+    # the diffuse reflected field (fluence rate e_r, radiance e_r/4π) gives π·L·sin²(40°) on it
+    fov = fov_irradiance_per_W(pts_e, geom) + e_r / 4.0 * math.sin(math.radians(FOV_CONVENTION_DEG / 2)) ** 2
+    j_max = int(np.argmax(fov))
+    fov_max = float(fov[j_max])
+    e_s_fov = s_act.value * fov_max
     occupant = {
         "eye_height_m": eye_height_m,
         "position_m": [float(v) for v in pts_e[i_max]],
@@ -857,7 +903,19 @@ def evaluate_room(room: Box, lamp: RoomLamp, *, reflectance: float = DEFAULT_REF
         "time_to_limit_s": t_lim,
         "exceeds_8h_limit": bool(e_s * WORKDAY_S > ACTINIC_LIMIT_J_M2),
         "note": ("worst case with the eyes facing the lamp; the 80° field-of-view convention used "
-                 "for occupied rooms gives less. " + SCREENING_NOTE),
+                 "for occupied rooms gives less (shown beside it). " + SCREENING_NOTE),
+        "fov_convention": {
+            "fov_deg": FOV_CONVENTION_DEG,
+            "position_m": [float(v) for v in pts_e[j_max]],
+            "irradiance_W_m2": None if phi_uvc is None or bound else phi_uvc * fov_max,
+            "effective_S_W_m2": e_s_fov,
+            "time_to_limit_s": ACTINIC_LIMIT_J_M2 / e_s_fov if e_s_fov > 0 else None,
+            "exceeds_8h_limit": bool(e_s_fov * WORKDAY_S > ACTINIC_LIMIT_J_M2),
+            "basis": (f"a detector at eye height facing horizontally toward the lamp with an "
+                      f"{FOV_CONVENTION_DEG:g}° field of view (common practice for occupied "
+                      "rooms, from memory), direct + reflected; the worst case above is what "
+                      "an eye looking at the lamp receives"),
+        },
     }
     if lower:
         occupant["note"] += (" The actinic value is a lower bound: the lamp's output outside "
@@ -881,7 +939,7 @@ def evaluate_room(room: Box, lamp: RoomLamp, *, reflectance: float = DEFAULT_REF
         # the lamp) gives a number, not a bound, so none is given (our own rule)
         occupant.update({"irradiance_W_m2": None, "irradiance_upper_bound_W_m2": None,
                          "effective_S_W_m2": None, "time_to_limit_s": None,
-                         "exceeds_8h_limit": True, "unbounded": True})
+                         "exceeds_8h_limit": True, "unbounded": True, "fov_convention": None})
         occupant["note"] = (f"unbounded: the lamp is within {EYE_CLEARANCE_M:g} m of eye height, so an eye can "
                             "come as close to it as it likes and no exposure figure holds; the "
                             "8-h limit can be exceeded in moments. " + occupant["note"])

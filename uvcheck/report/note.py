@@ -879,6 +879,16 @@ def times_caption(where: str, rows: list[dict[str, Any]]) -> str:
                   "organism is not a typical germ.")
 
 
+def _fov_text(fv: Mapping[str, Any] | None) -> str | None:
+    """The occupant's figure under the eye-level field-of-view convention, in words."""
+    if not fv:
+        return None
+    return (f"Under the {fv['fov_deg']:g}° field-of-view convention (a detector at eye height "
+            f"facing horizontally): E_S {quantity(fv.get('effective_S_W_m2'), 'W m-2')}, the "
+            f"8-hour limit reached in {duration(fv.get('time_to_limit_s'))}"
+            + (" — exceeds the 8-hour limit" if fv.get("exceeds_8h_limit") else "") + ".")
+
+
 def _pattern_words(pattern: str | None) -> str | None:
     from uvcheck.room import PATTERN_WORDS
 
@@ -958,7 +968,8 @@ def room_block(result: Result) -> dict[str, Any] | None:
                      + quantity(occ.get("effective_S_W_m2"), "W m-2"),
                      "t_limit": duration(occ.get("time_to_limit_s")),
                      "exceeds": bool(occ.get("exceeds_8h_limit")),
-                     "note": occ.get("note"), "limit": occ.get("limit")},
+                     "note": occ.get("note"), "limit": occ.get("limit"),
+                     "fov": _fov_text(occ.get("fov_convention"))},
         "has_grid": bool((pl.get("grid") or {}).get("values_W_m2")),
         "notes": list(r.get("notes") or []),
     }

@@ -568,7 +568,8 @@ def render_note_pdf(view: Mapping[str, Any], figures: Sequence[Mapping[str, Any]
                     for a in r["air"]], (40, 20, 20, 20), size=7.5)
         o = r["occupant"]
         _box(pdf, None, f"UV-C {o['uvc']}, E_S {o['e_s']}; 8-hour actinic limit reached in {o['t_limit']}"
-             + (" — exceeds the 8-hour limit" if o["exceeds"] else "") + f". {o['limit']}. {o['note']}",
+             + (" — exceeds the 8-hour limit" if o["exceeds"] else "")
+             + (f". {o['fov']}" if o.get("fov") else "") + f" {o['limit']}. {o['note']}",
              (255, 249, 232) if o["exceeds"] else (255, 255, 255), (192, 138, 0), size=8,
              bold_lead=f"Occupant at eye height {o['eye_height']}:")
         if figs.get("room"):
