@@ -90,3 +90,24 @@ def test_repeats_taken_at_another_distance_are_refused(tmp_path):
     f2 = write(tmp_path / "s2.csv", led(1.0, 2), distance="50 cm")
     r = CliRunner().invoke(app, ["assess", str(f1), "--repeat", str(f2), "--no-uncertainty"])
     assert r.exit_code == 2 and "one position" in r.output
+
+
+def test_the_scans_spread_enters_the_uncertainty_as_a_type_a_term(tmp_path):
+    # JCGM 100:2008 §4.2: u = s/√n of the mean, s the standard deviation of the n totals
+    f1 = write(tmp_path / "s1.csv", led(1.0, 1))
+    f2 = write(tmp_path / "s2.csv", led(1.04, 2))
+    f3 = write(tmp_path / "s3.csv", led(0.97, 3))
+    out = tmp_path / "r.json"
+    r = CliRunner().invoke(app, ["assess", str(f1), "--repeat", str(f2), "--repeat", str(f3),
+                                 "--draws", "2000", "--json", str(out)])
+    assert r.exit_code == 0, r.output
+    d = json.loads(out.read_text())
+    totals = d["input"]["repeats"]["totals"]
+    want = float(np.std(totals, ddof=1) / math.sqrt(3) / np.mean(totals))
+    rep = d["uncertainty"]["inputs"]["repeatability"]
+    assert rep["u_rel"] == pytest.approx(want, rel=1e-6)   # the JSON keeps 7 digits
+    assert "type A" in rep["basis"]
+    # one scan: no such term
+    one = tmp_path / "one.json"
+    CliRunner().invoke(app, ["assess", str(f1), "--draws", "2000", "--json", str(one)])
+    assert json.loads(one.read_text())["uncertainty"]["inputs"]["repeatability"]["u_rel"] == 0.0

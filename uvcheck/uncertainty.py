@@ -215,6 +215,9 @@ class UncertaintyInputs:
         band radiometer, a lux meter or a known total): one factor per draw for every value,
         on top of the per-band calibration (which then stands for the spectral shape); 0 for
         a spectrum that was not scaled. [-]
+    repeat_u_rel : relative standard uncertainty of the mean of repeat scans from their
+        spread (the standard deviation of the scans' totals over √n, a type A evaluation,
+        JCGM 100:2008 §4.2): one factor per draw for every value; 0 for one scan. [-]
     basis : per input key (calibration, wavelength, distance, stray_light, noise,
         organism_data, decision_rule), where the figure comes from.
     """
@@ -233,6 +236,7 @@ class UncertaintyInputs:
     decision_rule: str = "simple"
     basis: Mapping[str, str] = field(default_factory=lambda: MappingProxyType({}))
     scale_u_rel: float = 0.0
+    repeat_u_rel: float = 0.0
 
     def __post_init__(self) -> None:
         if set(self.calibration_u_rel) != set(self.calibration_bands_nm):
@@ -243,6 +247,9 @@ class UncertaintyInputs:
         if not 0.0 <= self.calibration_correlation <= 1.0:
             raise ConfigurationError("the correlation between bands must be in [0, 1], got "
                                      f"{self.calibration_correlation}")
+        if not (math.isfinite(self.repeat_u_rel) and 0.0 <= self.repeat_u_rel < 1.0):
+            raise ConfigurationError(f"the repeat scans' uncertainty must be in [0, 1), got "
+                                     f"{self.repeat_u_rel}")
         if not (math.isfinite(self.scale_u_rel) and 0.0 <= self.scale_u_rel < 1.0):
             raise ConfigurationError(f"the scaling reading's uncertainty must be in [0, 1), got "
                                      f"{self.scale_u_rel}")
@@ -302,6 +309,11 @@ class UncertaintyInputs:
                         "model": "one factor per draw for every value (the reading the "
                                  "spectrum was scaled by)",
                         "basis": b.get("scaling", "not scaled" if not self.scale_u_rel else "")},
+            "repeatability": {"u_rel": self.repeat_u_rel, "distribution": "normal",
+                              "model": "one factor per draw for every value (the mean of "
+                                       "repeat scans, type A)",
+                              "basis": b.get("repeatability", "one scan" if not self.repeat_u_rel
+                                             else "")},
             "organism_data": {"include": self.organism_spread, "distribution": "log-uniform",
                               "basis": b.get("organism_data", "")},
         }
@@ -895,11 +907,33 @@ def scaling_uncertainty(spectrum: Spectrum, inputs: UncertaintyInputs
     return inputs.with_(scale_u_rel=float(u), basis={"scaling": basis}), note
 
 
+def repeat_uncertainty(spectrum: Spectrum, inputs: UncertaintyInputs
+                       ) -> tuple[UncertaintyInputs, str | None]:
+    """The inputs with the repeatability of a mean of repeat scans (the standard deviation of
+    the scans' totals over √n, relative to their mean: JCGM 100:2008 §4.2, type A), and a note;
+    unchanged for one scan."""
+    rep = (spectrum.meta or {}).get("repeats")
+    if not rep or inputs.repeat_u_rel:
+        return inputs, None
+    totals = [float(t) for t in rep.get("totals") or []]
+    n = len(totals)
+    mean = sum(totals) / n if n else 0.0
+    if n < 2 or not mean > 0:
+        return inputs, None
+    sd = math.sqrt(sum((t - mean) ** 2 for t in totals) / (n - 1))
+    u = min(sd / math.sqrt(n) / mean, 0.99)
+    basis = (f"type A from {n} repeat scans: standard deviation of their totals "
+             f"{100 * sd / mean:.3g} % of the mean, over √{n} (JCGM 100:2008 §4.2)")
+    note = (f"the spectrum is the mean of {n} repeat scans: their spread gives a repeatability "
+            f"of {100 * u:.3g} % (k = 1), applied to every value, fully correlated")
+    return inputs.with_(repeat_u_rel=float(u), basis={"repeatability": basis}), note
+
+
 def _monte_carlo_draws(inputs: UncertaintyInputs, d0: float | None, stray: float, m: int,
                        seed: int) -> _Draws:
     """Independent streams per input (SeedSequence children), so changing one input never
     changes the draws of another (common random numbers)."""
-    kids = np.random.SeedSequence(seed).spawn(6)   # child i is the same for any count
+    kids = np.random.SeedSequence(seed).spawn(7)   # child i is the same for any count
     rng_cal, rng_wl, rng_d, rng_s = (np.random.default_rng(k) for k in kids[:4])
     bands = inputs.bands
     z = rng_cal.standard_normal((len(bands) + 1, m))
@@ -911,6 +945,10 @@ def _monte_carlo_draws(inputs: UncertaintyInputs, d0: float | None, stray: float
         # the other inputs' draws are unchanged)
         rng_a = np.random.default_rng(kids[5])
         f = f * (1.0 + inputs.scale_u_rel * rng_a.standard_normal(m))[None, :]
+    if inputs.repeat_u_rel > 0:
+        # the repeatability of a mean of scans: one factor for every value (child 6)
+        rng_r = np.random.default_rng(kids[6])
+        f = f * (1.0 + inputs.repeat_u_rel * rng_r.standard_normal(m))[None, :]
     f = np.maximum(f, 0.0)
     delta = inputs.wavelength_nm.draw(rng_wl, m)
     dd = None
@@ -994,6 +1032,11 @@ def _gum_u(model_fn: Callable[[_Draws], np.ndarray], inputs: UncertaintyInputs,
         dr.f[:] = [1.0 + inputs.scale_u_rel, 1.0 - inputs.scale_u_rel]
         y = model_fn(dr)
         budget["scaling"] = abs(float(y[0] - y[1])) / 2.0
+    if inputs.repeat_u_rel > 0:
+        dr = _nominal_draws(nb, d0, 2)
+        dr.f[:] = [1.0 + inputs.repeat_u_rel, 1.0 - inputs.repeat_u_rel]
+        y = model_fn(dr)
+        budget["repeatability"] = abs(float(y[0] - y[1])) / 2.0
     uw = inputs.wavelength_nm.standard_uncertainty
     if uw > 0:
         dr = _nominal_draws(nb, d0, 2)
@@ -1555,9 +1598,10 @@ def evaluate_uncertainty(spectrum: Spectrum, conditions: Conditions | None, haza
                                  inputs, MappingProxyType(method), MappingProxyType(rule_block),
                                  (SCREENING_NOTE,))
     inputs, scale_note = scaling_uncertainty(spectrum, inputs)
+    inputs, repeat_note = repeat_uncertainty(spectrum, inputs)
     model = _Model(spectrum, inputs)
     dr = _monte_carlo_draws(inputs, cond.measurement_distance_m, model.stray_allowance, m, sd)
-    notes = [SCREENING_NOTE] + ([scale_note] if scale_note else [])
+    notes = [SCREENING_NOTE] + [n for n in (scale_note, repeat_note) if n]
     if spectrum.noise_floor is None and inputs.include_noise:
         notes.append("no noise floor is known for this spectrum: sample noise is not included")
     if cond.measurement_distance_m is None:
@@ -1860,6 +1904,9 @@ def uncertainty_note(u: Mapping[str, Any]) -> str:
         how = ("given" if str(sc.get("basis", "")).startswith("given")
                else "default, common practice")
         sc_t = f", scaling reading {100 * sc['u_rel']:.3g} % (k = 1, {how})"
+    rp = inp.get("repeatability") or {}
+    if rp.get("u_rel"):
+        sc_t += f", repeatability of the scans {100 * rp['u_rel']:.3g} % (k = 1, type A)"
     return (f"Uncertainty: Monte Carlo, {m['draws']} draws, seed {m['seed']}, 95 % intervals; "
             f"inputs {src}: calibration {cal} (k = 1){sc_t}, wavelength scale {wl_t}, distance "
             f"{di_t}, UV stray light up to {st_t}; decision rule: {u['decision_rule']['name']}.")
