@@ -111,3 +111,22 @@ def test_the_scans_spread_enters_the_uncertainty_as_a_type_a_term(tmp_path):
     one = tmp_path / "one.json"
     CliRunner().invoke(app, ["assess", str(f1), "--draws", "2000", "--json", str(one)])
     assert json.loads(one.read_text())["uncertainty"]["inputs"]["repeatability"]["u_rel"] == 0.0
+
+
+def test_batch_manifest_repeats_column(tmp_path):
+    import csv
+
+    write(tmp_path / "s1.csv", led(1.0, 1))
+    write(tmp_path / "s2.csv", led(1.01, 2))
+    write(tmp_path / "s3.csv", led(0.99, 3))
+    (tmp_path / "m.csv").write_text("id,spectrum,repeats\nlamp,s1.csv,s2.csv|s3.csv\n"
+                                    "single,s1.csv,\n", encoding="utf-8")
+    out = tmp_path / "sum.csv"
+    r = CliRunner().invoke(app, ["batch", str(tmp_path / "m.csv"), "--out", str(out)])
+    assert r.exit_code == 0, r.output
+    rows = {row["product_id"]: row for row in csv.DictReader(out.open(encoding="utf-8"))}
+    assert rows["lamp"]["status"] == "ok" and rows["single"]["status"] == "ok"
+    # the fingerprint covers every scan's bytes: another repeat file changes it
+    assert rows["lamp"]["inputs_sha256"] != rows["single"]["inputs_sha256"]
+    lines = [json.loads(x) for x in (tmp_path / "sum.jsonl").read_text().splitlines()]
+    assert {x["product_id"] for x in lines} == {"lamp", "single"}

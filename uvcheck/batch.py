@@ -93,7 +93,9 @@ SUMMARY_COLUMNS = (
 MANIFEST_COLUMNS = ("id", "spectrum", "listing", "distance", "source_size", "use_distance",
                     "exposure_time", "electrical_power", "general_lighting", "scale_band",
                     "scale_lux", "scale_total", "unit", "column", "wavelength_unit", "emitter",
-                    "tube_length")
+                    "tube_length", "repeats")
+#: How a manifest cell lists several repeat scans.
+REPEATS_SEPARATOR = "|"
 
 #: The per-product options (manifest columns that are not files or ids).
 OPTION_KEYS = MANIFEST_COLUMNS[3:]
@@ -140,6 +142,8 @@ class Product:
     problem : set when the product cannot be assessed as it stands (e.g. two spectrum files
         for one stem); it becomes an error row.
     note : the note to write for this product (HTML), or None.
+    repeats : repeat scans of the spectrum (a manifest's ``repeats`` cell, files separated by
+        :data:`REPEATS_SEPARATOR`, relative to the manifest), averaged with it.
     """
 
     product_id: str
@@ -150,6 +154,7 @@ class Product:
     options: Mapping[str, str] = field(default_factory=dict)
     problem: str | None = None
     note: Path | None = None
+    repeats: tuple[Path, ...] = ()
 
 
 def scan_folder(folder: Path, exclude: Iterable[Path] = ()) -> list[Product]:
@@ -240,9 +245,13 @@ def read_manifest(path: Path) -> list[Product]:
             problem = problem or (f"general_lighting {row['general_lighting']!r} (line {line_no}) "
                                   "is not yes or no")
         opts = {k: row[k] for k in OPTION_KEYS if row.get(k)}
+        reps = tuple(base / f.strip() for f in row.get("repeats", "").split(REPEATS_SEPARATOR)
+                     if f.strip())
+        if reps and not sp:
+            problem = problem or f"repeat scans (line {line_no}) without a spectrum"
         out.append(Product(product_id=pid, spectrum=(base / sp) if sp else None,
                            listing=(base / ls) if ls else None, spectrum_label=sp,
-                           listing_label=ls, options=opts, problem=problem))
+                           listing_label=ls, options=opts, problem=problem, repeats=reps))
     return out
 
 
@@ -360,7 +369,8 @@ def assess_product(product: Product, settings: BatchSettings) -> Any:
                            general_lighting=str(o.get("general_lighting", "")).lower() in _TRUE,
                            exposure_time=given["exposure_time"] or "8 h",
                            electrical_power=given["electrical_power"],
-                           emitter=given["emitter"], tube_length=given["tube_length"])
+                           emitter=given["emitter"], tube_length=given["tube_length"],
+                           repeats=product.repeats)
     inputs.check(MANIFEST_NAMES)
     listing = None
     if product.listing is not None:

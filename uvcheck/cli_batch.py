@@ -87,6 +87,7 @@ def batch_command(
       general_lighting  yes or no
       emitter           point, lambertian or tube (distance model)
       tube_length       a tube's length, e.g. '1.2 m' (the tube model)
+      repeats           repeat scans of the spectrum, 'b.csv|c.csv' (averaged)
       scale_band | scale_lux | scale_total   scaling of a relative spectrum
       unit | column | wavelength_unit        reading the spectrum file
     Lines starting with # are skipped; an empty cell keeps the option given
