@@ -23,3 +23,15 @@ def line_spectrum(centre_nm: float, value: float = 1.0, lo: float = 180.0, hi: f
 @pytest.fixture
 def grid() -> np.ndarray:
     return np.arange(200.0, 1000.0 + 1e-9, 0.5)
+
+
+def zero_inputs(**changes):
+    """Every input uncertainty switched off (the undrawn, nominal case)."""
+    from uvcheck.uncertainty import Distribution, default_inputs
+
+    base = default_inputs()
+    z = base.with_(calibration_u_rel={b: 0.0 for b in base.bands},
+                   wavelength_nm=Distribution("normal", 0.0),
+                   distance=Distribution("normal", 0.0), stray_light_fraction=0.0,
+                   include_noise=False, organism_spread=False)
+    return z.with_(**changes) if changes else z

@@ -18,6 +18,7 @@ import math
 
 import numpy as np
 import pytest
+from conftest import zero_inputs
 
 from uvcheck.conditions import Conditions
 from uvcheck.germicidal import evaluate_germicidal
@@ -139,17 +140,6 @@ def test_tube_general_lighting_500_lx_distance_by_keitz():
 # The Monte Carlo evaluation moves its draws by the same model
 # ---------------------------------------------------------------------------------------------
 
-def _zero_inputs(**changes):
-    from uvcheck.uncertainty import Distribution, default_inputs
-
-    base = default_inputs()
-    z = base.with_(calibration_u_rel={b: 0.0 for b in base.bands},
-                   wavelength_nm=Distribution("normal", 0.0),
-                   distance=Distribution("normal", 0.0), stray_light_fraction=0.0,
-                   include_noise=False, organism_spread=False)
-    return z.with_(**changes) if changes else z
-
-
 def _mc(spec, cond, inputs, draws=400):
     from uvcheck.uncertainty import evaluate_uncertainty
 
@@ -159,7 +149,7 @@ def _mc(spec, cond, inputs, draws=400):
 
 def test_undrawn_tube_case_equals_the_hazards_module():
     # invariant: with every input uncertainty zero, every draw is the hazards.py result
-    hz, r = _mc(tube_spectrum(), TUBE_AT_1M, _zero_inputs())
+    hz, r = _mc(tube_spectrum(), TUBE_AT_1M, zero_inputs())
     h = hz.hazard("actinic_uv")
     lo, hi = r["hazards"]["actinic_uv"]["interval_95"]
     assert lo == pytest.approx(h.value, rel=1e-12) and hi == pytest.approx(h.value, rel=1e-12)
@@ -171,7 +161,7 @@ def test_tube_distance_error_enters_by_the_keitz_slope():
     # first order: u(E_S)/E_S = |d ln k / d ln d₀|·u(d₀)/d₀, with k(d₀) = keitz(0.2)/keitz(d₀)
     # (the Keitz formula above; for a point source the slope is 2)
     u_d = 0.02
-    hz, r = _mc(tube_spectrum(), TUBE_AT_1M, _zero_inputs(distance=Distribution("normal", u_d)),
+    hz, r = _mc(tube_spectrum(), TUBE_AT_1M, zero_inputs(distance=Distribution("normal", u_d)),
                 draws=4000)
     h = r["hazards"]["actinic_uv"]
     eps = 1e-6
@@ -189,7 +179,7 @@ def test_tube_distance_cancels_for_general_lighting_at_500lx():
     spec = Spectrum(wl, 0.05 * np.exp(-0.5 * ((wl - 560.0) / 80.0) ** 2), "irradiance")
     cond = Conditions(measurement_distance_m=0.5, general_lighting=True, emitter="tube",
                       tube_length_m=L_TUBE)
-    hz, r = _mc(spec, cond, _zero_inputs(distance=Distribution("normal", 0.05)), draws=300)
+    hz, r = _mc(spec, cond, zero_inputs(distance=Distribution("normal", 0.05)), draws=300)
     assert hz.evaluation.distance_m > 0.2
     lo, hi = r["hazards"]["blue_light"]["interval_95"]
     assert lo == pytest.approx(hi, rel=1e-6)

@@ -21,6 +21,7 @@ import math
 
 import numpy as np
 import pytest
+from conftest import zero_inputs
 
 from uvcheck.conditions import Conditions
 from uvcheck.errors import ConfigurationError
@@ -49,16 +50,6 @@ def line_source(wavelength_nm: float, irradiance_W_m2: float) -> Spectrum:
 
 def gaussian(wl, centre, width, peak):
     return peak * np.exp(-0.5 * ((wl - centre) / width) ** 2)
-
-
-def zero_inputs(**changes):
-    """Every input uncertainty switched off (the undrawn, nominal case)."""
-    base = default_inputs()
-    z = base.with_(calibration_u_rel={b: 0.0 for b in base.bands},
-                   wavelength_nm=Distribution("normal", 0.0),
-                   distance=Distribution("normal", 0.0), stray_light_fraction=0.0,
-                   include_noise=False, organism_spread=False)
-    return z.with_(**changes) if changes else z
 
 
 def run(spec, cond, inputs, draws=4000, seed=7, germ=False):

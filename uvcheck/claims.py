@@ -1413,16 +1413,25 @@ def _rests_on_stated_filter(ev: Evidence) -> bool:
         getattr(r, "technology", None) == "krcl_excimer" for r in ev.readings)
 
 
-def _safety_verdict(c: Any, ev: Evidence) -> Verdict:
-    missing = c.missing()
-    if missing:
-        return _na(c, ev, "the claim does not say who or what it is safe for", missing)
+def _likely_absolute(c: Any, ev: Evidence, cannot: str) -> Reading | Verdict:
+    """The most likely reading, or the ``not-assessable`` verdict when there is none (no lamp
+    data at all) or it is relative (``cannot``: what cannot be worked out then)."""
     r = ev.likely()
     if r is None:
         return _na(c, ev, NO_LAMP_DATA, NO_LAMP_DATA_NEEDS)
     if not r.spectrum.is_absolute:
-        return _na(c, ev, "no absolute reading of the lamp: exposure cannot be worked out",
+        return _na(c, ev, f"no absolute reading of the lamp: {cannot}",
                    ("a scaled spectrum, or lamp.optical_power / lamp.electrical_power",))
+    return r
+
+
+def _safety_verdict(c: Any, ev: Evidence) -> Verdict:
+    missing = c.missing()
+    if missing:
+        return _na(c, ev, "the claim does not say who or what it is safe for", missing)
+    r = _likely_absolute(c, ev, "exposure cannot be worked out")
+    if isinstance(r, Verdict):
+        return r
     t = c.time_s or WORKDAY_S
     assumptions = []
     if c.time_s is None:
@@ -1630,12 +1639,9 @@ def _risk_group(c: Any, ev: Evidence) -> Verdict:
     the rest of the assessment uses."""
     if c.risk_group is None:
         return _na(c, ev, "no risk group stated", c.missing())
-    r = ev.likely()
-    if r is None:
-        return _na(c, ev, NO_LAMP_DATA, NO_LAMP_DATA_NEEDS)
-    if not r.spectrum.is_absolute:
-        return _na(c, ev, "no absolute reading of the lamp: no risk group can be given",
-                   ("a scaled spectrum, or lamp.optical_power / lamp.electrical_power",))
+    r = _likely_absolute(c, ev, "no risk group can be given")
+    if isinstance(r, Verdict):
+        return r
     if r.d_ref is None:
         return _na(c, ev, "the measurement distance is unknown, so the risk group holds at the "
                           "unknown measurement position, not at the IEC 62471 assessment "
