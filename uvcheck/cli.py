@@ -75,8 +75,9 @@ def guarded(fn: Callable[..., Any]) -> Callable[..., Any]:
 from uvcheck.cli_options import (  # noqa: E402  (typer only)
     Alpha, Block, CalibrationUncertainty, Column, DataStart, Decimal, DecisionRule, Delimiter,
     Distance, DistanceUncertainty, Draws, ElectricalPower, Emitter, Encoding, ExposureTime, Force,
-    GeneralLighting, Limits, NoUncertainty, Quiet, Repeat, ScaleBand, ScaleLux, ScaleTotal, SourceSize,
-    StrayLight, TubeLength, Unit, UseDistance, WavelengthUncertainty, WlColumn, WlUnit)
+    GeneralLighting, Limits, MeterResponse, NoUncertainty, Quiet, Repeat, ScaleBand, ScaleLux,
+    ScaleTotal, SourceSize, StrayLight, TubeLength, Unit, UseDistance, WavelengthUncertainty,
+    WlColumn, WlUnit)
 
 
 def read_options(encoding: str | None, delimiter: str | None, decimal: str | None,
@@ -102,6 +103,7 @@ def assess(
     force: Force = False,
     distance: Distance = None,
     scale_band: ScaleBand = None,
+    meter_response: MeterResponse = None,
     scale_lux: ScaleLux = None,
     scale_total: ScaleTotal = None,
     source_size: SourceSize = None,
@@ -143,7 +145,7 @@ def assess(
                            use_distance=use_distance, general_lighting=general_lighting,
                            exposure_time=exposure_time, electrical_power=electrical_power,
                            emitter=emitter, tube_length=tube_length,
-                           repeats=tuple(repeat or ()))
+                           repeats=tuple(repeat or ()), meter_response=meter_response)
     inputs.check()
     check_output_file(json_out, force)
     _check_fail_on(fail_on)

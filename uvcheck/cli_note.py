@@ -20,9 +20,9 @@ import typer
 from uvcheck.cli_options import (Alpha, Block, CalibrationUncertainty, Column, DataStart, Decimal,
                                  DecisionRule, Delimiter, Distance, DistanceUncertainty, Draws,
                                  ElectricalPower, Encoding, ExposureTime, EyeHeight, Force,
-                                 GeneralLighting, LampAt, Limits, NoUncertainty, Quiet,
-                                 Reflectance, Repeat, RoomPattern, ScaleBand, ScaleLux, ScaleTotal,
-                                 SourceSize, StrayLight, TubeAxis, TubeLength, Unit, UseDistance,
+                                 GeneralLighting, LampAt, Limits, MeterResponse,
+                                 NoUncertainty, Quiet, Reflectance, Repeat, RoomPattern,
+                                 ScaleBand, ScaleLux, ScaleTotal, SourceSize, StrayLight, TubeAxis, TubeLength, Unit, UseDistance,
                                  WavelengthUncertainty, WlColumn, WlUnit, WorkPlane)
 
 #: The demo scenario, relative to a source checkout (next to the package, or the current folder).
@@ -53,7 +53,8 @@ def note_result(spectrum_file: Path | None, listing_file: Path | None, *, read_o
                 room: dict[str, Any] | None = None,
                 room_where: dict[str, str] | None = None,
                 uncertainty: dict[str, Any] | None = None,
-                repeats: tuple[Path, ...] = ()) -> tuple[dict[str, Any], Any]:
+                repeats: tuple[Path, ...] = (),
+                meter_response: Path | None = None) -> tuple[dict[str, Any], Any]:
     """(``Assessment.to_dict()`` made strict-JSON, the spectrum it was computed from).
 
     With a spectrum: the measured assessment, with the listing's claims judged against it.
@@ -80,7 +81,7 @@ def note_result(spectrum_file: Path | None, listing_file: Path | None, *, read_o
                            scale_total=scale_total, source_size=source_size, alpha=alpha,
                            use_distance=use_distance, general_lighting=general_lighting,
                            exposure_time=exposure_time, electrical_power=electrical_power,
-                           repeats=tuple(repeats))
+                           repeats=tuple(repeats), meter_response=meter_response)
     inputs.check()
     options = assess_options(limits, **(uncertainty or {}))
     listing = None
@@ -217,6 +218,7 @@ def note_command(
     force: Force = False,
     distance: Distance = None,
     scale_band: ScaleBand = None,
+    meter_response: MeterResponse = None,
     scale_lux: ScaleLux = None,
     scale_total: ScaleTotal = None,
     source_size: SourceSize = None,
@@ -297,7 +299,8 @@ def note_command(
                                source_size=source_size, alpha=alpha, use_distance=use_distance,
                                general_lighting=general_lighting, exposure_time=exposure_time,
                                limits=limits, electrical_power=electrical_power, room=room_d,
-                               uncertainty=unc, repeats=tuple(repeat or ()))
+                               uncertainty=unc, repeats=tuple(repeat or ()),
+                               meter_response=meter_response)
     h, p, _ = write_note(result, spec, html_path, pdf=not no_pdf, force=force, salt=stem)
     if not quiet:
         typer.echo(f"wrote {h}" + (f"\nwrote {p}" if p else ""))

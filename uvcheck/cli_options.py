@@ -38,6 +38,10 @@ Block = Annotated[Optional[int], typer.Option(help="Data block to read when a fi
                                               "(from 1).", rich_help_panel=_READ)]
 DataStart = Annotated[Optional[int], typer.Option("--data-start", help="Line where the data rows "
                                                   "start (from 1).", rich_help_panel=_READ)]
+MeterResponse = Annotated[Optional[Path], typer.Option(
+    "--meter-response", help="The relative spectral response of the meter that gave "
+                             "--scale-band (a table of wavelength and response): the reading "
+                             "is then taken as the response-weighted integral.")]
 Repeat = Annotated[Optional[list[Path]], typer.Option(
     "--repeat", help="A repeat scan of the same lamp in the same position (repeatable): the "
                      "mean of all scans is assessed, and their spread reported.",

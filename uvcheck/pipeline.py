@@ -26,7 +26,7 @@ CLI_NAMES: dict[str, str] = {
     "scale_total": "--scale-total", "source_size": "--source-size", "alpha": "--alpha",
     "use_distance": "--use-distance", "exposure_time": "--exposure-time",
     "electrical_power": "--electrical-power", "emitter": "--emitter",
-    "tube_length": "--tube-length"}
+    "tube_length": "--tube-length", "meter_response": "--meter-response"}
 
 
 def emitter_options(emitter: str | None, tube_length: str | None,
@@ -87,11 +87,13 @@ def conditions_from_options(d0: float | None, source_size: str | None, alpha: fl
 
 
 def apply_scaling(spec: Any, scale_band: str | None, scale_lux: str | None,
-                  scale_total: str | None) -> Any:
+                  scale_total: str | None, meter_response: str | Path | None = None) -> Any:
     from uvcheck import scaling
 
     if scale_band:
-        return scaling.scale_by_band(spec, scale_band)
+        response = (scaling.read_meter_response(meter_response) if meter_response is not None
+                    else None)
+        return scaling.scale_by_band(spec, scale_band, response)
     if scale_lux:
         return scaling.scale_by_lux(spec, scale_lux)
     if scale_total:
@@ -123,6 +125,8 @@ class ProductInputs:
     electrical_power : electrical input power ('8 W').
     emitter, tube_length : the distance model (``point`` | ``lambertian`` | ``tube``) and a
         tube's length; None: the listing's, else a point source.
+    meter_response : the relative spectral response of the meter that gave ``scale_band``
+        (a table file); None: a flat response over the band.
     repeats : further scans of the same lamp in the same position (files); the mean of all
         scans is assessed (:func:`uvcheck.repeats.combine_scans`).
     """
@@ -140,6 +144,7 @@ class ProductInputs:
     emitter: str | None = None
     tube_length: str | None = None
     repeats: tuple[Path, ...] = ()
+    meter_response: str | Path | None = None
 
     def check(self, names: Mapping[str, str] | None = None) -> None:
         """Refuse a contradictory or unreadable input before any file is read (the texts are
@@ -151,6 +156,10 @@ class ProductInputs:
         if len(given) > 1:
             raise ConfigurationError("give only one of " + ", ".join(
                 names[k] for k in ("scale_band", "scale_lux", "scale_total")))
+        if self.meter_response is not None and self.scale_band is None:
+            raise ConfigurationError(f"{names.get('meter_response', '--meter-response')} goes "
+                                     f"with {names['scale_band']} (the meter's reading)",
+                                     todo=f"give the reading with {names['scale_band']}")
         _length(self.distance or None, names["distance"])
         conditions_from_options(None, self.source_size, self.alpha, self.use_distance,
                                 self.general_lighting, self.exposure_time,
@@ -214,7 +223,8 @@ def assess_files(spectrum_file: Path | None, listing: Any | None, inputs: Produc
     spec, report = read_spectrum(spectrum_file, read_opts)
     if inputs.repeats:
         spec, report = _with_repeats(spec, report, spectrum_file, inputs.repeats, read_opts)
-    spec = apply_scaling(spec, inputs.scale_band, inputs.scale_lux, inputs.scale_total)
+    spec = apply_scaling(spec, inputs.scale_band, inputs.scale_lux, inputs.scale_total,
+                         inputs.meter_response)
     d0 = (_length(inputs.distance, names["distance"]) if inputs.distance
           else report.measurement_distance_m)
     d_file = report.measurement_distance_m

@@ -5,7 +5,10 @@ A relative spectrum gives shape results only. It becomes absolute with an anchor
 * a radiometer reading in a band (``"UV-C=120 µW/cm²"``, or a range ``"250-260nm=5 uW/cm2"``);
   the reading is taken as the unweighted band irradiance, i.e. a meter with a flat response
   over the band — real meters are not flat, so the result is indicative unless the meter's
-  response is known;
+  response is known. With the meter's relative spectral response (:func:`read_meter_response`)
+  the reading is taken as ∫ s(λ)·E(λ) dλ, s normalised to 1 at its peak (where such meters
+  are calibrated, as a rule; our assumption), and the record gives the spectral mismatch: how
+  far the flat-response reading would have been off;
 * a lux-meter reading: the spectrum is scaled so that 683·∫E·V dλ equals the reading. Lux
   carries no information about UV, and lux meters misread narrow-band LEDs: the output says
   so loudly;
@@ -21,6 +24,9 @@ from __future__ import annotations
 
 import math
 import re
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Any
 
 from uvcheck.bands import BAND_RANGES
 from uvcheck.errors import ConfigurationError
@@ -126,10 +132,56 @@ def parse_band_reading(text: str) -> tuple[str, float, float, float]:
     return band, lo, hi, value
 
 
-def scale_by_band(spectrum: Spectrum, text: str) -> Spectrum:
-    """Scale so the band integral equals a radiometer reading (see :func:`parse_band_reading`)."""
+@dataclass(frozen=True)
+class MeterResponse:
+    """A radiometer's relative spectral response, s(λ) ≥ 0 normalised to 1 at its peak, linear
+    between the tabulated points and 0 outside them (the meter is taken to see nothing the
+    table does not list). source : the file. [-]"""
+
+    wavelength_nm: tuple[float, ...]
+    response: tuple[float, ...]
+    source: str
+
+    @property
+    def range_nm(self) -> tuple[float, float]:
+        return self.wavelength_nm[0], self.wavelength_nm[-1]
+
+    def __call__(self, wl: Any) -> Any:
+        import numpy as np
+
+        return np.interp(np.asarray(wl, dtype=float), self.wavelength_nm, self.response,
+                         left=0.0, right=0.0)
+
+
+def read_meter_response(path: str | Path) -> MeterResponse:
+    """A meter's relative spectral response from a table file (wavelength and response, any
+    text format the spectrum reader reads), normalised to its peak. Raises
+    :class:`ConfigurationError` for negative or all-zero responses."""
+    import numpy as np
+
+    from uvcheck.io.reader import read_spectrum
+
+    spec, _ = read_spectrum(path, unit="relative")
+    v = np.asarray(spec.values, dtype=float)
+    where = str(path)
+    if (v < -1e-6 * max(float(np.max(np.abs(v))), 1e-300)).any():
+        raise ConfigurationError("the meter response has negative values", where,
+                                 "give the meter's relative spectral response (0 to 1)")
+    v = np.clip(v, 0.0, None)
+    if not v.max() > 0:
+        raise ConfigurationError("the meter response is zero everywhere", where)
+    return MeterResponse(tuple(float(x) for x in spec.wavelength_nm),
+                         tuple(float(x) for x in v / v.max()), where)
+
+
+def scale_by_band(spectrum: Spectrum, text: str, response: MeterResponse | None = None
+                  ) -> Spectrum:
+    """Scale so the band integral equals a radiometer reading (see :func:`parse_band_reading`);
+    with the meter's ``response``, so that ∫ s·E dλ equals it (the module notes)."""
     band, lo, hi, value = parse_band_reading(text)
     u_rel = reading_u_rel(text.split("=", 1)[1], value, "irradiance", "--scale-band")
+    if response is not None:
+        return _scale_by_meter(spectrum, text, band, lo, hi, value, u_rel, response)
     r = integrate(spectrum, lo, hi)
     if r.coverage < 0.999:
         raise ConfigurationError(f"the spectrum covers only {r.coverage:.0%} of the band {band} "
@@ -143,6 +195,34 @@ def scale_by_band(spectrum: Spectrum, text: str) -> Spectrum:
                   {"method": "band reading", "band": band, "range_nm": [lo, hi],
                    "reading_W_m2": value, "reading_u_rel": u_rel, "text": text,
                    "note": BAND_METER_NOTE})
+
+
+def _scale_by_meter(spectrum: Spectrum, text: str, band: str, lo: float, hi: float,
+                    value: float, u_rel: float | None, response: MeterResponse) -> Spectrum:
+    r_lo, r_hi = response.range_nm
+    seen = integrate(spectrum, r_lo, r_hi, response)
+    if seen.coverage < 0.999:
+        raise ConfigurationError(f"the spectrum covers only {seen.coverage:.0%} of the meter's "
+                                 f"response ({r_lo:g}–{r_hi:g} nm)", "--meter-response",
+                                 "a meter reading needs the spectrum over the whole range the "
+                                 "meter responds to")
+    dl = seen.detection_limit or 0.0
+    if not seen.value > dl:
+        raise ConfigurationError("the spectrum has no signal above its noise where the meter "
+                                 "responds", "--meter-response")
+    flat = integrate(spectrum, lo, hi)
+    mismatch = flat.value / seen.value if flat.coverage >= 0.999 else None
+    note = (f"scaled by a meter reading ({band}) with the meter's spectral response "
+            f"({Path(response.source).name}, {r_lo:g}–{r_hi:g} nm, normalised to 1 at its peak: "
+            "our assumption of where it was calibrated): the reading is taken as ∫ s(λ)E(λ) dλ"
+            + (f"; a flat response over {band} would have read the {band} irradiance "
+               f"{mismatch:.3g} times the meter's reading (the spectral mismatch)"
+               if mismatch is not None else ""))
+    return _scaled(spectrum, value / seen.value,
+                  {"method": "band reading with the meter's response", "band": band,
+                   "range_nm": [r_lo, r_hi], "reading_W_m2": value, "reading_u_rel": u_rel,
+                   "text": text, "meter_response": response.source,
+                   "spectral_mismatch": mismatch, "note": note})
 
 
 def scale_by_lux(spectrum: Spectrum, lux_text: str) -> Spectrum:
