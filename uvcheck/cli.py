@@ -280,6 +280,46 @@ def screen(
     _exit_for(result, fail_on)
 
 
+@app.command()
+@guarded
+def compare(
+    sample: Annotated[Path, typer.Argument(help="The sample's spectrum export.")],
+    reference: Annotated[Path, typer.Argument(help="The reference's spectrum export (the same "
+                                              "kind of measurement, at the same distance).")],
+    json_out: Annotated[Optional[str], typer.Option("--json", help="Write the comparison as "
+                                                    "JSON to this path ('-' for stdout).")] = None,
+    force: Force = False,
+    distance: Distance = None,
+    source_size: SourceSize = None,
+    limits: Limits = "iec62471_2006",
+    quiet: Quiet = False,
+    encoding: Encoding = None, delimiter: Delimiter = None, decimal: Decimal = None,
+    column: Column = None, wavelength_column: WlColumn = None, wavelength_unit: WlUnit = None,
+    unit: Unit = None, block: Block = None, data_start: DataStart = None,
+) -> None:
+    """Compare a sample with a reference (two units of one product, or an offered lamp with
+    an approved one): bands, hazards, UV-C, peak and risk group side by side, with ratios
+    where both values are established. A screening comparison, not a certification."""
+    from uvcheck.compare import compare as compare_results
+    from uvcheck.compare import render_comparison
+    from uvcheck.pipeline import ProductInputs, assess_files
+    from uvcheck.report.jsonout import clean, write_json
+
+    inputs = ProductInputs(distance=distance, source_size=source_size)
+    inputs.check()
+    check_output_file(json_out, force)
+    options = assess_options(limits, True)
+    opts = read_options(encoding, delimiter, decimal, column, wavelength_column, wavelength_unit,
+                        unit, block, data_start)
+    a = clean(assess_files(sample, None, inputs, options, opts).to_dict())
+    b = clean(assess_files(reference, None, inputs, options, opts).to_dict())
+    result = clean(compare_results(a, b))
+    if json_out:
+        write_json(json_out, result, force=force)
+    if not quiet and json_out != "-":
+        typer.echo(render_comparison(result), nl=False)
+
+
 from uvcheck.cli_room import organisms_command, room_command  # noqa: E402  (typer only)
 
 from uvcheck.cli_note import demo_command, note_command  # noqa: E402  (typer only)

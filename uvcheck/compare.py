@@ -1,0 +1,172 @@
+"""A sample against a reference: two assessments side by side.
+
+A surveillance officer compares a product sample with a reference sample of the same product,
+or two units bought at different times; an occupational-health buyer compares an offered lamp
+with the one already approved. :func:`compare` takes the two ``Assessment.to_dict()`` results
+(the JSON contract) and gives, band by band and hazard by hazard, both values and their ratio,
+the peak shift, both risk groups and the UV-C of each.
+
+Honest-results rules: a ratio is given only where both values are established (complete, not
+a bound, not below detection, both in the same unit); otherwise the row says why there is none.
+Both results must be of one quantity and at one position (the same measurement distance, or
+both at an unstated one), else the comparison is refused: values at different distances do
+not compare.
+"""
+
+from __future__ import annotations
+
+from typing import Any, Mapping
+
+#: Band statuses whose value is established (not a bound). Hazard statuses likewise.
+_ESTABLISHED = ("complete",)
+_HAZARD_ORDER = ("actinic_uv", "near_uv", "blue_light", "retinal_thermal",
+                 "retinal_thermal_weak_stimulus", "ir_eye", "skin_thermal")
+#: A relative difference under this is reported as "the same" (our own rule: within the
+#: usual calibration uncertainty of a UV measurement, about 5 %). [-]
+SAME_WITHIN = 0.05
+
+
+def _ratio(a: Any, b: Any) -> float | None:
+    if isinstance(a, (int, float)) and isinstance(b, (int, float)) and b > 0 and a >= 0:
+        return float(a) / float(b)
+    return None
+
+
+def _why_none(sa: str | None, sb: str | None) -> str:
+    bad = [f"{who} {s}" for who, s in (("sample", sa), ("reference", sb))
+           if s not in _ESTABLISHED]
+    return "no ratio: " + ", ".join(bad) if bad else "no ratio: a value is zero or missing"
+
+
+def _row(name: str, unit: str | None, va: Any, sa: str | None, vb: Any, sb: str | None
+         ) -> dict[str, Any]:
+    ok = sa in _ESTABLISHED and sb in _ESTABLISHED
+    r = _ratio(va, vb) if ok else None
+    return {"name": name, "unit": unit, "sample": va, "sample_status": sa, "reference": vb,
+            "reference_status": sb, "ratio": r,
+            "note": None if r is not None else _why_none(sa, sb)}
+
+
+def _position(d: Mapping[str, Any]) -> float | None:
+    return (d.get("conditions") or {}).get("measurement_distance_m")
+
+
+def compare(sample: Mapping[str, Any], reference: Mapping[str, Any]) -> dict[str, Any]:
+    """The comparison of two assessment dicts (see the module notes).
+
+    Examples
+    --------
+    >>> a = {"input": {"quantity": "irradiance", "path": "a.csv"}, "conditions": {},
+    ...      "bands": {"UV-A": {"value": 2.0, "unit": "W m-2", "status": "complete"}},
+    ...      "spectral": {"peak_nm": 366.0}}
+    >>> b = {"input": {"quantity": "irradiance", "path": "b.csv"}, "conditions": {},
+    ...      "bands": {"UV-A": {"value": 4.0, "unit": "W m-2", "status": "complete"}},
+    ...      "spectral": {"peak_nm": 365.0}}
+    >>> c = compare(a, b)
+    >>> c["bands"][0]["ratio"], c["peak_shift_nm"]
+    (0.5, 1.0)
+    """
+    from uvcheck.errors import ConfigurationError
+
+    qa = (sample.get("input") or {}).get("quantity")
+    qb = (reference.get("input") or {}).get("quantity")
+    if qa != qb:
+        raise ConfigurationError(f"the sample is {qa}, the reference {qb}: values of different "
+                                 "quantities do not compare", todo="give two spectra of one kind")
+    da, db = _position(sample), _position(reference)
+    if (da is None) != (db is None) or (da is not None and abs(da - db) > 0.01 * db):  # type: ignore[operator]
+        raise ConfigurationError(
+            f"the sample was measured at {da if da is not None else 'an unstated distance'} m, "
+            f"the reference at {db if db is not None else 'an unstated distance'} m: values "
+            "at different positions do not compare",
+            todo="give the same --distance for both (measure both at one distance)")
+    bands = []
+    bb = reference.get("bands") or {}
+    for name, x in (sample.get("bands") or {}).items():
+        y = bb.get(name) or {}
+        bands.append(_row(name, x.get("unit"), x.get("value"), x.get("status"), y.get("value"),
+                          y.get("status")))
+    hz = []
+    ha, hb = sample.get("hazards") or {}, reference.get("hazards") or {}
+    for hid in _HAZARD_ORDER:
+        x, y = ha.get(hid), hb.get(hid)
+        if not x or not y:
+            continue
+        row = _row(x.get("symbol") or hid, x.get("unit"), x.get("value"), x.get("status"),
+                   y.get("value"), y.get("status"))
+        row.update(id=hid, sample_group=x.get("risk_group"), reference_group=y.get("risk_group"))
+        hz.append(row)
+    ua = (sample.get("germicidal") or {}).get("uvc") or {}
+    ub = (reference.get("germicidal") or {}).get("uvc") or {}
+    uvc = _row("UV-C 200–280 nm", ua.get("unit"), ua.get("value"), ua.get("status"),
+               ub.get("value"), ub.get("status"))
+    pa = (sample.get("spectral") or {}).get("peak_nm")
+    pb = (reference.get("spectral") or {}).get("peak_nm")
+    rga, rgb = sample.get("risk_group") or {}, reference.get("risk_group") or {}
+    findings = []
+    for r in bands + hz + [uvc]:
+        if r["ratio"] is not None and abs(r["ratio"] - 1.0) > SAME_WITHIN:
+            findings.append(f"{r['name']}: the sample is {r['ratio']:.3g} × the reference")
+    if rga.get("group") != rgb.get("group") or bool(rga.get("is_lower_bound")) != bool(
+            rgb.get("is_lower_bound")):
+        findings.append(f"risk group: sample {_group(rga)}, reference {_group(rgb)}")
+    return {
+        "schema": "uvcheck.comparison/1",
+        "sample": (sample.get("input") or {}).get("path"),
+        "reference": (reference.get("input") or {}).get("path"),
+        "quantity": qa, "measurement_distance_m": da,
+        "peak_nm": {"sample": pa, "reference": pb},
+        "peak_shift_nm": (pa - pb) if pa is not None and pb is not None else None,
+        "bands": bands, "hazards": hz, "uvc": uvc,
+        "risk_group": {"sample": _group(rga), "reference": _group(rgb)},
+        "differences": findings,
+        "same_within": SAME_WITHIN,
+        "notes": ["A ratio is given only where both values are established (not a bound, not "
+                  "below detection); differences under "
+                  f"{SAME_WITHIN:.0%} (our own rule, about a UV measurement's calibration "
+                  "uncertainty) are not listed as differences.",
+                  "Screening comparison, not a certification; local codes and licensed "
+                  "practice take precedence."],
+    }
+
+
+def _group(rg: Mapping[str, Any]) -> str | None:
+    g = rg.get("group")
+    if g is None:
+        return None
+    return f"at least {g}" if rg.get("is_lower_bound") else g
+
+
+def render_comparison(c: Mapping[str, Any]) -> str:
+    """The comparison as terminal text."""
+    from uvcheck.units import sig
+
+    def num(v: Any, status: str | None = None) -> str:
+        if v is None:
+            return "—"
+        return ("≥ " if status == "partial" else "") + sig(v)   # partly measured: a lower bound
+
+    out = [f"Comparison: sample {c['sample']} against reference {c['reference']}",
+           f"  {c['quantity']}" + (f", both measured at {sig(c['measurement_distance_m'])} m"
+                                   if c["measurement_distance_m"] is not None else
+                                   ", both at an unstated measurement position"), ""]
+    pk = c["peak_nm"]
+    out.append(f"Peak: sample {num(pk['sample'])} nm, reference {num(pk['reference'])} nm"
+               + (f" (shift {c['peak_shift_nm']:+.3g} nm)" if c["peak_shift_nm"] is not None else ""))
+    out.append(f"Risk group: sample {c['risk_group']['sample']}, reference "
+               f"{c['risk_group']['reference']}")
+    out.append("")
+    for title, rows in (("Bands", c["bands"]), ("Hazards", c["hazards"]), ("UV-C", [c["uvc"]])):
+        out.append(f"{title:<30} {'sample':>12}  {'reference':>12}  {'unit':<12} sample/reference")
+        for r in rows:
+            ratio = f"{r['ratio']:.3g} ×" if r["ratio"] is not None else r["note"]
+            out.append(f"  {r['name']:<28} {num(r['sample'], r['sample_status']):>12}  "
+                       f"{num(r['reference'], r['reference_status']):>12}  "
+                       f"{r['unit'] or '':<12} {ratio}")
+        out.append("")
+    out.append("Differences" if c["differences"] else "No difference beyond "
+               f"{c['same_within']:.0%} where both values are established.")
+    out += [f"  - {f}" for f in c["differences"]]
+    out.append("")
+    out += [f"Note: {n}" for n in c["notes"]]
+    return "\n".join(out) + "\n"
