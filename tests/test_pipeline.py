@@ -145,3 +145,34 @@ def test_a_distance_option_that_contradicts_the_file_is_used_and_warned_about():
                    for x in same.to_dict()["input"]["warnings"])
     own = assess_files(wand, None, ProductInputs(), opts)
     assert own.conditions.measurement_distance_m == pytest.approx(0.1)
+
+
+def test_test_record_is_kept_for_the_report_and_used_nowhere(tmp_path):
+    # PRACTICE: a technical report records the operating conditions and the instrument; the
+    # tool keeps what the tester states, in order, and computes nothing from it
+    import json as _json
+
+    import numpy as np
+
+    from typer.testing import CliRunner
+
+    from uvcheck.cli import app
+    from uvcheck.cli_note import note_result, render_note
+
+    wl = np.arange(300.0, 801.0, 1.0)
+    f = tmp_path / "lamp.csv"
+    f.write_text("Wavelength (nm),Irradiance (W/m2/nm)\n" + "\n".join(
+        f"{a},{1e-3 * np.exp(-0.5 * ((a - 450) / 10) ** 2) + 1e-7:.6e}" for a in wl) + "\n")
+    out, plain = tmp_path / "a.json", tmp_path / "b.json"
+    args = ["assess", str(f), "--distance", "20 cm", "--no-uncertainty", "--json"]
+    r = CliRunner().invoke(app, args + [str(out), "--test-info", "warm-up=15 min",
+                                        "--test-info", "cosine corrector = yes"])
+    assert r.exit_code == 0, r.output
+    CliRunner().invoke(app, args + [str(plain)])
+    d, e = _json.loads(out.read_text()), _json.loads(plain.read_text())
+    assert d["input"]["test_record"] == {"warm-up": "15 min", "cosine corrector": "yes"}
+    assert d["hazards"] == e["hazards"] and d["bands"] == e["bands"]   # used nowhere
+    result, spec = note_result(f, None, distance="20 cm", test_info=("warm-up=15 min",),
+                               uncertainty={"no_uncertainty": True})
+    html, _, _ = render_note(result, spec, pdf=False)
+    assert "Test record: warm-up" in html and "15 min" in html

@@ -212,6 +212,7 @@ def input_section(spectrum: Spectrum, report: Any | None) -> dict[str, Any]:
         "noise_floor": spectrum.noise_floor,
         "scaling": list(meta.get("scaling", [])),
         "instrument": dict(meta.get("instrument", {})),
+        "test_record": dict(meta.get("test_record", {})),
         "inferred": inferred,
         "warnings": warnings,
         # repeat scans (uvcheck.repeats): how far the scans agree; None for one scan

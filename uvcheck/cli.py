@@ -76,7 +76,7 @@ from uvcheck.cli_options import (  # noqa: E402  (typer only)
     Alpha, Block, CalibrationUncertainty, Column, DataStart, Decimal, DecisionRule, Delimiter,
     Distance, DistanceUncertainty, Draws, ElectricalPower, Emitter, Encoding, ExposureTime, Force,
     GeneralLighting, Limits, MeterResponse, NoUncertainty, Quiet, Repeat, ScaleBand, ScaleLux,
-    ScaleTotal, SourceSize, StrayLight, TubeLength, Unit, UseDistance, WavelengthUncertainty,
+    ScaleTotal, SourceSize, StrayLight, TestInfo, TubeLength, Unit, UseDistance, WavelengthUncertainty,
     WlColumn, WlUnit)
 
 
@@ -132,6 +132,7 @@ def assess(
     column: Column = None, wavelength_column: WlColumn = None, wavelength_unit: WlUnit = None,
     unit: Unit = None, block: Block = None, data_start: DataStart = None,
     repeat: Repeat = None,
+    test_info: TestInfo = None,
 ) -> None:
     """Assess a measured spectrum: band breakdown, peak, photometry, IEC 62471 hazards,
     germicidal output, measurement uncertainty, and the verdicts on a listing's claims
@@ -145,7 +146,8 @@ def assess(
                            use_distance=use_distance, general_lighting=general_lighting,
                            exposure_time=exposure_time, electrical_power=electrical_power,
                            emitter=emitter, tube_length=tube_length,
-                           repeats=tuple(repeat or ()), meter_response=meter_response)
+                           repeats=tuple(repeat or ()), meter_response=meter_response,
+                           test_info=tuple(test_info or ()))
     inputs.check()
     check_output_file(json_out, force)
     _check_fail_on(fail_on)

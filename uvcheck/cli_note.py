@@ -22,7 +22,8 @@ from uvcheck.cli_options import (Alpha, Block, CalibrationUncertainty, Column, D
                                  ElectricalPower, Encoding, ExposureTime, EyeHeight, Force,
                                  GeneralLighting, LampAt, Limits, MeterResponse,
                                  NoUncertainty, Quiet, Reflectance, Repeat, RoomPattern,
-                                 ScaleBand, ScaleLux, ScaleTotal, SourceSize, StrayLight, TubeAxis, TubeLength, Unit, UseDistance,
+                                 ScaleBand, ScaleLux, ScaleTotal, SourceSize, StrayLight,
+                                 TestInfo, TubeAxis, TubeLength, Unit, UseDistance,
                                  WavelengthUncertainty, WlColumn, WlUnit, WorkPlane)
 
 #: The demo scenario, relative to a source checkout (next to the package, or the current folder).
@@ -54,7 +55,8 @@ def note_result(spectrum_file: Path | None, listing_file: Path | None, *, read_o
                 room_where: dict[str, str] | None = None,
                 uncertainty: dict[str, Any] | None = None,
                 repeats: tuple[Path, ...] = (),
-                meter_response: Path | None = None) -> tuple[dict[str, Any], Any]:
+                meter_response: Path | None = None,
+                test_info: tuple[str, ...] = ()) -> tuple[dict[str, Any], Any]:
     """(``Assessment.to_dict()`` made strict-JSON, the spectrum it was computed from).
 
     With a spectrum: the measured assessment, with the listing's claims judged against it.
@@ -81,7 +83,8 @@ def note_result(spectrum_file: Path | None, listing_file: Path | None, *, read_o
                            scale_total=scale_total, source_size=source_size, alpha=alpha,
                            use_distance=use_distance, general_lighting=general_lighting,
                            exposure_time=exposure_time, electrical_power=electrical_power,
-                           repeats=tuple(repeats), meter_response=meter_response)
+                           repeats=tuple(repeats), meter_response=meter_response,
+                           test_info=tuple(test_info))
     inputs.check()
     options = assess_options(limits, **(uncertainty or {}))
     listing = None
@@ -250,6 +253,7 @@ def note_command(
     column: Column = None, wavelength_column: WlColumn = None, wavelength_unit: WlUnit = None,
     unit: Unit = None, block: Block = None, data_start: DataStart = None,
     repeat: Repeat = None,
+    test_info: TestInfo = None,
 ) -> None:
     """Write the consumer-safety note (self-contained HTML and PDF) for a spectrum and/or a
     listing: the product as sold, a plain-language finding, the claims with verdicts, the
@@ -300,7 +304,8 @@ def note_command(
                                general_lighting=general_lighting, exposure_time=exposure_time,
                                limits=limits, electrical_power=electrical_power, room=room_d,
                                uncertainty=unc, repeats=tuple(repeat or ()),
-                               meter_response=meter_response)
+                               meter_response=meter_response,
+                               test_info=tuple(test_info or ()))
     h, p, _ = write_note(result, spec, html_path, pdf=not no_pdf, force=force, salt=stem)
     if not quiet:
         typer.echo(f"wrote {h}" + (f"\nwrote {p}" if p else ""))

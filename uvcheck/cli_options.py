@@ -42,6 +42,10 @@ MeterResponse = Annotated[Optional[Path], typer.Option(
     "--meter-response", help="The relative spectral response of the meter that gave "
                              "--scale-band (a table of wavelength and response): the reading "
                              "is then taken as the response-weighted integral.")]
+TestInfo = Annotated[Optional[list[str]], typer.Option(
+    "--test-info", help="A fact of the test for the record, as KEY=VALUE (repeatable), e.g. "
+                        "'warm-up=15 min', 'cosine corrector=yes', 'calibration date=2026-05-01', "
+                        "'supply=230 V'; shown in the note and the JSON, used in no computation.")]
 Repeat = Annotated[Optional[list[Path]], typer.Option(
     "--repeat", help="A repeat scan of the same lamp in the same position (repeatable): the "
                      "mean of all scans is assessed, and their spread reported.",

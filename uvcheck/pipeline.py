@@ -86,6 +86,23 @@ def conditions_from_options(d0: float | None, source_size: str | None, alpha: fl
                       exposure_time_s=t, electrical_power_W=power, **extra)
 
 
+def test_record(items: Sequence[str]) -> dict[str, str]:
+    """The test's own record from ``KEY=VALUE`` texts (warm-up, supply, cosine corrector,
+    calibration date, …), in the order given; kept for the report, used in no computation.
+
+    >>> test_record(["warm-up = 15 min", "cosine corrector=yes"])
+    {'warm-up': '15 min', 'cosine corrector': 'yes'}
+    """
+    out: dict[str, str] = {}
+    for item in items:
+        key, sep, value = str(item).partition("=")
+        if not sep or not key.strip() or not value.strip():
+            raise ConfigurationError(f"cannot read the test fact {item!r}", "--test-info",
+                                     "write it as KEY=VALUE, e.g. 'warm-up=15 min'")
+        out[key.strip()] = value.strip()
+    return out
+
+
 def apply_scaling(spec: Any, scale_band: str | None, scale_lux: str | None,
                   scale_total: str | None, meter_response: str | Path | None = None) -> Any:
     from uvcheck import scaling
@@ -145,6 +162,7 @@ class ProductInputs:
     tube_length: str | None = None
     repeats: tuple[Path, ...] = ()
     meter_response: str | Path | None = None
+    test_info: tuple[str, ...] = ()
 
     def check(self, names: Mapping[str, str] | None = None) -> None:
         """Refuse a contradictory or unreadable input before any file is read (the texts are
@@ -156,6 +174,7 @@ class ProductInputs:
         if len(given) > 1:
             raise ConfigurationError("give only one of " + ", ".join(
                 names[k] for k in ("scale_band", "scale_lux", "scale_total")))
+        test_record(self.test_info)
         if self.meter_response is not None and self.scale_band is None:
             raise ConfigurationError(f"{names.get('meter_response', '--meter-response')} goes "
                                      f"with {names['scale_band']} (the meter's reading)",
@@ -225,6 +244,8 @@ def assess_files(spectrum_file: Path | None, listing: Any | None, inputs: Produc
         spec, report = _with_repeats(spec, report, spectrum_file, inputs.repeats, read_opts)
     spec = apply_scaling(spec, inputs.scale_band, inputs.scale_lux, inputs.scale_total,
                          inputs.meter_response)
+    if inputs.test_info:
+        spec = spec.derive(meta={**dict(spec.meta), "test_record": test_record(inputs.test_info)})
     d0 = (_length(inputs.distance, names["distance"]) if inputs.distance
           else report.measurement_distance_m)
     d_file = report.measurement_distance_m

@@ -1351,6 +1351,8 @@ def provenance(result: Result, listing: Mapping[str, Any] | None, date: str,
             meta.setdefault(k, v)
         for k, v in meta.items():
             inputs.append({"label": f"File note: {k}", "value": str(v)})
+        for k, v in (inp.get("test_record") or {}).items():
+            inputs.append({"label": f"Test record: {k}", "value": str(v)})
         inputs.append({"label": "Model placed at" if is_estimate(result) else "Measurement distance",
                        "value": distance(cond.get("measurement_distance_m"))
                        if cond.get("measurement_distance_m") is not None else "not given"})

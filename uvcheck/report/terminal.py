@@ -89,6 +89,8 @@ def render_import(inp: dict) -> list[str]:
     if nz.get("sigma") is not None:
         lines.append(f"  noise floor (1 σ per sample): {sig(inp.get('noise_floor'))} {inp['unit']} "
                      f"({nz['method']}, {nz['n_negative']} negative samples)")
+    for k, v in (inp.get("test_record") or {}).items():
+        lines.append(f"  test record: {k} = {v}")
     rep = inp.get("repeats")
     if rep:
         lines.append(f"  repeat scans: the mean of {rep['n']} ("
