@@ -220,3 +220,27 @@ def test_a_unit_given_on_the_command_line_is_not_questioned(tmp_path):
               WL, 40 * led(WL))
     rep = read_spectrum(p, unit="mW/m2/nm")[1]
     assert not matching(rep.warnings, r"stated twice")
+
+
+def test_a_flat_positive_level_under_the_whole_spectrum_is_reported(tmp_path):
+    # our own rule (reader.OFFSET_*): both ends of the data on one level far above the noise
+    import numpy as np
+
+    from uvcheck.io.reader import read_spectrum
+
+    wl = np.arange(200.0, 1101.0, 1.0)
+    rng = np.random.default_rng(3)
+    led = 0.01 * np.exp(-0.5 * ((wl - 450) / 10) ** 2) + 0.005 * np.exp(-0.5 * ((wl - 580) / 60) ** 2)
+
+    def read(values, name):
+        p = tmp_path / name
+        p.write_text("Wavelength (nm),Irradiance (W/m2/nm)\n" + "\n".join(
+            f"{a},{b:.6e}" for a, b in zip(wl, values)) + "\n", encoding="utf-8")
+        return read_spectrum(p)[1].warnings
+
+    noise = rng.normal(0, 2e-6, wl.size)
+    assert any("flat level" in w for w in read(led + 2e-4 + noise, "offset.csv"))
+    assert not any("flat level" in w for w in read(led + noise, "clean.csv"))
+    # a continuum rising across the range (a 3000 K blackbody shape) has unequal ends
+    bb = 1.0 / (wl ** 5 * (np.exp(1.4388e7 / (wl * 3000.0)) - 1.0))
+    assert not any("flat level" in w for w in read(bb / bb.max() * 0.01 + noise, "bb.csv"))

@@ -1518,7 +1518,8 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
                         f"noise floor is set to {noise.floor_fraction:g} of the peak (a "
                         "dynamic-range floor, common practice: no spectrometer resolves less), "
                         "so values under it are reported as below detection")
-    negative = _mostly_negative(values) or _negative_offset(values, noise.sigma, su)
+    negative = (_mostly_negative(values) or _negative_offset(values, noise.sigma, su)
+                or _positive_offset(values, noise.sigma, su))
     if negative:
         warnings.append(negative)
     if su.quantity != "relative":
@@ -1646,6 +1647,42 @@ def _unit_conflict(used: str, used_how: str, cands: list[tuple[str, str]]) -> st
                 f"{text!r} {how}{apart}; {used!r} ({used_how.removeprefix('from ')}) was used. "
                 "Check which is right, or give --unit")
     return None
+
+
+#: A floor this many noise σ above zero, and this share of the peak, at both ends of the
+#: data is reported as an offset (our own rule). [-]
+OFFSET_SIGMAS = 10.0
+OFFSET_PEAK_SHARE = 1e-3
+#: Both ends' floors agree within this share of the floor (our own rule: a flat pedestal, not
+#: a source that emits across the range). [-]
+OFFSET_ENDS_AGREE = 0.2
+
+
+def _positive_offset(values: np.ndarray, sigma: float | None, su: Any) -> str | None:
+    """A warning when the whole spectrum sits on a flat positive level, else None: a dark
+    (background) level not subtracted, or a stray-light pedestal, which adds the level times
+    the range to every band and hazard integral. Our own rule: the medians of the first and of
+    the last 5 % of the samples agree within :data:`OFFSET_ENDS_AGREE`, and both stand more
+    than :data:`OFFSET_SIGMAS` noise σ and :data:`OFFSET_PEAK_SHARE` of the peak above zero.
+    A source that emits across the whole range (a continuum) has unequal ends and is not
+    flagged as a rule; at least 100 samples are needed."""
+    n = int(values.size)
+    if n < 100 or not sigma or not sigma > 0:
+        return None
+    k = max(5, n // 20)
+    lo_end, hi_end = median(values[:k]), median(values[-k:])
+    floor = min(lo_end, hi_end)
+    top = float(np.max(values))
+    if not (floor > OFFSET_SIGMAS * sigma and floor > OFFSET_PEAK_SHARE * top):
+        return None
+    if abs(lo_end - hi_end) > OFFSET_ENDS_AGREE * floor:
+        return None
+    unit = _spectral_unit_text(su)
+    return (f"the spectrum sits on a flat level of about {floor:.3g} {unit} at both ends of the "
+            f"data ({floor / sigma:.0f} σ of the noise, {floor / top:.2g} of the peak): a dark "
+            "(background) level not subtracted, or a stray-light pedestal? Every band and "
+            "hazard value then includes that level over its whole range, so the UV and IR "
+            "values can be overstated; check the dark measurement")
 
 
 def _negative_offset(values: np.ndarray, sigma: float | None, su: Any) -> str | None:
