@@ -244,3 +244,28 @@ def test_a_flat_positive_level_under_the_whole_spectrum_is_reported(tmp_path):
     # a continuum rising across the range (a 3000 K blackbody shape) has unequal ends
     bb = 1.0 / (wl ** 5 * (np.exp(1.4388e7 / (wl * 3000.0)) - 1.0))
     assert not any("flat level" in w for w in read(bb / bb.max() * 0.01 + noise, "bb.csv"))
+
+
+@pytest.mark.parametrize("seed", [0, 1, 2])
+def test_a_clipped_top_with_noise_on_it_is_reported_and_a_smooth_peak_is_not(tmp_path, seed):
+    # our own rule (reader.PLATEAU_*): a plateau within 8 σ of the maximum whose sides have
+    # fallen 40 σ at 1.5 times its half-width, where a smooth (parabolic) top falls 18 σ
+    import numpy as np
+
+    from uvcheck.io.reader import read_spectrum
+
+    rng = np.random.default_rng(seed)
+    wl = np.arange(300.0, 701.0, 0.5)
+    g = np.exp(-0.5 * ((wl - 450.0) / 8.0) ** 2)
+
+    def clipped(values, name):
+        p = tmp_path / name
+        p.write_text("Wavelength (nm),Counts\n" + "\n".join(
+            f"{a},{b:.6g}" for a, b in zip(wl, values)) + "\n", encoding="utf-8")
+        return any("looks clipped" in w for w in read_spectrum(p)[1].warnings)
+
+    for clip in (0.5, 0.9):
+        assert clipped(np.minimum(g * 60000, 60000 * clip) + rng.normal(0, 20, wl.size),
+                       f"c{clip}.csv")
+    for snr in (30, 300, 3000):
+        assert not clipped(g * 50000 + rng.normal(0, 50000 / snr, wl.size), f"g{snr}.csv")

@@ -1518,6 +1518,10 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
                         f"noise floor is set to {noise.floor_fraction:g} of the peak (a "
                         "dynamic-range floor, common practice: no spectrometer resolves less), "
                         "so values under it are reported as below detection")
+    if not (sat or flat):
+        plateau = _noisy_plateau(values, wl_nm, noise.sigma, unit_label)
+        if plateau:
+            warnings.append(plateau)
     negative = (_mostly_negative(values) or _negative_offset(values, noise.sigma, su)
                 or _positive_offset(values, noise.sigma, su))
     if negative:
@@ -1746,6 +1750,53 @@ def _flat_top(raw: np.ndarray, wl: np.ndarray, quantity: str, unit_label: str) -
     if quantity != "relative":
         text += ". Band and hazard values are then understated"
     return text
+
+
+#: A plateau at the maximum whose sides fall this many noise σ within half its width again
+#: is a clipped top (our own rule). The plateau is the run within 8 σ of the maximum (wide
+#: enough that noise of ±3 σ on a clipped top does not break the run); a smooth peak, near its
+#: top a parabola, falls only 1.5² × 8 = 18 σ at 1.5 times the run's half-width from its
+#: centre [derived], so 40 σ leaves a margin for the noise and the sampling. [-]
+PLATEAU_SHOULDER_SIGMAS = 40.0
+PLATEAU_WITHIN_SIGMAS = 8.0
+
+
+def _noisy_plateau(values: np.ndarray, wl: np.ndarray, sigma: float | None,
+                   unit_label: str) -> str | None:
+    """A warning when the maximum sits on a plateau with noise on it and steep sides, as a
+    saturated detector leaves a peak after the dark is subtracted, else None. The plateau: the
+    run of at least 7 samples around the maximum within :data:`PLATEAU_WITHIN_SIGMAS` σ of it;
+    it is clipped when, a quarter of its width beyond each end (1.5 times its half-width from
+    its centre), the spectrum has fallen by more than
+    :data:`PLATEAU_SHOULDER_SIGMAS` σ on both sides (a smooth peak falls only 18 σ there)."""
+    n = int(values.size)
+    if n < 20 or not sigma or not sigma > 0:
+        return None
+    i = int(np.argmax(values))
+    vmax = float(values[i])
+    if not vmax > 0:
+        return None
+    near = values >= vmax - PLATEAU_WITHIN_SIGMAS * sigma
+    a = i
+    while a > 0 and near[a - 1]:
+        a -= 1
+    b = i
+    while b < n - 1 and near[b + 1]:
+        b += 1
+    length = b - a + 1
+    if length < 7:
+        return None
+    h = max(2, -(-length // 4))   # a quarter of the run beyond each end: 1.5 × its half-width
+    if a - h < 0 or b + h > n - 1:
+        return None
+    drop = vmax - max(float(values[a - h]), float(values[b + h]))
+    if not drop > PLATEAU_SHOULDER_SIGMAS * sigma:
+        return None
+    return (f"{length} samples within {PLATEAU_WITHIN_SIGMAS:g} σ of the maximum "
+            f"({vmax:.3g} {unit_label}), {float(wl[a]):g}–{float(wl[b]):g} nm, with steep sides: "
+            "the top looks clipped, so the detector was possibly saturated; shorten the "
+            "integration time and measure again (band and hazard values would then be "
+            "understated)")
 
 
 def _decimal_step(v: np.ndarray) -> float:
