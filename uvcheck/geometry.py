@@ -175,41 +175,47 @@ def irradiance_at(distance_m: Any, *, emitter: str = "point", irradiance_W_m2: f
                 * scale_factor(measured_at_m, distance_m, emitter, tube_length_m, source_size_m))
 
 
-def distance_for_irradiance(target_W_m2: float, *, flux_W: float, emitter: str = "point",
+def distance_for_irradiance(target_W_m2: Any, *, flux_W: Any, emitter: str = "point",
                             tube_length_m: float | None = None,
-                            source_size_m: float | None = None) -> float | None:
+                            source_size_m: float | None = None) -> Any:
     """The distance at which the irradiance falls to ``target_W_m2``. [m]
 
     Closed form for ``point`` and ``lambertian``; bisection (60 halvings of a log bracket,
     relative precision below 1e-12) for ``tube``, whose irradiance falls monotonically with
     distance. None when even the source itself (d → 0) stays below the target (a Lambertian
-    disc of known size has a finite on-axis maximum).
+    disc of known size has a finite on-axis maximum). Scalars or arrays (element by element;
+    NaN for None).
 
     Examples
     --------
     >>> round(distance_for_irradiance(0.0796, flux_W=0.010), 3)
     0.1
     """
-    target = float(_positive("target irradiance", target_W_m2))
-    flux = float(_positive("flux", flux_W))
+    target = _positive("target irradiance", target_W_m2)
+    flux = _positive("flux", flux_W)
     _check_model(emitter, tube_length_m)
+    scalar = target.ndim == 0 and flux.ndim == 0
     if emitter == "point":
-        return math.sqrt(flux / (4 * math.pi * target))
+        return _out(np.sqrt(flux / (4 * math.pi * target)))
     if emitter == "lambertian":
         a2 = 0.0 if source_size_m is None else (source_size_m / 2) ** 2
         d2 = flux / (math.pi * target) - a2
-        return math.sqrt(d2) if d2 > 0 else None
+        if scalar:
+            return math.sqrt(float(d2)) if d2 > 0 else None
+        return np.where(d2 > 0, np.sqrt(np.maximum(d2, 0.0)), np.nan)
     L = float(tube_length_m)  # type: ignore[arg-type]
-    lo, hi = 1e-9, 1.0
-    while keitz_irradiance(flux, hi, L) > target:
-        hi *= 10.0
+    target, flux = np.broadcast_arrays(target, flux)
+    lo, hi = np.full(target.shape, 1e-9), np.ones(target.shape)
+    while True:
+        short = keitz_irradiance(flux, hi, L) > target
+        if not np.any(short):
+            break
+        hi = np.where(short, hi * 10.0, hi)
     for _ in range(60):
-        mid = math.sqrt(lo * hi)
-        if keitz_irradiance(flux, mid, L) > target:
-            lo = mid
-        else:
-            hi = mid
-    return math.sqrt(lo * hi)
+        mid = np.sqrt(lo * hi)
+        above = keitz_irradiance(flux, mid, L) > target
+        lo, hi = np.where(above, mid, lo), np.where(above, hi, mid)
+    return _out(np.sqrt(lo * hi))
 
 
 def far_field_deviation(distance_m: float, emitter: str = "point",

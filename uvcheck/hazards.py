@@ -179,9 +179,12 @@ def distance_factor(cond: Conditions, d_from: Any, d_to: Any) -> Any:
 
 def distance_for_factor(cond: Conditions, d_from: Any, r: Any) -> Any:
     """The distance d at which ``distance_factor(cond, d_from, d)`` equals 1/r: where a
-    quantity r times its limit at ``d_from`` meets the limit (every model's factor falls
-    with distance). Scalars or arrays (element by element). Where even 1 mm is far enough,
-    1 mm; where even 10 km is not, 20 km (the search range's end, doubled). [m]
+    quantity r times its limit at ``d_from`` meets the limit. The inverse of the emitter model
+    (:func:`uvcheck.geometry.distance_for_irradiance`, for the irradiance per watt at
+    ``d_from`` divided by r), kept to the search range of hazard distances: 1 mm where even
+    1 mm is far enough (or the model never reaches that irradiance, as a Lambertian disc's
+    finite on-axis maximum), 20 km where even 10 km is not; 0 for r ≤ 0. Scalars or
+    arrays. [m]
 
     Examples
     --------
@@ -195,17 +198,19 @@ def distance_for_factor(cond: Conditions, d_from: Any, r: Any) -> Any:
     scalar = np.ndim(d_from) == 0 and np.ndim(r) == 0
     if cond.emitter == "point":
         return d_from * math.sqrt(r) if scalar else np.asarray(d_from) * np.sqrt(r)
+    from uvcheck.geometry import distance_for_irradiance, irradiance_per_watt
+
     d0, rr = np.broadcast_arrays(np.asarray(d_from, dtype=float), np.asarray(r, dtype=float))
-    lo, hi = np.full(d0.shape, _D_MIN_M), np.full(d0.shape, _D_MAX_M)
-    # bisection on log d: 48 halvings take the 10⁷ range to a relative width of 1e-13
-    for _ in range(48):
-        mid = np.sqrt(lo * hi)
-        far = rr * np.asarray(distance_factor(cond, d0, mid)) > 1.0
-        lo, hi = np.where(far, mid, lo), np.where(far, hi, mid)
-    d = np.sqrt(lo * hi)
-    d = np.where(rr * np.asarray(distance_factor(cond, d0, _D_MIN_M)) <= 1.0, _D_MIN_M, d)
-    d = np.where(rr * np.asarray(distance_factor(cond, d0, _D_MAX_M)) > 1.0, 2.0 * _D_MAX_M, d)
-    d = np.where(rr > 0, d, 0.0)
+    ok = rr > 0
+    per_w = np.asarray(irradiance_per_watt(d0, cond.emitter, cond.tube_length_m,
+                                           cond.source_size_m))
+    d = distance_for_irradiance(per_w / np.where(ok, rr, 1.0), flux_W=1.0, emitter=cond.emitter,
+                                tube_length_m=cond.tube_length_m,
+                                source_size_m=cond.source_size_m)
+    d = np.nan_to_num(np.asarray(np.nan if d is None else d, dtype=float), nan=0.0)
+    # the search range of hazard distances: within at 1 mm reads 1 mm, beyond 10 km 20 km
+    d = np.where(d < _D_MIN_M, _D_MIN_M, np.where(d > _D_MAX_M, 2.0 * _D_MAX_M, d))
+    d = np.where(ok, d, 0.0)
     return float(d) if scalar else d
 
 
