@@ -334,6 +334,8 @@ class UncertaintyInputs:
         labels = sorted({v.split(":")[0] for v in self.basis.values() if v})
         scale = (f"; scaling reading {100 * self.scale_u_rel:.3g} % (k = 1)"
                  if self.scale_u_rel else "")
+        if self.repeat_u_rel:
+            scale += f"; repeatability of the scans {100 * self.repeat_u_rel:.3g} % (k = 1, type A)"
         return (f"calibration {cal} (k = 1){scale}; wavelength scale {wl}; distance {dist}; UV stray "
                 f"light {stray}; sample noise {'included' if self.include_noise else 'not included'}"
                 f"; organism data {'within the range across studies' if self.organism_spread else 'not varied'}"
@@ -929,6 +931,13 @@ def repeat_uncertainty(spectrum: Spectrum, inputs: UncertaintyInputs
     return inputs.with_(repeat_u_rel=float(u), basis={"repeatability": basis}), note
 
 
+def _level_terms(inputs: UncertaintyInputs) -> tuple[tuple[str, float, int], ...]:
+    """The inputs that scale every value alike, one factor per draw: (budget key, relative
+    standard uncertainty, SeedSequence child of its stream), those that apply (u > 0)."""
+    terms = (("scaling", inputs.scale_u_rel, 5), ("repeatability", inputs.repeat_u_rel, 6))
+    return tuple(t for t in terms if t[1] > 0)
+
+
 def _monte_carlo_draws(inputs: UncertaintyInputs, d0: float | None, stray: float, m: int,
                        seed: int) -> _Draws:
     """Independent streams per input (SeedSequence children), so changing one input never
@@ -940,15 +949,11 @@ def _monte_carlo_draws(inputs: UncertaintyInputs, d0: float | None, stray: float
     rho = inputs.calibration_correlation
     u = np.array([inputs.calibration_u_rel[b] for b in bands])[:, None]
     f = 1.0 + u * (math.sqrt(rho) * z[0] + math.sqrt(1.0 - rho) * z[1:])
-    if inputs.scale_u_rel > 0:
-        # the scaling reading: one factor for every value (a stream of its own, child 5, so
-        # the other inputs' draws are unchanged)
-        rng_a = np.random.default_rng(kids[5])
-        f = f * (1.0 + inputs.scale_u_rel * rng_a.standard_normal(m))[None, :]
-    if inputs.repeat_u_rel > 0:
-        # the repeatability of a mean of scans: one factor for every value (child 6)
-        rng_r = np.random.default_rng(kids[6])
-        f = f * (1.0 + inputs.repeat_u_rel * rng_r.standard_normal(m))[None, :]
+    for _, u_level, child in _level_terms(inputs):
+        # one factor for every value, each term with a stream of its own, so the other
+        # inputs' draws are unchanged
+        rng_a = np.random.default_rng(kids[child])
+        f = f * (1.0 + u_level * rng_a.standard_normal(m))[None, :]
     f = np.maximum(f, 0.0)
     delta = inputs.wavelength_nm.draw(rng_wl, m)
     dd = None
@@ -1027,16 +1032,11 @@ def _gum_u(model_fn: Callable[[_Draws], np.ndarray], inputs: UncertaintyInputs,
     R = np.full((nb, nb), rho)
     np.fill_diagonal(R, 1.0)
     budget["calibration"] = math.sqrt(max(float(a @ R @ a), 0.0))
-    if inputs.scale_u_rel > 0:
+    for key, u_level, _ in _level_terms(inputs):
         dr = _nominal_draws(nb, d0, 2)
-        dr.f[:] = [1.0 + inputs.scale_u_rel, 1.0 - inputs.scale_u_rel]
+        dr.f[:] = [1.0 + u_level, 1.0 - u_level]
         y = model_fn(dr)
-        budget["scaling"] = abs(float(y[0] - y[1])) / 2.0
-    if inputs.repeat_u_rel > 0:
-        dr = _nominal_draws(nb, d0, 2)
-        dr.f[:] = [1.0 + inputs.repeat_u_rel, 1.0 - inputs.repeat_u_rel]
-        y = model_fn(dr)
-        budget["repeatability"] = abs(float(y[0] - y[1])) / 2.0
+        budget[key] = abs(float(y[0] - y[1])) / 2.0
     uw = inputs.wavelength_nm.standard_uncertainty
     if uw > 0:
         dr = _nominal_draws(nb, d0, 2)
