@@ -21,7 +21,8 @@ from typing import Any, Sequence
 import numpy as np
 
 from uvcheck.errors import ConfigurationError
-from uvcheck.spectrum import Spectrum, integrate
+from uvcheck.bands import BAND_RANGES
+from uvcheck.spectrum import Spectrum, integrate, median
 
 #: A scan-to-scan spread of the total above this share of the mean is reported as an unstable
 #: lamp or setup (our own rule; stabilised lamps repeat to about 1 %). [-]
@@ -117,16 +118,14 @@ def combine_scans(scans: Sequence[Spectrum], files: Sequence[str] | None = None
     # the median scan-to-scan standard deviation per sample (JCGM 100:2008 §4.2)
     sig_scan = [s.noise_floor for s in scans if s.noise_floor is not None]
     own = math.sqrt(sum(x * x for x in sig_scan) / len(sig_scan)) if sig_scan else 0.0
-    between = float(np.median(stack.std(axis=0, ddof=1)))
+    between = median(stack.std(axis=0, ddof=1))
     sigma = max(own, between) / math.sqrt(n)
     basis = (f"mean of {n} scans: σ/√{n} with σ = {sigma * math.sqrt(n):.3g}, the larger of the "
              "scans' own noise (rms) and the median scan-to-scan standard deviation per sample "
              "(JCGM 100:2008 §4.2)")
     totals = tuple(integrate(s, lo, hi).value for s in scans)
-    uvc = None
-    if lo < 280.0:
-        uvc = tuple(integrate(s, max(lo, 200.0), min(hi, 280.0)).value for s in scans) \
-            if min(hi, 280.0) > max(lo, 200.0) else None
+    u_lo, u_hi = max(lo, BAND_RANGES["UV-C"][0]), min(hi, BAND_RANGES["UV-C"][1])
+    uvc = tuple(integrate(s, u_lo, u_hi).value for s in scans) if u_hi > u_lo else None
     m_tot = sum(totals) / n
     spread = (max(totals) - min(totals)) / abs(m_tot) if m_tot else None
     summary = RepeatSummary(files, n, (float(lo), float(hi)), totals, uvc, spread,
