@@ -17,10 +17,10 @@ from __future__ import annotations
 
 from typing import Any, Mapping
 
-#: Band statuses whose value is established (not a bound). Hazard statuses likewise.
+from uvcheck.limits import HAZARD_IDS
+
+#: Statuses whose value is established (not a bound): bands, hazards and UV-C alike.
 _ESTABLISHED = ("complete",)
-_HAZARD_ORDER = ("actinic_uv", "near_uv", "blue_light", "retinal_thermal",
-                 "retinal_thermal_weak_stimulus", "ir_eye", "skin_thermal")
 #: A relative difference under this is reported as "the same" (our own rule: within the
 #: usual calibration uncertainty of a UV measurement, about 5 %). [-]
 SAME_WITHIN = 0.05
@@ -88,7 +88,7 @@ def compare(sample: Mapping[str, Any], reference: Mapping[str, Any]) -> dict[str
                           y.get("status")))
     hz = []
     ha, hb = sample.get("hazards") or {}, reference.get("hazards") or {}
-    for hid in _HAZARD_ORDER:
+    for hid in HAZARD_IDS:
         x, y = ha.get(hid), hb.get(hid)
         if not x or not y:
             continue
