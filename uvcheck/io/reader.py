@@ -48,6 +48,7 @@ import numpy as np
 
 from uvcheck.errors import InputFormatError, UnitError
 from uvcheck.features import estimate_noise, negative_dominated
+from uvcheck.io.tm2714 import as_table, is_tm2714
 from uvcheck.io.textfile import (HEAD_BYTES, Decoded, decode_lines, file_sha256, iter_lines,
                                  sniff_encoding)
 from uvcheck.spectrum import Spectrum, median
@@ -1073,8 +1074,6 @@ def read_spectrum(path: str | Path, options: ReadOptions | None = None, **overri
     if p.is_dir():
         raise InputFormatError("this is a folder, not a file", where)
     head_bytes = _read_head(p)
-    from uvcheck.io.tm2714 import is_tm2714
-
     if is_tm2714(head_bytes):
         return _read_tm2714(p, opts)
     decoded = sniff_encoding(head_bytes, opts.encoding, where)
@@ -1102,8 +1101,6 @@ def _read_tm2714(p: Path, opts: ReadOptions) -> tuple[Spectrum, ImportReport]:
     """An IES TM-27-14 file (:mod:`uvcheck.io.tm2714`): its spectrum read as the table that
     module makes of it, with every check of a text export; the report and the spectrum name
     the XML file's own sha256."""
-    from uvcheck.io.tm2714 import as_table
-
     table, note = as_table(p, opts.unit)
     decoded = Decoded("utf-8", "IES TM-27-14 XML, parsed with colour-science", False)
     spec, report = _read(p, decoded, opts, [note], table)
@@ -1522,10 +1519,10 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
         plateau = _noisy_plateau(values, wl_nm, noise.sigma, unit_label)
         if plateau:
             warnings.append(plateau)
-    negative = (_mostly_negative(values) or _negative_offset(values, noise.sigma, su)
+    baseline = (_mostly_negative(values) or _negative_offset(values, noise.sigma, su)
                 or _positive_offset(values, noise.sigma, su))
-    if negative:
-        warnings.append(negative)
+    if baseline:
+        warnings.append(baseline)
     if su.quantity != "relative":
         normalised = _normalised_peak(v_raw)
         if normalised is not None:
@@ -1752,8 +1749,8 @@ def _flat_top(raw: np.ndarray, wl: np.ndarray, quantity: str, unit_label: str) -
     return text
 
 
-#: A plateau at the maximum whose sides fall this many noise σ within half its width again
-#: is a clipped top (our own rule). The plateau is the run within 8 σ of the maximum (wide
+#: A plateau at the maximum whose sides have fallen this many noise σ at 1.5 times its
+#: half-width from its centre is a clipped top (our own rule). The plateau is the run within 8 σ of the maximum (wide
 #: enough that noise of ±3 σ on a clipped top does not break the run); a smooth peak, near its
 #: top a parabola, falls only 1.5² × 8 = 18 σ at 1.5 times the run's half-width from its
 #: centre [derived], so 40 σ leaves a margin for the noise and the sampling. [-]
