@@ -104,7 +104,7 @@ SPECTRUM_SUFFIXES = (".csv", ".tsv", ".txt", ".dat", ".asc", ".spdx")  # .spdx: 
 LISTING_SUFFIXES = (".toml",)
 
 #: Verdicts from best to worst (the order ``--fail-on`` uses): the claims module's one order.
-from uvcheck.claims import VERDICT_ORDER  # noqa: E402
+from uvcheck.claims import VERDICT_ORDER, worst_first  # noqa: E402
 
 
 def fails(worst_verdict: str | None, fail_on: str | None) -> bool:
@@ -470,16 +470,10 @@ def worst_claim(claims: Sequence[Mapping[str, Any]]) -> Mapping[str, Any] | None
     ...              {"id": "c", "verdict": "cannot-hold", "ratio": 0.01}])["id"]
     'c'
     """
-    best = None
-    best_key = None
-    for k, c in enumerate(claims):
-        sev = VERDICT_ORDER.index(c["verdict"]) if c.get("verdict") in VERDICT_ORDER else 0
-        r = c.get("ratio")
-        key = (-sev, 0 if isinstance(r, (int, float)) else 1,
-               r if isinstance(r, (int, float)) else 0.0, k)
-        if best_key is None or key < best_key:
-            best, best_key = c, key
-    return best
+    if not claims:
+        return None
+    # min keeps the first listed among equals
+    return min(claims, key=lambda c: worst_first(c.get("verdict"), c.get("ratio")))
 
 
 def inputs_fingerprint(product: Product, settings: BatchSettings,

@@ -586,15 +586,26 @@ def _unrecognised(c: Any, ev: Evidence) -> Verdict:
 
 # --- emission ----------------------------------------------------------------------------
 
-def _worst_part(subs: list[tuple[str, Verdict]]) -> tuple[str, Verdict, str]:
-    """(name, verdict) of the part that decides a claim judged in parts: the worst verdict in
-    :data:`VERDICT_ORDER` (cannot-hold, then unlikely, not-assessable, holds; among equals the
-    smallest ratio), and the others' verdicts in words."""
-    def rank(v: str) -> int:
-        return -VERDICT_ORDER.index(v) if v in VERDICT_ORDER else -1
+def worst_first(verdict: str | None, ratio: Any) -> tuple[int, int, float]:
+    """The sort key that puts the worst claim first: the verdict in :data:`VERDICT_ORDER`
+    (cannot-hold, then unlikely, not-assessable, holds; an unknown one as holds), then the
+    smallest ratio of available to needed, a claim without a ratio after those with one. The
+    batch's worst claim and the part that decides a claim judged in parts both sort by it.
 
-    name, worst = min(subs, key=lambda nv: (rank(nv[1].verdict),
-                                            nv[1].ratio if nv[1].ratio is not None else math.inf))
+    >>> sorted([("unlikely", 0.6), ("cannot-hold", None), ("cannot-hold", 0.01)],
+    ...        key=lambda vr: worst_first(*vr))[0]
+    ('cannot-hold', 0.01)
+    """
+    sev = VERDICT_ORDER.index(verdict) if verdict in VERDICT_ORDER else 0
+    numeric = isinstance(ratio, (int, float)) and not isinstance(ratio, bool)
+    return -sev, 0 if numeric else 1, float(ratio) if numeric else 0.0
+
+
+def _worst_part(subs: list[tuple[str, Verdict]]) -> tuple[str, Verdict, str]:
+    """(name, verdict) of the part that decides a claim judged in parts: the first by
+    :func:`worst_first` (the worst verdict, among equals the smallest ratio), and the others'
+    verdicts in words."""
+    name, worst = min(subs, key=lambda nv: worst_first(nv[1].verdict, nv[1].ratio))
     others = "; ".join(f"{n}: {v.verdict}" for n, v in subs if v is not worst)
     return name, worst, others
 
