@@ -3,9 +3,10 @@ approved", "FDA approved").
 
 Sources:
 * IEC 62471:2006 clause 6 and Table 6.1: a lamp's risk group is the highest of its hazards'
-  groups at the assessment distance (200 mm for lamps not for general lighting); E_S limits
-  by group (Exempt 0.001 W m⁻², RG1 0.003 W m⁻², RG2 0.03 W m⁻², from the standard's table
-  as data/limits/iec62471_2006.toml records it).
+  groups at the assessment distance (200 mm for lamps not for general lighting). The E_S
+  limits by group (Exempt 0.001 W m⁻², RG1 0.003 W m⁻², RG2 0.03 W m⁻²) are from memory, as
+  data/limits/iec62471_2006.toml records them: 30 J m⁻² over the 30 000, 10 000 and 1000 s
+  time bases [derived].
 * Agency practice, as the project's practice notes summarise public guidance: in the US a UV
   light sold with germ-killing claims is a pesticide device, which carries an EPA
   establishment number, and that number is not an approval. FDA clearance numbers of medical

@@ -1,5 +1,5 @@
 """Repeat scans of one lamp: the mean, its noise σ/√n (the standard deviation of a mean,
-JCGM 100:2008 §4.2, type A), the scan-to-scan spread and the 5 % stability rule (our own).
+a type A evaluation in the sense of JCGM 100:2008, section number from memory), the scan-to-scan spread and the 5 % stability rule (our own).
 Spectra are invented; expected values are computed here from the same numbers."""
 
 from __future__ import annotations

@@ -109,10 +109,10 @@ def test_parsed_units_are_kept_and_errors_name_each_place():
     assert err.value.where == "distance"
 
 
-# Imperial lengths, areas and volumes as listings write them. Exact factors from the
-# international yard and pound agreement (1959), as NIST SP 811 (2008) Appendix B lists them:
-# 1 in = 0.0254 m, 1 ft = 0.3048 m, 1 yd = 0.9144 m, so 1 ft² = 0.09290304 m² and
-# 1 ft³ = 0.028316846592 m³.
+# Imperial lengths, areas and volumes as listings write them. Exact factors of the
+# international yard and pound agreement (1959; from memory, as NIST SP 811 Appendix B lists
+# them): 1 in = 0.0254 m, 1 ft = 0.3048 m, 1 yd = 0.9144 m, so 1 ft² = 0.09290304 m² and
+# 1 ft³ = 0.028316846592 m³ [derived].
 @pytest.mark.parametrize("text,kind,si", [
     ("6 inches", "length", 6 * 0.0254), ("8 in", "length", 8 * 0.0254),
     ("2 feet", "length", 2 * 0.3048), ("1 foot", "length", 0.3048), ("2 yd", "length", 1.8288),
@@ -156,7 +156,10 @@ def test_a_quotient_in_a_denominator_inverts():
 
 
 def test_cjk_unit_characters():
-    # U+33A1 SQUARE M SQUARED, U+339D SQUARE CM, U+33BD SQUARE MW (Unicode names)
+    # the characters, by their names in the Unicode database (Python's unicodedata)
+    import unicodedata
+
+    assert [unicodedata.name(c) for c in "㎡㎝㎽"] == ["SQUARE M SQUARED", "SQUARE CM", "SQUARE MW"]
     assert parse_quantity("30㎡", "area").value_si == pytest.approx(30.0)
     assert parse_quantity("10㎝", "length").value_si == pytest.approx(0.1)
     assert parse_quantity("5 ㎽", "power").value_si == pytest.approx(0.005)
