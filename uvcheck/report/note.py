@@ -64,9 +64,10 @@ _SI_LABEL = {"W m-2": "W/m²", "J m-2": "J/m²", "W m-2 sr-1": "W/(m²·sr)", "W
 
 #: SI unit ids as the science modules write them inside sentences, longest first, and their
 #: display forms (the note shows one unit style throughout).
-_UNIT_IN_TEXT = [(re.compile(r"(?<![\w/^])" + re.escape(k) + r"(?![\w^])"), v) for k, v in (
-    ("W m-2 sr-1 nm-1", "W/(m²·sr·nm)"), ("W m-2 nm-1", "W/(m²·nm)"), ("W m-2 sr-1", "W/(m²·sr)"),
-    ("J m-2 sr-1", "J/(m²·sr)"), ("W m-2", "W/m²"), ("J m-2", "J/m²"), ("W nm-1", "W/nm"))]
+_UNIT_IN_TEXT = [(re.compile(r"(?<![\w/^])" + re.escape(k) + r"(?![\w^])"), v)
+                 for k, v in sorted({**{k: v for k, v in _SI_LABEL.items() if " " in k},
+                                     "W m-2 sr-1 nm-1": "W/(m²·sr·nm)", "J m-2 sr-1": "J/(m²·sr)",
+                                     "W nm-1": "W/nm"}.items(), key=lambda kv: -len(kv[0]))]
 #: View keys whose texts are data, not prose (kept as they are).
 _DATA_KEYS = {"id", "file", "sha256", "schema", "json"}
 
