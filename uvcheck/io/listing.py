@@ -1088,10 +1088,6 @@ _OUTPUT_RE = re.compile(r"\b(output|optical|radiant|radiated|emits?|emission|uv[
                         r"uv[\s-]*c?\s+output|irradiat\w*)\b", re.I)
 _BAND_WORD_RE = re.compile(r"\b(far[\s-]?uv[\s-]?c?|uv[\s-]?[abc])\b", re.I)
 
-_AREA_UNITS = {"m²": "m2", "m2": "m2", "m^2": "m2", "sqm": "m2", "ft²": "ft2", "ft2": "ft2"}
-_VOLUME_UNITS = {"m³": "m3", "m3": "m3", "m^3": "m3", "ft³": "ft3", "ft3": "ft3"}
-
-
 def _num(s: str) -> float:
     return float(s.replace(",", "."))
 
@@ -1111,25 +1107,6 @@ def _big(s: str, found: dict[str, Any] | None = None) -> float:
     return _num(t)
 
 
-def _area_unit(u: str) -> str:
-    k = re.sub(r"\s+", "", u.lower()).rstrip(".")
-    if k in _AREA_UNITS:
-        return _AREA_UNITS[k]
-    return "ft2" if ("ft" in k or "fe" in k or "fo" in k) else "m2"
-
-
-def _volume_unit(u: str) -> str:
-    k = re.sub(r"\s+", "", u.lower()).rstrip(".")
-    if k in _VOLUME_UNITS:
-        return _VOLUME_UNITS[k]
-    return "ft3" if "ft" in k else "m3"
-
-
-def _dist_unit(u: str) -> str:
-    k = u.lower()
-    return {"feet": "ft", "inches": "inch"}.get(k, k)
-
-
 def _find_quantities(text: str) -> dict[str, Any]:
     """Every quantity the free-text reader can find, in SI (wavelength in nm)."""
     found: dict[str, Any] = {}
@@ -1140,11 +1117,11 @@ def _find_quantities(text: str) -> dict[str, Any]:
 
     for m in _AREA_RE.finditer(text):
         found.setdefault("area_m2", parse_quantity(
-            f"{_big(m.group(1), found)} {_area_unit(m.group(2))}", "area").value_si)
+            f"{_big(m.group(1), found)} {m.group(2).lower()}", "area").value_si)
         spans.append(m.span())
     for m in _VOLUME_RE.finditer(text):
         found.setdefault("volume_m3", parse_quantity(
-            f"{_big(m.group(1), found)} {_volume_unit(m.group(2))}", "volume").value_si)
+            f"{_big(m.group(1), found)} {m.group(2).lower()}", "volume").value_si)
         spans.append(m.span())
     m = _WL_RANGE_RE.search(text)
     if m:
@@ -1190,7 +1167,7 @@ def _find_quantities(text: str) -> dict[str, Any]:
     for m in _DIST_RE.finditer(text):
         if free(m):
             found.setdefault("distance_m", parse_quantity(
-                f"{_big(m.group(1), found)} {_dist_unit(m.group(2))}", "length").value_si)
+                f"{_big(m.group(1), found)} {m.group(2).lower()}", "length").value_si)
             spans.append(m.span())
     for m in _POWER_RE.finditer(text):
         if free(m):
