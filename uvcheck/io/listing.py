@@ -32,7 +32,7 @@ from types import MappingProxyType
 from typing import Any, Mapping
 
 from uvcheck.errors import InputFormatError, UvcheckError
-from uvcheck.units import format_duration, parse_quantity
+from uvcheck.units import UNIT_CHARACTERS, format_duration, parse_quantity
 
 #: The format identifier a listing may declare in its top-level ``format`` key.
 FORMAT_ID = "uvcheck-listing/1"
@@ -1030,17 +1030,17 @@ def says_ozone_made(text: str | None) -> bool:
     return bool(_OZONE_MENTION_RE.search(t)) and not says_ozone_free(t)
 
 
-_SAFE_RE = re.compile(r"\bsafe\b|\bsafely\b|harmless|\bno\s+harm\b|-safe\b|\bnot\s+harmful\b|"
-                      r"\b(?:pets?|animals?|child(?:ren)?|kids?|bab(?:y|ies)|family)[\s-]*friendly\b|"
-                      r"\bradiation[\s-]*free\b|\bno\s+(?:harmful\s+)?radiation\b", re.I)
 #: "radiation-free": a UV lamp emits radiation by its nature, so the wording is read as a
 #: safety claim for people (our own reading).
-_RADIATION_FREE_RE = re.compile(r"\bradiation[\s-]*free\b|\bno\s+(?:harmful\s+)?radiation\b",
-                                re.I)
+_RADIATION_FREE = r"\bradiation[\s-]*free\b|\bno\s+(?:harmful\s+)?radiation\b"
+_RADIATION_FREE_RE = re.compile(_RADIATION_FREE, re.I)
+_SAFE_RE = re.compile(r"\bsafe\b|\bsafely\b|harmless|\bno\s+harm\b|-safe\b|\bnot\s+harmful\b|"
+                      r"\b(?:pets?|animals?|child(?:ren)?|kids?|bab(?:y|ies)|family)[\s-]*friendly\b|"
+                      + _RADIATION_FREE, re.I)
+
+
 def _unit_characters(text: str) -> str:
     """Unit characters such as '㎡' and '㎝' written out ('m²', 'cm')."""
-    from uvcheck.units import UNIT_CHARACTERS
-
     return text.translate(UNIT_CHARACTERS)
 _NEGATION_RE = re.compile(r"\b(not\s+safe|unsafe|do\s+not|don'?t|never\s+(?:look|expose)|avoid|"
                           r"(?<!no\s)(?<!not\s)harmful|dangerous|warning|caution)\b", re.I)
