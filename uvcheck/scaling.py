@@ -182,34 +182,36 @@ def scale_by_band(spectrum: Spectrum, text: str, response: MeterResponse | None 
     u_rel = reading_u_rel(text.split("=", 1)[1], value, "irradiance", "--scale-band")
     if response is not None:
         return _scale_by_meter(spectrum, text, band, lo, hi, value, u_rel, response)
-    r = integrate(spectrum, lo, hi)
-    if r.coverage < 0.999:
-        raise ConfigurationError(f"the spectrum covers only {r.coverage:.0%} of the band {band} "
-                                 f"({lo:g}–{hi:g} nm)", "--scale-band",
-                                 "scale with a band the spectrum covers")
-    dl = r.detection_limit or 0.0
-    if not r.value > dl:
-        raise ConfigurationError(f"the spectrum has no signal above its noise in {band}",
-                                 "--scale-band", "scale with a band where the lamp emits")
+    r = _anchor(spectrum, lo, hi, None, f"the band {band} ({lo:g}–{hi:g} nm)", f"in {band}",
+                "--scale-band", "scale with a band the spectrum covers",
+                "scale with a band where the lamp emits")
     return _scaled(spectrum, value / r.value,
                   {"method": "band reading", "band": band, "range_nm": [lo, hi],
                    "reading_W_m2": value, "reading_u_rel": u_rel, "text": text,
                    "note": BAND_METER_NOTE})
 
 
+def _anchor(spectrum: Spectrum, lo: float, hi: float, weight: Any, covered: str, signal: str,
+            where: str, cover_todo: str, signal_todo: str | None) -> Any:
+    """The integral a reading is matched to, refused when the spectrum does not cover its
+    range ("covers only X % of <covered>") or has no signal above its noise there ("… <signal>")."""
+    r = integrate(spectrum, lo, hi, weight)
+    if r.coverage < 0.999:
+        raise ConfigurationError(f"the spectrum covers only {r.coverage:.0%} of {covered}", where,
+                                 cover_todo)
+    if not r.value > (r.detection_limit or 0.0):
+        raise ConfigurationError(f"the spectrum has no signal above its noise {signal}", where,
+                                 signal_todo)
+    return r
+
+
 def _scale_by_meter(spectrum: Spectrum, text: str, band: str, lo: float, hi: float,
                     value: float, u_rel: float | None, response: MeterResponse) -> Spectrum:
     r_lo, r_hi = response.range_nm
-    seen = integrate(spectrum, r_lo, r_hi, response)
-    if seen.coverage < 0.999:
-        raise ConfigurationError(f"the spectrum covers only {seen.coverage:.0%} of the meter's "
-                                 f"response ({r_lo:g}–{r_hi:g} nm)", "--meter-response",
-                                 "a meter reading needs the spectrum over the whole range the "
-                                 "meter responds to")
-    dl = seen.detection_limit or 0.0
-    if not seen.value > dl:
-        raise ConfigurationError("the spectrum has no signal above its noise where the meter "
-                                 "responds", "--meter-response")
+    seen = _anchor(spectrum, r_lo, r_hi, response,
+                   f"the meter's response ({r_lo:g}–{r_hi:g} nm)", "where the meter responds",
+                   "--meter-response", "a meter reading needs the spectrum over the whole range "
+                   "the meter responds to", None)
     flat = integrate(spectrum, lo, hi)
     mismatch = flat.value / seen.value if flat.coverage >= 0.999 else None
     note = (f"scaled by a meter reading ({band}) with the meter's spectral response "
