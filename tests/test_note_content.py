@@ -525,3 +525,17 @@ def test_note_writes_units_in_one_style(wand, tube):
         assert not re.search(r"W m-2|J m-2|nm-1", html_text)
     assert note.units_in_words("E_S 1.2 W m-2 sr-1 nm-1 and 3 J m-2") == \
         "E_S 1.2 W/(m²·sr·nm) and 3 J/m²"
+
+
+def test_note_spells_out_cjk_unit_characters_its_fonts_lack(tmp_path):
+    # the JSON keeps the seller's characters; the note, whose fonts lack U+33A1 (SQUARE M
+    # SQUARED, by its Unicode name), shows 'm²'
+    from uvcheck.io.listing import parse_listing
+    from uvcheck.screening import screen_listing_file
+
+    lst = parse_listing('format = "uvcheck-listing/1"\n[product]\nname = "box (invented)"\n'
+                        'invented = true\n[[claims]]\ntext = "for rooms up to 30㎡"\n', "b.toml")
+    result = screen_listing_file(lst).to_dict()
+    assert result["claims"][0]["text"] == "for rooms up to 30㎡"
+    view = note.build_note(result, date="2026-01-01", references=[])
+    assert view["claims"][0]["text"].endswith("30m²") and "㎡" not in str(view)

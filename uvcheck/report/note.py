@@ -25,7 +25,7 @@ from uvcheck.report.terminal import (is_estimate, listing_only, no_assessment_di
 from uvcheck.spectrum import partly_measured
 from uvcheck.report.cautions import (DOES_NOT_COVER, DOES_NOT_COVER_ESTIMATE,
                                      DOES_NOT_COVER_LISTING, LOCAL_CODES, applicable)
-from uvcheck.units import bounded_duration, format_duration, sig, to_trade
+from uvcheck.units import UNIT_CHARACTERS, bounded_duration, format_duration, sig, to_trade
 
 Result = Mapping[str, Any]
 
@@ -74,7 +74,8 @@ _DATA_KEYS = {"id", "file", "sha256", "schema", "json"}
 
 def units_in_words(view: Any) -> Any:
     """The view with SI unit ids inside its texts ('2.9e-05 W m-2 nm-1') in the note's display
-    form ('2.9e-05 W/(m²·nm)'), keys in :data:`_DATA_KEYS` left alone.
+    form ('2.9e-05 W/(m²·nm)'), and unit characters of CJK fonts ('㎡', which the note's fonts
+    lack) spelled out ('m²'); keys in :data:`_DATA_KEYS` left alone.
 
     Examples
     --------
@@ -82,6 +83,8 @@ def units_in_words(view: Any) -> Any:
     {'basis': 'a flat level (2.95e-05 W/(m²·nm)) at 1 W/m²', 'id': 'W m-2'}
     """
     if isinstance(view, str):
+        # unit characters of CJK fonts ('㎡') spelled out: the note's fonts lack them
+        view = view.translate(UNIT_CHARACTERS)
         if "m-2" not in view and "nm-1" not in view:
             return view
         for rx, label in _UNIT_IN_TEXT:
