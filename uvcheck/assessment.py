@@ -258,7 +258,8 @@ def assess(spectrum: Spectrum, conditions: Conditions | None = None, report: Any
     if any(a.is_stray for a in g.artefacts):
         notes.append("The UV-C signal looks like stray light or noise (see germicidal.artefacts); "
                      "the actinic UV hazard E_S still counts it, which can only overstate that "
-                     "hazard, never understate it.")
+                     "hazard, never understate it; a safety or risk-group claim that only this "
+                     "UV-C would fail is not assessable.")
     unc = None
     if options.uncertainty and spectrum.is_absolute:
         from uvcheck.uncertainty import evaluate_uncertainty

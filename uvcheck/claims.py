@@ -214,6 +214,13 @@ RULE_SAFETY = ("the safety rule (the most likely reading against the exposure li
 RULE_SAFETY_ESTIMATE = ("the safety rule on an estimate (every case of every reading the "
                         "listing does not refute against the exposure limit, no benefit of "
                         "the doubt)")
+#: Rule of a safety or risk-group verdict against the claim that only UV-C read as stray light
+#: decides (our own rule: the tool's own reading of that UV-C is that the lamp does not emit it).
+RULE_STRAY_UVC = ("the stray-light rule (a verdict against a safety or risk-group claim may not "
+                  "rest on UV-C below 280 nm that reads as likely stray light or noise)")
+#: What would decide such a claim.
+STRAY_UVC_NEEDED = ("a measurement below 280 nm with the stray light controlled (a solar-blind "
+                    "or short-pass filter, or a double-monochromator spectroradiometer)",)
 #: Rule of an emission claim that a nominal estimate can only take at its word.
 RULE_TECHNOLOGY_EMITS = "the benefit-of-the-doubt rule (the stated technology emits there)"
 
@@ -298,6 +305,21 @@ class Reading:
             d = distance_m if (distance_m is not None and self.d_ref is not None) else None
             self._cache[key] = evaluate_germicidal(self.spectrum, self.conditions,
                                                    technology=self.technology, distance_m=d)
+        return self._cache[key]
+
+    def stray_free(self) -> "Reading | None":
+        """This reading without the UV-C below 280 nm where its germicidal evaluation reads
+        that UV-C as likely stray light or noise (:func:`uvcheck.germicidal.without_stray_uvc`):
+        the most favourable reading of its hazards. None where its UV-C is not read so."""
+        key = ("stray-free",)
+        if self.evidence != "measured":
+            return None  # a model emits what it models: nothing in it is stray light
+        if key not in self._cache:
+            from uvcheck.germicidal import without_stray_uvc
+
+            s = without_stray_uvc(self.spectrum, self.germicidal_at(None).artefacts)
+            self._cache[key] = None if s is None else replace(
+                self, label=f"{self.label} without its stray UV-C", spectrum=s)
         return self._cache[key]
 
     def hazards(self, limit_set: str | None = None) -> Any:
@@ -1350,6 +1372,32 @@ def _exposure_at(r: Reading, ev: Evidence, d: float) -> tuple[dict[str, Any],
     return hz, worst, open_h
 
 
+def _unless_stray(v: Verdict, r: Reading,
+                  fails: Callable[[Reading], tuple[bool, str]]) -> Verdict:
+    """A verdict against a safety or risk-group claim (``cannot-hold`` or ``unlikely``) where
+    the reading's UV-C reads as likely stray light or noise: ``fails(x)`` judges the reading
+    without that UV-C (:meth:`Reading.stray_free`), giving (whether the claim still fails,
+    what that reading gives, in words). If it still fails, the verdict stands and its basis
+    says so; if not, the claim is ``not-assessable``: the verdict would rest on UV-C that the
+    tool itself reads as not emitted, and a measurement with the stray light controlled
+    decides it. Any other verdict is returned as it is."""
+    if v.verdict not in ("cannot-hold", "unlikely"):
+        return v
+    x = r.stray_free()
+    if x is None:
+        return v
+    still, without = fails(x)
+    details = {**v.details, "without_stray_uvc": without}
+    if still:
+        return replace(v, basis=f"{v.basis}; so even without the UV-C below 280 nm that reads "
+                                f"as likely stray light ({without})", details=details)
+    return replace(v, verdict="not-assessable",
+                   basis=f"{v.basis}, but only through the UV-C below 280 nm, which reads as "
+                         f"likely stray light or noise (see the germicidal artefacts); without "
+                         f"it {without}", missing=STRAY_UVC_NEEDED, details=details,
+                   rule=RULE_STRAY_UVC)
+
+
 def _only_likely_within(c: Any, ev: Evidence, r: Reading, t: float, where: str,
                         exceed: list[tuple[float, str, Reading]], cases: list[Reading],
                         assumptions: Sequence[str], details: dict[str, Any]) -> Verdict:
@@ -1499,11 +1547,20 @@ def _safety_verdict(c: Any, ev: Evidence) -> Verdict:
             if other is not None:
                 return other
             basis += f"; so in every case of the estimate ({labels})"
-        return Verdict(c.id, c.kind, c.text, verdict, Quantity(t, "s", "exposure time"),
-                       None if tl is None else
-                       Quantity(tl, "s", "time to the exposure limit at eye height"), ratio,
-                       basis, tuple(assumptions), (), r.evidence, r.label, details,
-                       rule=RULE_SAFETY_ESTIMATE if cases and verdict == "holds" else RULE_SAFETY)
+        def occupant_fails(x: Reading) -> tuple[bool, str]:
+            ox = x.occupant_exposure(box[0], ev.limit_set_id)  # type: ignore[index]
+            tx = ox.get("time_to_limit_s")
+            if tx is not None and tx < t:
+                return True, f"an occupant reaches {what} in {format_duration(tx)}"
+            return False, f"an occupant stays within {what} for {format_duration(t)}"
+
+        return _unless_stray(
+            Verdict(c.id, c.kind, c.text, verdict, Quantity(t, "s", "exposure time"),
+                    None if tl is None else
+                    Quantity(tl, "s", "time to the exposure limit at eye height"), ratio,
+                    basis, tuple(assumptions), (), r.evidence, r.label, details,
+                    rule=RULE_SAFETY_ESTIMATE if cases and verdict == "holds" else RULE_SAFETY),
+            r, occupant_fails)
     d = c.distance_m or ev.listing.use_distance_m
     if d is None:
         d = 0.2
@@ -1529,13 +1586,25 @@ def _safety_verdict(c: Any, ev: Evidence) -> Verdict:
                  f"is reached in {format_duration(tm)}, against {format_duration(t)} of exposure"
                  + (" (from partial data: the true time is shorter)" if lower else "")
                  + (f" (t_max {decision})" if decision else "") + lnamed)
-        return Verdict(c.id, c.kind, c.text, verdict, Quantity(t, "s", "exposure time"),
-                       Quantity(tm, "s", f"t_max ({h.get('symbol')})"), tm / t, basis,
-                       tuple(assumptions), (), r.evidence, r.label,
-                       {"hazard": h.get("symbol"), "distance_m": d, "for": who,
-                        "limit_set": ev.limit_set_id},
-                       RULE_SAFETY if decision is None else
-                       f"{RULE_SAFETY}, with {rule_interval(ev.rule)}")
+        def distance_fails(x: Reading) -> tuple[bool, str]:
+            _, wx, _ = _exposure_at(x, ev, d)
+            if wx is not None and wx[0] < t:
+                return True, (f"the {wx[1].get('symbol')} limit is reached in "
+                              f"{format_duration(wx[0])}")
+            if wx is None:
+                return False, f"no assessed hazard reaches its limit in {format_duration(t)}"
+            return False, (f"the shortest time to a limit is {format_duration(wx[0])} "
+                           f"({wx[1].get('symbol')}), against {format_duration(t)} of exposure")
+
+        return _unless_stray(
+            Verdict(c.id, c.kind, c.text, verdict, Quantity(t, "s", "exposure time"),
+                    Quantity(tm, "s", f"t_max ({h.get('symbol')})"), tm / t, basis,
+                    tuple(assumptions), (), r.evidence, r.label,
+                    {"hazard": h.get("symbol"), "distance_m": d, "for": who,
+                     "limit_set": ev.limit_set_id},
+                    RULE_SAFETY if decision is None else
+                    f"{RULE_SAFETY}, with {rule_interval(ev.rule)}"),
+            r, distance_fails)
     if open_h:
         return _na(c, ev, f"within the limits so far, but {', '.join(open_h)} could not be fully "
                           f"assessed, so safety cannot be confirmed{lnamed}",
@@ -1677,9 +1746,20 @@ def _risk_group(c: Any, ev: Evidence) -> Verdict:
                "governing": rg.governing, "distance_m": at}
     label = (f"at least {rg.group}" if rg.is_lower_bound else rg.group)
     if lo > stated:
-        return Verdict(c.id, c.kind, c.text, "cannot-hold", None, None, None,
-                       f"{where} the lamp is {label} (set by {sym(rg.governing)}), above the stated "
-                       f"{c.risk_group}", (), (), r.evidence, r.label, details, RULE_RISK_GROUP)
+        def group_fails(x: Reading) -> tuple[bool, str]:
+            sx = _group_span(x)
+            if sx is None:
+                return False, "no hazard reaches a group above Exempt"
+            gx = sx[2]
+            return sx[0] > stated, (f"the lamp is {'at least ' if gx.is_lower_bound else ''}"
+                                    f"{gx.group} (set by {sym(gx.governing)})")
+
+        return _unless_stray(
+            Verdict(c.id, c.kind, c.text, "cannot-hold", None, None, None,
+                    f"{where} the lamp is {label} (set by {sym(rg.governing)}), above the "
+                    f"stated {c.risk_group}", (), (), r.evidence, r.label, details,
+                    RULE_RISK_GROUP),
+            r, group_fails)
     if hi > stated:
         return _na(c, ev, f"{where} the lamp is {label} (set by {sym(rg.governing)}); "
                           f"{', '.join(sym(h) for h in rg.open_hazards)} could not be fully "
@@ -1789,7 +1869,8 @@ def decision_rule_text(margin: float = MARGIN, rule: str | None = None,
                        estimate: bool = False) -> str:
     head = ("efficacy claims: benefit of the doubt (most favourable reading, most susceptible "
             "organism, lowest dose across studies). Safety claims: fail as soon as the most "
-            "likely reading exceeds an exposure limit. "
+            "likely reading exceeds an exposure limit, except where only UV-C that reads as "
+            "stray light makes it exceed ('not-assessable' then). "
             + (SAFETY_ESTIMATE_TEXT if estimate else ""))
     if rule is None:
         return head + (f"Without measurement uncertainty: 'cannot-hold' only when the favourable "

@@ -563,6 +563,32 @@ def _known_uvc_lines() -> tuple[tuple[float, str], ...]:
     return tuple(out)
 
 
+def without_stray_uvc(spectrum: Spectrum, artefacts: Iterable[Artefact]) -> Spectrum | None:
+    """The most favourable reading of a spectrum whose UV-C is read as stray light or noise
+    (an artefact with ``is_stray``): the same spectrum with every sample below 280 nm set to
+    zero (and any line there dropped), since stray light is scattered inside the instrument,
+    not emitted by the lamp. None when no artefact reads the UV-C so, or nothing lies below
+    280 nm. Only the UV-C is
+    judged by :func:`uvc_artefacts`, so a stray level that goes on into UV-B is kept there.
+
+    Examples
+    --------
+    >>> s = Spectrum(np.array([250.0, 270.0, 290.0, 400.0]), np.array([1e-3, 1e-3, 1e-3, 1.0]),
+    ...              "irradiance")
+    >>> without_stray_uvc(s, [Artefact("pedestal", "flat")]).values.tolist()
+    [0.0, 0.0, 0.001, 1.0]
+    >>> without_stray_uvc(s, [Artefact("data-edge", "undecided")]) is None
+    True
+    """
+    if not any(a.is_stray for a in artefacts):
+        return None
+    below = spectrum.wavelength_nm < UVC_BAND_NM[1]
+    lines = tuple(ln for ln in spectrum.lines if ln.wavelength_nm >= UVC_BAND_NM[1])
+    if not below.any() and len(lines) == len(spectrum.lines):
+        return None
+    return spectrum.derive(values=np.where(below, 0.0, spectrum.values), lines=lines)
+
+
 def uvc_artefacts(spectrum: Spectrum, sigma: float | None = None) -> tuple[Artefact, ...]:
     """Reasons to read the UV-C part of a spectrum as stray light or noise, not as output.
 

@@ -1,0 +1,145 @@
+"""Safety and risk-group verdicts that would rest on UV-C read as stray light.
+
+A bright visible lamp measured with an array spectrometer shows a flat level in UV-C: light
+scattered inside the instrument, not emitted by the lamp (the germicidal evaluation reads it
+so, as a ``pedestal``). The actinic UV hazard E_S still counts it. A verdict against a safety
+or risk-group claim that only this UV-C decides is ``not-assessable`` (the stray-light rule,
+our own): the tool's own reading of that UV-C is that the lamp does not emit it, so it cannot
+call the claim false on it, nor call it safe without a measurement that controls the stray
+light. Where the claim fails even without that UV-C, the verdict stands.
+
+Sources:
+* IEC 62471:2006 4.3.1: E_S·t ≤ 30 J m⁻² over a day, so t_max = 30 / E_S [s]; Table 6.1 (from
+  memory, as data/limits/iec62471_2006.toml records it): Exempt E_S < 0.001 W m⁻², RG1 <
+  0.003 W m⁻², RG2 < 0.03 W m⁻².
+* S(λ), IEC 62471 Table 4.1 as data/weightings records it: 1 at 270 nm, falling to 0.03 at
+  200 nm and to 0.0003 at 320 nm, so a flat level of 5e-5 W m⁻² nm⁻¹ over 200–400 nm gives
+  E_S ≈ 2.4e-3 W m⁻² (RG1), of which about three quarters comes from below 280 nm [derived].
+The spectra and listings are invented.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+import pytest
+
+from uvcheck.claims import RULE_STRAY_UVC, STRAY_UVC_NEEDED, judge, readings_from_measurement
+from uvcheck.conditions import Conditions
+from uvcheck.germicidal import evaluate_germicidal, without_stray_uvc
+from uvcheck.hazards import evaluate_hazards
+from uvcheck.io.listing import parse_listing
+from uvcheck.spectrum import Spectrum
+
+COND = Conditions(measurement_distance_m=0.2, source_size_m=0.005)
+
+LISTING = '''format = "uvcheck-listing/1"
+[product]
+name = "red LED panel (invented)"
+invented = true
+[use]
+area = "20 m²"
+room_height = "2.5 m"
+[[claims]]
+id = "people"
+kind = "safety"
+text = "safe for people"
+safe_for = ["people"]
+distance = "0.2 m"
+[[claims]]
+id = "rooms"
+kind = "safety"
+text = "safe in occupied rooms"
+safe_for = ["occupied-rooms"]
+[[claims]]
+id = "exempt"
+text = "Exempt risk group"
+[[claims]]
+id = "rg1"
+text = "RG1"
+'''
+
+
+def red_led(pedestal: float) -> Spectrum:
+    """A red LED (630 nm, 0.5 W m⁻² nm⁻¹ at 0.2 m) on a flat level, 200–3000 nm at 1 nm,
+    with a small ripple for noise (invented)."""
+    wl = np.arange(200.0, 3000.01, 1.0)
+    v = 0.5 * np.exp(-0.5 * ((wl - 630.0) / 8.0) ** 2) + pedestal + 1e-6 * np.sin(1.7 * wl)
+    return Spectrum(wl, v, "irradiance")
+
+
+def verdicts(spec: Spectrum) -> dict:
+    lst = parse_listing(LISTING, "panel.toml")
+    return {v.id: v for v in judge(lst, readings_from_measurement(spec, COND),
+                                   measured=True).verdicts}
+
+
+def e_s(spec: Spectrum) -> float:
+    return evaluate_hazards(spec, COND).hazard("actinic_uv").value
+
+
+def test_the_flat_uvc_level_reads_as_stray_light_and_sets_e_s():
+    spec = red_led(5e-5)
+    g = evaluate_germicidal(spec, COND)
+    assert any(a.is_stray for a in g.artefacts)
+    # E_S of the level: RG1 (0.001 to 0.003 W/m², Table 6.1), as derived in the module notes
+    assert 0.001 < e_s(spec) < 0.003
+    # without the UV-C below 280 nm about a quarter remains: Exempt
+    free = without_stray_uvc(spec, g.artefacts)
+    assert free is not None and not free.values[free.wavelength_nm < 280].any()
+    assert np.array_equal(free.values[free.wavelength_nm >= 280],
+                          spec.values[spec.wavelength_nm >= 280])
+    assert 0.15 < e_s(free) / e_s(spec) < 0.4
+    assert e_s(free) < 0.001
+
+
+def test_claims_that_only_stray_uvc_fails_are_not_assessable():
+    v = verdicts(red_led(5e-5))
+    # t_max = 30 / E_S ≈ 3.5 h < 8 h at 0.2 m with the stray UV-C, none without it
+    p = v["people"]
+    assert p.verdict == "not-assessable"
+    assert "E_S" in p.basis and "stray light" in p.basis and "without it" in p.basis
+    assert p.rule == RULE_STRAY_UVC and p.missing == STRAY_UVC_NEEDED
+    assert p.available is not None and p.available.value < 8 * 3600  # the measured figure stays
+    assert "without_stray_uvc" in p.details
+    ex = v["exempt"]
+    assert ex.verdict == "not-assessable" and ex.rule == RULE_STRAY_UVC
+    assert "RG1" in ex.basis and "without it the lamp is Exempt" in ex.basis
+    # stray light can only raise a hazard: a claim that holds with it holds
+    assert v["rg1"].verdict == "holds"
+
+
+def test_claims_that_fail_even_without_the_stray_uvc_still_fail():
+    # a level ten times higher: E_S from 280 nm up alone is ≈ 6e-3 W/m² (RG2), t_max ≈ 1.4 h
+    spec = red_led(5e-4)
+    free = without_stray_uvc(spec, evaluate_germicidal(spec, COND).artefacts)
+    assert 0.003 < e_s(free) < 0.03
+    v = verdicts(spec)
+    for cid in ("people", "exempt", "rg1"):
+        assert v[cid].verdict == "cannot-hold", cid
+        assert "even without the UV-C below 280 nm" in v[cid].basis
+        assert v[cid].rule != RULE_STRAY_UVC
+    # the occupant of the room: within the daily limit without the stray UV-C, not with it
+    assert v["rooms"].verdict == "not-assessable" and v["rooms"].rule == RULE_STRAY_UVC
+    assert "an occupant stays within" in v["rooms"].basis
+
+
+def test_real_uvc_is_not_read_as_stray_light():
+    # a mercury 253.7 nm line (sampled, 2 nm wide, 4e-3 W/m²) on the red LED: a known line,
+    # so real output, and the claims fail on it as before (E_S ≈ 4e-3·S(253.7) ≈ 2e-3 W/m²:
+    # RG1)
+    base = red_led(0.0)
+    wl = base.wavelength_nm
+    sd = 2.0 / 2.3548
+    line = 4e-3 * np.exp(-0.5 * ((wl - 253.7) / sd) ** 2) / (sd * np.sqrt(2 * np.pi))
+    spec = Spectrum(wl, base.values + line, "irradiance")
+    assert not any(a.is_stray for a in evaluate_germicidal(spec, COND).artefacts)
+    v = verdicts(spec)
+    assert v["exempt"].verdict == "cannot-hold" and v["exempt"].rule != RULE_STRAY_UVC
+    assert "stray" not in v["exempt"].basis
+
+
+@pytest.mark.parametrize("kind", ["data-edge"])
+def test_an_undecided_uvc_reading_is_kept(kind):
+    from uvcheck.germicidal import Artefact
+
+    assert without_stray_uvc(red_led(5e-5), [Artefact(kind, "undecided")]) is None
