@@ -211,3 +211,19 @@ def test_emitter_option_errors_name_the_option(args, where):
     r = runner.invoke(app, ["assess", str(ex / "spectra" / "mercury_tube_254nm.txt"), *args])
     assert r.exit_code == 2
     assert where in r.output and "Traceback" not in r.output
+
+
+def test_terminal_names_hazards_and_action_spectra_in_words(lamp_file):
+    # the lamp file stops at 800 nm: the infrared hazards are open, so the group is a lower
+    # bound and the "could be higher" line lists them; every hazard is named by its IEC 62471
+    # symbol (E_S, L_R, E_IR), never by the JSON key
+    r = runner.invoke(app, ["assess", str(lamp_file), "--distance", "0.5 m"])
+    assert r.exit_code == 0, r.output
+    import re
+
+    named = re.findall(r"set by (\S+?)[),;]?(?:\s|$)", r.output)
+    assert named and all(n.startswith(("E_", "L_")) for n in named), named
+    for key in ("actinic_uv", "near_uv", "blue_light", "retinal_thermal", "ir_eye",
+                "germicidal_dna", "germicidal_classical", "uvc_unweighted"):
+        assert key not in r.output, key
+    assert "claims use the most favourable: " in r.output

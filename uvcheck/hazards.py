@@ -908,14 +908,12 @@ def _overall(hazards: tuple[HazardResult, ...]) -> OverallRiskGroup:
     cands = [h for h in assessed if GROUPS.index(h.risk_group_range[0]) == lo]  # type: ignore[index]
     gov = max(cands, key=lambda h: (h.status == "complete", h.ratio_to_limit or 0.0))
     open_ = tuple(h.id for h in ranged if GROUPS.index(h.risk_group_range[1]) > lo)  # type: ignore[index]
+    # in words by symbol (E_S, L_R): the ids are for the JSON keys
     if lo == hi:
-        note = f"{GROUPS[lo]}, set by {gov.id}"
+        note = f"{GROUPS[lo]}, set by {gov.symbol}"
     else:
-        parts = []
-        for h in ranged:
-            if h.id in open_:
-                parts.append(f"{h.id} {h.status}")
-        note = f"at least {GROUPS[lo]} (set by {gov.id}); could be higher: {', '.join(parts)}"
+        parts = [f"{h.symbol} {h.status}" for h in ranged if h.id in open_]
+        note = f"at least {GROUPS[lo]} (set by {gov.symbol}); could be higher: {', '.join(parts)}"
     return OverallRiskGroup(GROUPS[lo], lo != hi, gov.id, GROUPS[hi], open_, note)
 
 
