@@ -311,9 +311,9 @@ class Reading:
         """This reading without the UV-C below 280 nm where its germicidal evaluation reads
         that UV-C as likely stray light or noise (:func:`uvcheck.germicidal.without_stray_uvc`):
         the most favourable reading of its hazards. None where its UV-C is not read so."""
-        key = ("stray-free",)
         if self.evidence != "measured":
             return None  # a model emits what it models: nothing in it is stray light
+        key = ("stray-free",)
         if key not in self._cache:
             from uvcheck.germicidal import without_stray_uvc
 

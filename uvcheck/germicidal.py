@@ -568,8 +568,8 @@ def without_stray_uvc(spectrum: Spectrum, artefacts: Iterable[Artefact]) -> Spec
     (an artefact with ``is_stray``): the same spectrum with every sample below 280 nm set to
     zero (and any line there dropped), since stray light is scattered inside the instrument,
     not emitted by the lamp. None when no artefact reads the UV-C so, or nothing lies below
-    280 nm. Only the UV-C is
-    judged by :func:`uvc_artefacts`, so a stray level that goes on into UV-B is kept there.
+    280 nm. Only the UV-C is judged by :func:`uvc_artefacts`, so a stray level that goes on
+    into UV-B is kept there.
 
     Examples
     --------

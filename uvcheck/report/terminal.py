@@ -322,7 +322,8 @@ def render_hazards(hazards: dict, d: dict) -> list[str]:
     at_position = no_assessment_distance(d) and rg.get("group") is not None
     out.append("Overall risk group" + (" at the measurement position" if at_position else "")
                + f": {group_text(rg.get('group'), rg.get('is_lower_bound', False))}"
-               + (f", set by {_symbol(hazards, rg['governing'])}" if rg.get("governing") else "")
+               + (f", set by {(hazards.get(rg['governing']) or {}).get('symbol') or rg['governing']}"
+                  if rg.get("governing") else "")
                + (f" (decision rule: {rg['decision_rule']} acceptance)" if rg.get("decision_rule") else ""))
     if at_position:
         out += wrap(f"({NO_DISTANCE_TEXT})", 2)
@@ -466,17 +467,6 @@ def efficiency_text(g: Mapping[str, Any]) -> str | None:
             + (f" ({'; '.join(bits)})" if bits else ""))
 
 
-def _symbol(hazards: dict, hid: str) -> str:
-    """A hazard's symbol (E_S) for its id (actinic_uv), the id where the table lacks it."""
-    return (hazards.get(hid) or {}).get("symbol") or hid
-
-
-def _action_name(g: dict, aid: str) -> str:
-    """An action spectrum's name for its id, without the provenance after a dash."""
-    e = ((g.get("effective") or {}).get("by_action_spectrum") or {}).get(aid) or {}
-    return str(e.get("name") or aid).split(" — ")[0]
-
-
 def render_germicidal(g: dict, d: dict) -> list[str]:
     out = ["Germicidal output" + (f" at {sig(g['position']['distance_m'])} m"
                                   if (g.get("position") or {}).get("distance_m") else
@@ -485,9 +475,10 @@ def render_germicidal(g: dict, d: dict) -> list[str]:
     out.append(f"  UV-C 200–280 nm: {_trade(g['uvc'])}; far-UVC 200–235 nm: {_trade(g['far_uvc'])}")
     eq = (g.get("effective") or {}).get("equivalent_254") or {}
     if eq.get("most_favourable") is not None:
+        fav = eq["most_favourable_id"]
+        name = ((g["effective"].get("by_action_spectrum") or {}).get(fav) or {}).get("name")
         out.append(f"  254-nm-equivalent: {_equivalent_span(eq, g.get('unit') or 'W m-2')} "
-                   f"across action spectra (claims use the most favourable: "
-                   f"{_action_name(g, eq['most_favourable_id'])})")
+                   f"across action spectra (claims use the most favourable: {name or fav})")
     vb = (g.get("effective") or {}).get("violet_blue_405")
     if vb and vb.get("value") is not None:
         out.append(f"  violet-blue (≈405 nm) effective: {_trade(vb)}")
