@@ -551,7 +551,8 @@ def test_assessing_does_not_import_numpy_ma(uncertainty):
 
 def _find_lines_loop(spectrum, min_snr=5.0, min_relative=0.01, max_lines=20):
     """The candidate loop find_lines had before it was vectorised (issue 8), kept here as
-    the reference the vectorised version must reproduce exactly."""
+    the reference the vectorised version must reproduce exactly; its prominence is the
+    topographic one, walked out sample by sample as scipy.signal.peak_prominences does."""
     from uvcheck.features import DetectedLine, _identify, line_like
 
     wl, v = spectrum.wavelength_nm, spectrum.values
@@ -566,8 +567,16 @@ def _find_lines_loop(spectrum, min_snr=5.0, min_relative=0.01, max_lines=20):
     for i in cand:
         lo = int(np.searchsorted(wl, wl[i] - 20.0))
         hi = int(np.searchsorted(wl, wl[i] + 20.0, side="right"))
-        base = max(float(v[lo:i + 1].min()), float(v[i:hi].min()))
-        prom = float(v[i] - base)
+        left = right = float(v[i])
+        j = i
+        while j >= lo and v[j] <= v[i]:      # out to the first higher sample or the window
+            left = min(left, float(v[j]))
+            j -= 1
+        j = i
+        while j < hi and v[j] <= v[i]:
+            right = min(right, float(v[j]))
+            j += 1
+        prom = float(v[i] - max(left, right))
         if prom < thr:
             continue
         y0, y1, y2 = v[i - 1], v[i], v[i + 1]

@@ -314,9 +314,13 @@ def find_lines(spectrum: Spectrum, min_snr: float = 5.0, min_relative: float = 0
     min_relative : and at least this fraction of the highest value. [-]
     max_lines : at most this many, strongest first, then sorted by wavelength.
 
-    A peak's prominence is measured against the lower of the minima to its left and right
-    (within ±20 nm). Identification: the nearest known line within max(1 nm, 1.5 × the
-    sample spacing). Nominal line sources report their lines directly.
+    A peak's prominence is its height above the higher of its two bases: on each side, the
+    lowest value between the peak and the first sample higher than the peak, or the end of a
+    ±20 nm window (the topographic prominence, as ``scipy.signal.peak_prominences`` computes
+    it with a window). A noise ripple on a broad band is therefore measured against the
+    ripple beside it, not against the foot of the band. Identification: the nearest known
+    line within max(1 nm, 1.5 × the sample spacing). Nominal line sources report their
+    lines directly.
     """
     key = ("find_lines", float(min_snr), float(min_relative), int(max_lines))
     return list(remembered(spectrum, key, lambda: tuple(
@@ -358,13 +362,19 @@ def _continuum_peaks(spectrum: Spectrum, min_snr: float, min_relative: float,
     cand = cand[v[cand] - float(v.min()) >= thr]
     if cand.size == 0:
         return []
-    # prominence of every candidate at once: the lower of the minima within ±20 nm
-    lo = np.searchsorted(wl, wl[cand] - 20.0)
-    hi = np.searchsorted(wl, wl[cand] + 20.0, side="right")
+    # an upper bound on every candidate's prominence at once (the minima over the whole
+    # ±20 nm window, past any higher peak): a candidate below the threshold on it is out
+    lo = np.searchsorted(wl, wl[cand] - PROMINENCE_WINDOW_NM)
+    hi = np.searchsorted(wl, wl[cand] + PROMINENCE_WINDOW_NM, side="right")
     base = np.maximum(_window_min(v, lo, cand + 1), _window_min(v, cand, hi))
-    prom = v[cand] - base
+    keep = ~(v[cand] - base < thr)
+    cand, lo, hi = cand[keep], lo[keep], hi[keep]
+    # the exact prominence of the few left
+    prom = np.array([_prominence(v, int(i), int(a), int(b)) for i, a, b in zip(cand, lo, hi)])
     keep = ~(prom < thr)
     cand, prom = cand[keep], prom[keep]
+    if cand.size == 0:
+        return []
     # parabolic refinement of the positions
     y0, y1, y2 = v[cand - 1], v[cand], v[cand + 1]
     den = y0 - 2 * y1 + y2
@@ -413,6 +423,30 @@ def second_order_suspects(lines: list[DetectedLine], step_nm: float | None = Non
                 out.append((p, q))
                 break
     return out
+
+
+#: Half-width of the window a peak's prominence is measured in. [nm]
+PROMINENCE_WINDOW_NM = 20.0
+
+
+def _prominence(v: np.ndarray, i: int, lo: int, hi: int) -> float:
+    """The prominence of the sample ``i`` within the window ``v[lo:hi]``: ``v[i]`` minus the
+    higher of its two bases, each the lowest value from ``i`` outwards up to (not including)
+    the first sample higher than ``v[i]``, or to the window's end (samples equal to ``v[i]``
+    do not stop the search). The definition and order of ``scipy.signal.peak_prominences``
+    with ``wlen`` (tests/test_peak_prominence.py compares them).
+
+    >>> float(_prominence(np.array([0.0, 3.0, 1.0, 2.0, 1.5, 0.0]), 3, 0, 6))
+    1.0
+    """
+    top = v[i]
+    left = v[lo:i]
+    higher = np.flatnonzero(left > top)
+    start = lo + int(higher[-1]) + 1 if higher.size else lo
+    right = v[i + 1:hi]
+    higher = np.flatnonzero(right > top)
+    stop = i + 1 + int(higher[0]) if higher.size else hi
+    return float(top - max(v[start:i + 1].min(), v[i:stop].min()))
 
 
 def _window_min(v: np.ndarray, start: np.ndarray, stop: np.ndarray) -> np.ndarray:
