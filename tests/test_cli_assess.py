@@ -227,3 +227,23 @@ def test_terminal_names_hazards_and_action_spectra_in_words(lamp_file):
                 "germicidal_dna", "germicidal_classical", "uvc_unweighted"):
         assert key not in r.output, key
     assert "claims use the most favourable: " in r.output
+
+
+def test_partly_measured_hazard_below_detection_reads_as_such(tmp_path):
+    # An invented blue-LED file measured from 260 nm (E_S is weighted from 200 nm in
+    # IEC 62471:2006) with UV at noise level: the E_S row is a "<" value, not a lower bound,
+    # and its hazard distances are not determinable (no bound either way) rather than
+    # "at least" distances computed from noise.
+    rng = np.random.default_rng(1)
+    wl = np.arange(260.0, 1000.0, 0.5)
+    v = gaussian(wl, 450.0, 10.0, 0.01) + 6e-7 + rng.normal(0, 2e-6, wl.size)
+    p = tmp_path / "blue.csv"
+    p.write_text("wavelength_nm,irradiance_W_m2_nm\n"
+                 + "\n".join(f"{a:.2f},{b:.4e}" for a, b in zip(wl, v)), encoding="utf-8")
+    r = runner.invoke(app, ["assess", str(p), "--distance", "0.2 m", "--no-uncertainty"])
+    assert r.exit_code == 0, r.output
+    row = next(ln for ln in r.output.splitlines() if ln.strip().startswith("E_S actinic"))
+    assert "< " in row and "so far" in row and "partly measured, below detection" in row
+    assert "lower bound" not in row
+    dist = next(ln for ln in r.output.splitlines() if ln.strip().startswith("E_S:"))
+    assert "not determinable" in dist and "at least" not in dist

@@ -332,6 +332,32 @@ def test_hazard_distances_inverse_square():
     assert ev.hazard_distances.governing_uv == "actinic_uv"
 
 
+def test_hazard_distances_of_a_partly_measured_hazard_below_detection_are_not_bounded():
+    # Invented spectrum measured from 260 nm only (E_S is weighted from 180 nm) with a UV
+    # level under the detection limit: the measured part of E_S lies anywhere from 0 to the
+    # detection limit and the unmeasured part is unknown, so a distance from the raw value
+    # is neither a lower bound ("at least") nor an upper one (rule: DESIGN.md, detection
+    # limits and coverage). With the UV level well above the detection limit the distances
+    # are lower bounds again.
+    wl = np.arange(260.0, 1000.0, 0.5)
+    blue = 0.01 * np.exp(-0.5 * ((wl - 450.0) / 10.0) ** 2)
+    cond = Conditions(measurement_distance_m=0.2)
+
+    def actinic(level):
+        s = Spectrum(wl, blue + level, "irradiance", noise_floor=2e-6)
+        ev = evaluate_hazards(s, cond)
+        h = ev.hazard("actinic_uv")
+        return h, {e.hazard_id: e for e in ev.hazard_distances.entries}["actinic_uv"]
+
+    h, d = actinic(4e-7)
+    assert h.status == "partial" and 0 < h.value < h.detection_limit
+    assert d.distance_m is None and d.bound is None and not any(d.boundaries_m.values())
+    assert "bounded in neither direction" in d.note
+    h, d = actinic(1e-4)
+    assert h.value > 10 * h.detection_limit
+    assert d.bound == "at-least" and d.distance_m is not None
+
+
 def test_hazard_distance_blue_light_with_size_by_bisection():
     # With a size the blue-light variant changes with distance; at the found distance the
     # hazard must sit on its Exempt boundary.

@@ -387,7 +387,8 @@ class HazardDistance:
     boundaries_m : for Exempt, RG1, RG2, the distance beyond which the hazard is in that group
         or a lower one. [m]
     bound : ``exact``; ``at-least`` (partial data: the true distances can be larger);
-        ``at-most`` (from a detection limit); None if not computable.
+        ``at-most`` (from a detection limit); None if not computable (also for partial data
+        whose measured part is below the detection limit: no bound either way).
     meaning : what a boundary distance means for this hazard, in words (blue light: the
         field-of-view and small-source regimes, see :func:`_blue_regimes`).
     regimes : blue light with a known source size: ``source_size_m``, the distance within
@@ -1064,6 +1065,12 @@ def _distance_for(src: _Source, hazard_id: str, exposure_s: float) -> HazardDist
         return none("not assessable: no measured data in the hazard's range")
     partial = not integ.complete
     dl = integ.detection_limit
+    if partial and dl is not None and integ.value < dl:
+        # the measured part is noise (its value lies anywhere from 0 to the detection limit)
+        # and the rest is unknown: neither a lower nor an upper bound on the distances
+        return none("not determinable: the measured part of the hazard's range is below the "
+                    "detection limit and the rest is not measured, so the distances are "
+                    "bounded in neither direction; measure the whole range")
     below = (not partial) and dl is not None and integ.value < dl
     x = dl if below else integ.value
     bound = "at-least" if partial else ("at-most" if below else "exact")

@@ -306,7 +306,10 @@ def render_hazards(hazards: dict, d: dict) -> list[str]:
                      sig(h["limit"]) if h["limit"] is not None else "—", tmax,
                      group_text(h["risk_group"], h["risk_group_is_lower_bound"], h.get("risk_group_bound")),
                      _pct(h["coverage"]) if h["coverage"] is not None else "—",
-                     status_text(h["status"], d)])
+                     # a partly measured value under the detection limit is no lower bound
+                     ("partly measured, below detection" if _hazard_value(h).startswith("<")
+                      and h["status"] == "partial" and not is_estimate(d)
+                      else status_text(h["status"], d))])
     out.append(table(["hazard", "value", "unit", "Exempt limit", "t_max", "group", "coverage",
                       "status"], rows, right=(1, 3, 4, 6)))
     if any(h["risk_group_is_lower_bound"] and h["risk_group"] == "Exempt" for h in hazards.values()):
@@ -352,6 +355,8 @@ def render_hazards(hazards: dict, d: dict) -> list[str]:
                          + (f" ({why})" if why else ""))
             if x.get("regimes") and x.get("meaning"):   # L_B: what its distances mean
                 lines += wrap(f"({x['meaning']}.)", 4)
+        elif x and (x.get("note") or "").startswith("not determinable"):
+            lines += wrap(f"{x['symbol']}: {x['note']}", 2)
     if lines:
         radiance = any((hd.get(k) or {}).get("regimes") for k in ("blue_light",))
         model = (d.get("evaluation") or {}).get("distance_model") or "point"
