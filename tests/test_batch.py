@@ -89,6 +89,10 @@ def test_folder_pairs_spectra_and_listings_by_stem(tmp_path):
     assert (a.spectrum.name, a.listing.name) == ("a.txt", "a.toml")
     assert c.spectrum is None and c.listing.name == "c.toml"  # a listing screening
     assert dup.problem and "dup.csv, dup.tsv" in dup.problem
+    # an excluded file is also left out when it is reached through a link of another name
+    (d / "z.csv").symlink_to(d / "b.csv")
+    assert [p.product_id for p in B.scan_folder(d, exclude=[d / "b.csv"])] == ["a", "c", "dup"]
+    assert "z" in [p.product_id for p in B.scan_folder(d)]
 
 
 def test_manifest_columns_comments_and_paths(tmp_path):

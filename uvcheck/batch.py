@@ -163,11 +163,19 @@ def scan_folder(folder: Path, exclude: Iterable[Path] = ()) -> list[Product]:
     exclude : files to leave out (the batch's own outputs).
     """
     folder = Path(folder)
+    exclude = list(exclude)
     skip = {_same(p) for p in exclude}
+    skip_names = {Path(p).name for p in exclude}
     spectra: dict[str, list[Path]] = {}
     listings: dict[str, list[Path]] = {}
-    for p in sorted(folder.iterdir(), key=lambda q: q.name):
-        if p.name.startswith(".") or not p.is_file() or _same(p) in skip:
+    with os.scandir(folder) as it:   # (the entries know their type: no stat per file)
+        entries = sorted(it, key=lambda e: e.name)
+    for e in entries:
+        if e.name.startswith(".") or not e.is_file():
+            continue
+        p = folder / e.name
+        # an excluded file is found under its own name, or through a link
+        if (e.name in skip_names or e.is_symlink()) and _same(p) in skip:
             continue
         suffix = p.suffix.lower()
         if suffix in SPECTRUM_SUFFIXES:
@@ -558,17 +566,22 @@ def default_jobs() -> int:
         return max(1, os.cpu_count() or 1)
 
 
-def warm_up(settings: BatchSettings) -> None:
+def warm_up(settings: BatchSettings, products: Sequence[Product] = ()) -> None:
     """Import the science modules and load the reference tables (once per process); with
-    the fork start method the workers inherit them."""
-    import numpy.ma  # noqa: F401  (numpy.quantile and numpy.unique import it on first use)
-
-    from uvcheck import assessment, claims, screening  # noqa: F401
+    the fork start method the workers inherit them. The listing reader and the screening of
+    listings are imported only when a product has a listing (a folder of spectra alone does
+    not wait for them); what a rare file needs (numpy.unique for unsorted rows imports
+    numpy.ma) is left to the worker that meets it."""
+    from uvcheck import assessment, claims  # noqa: F401
     from uvcheck.germicidal import ACTION_SPECTRA, VIOLET_BLUE_ID, action_spectrum, technologies
     from uvcheck.features import known_lines
     from uvcheck.inactivation import organisms
-    from uvcheck.io import listing, reader  # noqa: F401
+    from uvcheck.io import reader  # noqa: F401
     from uvcheck.limits import get_limit_set
+
+    if any(p.listing is not None for p in products):
+        from uvcheck import screening  # noqa: F401
+        from uvcheck.io import listing  # noqa: F401
     from uvcheck.photometry import _locus, cmfs, v_lambda
     from uvcheck.report import jsonout  # noqa: F401
 
@@ -794,7 +807,7 @@ def run_batch(source: Path, out_csv: Path, settings: BatchSettings, *, jobs: int
     workers = min(jobs or default_jobs(), max(1, len(todo)))
     size = max(1, min(32, len(todo) // (workers * 8) or 1))
     if todo:
-        warm_up(settings)
+        warm_up(settings, todo)
     part_csv, part_jsonl = part_path(out_csv), part_path(out_jsonl)
     n_err = 0
     worst = -1
