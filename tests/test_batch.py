@@ -207,6 +207,36 @@ def test_a_bad_file_is_an_error_row_and_the_batch_goes_on(tmp_path):
     assert "binary file" in rows["binary"]["error"]
 
 
+def test_import_warnings_reach_the_row(tmp_path):
+    # a spectrum normalised to a peak of 1 but labelled W/m2/nm (invented): the reader warns
+    # that every figure may be meaningless; the summary row says so instead of staying silent
+    d = tmp_path / "in"
+    d.mkdir()
+    blue_led(d / "clean.csv")
+    wl = np.linspace(300.0, 800.0, 1001)
+    v = gaussian(wl, 450.0, 10.0, 1.0) + np.random.default_rng(2).normal(0, 1e-4, wl.size)
+    v = np.minimum(v, 1.0)
+    v[np.argmin(np.abs(wl - 450.0))] = 1.0            # the peak written as exactly 1
+    write_spectrum(d / "normalised.csv", wl, v)
+    B.run_batch(d, tmp_path / "s.csv", settings(), jobs=1)
+    rows = {r["product_id"]: r for r in read_rows(tmp_path / "s.csv")}
+    assert rows["clean"]["import_warnings"] == "0" and rows["clean"]["first_import_warning"] == ""
+    warned = _all_import_warnings(d / "normalised.csv")
+    assert any("normalised to a peak of 1" in w for w in warned)
+    assert rows["normalised"]["import_warnings"] == str(len(warned))
+    assert rows["normalised"]["first_import_warning"] == warned[0]
+    # the JSON lines carry the same count
+    recs = [json.loads(ln) for ln in (tmp_path / "s.jsonl").read_text(encoding="utf-8").splitlines()]
+    assert {r["product_id"]: r["import_warnings"] for r in recs} == {
+        "clean": 0, "normalised": int(rows["normalised"]["import_warnings"])}
+
+
+def _all_import_warnings(path):
+    from uvcheck.io.reader import read_spectrum
+
+    return read_spectrum(path)[1].warnings
+
+
 def test_unexpected_exception_becomes_an_error_row(tmp_path):
     p = B.Product("x", blue_led(tmp_path / "x.csv"), None, "x.csv")
     with mock.patch.object(B, "assess_product", side_effect=ZeroDivisionError("boom")):

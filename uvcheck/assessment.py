@@ -157,7 +157,8 @@ class Assessment:
         from :meth:`to_dict`."""
         if "uncertainty" in self.sections:
             return self.to_dict()
-        d: dict[str, Any] = {"input": {"origin": self.spectrum.meta.get("origin", "measured")},
+        d: dict[str, Any] = {"input": {"origin": self.spectrum.meta.get("origin", "measured"),
+                                       "warnings": import_warnings(self.spectrum, self.report)},
                              "spectral": self.peak.to_dict(),
                              "conditions": self.conditions.to_dict()}
         g = self.sections.get("germicidal")
@@ -190,16 +191,27 @@ def position_statement(c: Conditions, origin: str = "measured") -> str:
     return f"Measured at {c.measurement_distance_m:g} m from the lamp."
 
 
+def import_warnings(spectrum: Spectrum, report: Any | None) -> list[str]:
+    """``input.warnings``: the reader's warnings, then those of any scaling."""
+    if report is None:
+        warnings: list[str] = []
+    elif hasattr(report, "warnings"):
+        warnings = list(report.warnings)
+    else:
+        warnings = list(report.to_dict().get("warnings", []))
+    for s in spectrum.meta.get("scaling", []):
+        for key in ("warning", "note"):
+            if s.get(key):
+                warnings.append(s[key])
+    return warnings
+
+
 def input_section(spectrum: Spectrum, report: Any | None) -> dict[str, Any]:
     """The ``input`` block of the JSON contract."""
     meta = dict(spectrum.meta)
     lo, hi = spectrum.range_nm
     inferred = report.to_dict() if report is not None else {}
-    warnings = list(inferred.get("warnings", []))
-    for s in meta.get("scaling", []):
-        for key in ("warning", "note"):
-            if s.get(key):
-                warnings.append(s[key])
+    warnings = import_warnings(spectrum, report)
     return {
         "path": meta.get("source"),
         "sha256": meta.get("sha256"),

@@ -76,7 +76,11 @@ from uvcheck.errors import ConfigurationError, InputFormatError, UvcheckError
 #: ``assessment-distance``), else at the unknown measurement position
 #: (``measurement-position``: not the lamp's classification; give a distance);
 #: ``risk_group_at_use`` at the distance of use (``use_distance_m``: the manifest's, the
-#: command line's or the listing's), where one is known.
+#: command line's or the listing's), where one is known. ``import_warnings`` counts what the
+#: reader (and a scaling) warned of for the spectrum file (a normalised spectrum labelled
+#: absolute, photon units converted, thousands separators, dropped rows, gaps, spikes, …) and
+#: ``first_import_warning`` gives the first: a row whose figures may not mean what they seem
+#: is not silent; ``uvcheck assess`` on that file shows them all.
 SUMMARY_COLUMNS = (
     "product_id", "spectrum_file", "listing_file", "status", "error",
     "peak_nm", "uvc_W_m2", "uvc_status",
@@ -84,6 +88,7 @@ SUMMARY_COLUMNS = (
     "use_distance_m", "risk_group_at_use",
     "claims_holds", "claims_unlikely", "claims_cannot_hold", "claims_not_assessable",
     "worst_claim_id", "worst_claim_verdict", "worst_claim_ratio",
+    "import_warnings", "first_import_warning",
     "note_path", "origin", "inputs_sha256",
 )
 
@@ -428,7 +433,11 @@ def _fill(row: dict[str, Any], result: Mapping[str, Any]) -> None:
     from uvcheck.spectrum import partly_measured
 
     row["status"] = "ok"
-    row["origin"] = (result.get("input") or {}).get("origin")
+    inp = result.get("input") or {}
+    row["origin"] = inp.get("origin")
+    if inp.get("warnings") is not None:
+        row["import_warnings"] = len(inp["warnings"])
+        row["first_import_warning"] = inp["warnings"][0] if inp["warnings"] else None
     spectral = result.get("spectral") or {}
     row["peak_nm"] = spectral.get("peak_nm")
     uvc = (result.get("germicidal") or {}).get("uvc") or {}

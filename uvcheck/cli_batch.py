@@ -105,7 +105,10 @@ def batch_command(
     risk_group_at_use
     (the group at the distance of use), claims_holds, claims_unlikely,
     claims_cannot_hold, claims_not_assessable, worst_claim_id,
-    worst_claim_verdict, worst_claim_ratio, note_path, origin (measured, or
+    worst_claim_verdict, worst_claim_ratio, import_warnings (how many warnings
+    the reader gave for the spectrum file: a normalised spectrum labelled
+    absolute, converted units, dropped rows, ...), first_import_warning,
+    note_path, origin (measured, or
     nominal: a listing without a spectrum, every figure an ESTIMATE; or
     listing-only: a listing too thin to model the lamp, claims only),
     inputs_sha256 (files, options and settings: --resume keeps a row only when
