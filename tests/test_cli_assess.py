@@ -247,3 +247,6 @@ def test_partly_measured_hazard_below_detection_reads_as_such(tmp_path):
     assert "lower bound" not in row
     dist = next(ln for ln in r.output.splitlines() if ln.strip().startswith("E_S:"))
     assert "not determinable" in dist and "at least" not in dist
+    # the band table words a partly measured band under its detection limit the same way
+    uvc = next(ln for ln in r.output.splitlines() if ln.strip().startswith("UV-C "))
+    assert "< " in uvc and "partly measured, below detection" in uvc and "lower bound" not in uvc

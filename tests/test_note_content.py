@@ -466,7 +466,8 @@ def test_note_and_terminal_word_estimate_statuses_alike():
     assert not is_estimate(measured) and is_estimate(nominal)
     for result in (measured, nominal):
         shown = [r["status"] for r in band_rows(result)]
-        words = [status_text(b["status"], result) for b in result["bands"].values()]
+        words = [status_text(b["status"], result, bool(b.get("below_detection")))
+                 for b in result["bands"].values()]
         assert sorted(shown) == sorted(words)
     assert all("measured" not in w for w in (r["status"] for r in band_rows(nominal)))
 

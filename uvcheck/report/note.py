@@ -355,7 +355,8 @@ def band_rows(result: Result) -> list[dict[str, Any]] | None:
         rows.append({"band": BAND_NAMES.get(k, k), "range": f"{lo:g}–{hi:g} nm" if lo is not None else "",
                      "value": val, "fraction": percent(b.get("fraction")),
                      "coverage": percent(b.get("coverage")),
-                     "status": status_text(st, result) if st else ""})
+                     "status": status_text(st, result, bool(b.get("below_detection")))
+                     if st else ""})
     return rows
 
 
@@ -408,7 +409,11 @@ def _value_text(h: Mapping[str, Any]) -> str:
     if st == "not-assessable" or (v is None and st != "below-detection"):
         return "not assessable"
     if st == "below-detection" or (v is not None and dl is not None and v < dl):
-        return f"< {quantity(dl, unit)} (detection limit)" if dl is not None else "below detection"
+        if dl is None:
+            return "below detection"
+        # partly measured: the detection limit of the measured part, no bound on the rest
+        return f"< {quantity(dl, unit)} (detection limit" + (
+            ", measured part only)" if st == "partial" else ")")
     return ("≥ " if st == "partial" else "") + quantity(v, unit)
 
 

@@ -13,10 +13,12 @@ from uvcheck.spectrum import partly_measured
 from uvcheck.units import bounded_duration, format_duration, sig, to_trade
 
 STATUS_TEXT = {"complete": "measured", "partial": "partly measured (lower bound)",
+               "partial-below-detection": "partly measured, below detection",
                "not-covered": "not measured", "below-detection": "below detection limit",
                "not-assessable": "not assessable"}
 #: The same statuses for a nominal ESTIMATE (``uvcheck screen``): nothing there was measured.
 ESTIMATE_STATUS_TEXT = {"complete": "estimated", "partial": "partly modelled (lower bound)",
+                        "partial-below-detection": "partly modelled, below detection",
                         "not-covered": "not modelled", "below-detection": "below detection limit",
                         "not-assessable": "not assessable"}
 
@@ -33,9 +35,19 @@ def listing_only(d: Mapping[str, Any]) -> bool:
     return (d.get("input") or {}).get("origin") == "listing-only"
 
 
-def status_text(status: str, d: dict) -> str:
-    """A band or hazard status in words; an estimate is never called 'measured'."""
+def status_text(status: str, d: dict, below: bool = False) -> str:
+    """A band or hazard status in words; an estimate is never called 'measured'.
+    below : the value is under its detection limit; a partly measured value is then no
+    lower bound (its measured part lies anywhere from 0 to the limit), and is not called one."""
+    if below and status == "partial":
+        status = "partial-below-detection"
     return (ESTIMATE_STATUS_TEXT if is_estimate(d) else STATUS_TEXT).get(status, status)
+
+
+def hazard_below_detection(h: Mapping[str, Any]) -> bool:
+    """The hazard's value is under its detection limit (whatever its coverage)."""
+    v, dl = h.get("value"), h.get("detection_limit")
+    return h.get("status") == "below-detection" or (v is not None and dl is not None and v < dl)
 
 
 def table(headers: Sequence[str], rows: Sequence[Sequence[Any]], right: Sequence[int] = ()) -> str:
@@ -161,7 +173,7 @@ def render_assessment(d: dict) -> str:
     for name, b in bands.items():
         rows.append([name, f"{b['range_nm'][0]:g}–{b['range_nm'][1]:g}", _band_value(b, "value"),
                      _band_value(b, "value_trade"), _pct(b["fraction"]), _pct(b["coverage"]),
-                     status_text(b["status"], d)])
+                     status_text(b["status"], d, bool(b.get("below_detection")))])
     out.append(table(["band", "nm", unit, trade, "share", "coverage", "status"], rows,
                      right=(2, 3, 4, 5)))
     out.append(f"  ({d['band_convention']})")
@@ -222,7 +234,7 @@ def _hazard_value(h: dict) -> str:
     if h["status"] == "below-detection":
         return "< " + sig(h["value"])
     if h["status"] == "partial":
-        if dl is not None and h["value"] < dl:
+        if hazard_below_detection(h):
             return "< " + sig(dl) + " so far"
         return "≥ " + sig(h["value"])
     return sig(h["value"])
@@ -306,10 +318,7 @@ def render_hazards(hazards: dict, d: dict) -> list[str]:
                      sig(h["limit"]) if h["limit"] is not None else "—", tmax,
                      group_text(h["risk_group"], h["risk_group_is_lower_bound"], h.get("risk_group_bound")),
                      _pct(h["coverage"]) if h["coverage"] is not None else "—",
-                     # a partly measured value under the detection limit is no lower bound
-                     ("partly measured, below detection" if _hazard_value(h).startswith("<")
-                      and h["status"] == "partial" and not is_estimate(d)
-                      else status_text(h["status"], d))])
+                     status_text(h["status"], d, hazard_below_detection(h))])
     out.append(table(["hazard", "value", "unit", "Exempt limit", "t_max", "group", "coverage",
                       "status"], rows, right=(1, 3, 4, 6)))
     if any(h["risk_group_is_lower_bound"] and h["risk_group"] == "Exempt" for h in hazards.values()):
