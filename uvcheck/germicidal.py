@@ -779,6 +779,16 @@ def _ozone(spec: Spectrum, uvc: Reading, total: float, tech_id: str | None,
         present = r.value > dl and ref > 0 and r.value > MIN_SIGNIFICANT_SHARE * ref
     tech = technologies().get(tech_id or "", {})
     tech_no = rules_out_below_240(tech_id, uvc_peak_nm)
+    if (present and not artefact and _seen(spec) != "measured"
+            and tech.get("below_240") == "possible" and not tech_no
+            and uvc_peak_nm is not None and uvc_peak_nm >= OZONE_EDGE_NM):
+        # a nominal model's short-wavelength tail is its assumed line shape, not a fact
+        # about the lamp: for a technology that may or may not emit there, nothing is known
+        return Ozone("unknown", "not-measurable", below, unit, checked, covers_185,
+                     f"the nominal model has a tail below 240 nm ({sig(below)} {unit} over "
+                     f"{checked[0]:g}–240 nm), but its shape there is the model's assumption; "  # type: ignore[index]
+                     f"whether a {tech['name']} emits below 240 nm a listing cannot show "
+                     f"({tech.get('below_240_source', '')})")
     if present and not artefact:
         return Ozone("present", "measured" if _seen(spec) == "measured" else "modelled", below, unit, checked, covers_185,
                      f"output below 240 nm is present ({sig(below)} {unit} over "
