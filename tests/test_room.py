@@ -150,6 +150,19 @@ def test_lamp_from_measured_spectrum():
         lamp_from_spectrum(Spectrum([200.0, 300.0], [1.0, 1.0], "relative"), LampGeometry((1, 1, 1)), 1.0)
 
 
+def test_occupant_actinic_range_is_the_one_assess_uses():
+    # IEC 62471:2006 states E_S over 200-400 nm (the 30 J/m² limit of clause 4.3.1; data/limits
+    # records the range): a spectrum measured from 200 nm covers it, so the occupant's E_S is
+    # no lower bound, as the hazard table of `uvcheck assess` says for the same file; one
+    # measured from 230 nm leaves part of it out and is a lower bound
+    geom = LampGeometry((2.0, 2.5, 2.4))
+    for start, lower in ((200.0, False), (230.0, True)):
+        s = Spectrum([start, 800.0], [0.0, 0.0], "irradiance", lines=((253.7, 1.0),))
+        occ = evaluate_room(ROOM, lamp_from_spectrum(s, geom, measured_at_m=1.0)).occupant
+        assert occ["effective_S_is_lower_bound"] is lower, start
+        assert ("lower bound" in occ["note"]) is lower
+
+
 def test_room_errors():
     with pytest.raises(ConfigurationError, match="outside the room"):
         evaluate_room(ROOM, lamp_from_uvc_flux(1.0, LampGeometry((5.0, 2.5, 2.4))))

@@ -783,7 +783,12 @@ def evaluate_room(room: Box, lamp: RoomLamp, *, reflectance: float = DEFAULT_REF
     g = evaluate_germicidal(lamp.flux_spectrum)
     phi_uvc = g.uvc.favourable()
     phi_254 = g.equivalent_irradiance(253.7)  # in W here: the spectrum is a flux
-    s_act = integrate(lamp.flux_spectrum, 180.0, 400.0, get_weighting("S_actinic"))
+    # E_S over the range the IEC 62471:2006 limit (ACTINIC_LIMIT_J_M2) is stated for, as
+    # `uvcheck assess` integrates it (200-400 nm; ICNIRP's 180-400 nm is its own limit set)
+    from uvcheck.limits import get_limit_set
+
+    s_act = integrate(lamp.flux_spectrum, *get_limit_set().entries["actinic_uv"].range_nm,
+                      get_weighting("S_actinic"))
     notes: list[str] = []
     warnings: list[str] = []
     figures = _figures_are(g)
