@@ -437,8 +437,8 @@ class Reading:
                 if integ.value > 0:
                     # None: within the limit for every duration the limit covers
                     out["time_to_limit_s"] = entry.t_max(lambda fov: integ.value)[0]
-                # partial data in this limit's own spectral range (the room model's flag is
-                # for its 180–400 nm E_S)
+                # partial data in this limit set's own spectral range (the room model's flag
+                # is for the default set's)
                 out["lower_bound"] = not integ.complete
         self._cache[key] = out
         return out
