@@ -606,8 +606,8 @@ def _find_lines_loop(spectrum, min_snr=5.0, min_relative=0.01, max_lines=20):
         while j >= lo and v[j] <= v[i]:      # out to the first higher sample or the window
             left = min(left, float(v[j]))
             j -= 1
-        j = i
-        while j < hi and v[j] <= v[i]:
+        j = i + 1
+        while j < hi and v[j] < v[i]:        # on the right an equal sample ends it too
             right = min(right, float(v[j]))
             j += 1
         prom = float(v[i] - max(left, right))

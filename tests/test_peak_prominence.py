@@ -36,8 +36,35 @@ def test_prominence_is_scipys_with_a_window(seed):
     ref = peak_prominences(v, peaks, wlen=2 * half + 1)[0]
     lo = np.searchsorted(wl, wl[peaks] - PROMINENCE_WINDOW_NM)
     hi = np.searchsorted(wl, wl[peaks] + PROMINENCE_WINDOW_NM, side="right")
-    ours = [_prominence(v, int(i), int(a), int(b)) for i, a, b in zip(peaks, lo, hi)]
-    assert np.array_equal(np.asarray(ours), ref)
+    ours = np.array([_prominence(v, int(i), int(a), int(b)) for i, a, b in zip(peaks, lo, hi)])
+    # equal to scipy's, except for a peak with an equal sample to its right before any higher
+    # one (our tie rule: that peak is measured to the dip between them, never more than scipy)
+    for k, (i, b) in enumerate(zip(peaks, hi)):
+        right = v[i + 1:b]
+        stop = np.flatnonzero(right > v[i])
+        tie = np.any(right[:stop[0] if stop.size else right.size] == v[i])
+        if tie:
+            assert ours[k] <= ref[k]
+        else:
+            assert ours[k] == ref[k], (seed, int(i))
+    if seed % 4:
+        assert np.array_equal(ours, ref)        # no ties in unrounded data
+
+
+def test_two_equal_maxima_of_one_band_are_one_peak():
+    # invented counts: a band at 258 nm written as whole counts, whose top holds two equal
+    # maxima with a noise dip between them; scipy's prominence gives both the band's full
+    # prominence (two peaks 0.65 nm apart), ours only the right one
+    wl = 250.0 + 0.327 * np.arange(50)
+    v = np.round(900 + 900 * np.exp(-0.5 * ((wl - 258.0) / 3.0) ** 2))
+    i, j = int(np.argmin(np.abs(wl - 257.4))), int(np.argmin(np.abs(wl - 258.05)))
+    v[i] = v[j] = v.max() + 5
+    v[i + 1] = v[i] - 9
+    s = Spectrum(wl, v, "irradiance", noise_floor=3.0)      # the 9-count dip is 3 σ: noise
+    peaks = [x for x in find_lines(s, min_relative=0.0) if 255 < x.wavelength_nm < 261]
+    assert len(peaks) == 1 and abs(peaks[0].wavelength_nm - 258.0) < 0.5
+    ref = peak_prominences(v, np.array([i, j]), wlen=2 * int(20 / 0.327) + 1)[0]
+    assert ref[0] > 100 and ref[1] > 100       # scipy: two peaks
 
 
 def test_noise_on_a_broad_band_is_not_a_row_of_peaks():

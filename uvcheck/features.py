@@ -432,19 +432,25 @@ PROMINENCE_WINDOW_NM = 20.0
 def _prominence(v: np.ndarray, i: int, lo: int, hi: int) -> float:
     """The prominence of the sample ``i`` within the window ``v[lo:hi]``: ``v[i]`` minus the
     higher of its two bases, each the lowest value from ``i`` outwards up to (not including)
-    the first sample higher than ``v[i]``, or to the window's end (samples equal to ``v[i]``
-    do not stop the search). The definition and order of ``scipy.signal.peak_prominences``
-    with ``wlen`` (tests/test_peak_prominence.py compares them).
+    the first sample higher than ``v[i]``, or to the window's end: the definition of
+    ``scipy.signal.peak_prominences`` with ``wlen`` (tests/test_peak_prominence.py compares
+    them). One difference: on the right a sample *equal* to ``v[i]`` also ends the search,
+    so of two equal maxima (rounded counts often give them) only the right one is measured
+    to the far bases and the left one to the dip between them, where scipy measures both to
+    the far bases and reports one band as two peaks.
 
     >>> float(_prominence(np.array([0.0, 3.0, 1.0, 2.0, 1.5, 0.0]), 3, 0, 6))
     1.0
+    >>> [round(float(_prominence(np.array([0.0, 2.0, 1.9, 2.0, 0.0]), k, 0, 5)), 9)
+    ...  for k in (1, 3)]
+    [0.1, 2.0]
     """
     top = v[i]
     left = v[lo:i]
     higher = np.flatnonzero(left > top)
     start = lo + int(higher[-1]) + 1 if higher.size else lo
     right = v[i + 1:hi]
-    higher = np.flatnonzero(right > top)
+    higher = np.flatnonzero(right >= top)
     stop = i + 1 + int(higher[0]) if higher.size else hi
     return float(top - max(v[start:i + 1].min(), v[i:stop].min()))
 
