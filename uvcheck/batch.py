@@ -587,12 +587,12 @@ def warm_up(settings: BatchSettings, products: Sequence[Product] = ()) -> None:
     from uvcheck.inactivation import organisms
     from uvcheck.io import reader  # noqa: F401
     from uvcheck.limits import get_limit_set
+    from uvcheck.photometry import _locus, cmfs, v_lambda
+    from uvcheck.report import jsonout  # noqa: F401
 
     if any(p.listing is not None for p in products):
         from uvcheck import screening  # noqa: F401
         from uvcheck.io import listing  # noqa: F401
-    from uvcheck.photometry import _locus, cmfs, v_lambda
-    from uvcheck.report import jsonout  # noqa: F401
 
     lset = get_limit_set(settings.limits)
     for e in lset.entries.values():

@@ -20,7 +20,8 @@ from typing import Any, Iterable, Mapping
 
 from uvcheck.germicidal import UVC_EMITTING
 from uvcheck.limits import GROUPS
-from uvcheck.report.terminal import (is_estimate, listing_only, no_assessment_distance, status_text,
+from uvcheck.report.terminal import (hazard_below_detection, is_estimate, listing_only,
+                                     no_assessment_distance, status_text,
                                      tmax_is_upper_bound)
 from uvcheck.spectrum import partly_measured
 from uvcheck.report.cautions import (DOES_NOT_COVER, DOES_NOT_COVER_ESTIMATE,
@@ -408,7 +409,7 @@ def _value_text(h: Mapping[str, Any]) -> str:
     dl = h.get("detection_limit")
     if st == "not-assessable" or (v is None and st != "below-detection"):
         return "not assessable"
-    if st == "below-detection" or (v is not None and dl is not None and v < dl):
+    if hazard_below_detection(h):
         if dl is None:
             return "below detection"
         # partly measured: the detection limit of the measured part, no bound on the rest
