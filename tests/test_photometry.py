@@ -68,6 +68,31 @@ def test_cct_refused_for_violet_led():
     assert p.cct_K is None and "not a white source" in p.cct_note
 
 
+def test_a_filament_lamp_measured_into_the_infrared_gets_its_cct():
+    # A 2800 K blackbody (colour-science's sd_blackbody, Planck's law) from 300 to 2500 nm
+    # sends most of its output into the infrared, yet it is a white source: its CCT is its
+    # temperature (Ohno 2013 via colour-science on the same chromaticity). Measured through the
+    # assessment, which decides "white" from the ultraviolet and visible output only.
+    from uvcheck.assessment import assess
+    from uvcheck.photometry import visible_share
+
+    sd = colour.sd_blackbody(2800, colour.SpectralShape(300, 2500, 1))
+    s = Spectrum(sd.wavelengths, sd.values / sd.values.max() * 0.05, "irradiance")
+    assert visible_share(s) > 0.9
+    ph = assess(s).photometry
+    xy = colour.XYZ_to_xy(colour.sd_to_XYZ(colour.sd_blackbody(2800)))
+    uv = colour.UCS_to_uv(colour.XYZ_to_UCS(colour.xy_to_XYZ(xy)))
+    ref = colour.temperature.uv_to_CCT(uv, method="Ohno 2013")
+    assert ph.cct_K == pytest.approx(ref[0], rel=1e-3) and ph.cct_K == pytest.approx(2800, rel=2e-3)
+    # a mercury-like UV lamp whose visible lines are a small part of its UV and visible
+    # output still gets none
+    wl = np.arange(240.0, 800.0, 0.5)
+    hg = sum(a * np.exp(-0.5 * ((wl - c) / 0.6) ** 2)
+             for c, a in ((253.7, 100.0), (404.7, 3.0), (435.8, 5.0), (546.1, 4.0), (577.0, 1.0)))
+    ph = assess(Spectrum(wl, hg, "irradiance")).photometry
+    assert ph.cct_K is None and "not a white source" in ph.cct_note
+
+
 def test_no_chromaticity_when_the_visible_output_is_below_detection():
     """A UV-C LED whose visible band is noise got 'CCT 5879 K, Duv +0.0437', the colour of the
     noise. Where the luminous value is below its detection limit (3 σ, IUPAC convention) no

@@ -20,7 +20,7 @@ from uvcheck.features import (DetectedLine, PeakInfo, find_lines, peak_info,
                                second_order_suspects)
 from uvcheck.germicidal import evaluate_germicidal
 from uvcheck.hazards import SCREENING_NOTE, evaluate_hazards
-from uvcheck.photometry import Photometry, photometry
+from uvcheck.photometry import Photometry, photometry, visible_share
 from uvcheck.spectrum import Spectrum
 
 SCHEMA = "uvcheck.assessment/1"
@@ -73,7 +73,7 @@ class Assessment:
     @cached_property
     def photometry(self) -> Photometry:
         """Luminous quantity, chromaticity and CCT (:func:`uvcheck.photometry.photometry`)."""
-        return photometry(self.spectrum, self.bands["visible"].fraction)
+        return photometry(self.spectrum, visible_share(self.spectrum))
 
     @cached_property
     def line_warnings(self) -> tuple[str, ...]:

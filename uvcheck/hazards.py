@@ -1294,9 +1294,12 @@ def _blue_white(spectrum: Spectrum, src: _Source, info: EvaluationInfo) -> BlueL
     note = (f"K_B,v = E_B/E_v; E_thr = {e_rg1:g} W m⁻² / K_B,v, the illuminance at which E_B "
             f"reaches the small-source RG1 limit (formula from memory). A ratio of two integrals, "
             f"so it holds for relative spectra too ({what}).")
-    if vf is not None and vf < 0.5:
-        note += (f" Only {vf:.0%} of the measured output lies in 380–780 nm: not a white source, "
-                 f"shown for information only.")
+    from uvcheck.photometry import visible_share
+
+    share = visible_share(spectrum)   # infrared left out: a filament lamp is a white source
+    if share is not None and share < 0.5:
+        note += (f" Only {share:.0%} of the measured ultraviolet and visible output lies in "
+                 f"380–780 nm: not a white source, shown for information only.")
     return BlueLightWhiteSource(k_bv, e_thr, ev, exceeds, vf, "complete", note)
 
 

@@ -149,12 +149,32 @@ def cct_ohno2013(u: float, v: float) -> tuple[float, float]:
     return cct, float(sign * np.sqrt(dmin2))
 
 
+def visible_share(spectrum: Spectrum) -> float | None:
+    """The share of 380–780 nm in the measured ultraviolet and visible output (from the
+    start of the data to 780 nm), or None when there is none. Infrared is left out: it does
+    not change a source's colour, so a 2800 K filament, mostly infrared, is a white source,
+    while a UV lamp whose visible lines are a small part of its output is not (our own rule
+    for when a CCT means anything).
+
+    >>> round(visible_share(Spectrum([300.0, 380.0, 780.0, 2000.0], [0.0, 1.0, 1.0, 1.0],
+    ...                             "irradiance")), 3)
+    0.909
+    """
+    lo = spectrum.range_nm[0]
+    if lo >= 780.0:
+        return None
+    uv_vis = integrate(spectrum, lo, 780.0).value
+    vis = integrate(spectrum, max(lo, 380.0), 780.0).value
+    return None if uv_vis <= 0.0 else max(vis, 0.0) / uv_vis
+
+
 def photometry(spectrum: Spectrum, visible_fraction: float | None = None) -> Photometry:
     """Luminous quantity, chromaticity and (where meaningful) CCT of a spectrum.
 
     spectrum : any spectrum; relative spectra give chromaticity only.
-    visible_fraction : share of the total in 380–780 nm, used to decide whether CCT means
-        anything (it must be ≥ 0.5). [-]
+    visible_fraction : share of 380–780 nm in the ultraviolet and visible output
+        (:func:`visible_share`), used to decide whether CCT means anything (it must be
+        ≥ 0.5). [-]
     """
     qty, unit = LUMINOUS.get(spectrum.quantity, ("illuminance", "lx"))
     r = _luminous_integral(spectrum)
@@ -182,7 +202,8 @@ def photometry(spectrum: Spectrum, visible_fraction: float | None = None) -> Pho
         v = 6 * Y / (X + 15 * Y + 3 * Z)
         t, dv = cct_ohno2013(u, v)
         if visible_fraction is not None and visible_fraction < 0.5:
-            note = "not a white source: most of the output is outside 380–780 nm"
+            note = ("not a white source: most of the ultraviolet and visible output is "
+                    "outside 380–780 nm")
         elif abs(dv) > 0.05 or not (1000 <= t <= 100000):
             note = f"chromaticity too far from the Planckian locus (Duv {dv:+.3f}) for a CCT"
         else:

@@ -196,7 +196,7 @@ def render_assessment(d: dict) -> str:
         out.append(f"{ph['quantity'].replace('_', ' ').capitalize()}: not given ({ph['value_note']})")
     if ph["x"] is not None:
         out.append(f"Chromaticity x = {ph['x']:.4f}, y = {ph['y']:.4f}"
-                   + (f"; CCT {ph['cct_K']:.0f} K, Duv {ph['duv']:+.4f}" if ph["cct_K"] else
+                   + (f"; CCT {ph['cct_K']:.0f} K, Duv {(round(ph['duv'], 4) or 0.0):+.4f}" if ph["cct_K"] else
                       f"; no CCT: {ph['cct_note']}"))
     for key, renderer in SECTION_RENDERERS.items():
         if d.get(key) is not None:
