@@ -217,7 +217,8 @@ RULE_SAFETY_ESTIMATE = ("the safety rule on an estimate (every case of every rea
 #: Rule of a safety or risk-group verdict against the claim that only UV-C read as stray light
 #: decides (our own rule: the tool's own reading of that UV-C is that the lamp does not emit it).
 RULE_STRAY_UVC = ("the stray-light rule (a verdict against a safety or risk-group claim may not "
-                  "rest on UV-C below 280 nm that reads as likely stray light or noise)")
+                  "rest on UV-C below 280 nm that reads as likely stray light or noise, nor on "
+                  "that stray level where it goes on into UV-B and UV-A)")
 #: What would decide such a claim.
 STRAY_UVC_NEEDED = ("a measurement below 280 nm with the stray light controlled (a solar-blind "
                     "or short-pass filter, or a double-monochromator spectroradiometer)",)
@@ -309,8 +310,9 @@ class Reading:
 
     def stray_free(self) -> "Reading | None":
         """This reading without the UV-C below 280 nm where its germicidal evaluation reads
-        that UV-C as likely stray light or noise (:func:`uvcheck.germicidal.without_stray_uvc`):
-        the most favourable reading of its hazards. None where its UV-C is not read so."""
+        that UV-C as likely stray light or noise, and without that stray level up to 400 nm
+        (:func:`uvcheck.germicidal.without_stray_uvc`): the most favourable reading of its
+        hazards. None where its UV-C is not read so."""
         if self.evidence != "measured":
             return None  # a model emits what it models: nothing in it is stray light
         key = ("stray-free",)
@@ -1390,12 +1392,13 @@ def _unless_stray(v: Verdict, r: Reading,
     details = {**v.details, "without_stray_uvc": without}
     if still:
         return replace(v, basis=f"{v.basis}; so even without the UV-C below 280 nm that reads "
-                                f"as likely stray light ({without})", details=details)
+                                f"as likely stray light, and without that level above 280 nm "
+                                f"({without})", details=details)
     return replace(v, verdict="not-assessable",
                    basis=f"{v.basis}, but only through the UV-C below 280 nm, which reads as "
-                         f"likely stray light or noise (see the germicidal artefacts); without "
-                         f"it {without}", missing=STRAY_UVC_NEEDED, details=details,
-                   rule=RULE_STRAY_UVC)
+                         f"likely stray light or noise (see the germicidal artefacts), and that "
+                         f"stray level above 280 nm; without them {without}",
+                   missing=STRAY_UVC_NEEDED, details=details, rule=RULE_STRAY_UVC)
 
 
 def _only_likely_within(c: Any, ev: Evidence, r: Reading, t: float, where: str,
@@ -1870,7 +1873,8 @@ def decision_rule_text(margin: float = MARGIN, rule: str | None = None,
     head = ("efficacy claims: benefit of the doubt (most favourable reading, most susceptible "
             "organism, lowest dose across studies). Safety claims: fail as soon as the most "
             "likely reading exceeds an exposure limit, except where only UV-C that reads as "
-            "stray light makes it exceed ('not-assessable' then). "
+            "stray light (and that stray level in UV-B and UV-A) makes it exceed "
+            "('not-assessable' then). "
             + (SAFETY_ESTIMATE_TEXT if estimate else ""))
     if rule is None:
         return head + (f"Without measurement uncertainty: 'cannot-hold' only when the favourable "

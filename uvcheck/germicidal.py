@@ -563,30 +563,42 @@ def _known_uvc_lines() -> tuple[tuple[float, str], ...]:
     return tuple(out)
 
 
+#: A stray level read in UV-C is taken to go on, flat, up to here: scattered light inside an
+#: array spectrometer lifts the whole short-wavelength end, not UV-C alone (our own rule, as
+#: the pedestal test reads the level as flat). [nm]
+STRAY_LEVEL_UP_TO_NM = 400.0
+
+
 def without_stray_uvc(spectrum: Spectrum, artefacts: Iterable[Artefact]) -> Spectrum | None:
     """The most favourable reading of a spectrum whose UV-C is read as stray light or noise
-    (an artefact with ``is_stray``): the same spectrum with every sample below 280 nm set to
-    zero (and any line there dropped), since stray light is scattered inside the instrument,
-    not emitted by the lamp. None when no artefact reads the UV-C so, or nothing lies below
-    280 nm. Only the UV-C is judged by :func:`uvc_artefacts`, so a stray level that goes on
-    into UV-B is kept there.
+    (an artefact with ``is_stray``): every sample below 280 nm set to zero (and any line there
+    dropped), since stray light is scattered inside the instrument, not emitted by the lamp;
+    and from 280 nm to :data:`STRAY_LEVEL_UP_TO_NM` the same level taken off (the median of
+    the samples below 280 nm; a sample under it goes to zero, a negative one is kept), since
+    the stray level does not stop at 280 nm. None when no artefact reads the UV-C so, or
+    nothing lies below 280 nm.
 
     Examples
     --------
-    >>> s = Spectrum(np.array([250.0, 270.0, 290.0, 400.0]), np.array([1e-3, 1e-3, 1e-3, 1.0]),
-    ...              "irradiance")
+    >>> s = Spectrum(np.array([250.0, 270.0, 290.0, 350.0, 400.0]),
+    ...              np.array([1e-3, 1e-3, 1e-3, 5e-3, 1.0]), "irradiance")
     >>> without_stray_uvc(s, [Artefact("pedestal", "flat")]).values.tolist()
-    [0.0, 0.0, 0.001, 1.0]
+    [0.0, 0.0, 0.0, 0.004, 1.0]
     >>> without_stray_uvc(s, [Artefact("data-edge", "undecided")]) is None
     True
     """
     if not any(a.is_stray for a in artefacts):
         return None
-    below = spectrum.wavelength_nm < UVC_BAND_NM[1]
+    wl, v = spectrum.wavelength_nm, spectrum.values
+    below = wl < UVC_BAND_NM[1]
     lines = tuple(ln for ln in spectrum.lines if ln.wavelength_nm >= UVC_BAND_NM[1])
     if not below.any() and len(lines) == len(spectrum.lines):
         return None
-    return spectrum.derive(values=np.where(below, 0.0, spectrum.values), lines=lines)
+    level = max(median(v[below]), 0.0) if below.any() else 0.0
+    rest = ~below & (wl < STRAY_LEVEL_UP_TO_NM)
+    out = np.where(below, 0.0, v)
+    out[rest] = v[rest] - np.clip(v[rest], 0.0, level)
+    return spectrum.derive(values=out, lines=lines)
 
 
 def uvc_artefacts(spectrum: Spectrum, sigma: float | None = None) -> tuple[Artefact, ...]:
