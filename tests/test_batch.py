@@ -239,9 +239,36 @@ def _all_import_warnings(path):
 
 def test_unexpected_exception_becomes_an_error_row(tmp_path):
     p = B.Product("x", blue_led(tmp_path / "x.csv"), None, "x.csv")
-    with mock.patch.object(B, "assess_product", side_effect=ZeroDivisionError("boom")):
+    with mock.patch.object(B, "prepare_product", side_effect=ZeroDivisionError("boom")):
         row = B.run_product(p, settings())
+        # the same in a chunk, whose first stage reads every file before any is assessed
+        (chunk_row,) = B._run_chunk(([p], settings()))
     assert row["status"] == "error" and "internal error (ZeroDivisionError: boom)" in row["error"]
+    assert chunk_row == row
+    # and where the assessment itself fails
+    from uvcheck.pipeline import Prepared
+
+    with mock.patch.object(Prepared, "assess", side_effect=ZeroDivisionError("late")):
+        (late,) = B._run_chunk(([p], settings()))
+    assert late["status"] == "error" and "ZeroDivisionError: late" in late["error"]
+
+
+def test_a_chunk_gives_the_rows_of_one_product_at_a_time(tmp_path):
+    # _run_chunk reads the files of a group, then assesses them: the same rows, in the same
+    # order, as run_product product by product; with a group limit of one sample too
+    d = tmp_path / "in"
+    d.mkdir()
+    for k in range(4):
+        blue_led(d / f"p{k}.csv", seed=k)
+    (d / "bad.csv").write_text("no numbers here\n", encoding="utf-8")
+    (d / "q.toml").write_text((EXAMPLES / "listings" / "uvc_box_48_leds_8w.toml").read_text(
+        encoding="utf-8"), encoding="utf-8")
+    products = B.scan_folder(d)
+    one_by_one = [B.run_product(p, settings()) for p in products]
+    assert B._run_chunk((products, settings())) == one_by_one
+    with mock.patch.object(B, "STAGE_SAMPLES", 1):
+        assert B._run_chunk((products, settings())) == one_by_one
+    assert [r["status"] for r in one_by_one].count("error") == 1
 
 
 # ---------------------------------------------------------------------------------------------
@@ -309,9 +336,9 @@ def test_resume_keeps_finished_rows_and_redoes_the_rest(tmp_path):
     calls = []
     real = B.run_product
 
-    def counting(p, s):
+    def counting(p, s, *prepared):
         calls.append(p.product_id)
-        return real(p, s)
+        return real(p, s, *prepared)
 
     with mock.patch.object(B, "run_product", counting):
         s = B.run_batch(d, out, settings(), jobs=1, resume=True)

@@ -191,11 +191,51 @@ class ProductInputs:
 DISTANCE_AGREE = 0.01
 
 
+@dataclass(frozen=True)
+class Prepared:
+    """One product read and its conditions built, ready for :meth:`assess`: what
+    :func:`assess_files` hands to :func:`uvcheck.assessment.assess`, or, for a listing
+    screened alone, the finished assessment (``done``)."""
+
+    options: Any
+    done: Any = None
+    spectrum: Any = None
+    conditions: Any = None
+    report: Any = None
+    listing: Any = None
+    extra: Mapping[str, Any] | None = None
+
+    @property
+    def samples(self) -> int:
+        """How many samples the read spectrum holds (0 for a finished screening)."""
+        return 0 if self.spectrum is None else int(self.spectrum.wavelength_nm.size)
+
+    def assess(self) -> Any:
+        """The :class:`~uvcheck.assessment.Assessment`."""
+        if self.done is not None:
+            return self.done
+        from uvcheck.assessment import assess
+
+        return assess(self.spectrum, self.conditions, self.report, self.options,
+                      extra=dict(self.extra) if self.extra else None, listing=self.listing)
+
+
 def assess_files(spectrum_file: Path | None, listing: Any | None, inputs: ProductInputs,
                  options: Any, read_opts: Any = None, *,
                  extra: Callable[[Any, Any], Mapping[str, Any] | None] | None = None,
                  names: Mapping[str, str] | None = None) -> Any:
-    """The :class:`~uvcheck.assessment.Assessment` of one product.
+    """The :class:`~uvcheck.assessment.Assessment` of one product: :func:`prepare_files`,
+    then :meth:`Prepared.assess`."""
+    return prepare_files(spectrum_file, listing, inputs, options, read_opts, extra=extra,
+                         names=names).assess()
+
+
+def prepare_files(spectrum_file: Path | None, listing: Any | None, inputs: ProductInputs,
+                  options: Any, read_opts: Any = None, *,
+                  extra: Callable[[Any, Any], Mapping[str, Any] | None] | None = None,
+                  names: Mapping[str, str] | None = None) -> Prepared:
+    """One product up to its assessment (:class:`Prepared`), from the arguments of
+    :func:`assess_files`.
 
     spectrum_file : the measured spectrum, or None to screen the listing alone.
     listing : a :class:`uvcheck.io.listing.Listing` (its claims are judged; it fills the
@@ -235,8 +275,7 @@ def assess_files(spectrum_file: Path | None, listing: Any | None, inputs: Produc
                                          "measure the lamp, or state lamp.technology or "
                                          "lamp.peak_wavelength (with its power)")
         more = extra(a.spectrum, a.conditions) if extra is not None else None
-        return replace(a, sections={**a.sections, **more}) if more else a
-    from uvcheck.assessment import assess
+        return Prepared(options, done=replace(a, sections={**a.sections, **more}) if more else a)
     from uvcheck.io.reader import read_spectrum
 
     spec, report = read_spectrum(spectrum_file, read_opts)
@@ -262,8 +301,8 @@ def assess_files(spectrum_file: Path | None, listing: Any | None, inputs: Produc
                                    names=names,
                                    **emitter_options(inputs.emitter, inputs.tube_length, names))
     more = extra(spec, cond) if extra is not None else None
-    return assess(spec, cond, report, options, extra=dict(more) if more else None,
-                  listing=listing)
+    return Prepared(options, spectrum=spec, conditions=cond, report=report, listing=listing,
+                    extra=more or None)
 
 
 def _with_repeats(spec: Any, report: Any, first: Path, repeats: Sequence[Path],
