@@ -61,6 +61,11 @@ CASES = {
                           "utf-8", "comma", ".", "irradiance"),
     "radiance.csv": (lambda: "Wavelength [nm],Radiance [W/(m²·sr·nm)]\n" + rows("{:.1f}|{:.8e}"),
                      "utf-8", "comma", ".", "radiance"),
+    # a unit whose denominator is bracketed, written after the name without brackets of its own
+    "radiance_bare_denominator.csv": (lambda: "Wavelength nm,Spectral radiance W/(m2 sr nm)\n"
+                                      + rows("{:.1f}|{:.8e}"), "utf-8", "comma", ".", "radiance"),
+    "irradiance_bare_denominator.csv": (lambda: "nm,E mW/(m^2*nm)\n" + rows("{:.1f}|{:.8e}", scale=1000),
+                                        "utf-8", "comma", ".", "irradiance"),
     "flux_mw.csv": (lambda: "Wavelength [nm],Flux [mW/nm]\n" + rows("{:.1f}|{:.8e}", scale=1000),
                     "utf-8", "comma", ".", "flux"),
     "counts_relative.csv": (lambda: "Wavelength (nm),Intensity (counts)\n" + rows("{:.1f}|{:.8e}", scale=5e6),

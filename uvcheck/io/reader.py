@@ -732,12 +732,20 @@ _UNIT_IN_BRACKETS = re.compile(r"[\[(]([^\[\]()]*(?:\([^()]*\)[^\[\]()]*)*)[\])]
 
 def _unit_from_header(cell: str) -> str | None:
     """A unit written in a column name: 'Irradiance (µW/cm²/nm)', 'E [W m-2 nm-1]',
-    'irradiance_W_m2_nm', 'Irradiance, W/m2/nm', or the whole cell."""
+    'irradiance_W_m2_nm', 'Irradiance, W/m2/nm', 'Radiance W/(m2 sr nm)' (a bracket that
+    follows '/' is the unit's own), or the whole cell.
+
+    >>> _unit_from_header("Spectral radiance W/(m2 sr nm)"), _unit_from_header("E (W/(m2·nm))")
+    ('W/(m2 sr nm)', 'W/(m2·nm)')
+    """
     c = cell.strip()
     if not c:
         return None
     m = _UNIT_IN_BRACKETS.search(c)
     if m and m.group(1).strip():
+        if m.start() > 0 and c[m.start() - 1] in "/·*.^":
+            # 'W/(m2 nm)': the bracket is the unit's denominator, the unit starts before it
+            return c[c.rfind(" ", 0, m.start()) + 1:].strip()
         return m.group(1).strip()
     if "," in c:
         tail = c.rsplit(",", 1)[1].strip()
