@@ -66,6 +66,14 @@ CASES = {
                                       + rows("{:.1f}|{:.8e}"), "utf-8", "comma", ".", "radiance"),
     "irradiance_bare_denominator.csv": (lambda: "nm,E mW/(m^2*nm)\n" + rows("{:.1f}|{:.8e}", scale=1000),
                                         "utf-8", "comma", ".", "irradiance"),
+    # ISO 80000-1 'quantity / unit' headings, and a unit of several words after the name
+    "iso_quantity_over_unit.csv": (lambda: "λ / nm,E(λ) / W m-2 nm-1\n" + rows("{:.1f}|{:.8e}"),
+                                   "utf-8", "comma", ".", "irradiance"),
+    "quantity_over_bracketed_unit.csv": (lambda: "Wavelength/(nm),Irradiance/(W/m2/nm)\n"
+                                         + rows("{:.1f}|{:.8e}"), "utf-8", "comma", ".", "irradiance"),
+    "spaced_unit_words.tsv": (lambda: "Wavelength nm\tIrr. uW cm-2 nm-1\n"
+                              + rows("{:.1f}|{:.8f}", scale=100, sep="\t"),
+                              "utf-8", "tab", ".", "irradiance"),
     "flux_mw.csv": (lambda: "Wavelength [nm],Flux [mW/nm]\n" + rows("{:.1f}|{:.8e}", scale=1000),
                     "utf-8", "comma", ".", "flux"),
     "counts_relative.csv": (lambda: "Wavelength (nm),Intensity (counts)\n" + rows("{:.1f}|{:.8e}", scale=5e6),

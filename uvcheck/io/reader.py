@@ -78,8 +78,10 @@ _STARTS_NUMERIC = re.compile(r"^\s*[-+]?(\d|[.,]\d)")
 _COMMENT = re.compile(r"^\s*(#|//|%|!|\*|REM\b)")
 _SECTION = re.compile(r"^\s*\[([^\]]+)\]\s*$")
 _KEYVAL = re.compile(r"^\s*([^:=;\t]{1,60}?)\s*(?::|=|;|\t)\s*(.*?)\s*;*\s*$")
-_WL_NAME = re.compile(r"(?i)(wave\s*length|wavelength|wellenl|longueur|lambda|λ|^\s*wl\b|^\s*nm\b|"
-                      r"^\s*(x|wave)\s*(\[|\(|$))")
+#: A wavelength column's name; λ as an argument or subscript ('E(λ)', 'E_λ', 'E_e,λ': a spectral
+#: density) is not one.
+_WL_NAME = re.compile(r"(?i)(wave\s*length|wavelength|wellenl|longueur|(?<![(_,])(lambda|λ)(?!\s*\))|"
+                      r"^\s*wl\b|^\s*nm\b|^\s*(x|wave)\s*(\[|\(|$))")
 _INDEX_NAME = re.compile(r"(?i)^\s*(pixel|pix|index|idx|#|no\.?|n|i|channel|ch|row)\s*(\[.*\]|\(.*\))?\s*$")
 _RAMAN = re.compile(r"(?i)raman")
 _WAVENUMBER = re.compile(r"(?i)wave\s*number|cm\s*-\s*1|cm⁻¹|1/cm")
@@ -730,13 +732,30 @@ def _no_rows_error(lines: list[str], first: int, where: str) -> InputFormatError
 _UNIT_IN_BRACKETS = re.compile(r"[\[(]([^\[\]()]*(?:\([^()]*\)[^\[\]()]*)*)[\])]\s*$")
 
 
+def _reads_as_unit(text: str) -> bool:
+    """Whether the text parses as a spectral or a wavelength unit."""
+    for parse in (parse_spectral_unit, parse_wavelength_unit):
+        try:
+            parse(text)
+            return True
+        except UnitError:
+            pass
+    return False
+
+
 def _unit_from_header(cell: str) -> str | None:
     """A unit written in a column name: 'Irradiance (µW/cm²/nm)', 'E [W m-2 nm-1]',
+    'E / (W m^-2 nm^-1)' and 'E(λ) / W m-2 nm-1' (ISO 80000-1: quantity / unit),
     'irradiance_W_m2_nm', 'Irradiance, W/m2/nm', 'Radiance W/(m2 sr nm)' (a bracket that
-    follows '/' is the unit's own), or the whole cell.
+    follows 'W/' is the unit's own), 'Irr. uW cm-2 nm-1' (the longest ending that reads as a
+    unit), or the whole cell.
 
     >>> _unit_from_header("Spectral radiance W/(m2 sr nm)"), _unit_from_header("E (W/(m2·nm))")
     ('W/(m2 sr nm)', 'W/(m2·nm)')
+    >>> _unit_from_header("E(λ) / W m-2 nm-1"), _unit_from_header("Irr. uW cm-2 nm-1")
+    ('W m-2 nm-1', 'uW cm-2 nm-1')
+    >>> _unit_from_header("Irradiance/(W/m2/nm)")
+    'W/m2/nm'
     """
     c = cell.strip()
     if not c:
@@ -744,9 +763,16 @@ def _unit_from_header(cell: str) -> str | None:
     m = _UNIT_IN_BRACKETS.search(c)
     if m and m.group(1).strip():
         if m.start() > 0 and c[m.start() - 1] in "/·*.^":
-            # 'W/(m2 nm)': the bracket is the unit's denominator, the unit starts before it
-            return c[c.rfind(" ", 0, m.start()) + 1:].strip()
+            # 'W/(m2 nm)': the bracket is the unit's denominator, the unit starts before it;
+            # 'Irradiance/(W/m2/nm)' is a quantity over its unit
+            whole = c[c.rfind(" ", 0, m.start()) + 1:].strip()
+            if _reads_as_unit(whole):
+                return whole
         return m.group(1).strip()
+    if " / " in c:
+        tail = c.rsplit(" / ", 1)[1].strip()
+        if tail:
+            return tail
     if "," in c:
         tail = c.rsplit(",", 1)[1].strip()
         if tail:
@@ -762,6 +788,10 @@ def _unit_from_header(cell: str) -> str | None:
             return c
     parts = c.split()
     if len(parts) >= 2:
+        for k in range(1, len(parts)):   # the longest ending that reads as a unit
+            tail = " ".join(parts[k:])
+            if _reads_as_unit(tail):
+                return tail
         return parts[-1]
     return c
 
