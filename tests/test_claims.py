@@ -259,3 +259,16 @@ text = "kills 99.9% of E. coli and Staphylococcus aureus in 8 seconds at 20 cm"
                                                   "Staphylococcus aureus": "not-assessable"}
     assert v["mixed"]["verdict"] == "unlikely"
     assert "E. coli decides it" in v["mixed"]["basis"]
+
+
+def test_safety_for_plants_and_pets_says_the_human_limits_are_a_proxy():
+    # no exposure limits exist for animals or plants; the verdict uses the human ones
+    # (IEC 62471:2006 / ICNIRP) and says so. A 253.7 nm line of 1 mW/m² at 1 m:
+    # E_S = 1e-3 · S(253.7) ≈ 5e-4 W/m², t_max = 30 / 5e-4 ≈ 17 h > 8 h: within the limits
+    # (not confirmed: the line-only spectrum leaves L_R and E_IR unassessed)
+    lst = listing('[[claims]]\nid = "p"\nkind = "safety"\ntext = "safe for plants and pets"\n'
+                  'safe_for = ["plants", "pets"]\ndistance = "1 m"\n')
+    v = verdicts_measured(hg_line(1e-3), lst)["p"]
+    assert v.verdict == "not-assessable" and "within the limits so far" in v.basis
+    text = " ".join(v.assumptions)
+    assert "no exposure limits exist for plants" in text and "for animals" in text

@@ -1502,6 +1502,10 @@ def _safety_verdict(c: Any, ev: Evidence) -> Verdict:
     if "pets" in c.safe_for or "animals" in c.safe_for:
         assumptions.append("no exposure limits exist for animals; the human limits are used as a "
                            "proxy (common practice)")
+    if "plants" in c.safe_for:
+        assumptions.append("no exposure limits exist for plants; the human limits are used as a "
+                           "proxy (our own choice): UV-C and UV-B damage leaves as they damage "
+                           "skin")
     lnamed = ev.limits_named()
     # an estimate: every case of every reading not refuted must stay within the limits
     cases = [x for x in ev.safety_cases() if x is not r] if not ev.measured else []
