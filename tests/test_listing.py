@@ -353,3 +353,18 @@ def test_marketplace_wordings(text, kind, fields):
                                   "Warning: harmful UV, not safe for eyes"])
 def test_wordings_that_are_not_safety_claims(text):
     assert parse_claim_text(text).kind == "unrecognised"
+
+
+@pytest.mark.parametrize("text, kind", [("removes odors and smells", "unrecognised"),
+                                        ("reduces formaldehyde", "unrecognised"),
+                                        ("eliminates 99% of odour-causing bacteria in 30 min",
+                                         "inactivation"),
+                                        ("kills germs and removes odours in 30 min at 1 m",
+                                         "inactivation")])
+def test_odour_removal_is_not_a_germicidal_claim(text, kind):
+    # a kill word about smells or fumes, with no organism or reduction, is no inactivation
+    # claim (uvcheck's reading of plain wording); one that names germs still is
+    c = parse_claim_text(text)
+    assert c.kind == kind
+    if kind == "unrecognised":
+        assert "not germs" in c.note

@@ -947,6 +947,9 @@ _KILL_RE = re.compile(r"\b(kill\w*|inactivat\w*|eliminat\w*|destroy\w*|remov\w*|
                       # French and German wordings of the same (our own short list)
                       r"tuent?|élimin\w*|détrui\w*|désinfect\w*|tötet|abtöt\w*|vernicht\w*|"
                       r"beseitig\w*|desinfizier\w*)\b", re.I)
+#: What a lamp may claim to remove that is no organism (odours, fumes).
+_ODOUR_RE = re.compile(r"\b(?:odou?rs?|smells?|stinks?|fumes?|formaldehyde|vocs?|geruch\w*|"
+                       r"odeurs?)\b", re.I)
 #: Generic organism words of other languages, read as their English word.
 _FOREIGN_ORG = {"bactéries": "bacteria", "bacteries": "bacteria", "germes": "germs",
                 "microbes": "microbes", "bakterien": "bacteria", "keime": "germs",
@@ -1290,7 +1293,11 @@ def parse_claim_text(text: str, claim_id: str = "c1", kind: str | None = None) -
     # time) is a coverage statement
     size_only = (not has_reduction and not org and "time_s" not in q and "time_word" not in q
                  and ("area_m2" in q or "volume_m3" in q))
-    if (_KILL_RE.search(text) and not size_only) or (has_reduction and org and not efficiency):
+    # "removes odours": a kill word about smells, with no organism or reduction, is no
+    # germicidal claim
+    odour_only = bool(_ODOUR_RE.search(text)) and not org and not has_reduction
+    if ((_KILL_RE.search(text) and not size_only and not odour_only)
+            or (has_reduction and org and not efficiency)):
         kinds.append("inactivation")
     if efficiency:
         kinds.append("efficiency")
@@ -1324,6 +1331,8 @@ def parse_claim_text(text: str, claim_id: str = "c1", kind: str | None = None) -
             note = "mentions ozone but does not say 'ozone-free'"
         elif _SAFE_RE.search(text):
             note = "reads as a warning or a negation, not a safety claim"
+        elif _ODOUR_RE.search(text) and _KILL_RE.search(text):
+            note = "about odours or fumes, not germs: not a germicidal claim"
         return Claim(id=claim_id, kind="unrecognised", text=original, structured=False, note=note)
     # ``kind``: read the text as that one of the kinds it makes (each part of a text that
     # makes several claims is judged; claims.evaluate_claims)
