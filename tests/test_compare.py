@@ -68,3 +68,22 @@ def test_different_quantities_do_not_compare():
     b = {"input": {"quantity": "relative"}, "conditions": {}}
     with pytest.raises(ConfigurationError, match="different quantities"):
         compare(a, b)
+
+
+def test_values_below_detection_read_as_bounds(tmp_path):
+    # a 365 nm LED has no UV-C or UV-B above the noise: those rows show the detection limit as
+    # "< x" (DEVELOPERS.md: below the detection limit is reported as "< X", never as a number),
+    # as the assessment itself shows them, and give no ratio
+    r, c = run(tmp_path, write(tmp_path / "s.csv", 1.3), write(tmp_path / "r.csv", 1.0))
+    assert r.exit_code == 0, r.output
+    uvb = next(x for x in c["bands"] if x["name"] == "UV-B")
+    assert uvb["sample_status"] == "below-detection" and uvb["ratio"] is None
+    assert uvb["sample_text"].startswith("< ")
+    row = next(ln for ln in r.output.splitlines() if ln.strip().startswith("UV-B "))
+    assert row.count("< ") == 2
+    # E_IR, measured only to 800 nm and at noise level there: "< x so far", not a number
+    ir = next(x for x in c["hazards"] if x["id"] == "ir_eye")
+    assert ir["sample_status"] == "partial" and ir["sample_text"].startswith("< ")
+    assert ir["sample_text"].endswith("so far")
+    line = next(ln for ln in r.output.splitlines() if ln.strip().startswith("E_IR "))
+    assert line.split()[1] == "<"

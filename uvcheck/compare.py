@@ -38,13 +38,16 @@ def _why_none(sa: str | None, sb: str | None) -> str:
     return "no ratio: " + ", ".join(bad) if bad else "no ratio: a value is zero or missing"
 
 
-def _row(name: str, unit: str | None, va: Any, sa: str | None, vb: Any, sb: str | None
-         ) -> dict[str, Any]:
+def _row(name: str, unit: str | None, va: Any, sa: str | None, vb: Any, sb: str | None,
+         ta: str | None = None, tb: str | None = None) -> dict[str, Any]:
+    """ta, tb : the values as the assessment shows them ('< 1.2e-05', '≥ 0.3'), where the
+    number alone would mislead (a detection limit, a lower bound)."""
     ok = sa in _ESTABLISHED and sb in _ESTABLISHED
     r = _ratio(va, vb) if ok else None
     return {"name": name, "unit": unit, "sample": va, "sample_status": sa, "reference": vb,
             "reference_status": sb, "ratio": r,
-            "note": None if r is not None else _why_none(sa, sb)}
+            "note": None if r is not None else _why_none(sa, sb),
+            "sample_text": ta, "reference_text": tb}
 
 
 def _position(d: Mapping[str, Any]) -> float | None:
@@ -67,6 +70,7 @@ def compare(sample: Mapping[str, Any], reference: Mapping[str, Any]) -> dict[str
     (0.5, 1.0)
     """
     from uvcheck.errors import ConfigurationError
+    from uvcheck.report.terminal import _band_value, _hazard_value
 
     qa = (sample.get("input") or {}).get("quantity")
     qb = (reference.get("input") or {}).get("quantity")
@@ -85,7 +89,8 @@ def compare(sample: Mapping[str, Any], reference: Mapping[str, Any]) -> dict[str
     for name, x in (sample.get("bands") or {}).items():
         y = bb.get(name) or {}
         bands.append(_row(name, x.get("unit"), x.get("value"), x.get("status"), y.get("value"),
-                          y.get("status")))
+                          y.get("status"), _band_value(x, "value") if x else None,
+                          _band_value(y, "value") if y else None))
     hz = []
     ha, hb = sample.get("hazards") or {}, reference.get("hazards") or {}
     for hid in HAZARD_IDS:
@@ -93,7 +98,7 @@ def compare(sample: Mapping[str, Any], reference: Mapping[str, Any]) -> dict[str
         if not x or not y:
             continue
         row = _row(x.get("symbol") or hid, x.get("unit"), x.get("value"), x.get("status"),
-                   y.get("value"), y.get("status"))
+                   y.get("value"), y.get("status"), _hazard_value(x), _hazard_value(y))
         row.update(id=hid, sample_group=x.get("risk_group"), reference_group=y.get("risk_group"))
         hz.append(row)
     ua = (sample.get("germicidal") or {}).get("uvc") or {}
@@ -160,8 +165,10 @@ def render_comparison(c: Mapping[str, Any]) -> str:
         out.append(f"{title:<30} {'sample':>12}  {'reference':>12}  {'unit':<12} sample/reference")
         for r in rows:
             ratio = f"{r['ratio']:.3g} ×" if r["ratio"] is not None else r["note"]
-            out.append(f"  {r['name']:<28} {num(r['sample'], r['sample_status']):>12}  "
-                       f"{num(r['reference'], r['reference_status']):>12}  "
+            # as the assessment shows them: a detection limit as '< x', a lower bound '≥ x'
+            sa = r.get("sample_text") or num(r["sample"], r["sample_status"])
+            ra = r.get("reference_text") or num(r["reference"], r["reference_status"])
+            out.append(f"  {r['name']:<28} {sa:>12}  {ra:>12}  "
                        f"{r['unit'] or '':<12} {ratio}")
         out.append("")
     out.append("Differences" if c["differences"] else "No difference beyond "
