@@ -70,7 +70,7 @@ def compare(sample: Mapping[str, Any], reference: Mapping[str, Any]) -> dict[str
     (0.5, 1.0)
     """
     from uvcheck.errors import ConfigurationError
-    from uvcheck.report.terminal import _band_value, _hazard_value
+    from uvcheck.report.terminal import band_value_text, hazard_value_text
 
     qa = (sample.get("input") or {}).get("quantity")
     qb = (reference.get("input") or {}).get("quantity")
@@ -89,8 +89,8 @@ def compare(sample: Mapping[str, Any], reference: Mapping[str, Any]) -> dict[str
     for name, x in (sample.get("bands") or {}).items():
         y = bb.get(name) or {}
         bands.append(_row(name, x.get("unit"), x.get("value"), x.get("status"), y.get("value"),
-                          y.get("status"), _band_value(x, "value") if x else None,
-                          _band_value(y, "value") if y else None))
+                          y.get("status"), band_value_text(x, "value") if x else None,
+                          band_value_text(y, "value") if y else None))
     hz = []
     ha, hb = sample.get("hazards") or {}, reference.get("hazards") or {}
     for hid in HAZARD_IDS:
@@ -98,7 +98,7 @@ def compare(sample: Mapping[str, Any], reference: Mapping[str, Any]) -> dict[str
         if not x or not y:
             continue
         row = _row(x.get("symbol") or hid, x.get("unit"), x.get("value"), x.get("status"),
-                   y.get("value"), y.get("status"), _hazard_value(x), _hazard_value(y))
+                   y.get("value"), y.get("status"), hazard_value_text(x), hazard_value_text(y))
         row.update(id=hid, sample_group=x.get("risk_group"), reference_group=y.get("risk_group"))
         hz.append(row)
     ua = (sample.get("germicidal") or {}).get("uvc") or {}

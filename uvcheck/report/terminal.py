@@ -67,7 +67,8 @@ def _pct(x: float | None) -> str:
     return "—" if x is None else (f"{100 * x:.3g} %" if x < 0.999995 or x > 1 else "100 %")
 
 
-def _band_value(b: dict, key: str) -> str:
+def band_value_text(b: dict, key: str) -> str:
+    """A band's value as shown: '< x' below detection, '≥ x' partly measured."""
     if b["status"] == "not-covered":
         return "—"
     if b["status"] == "below-detection" or b.get("below_detection"):
@@ -171,8 +172,8 @@ def render_assessment(d: dict) -> str:
     trade = any_b["trade_unit"]
     rows = []
     for name, b in bands.items():
-        rows.append([name, f"{b['range_nm'][0]:g}–{b['range_nm'][1]:g}", _band_value(b, "value"),
-                     _band_value(b, "value_trade"), _pct(b["fraction"]), _pct(b["coverage"]),
+        rows.append([name, f"{b['range_nm'][0]:g}–{b['range_nm'][1]:g}", band_value_text(b, "value"),
+                     band_value_text(b, "value_trade"), _pct(b["fraction"]), _pct(b["coverage"]),
                      status_text(b["status"], d, bool(b.get("below_detection")))])
     out.append(table(["band", "nm", unit, trade, "share", "coverage", "status"], rows,
                      right=(2, 3, 4, 5)))
@@ -227,7 +228,8 @@ def group_text(group: str | None, lower: bool, bound: str | None = None) -> str:
     return group
 
 
-def _hazard_value(h: dict) -> str:
+def hazard_value_text(h: dict) -> str:
+    """A hazard's value as shown: '< x' below detection, '≥ x' partly measured."""
     if h["value"] is None:
         return "—"
     dl = h.get("detection_limit")
@@ -314,7 +316,7 @@ def render_hazards(hazards: dict, d: dict) -> list[str]:
     rows = []
     for hid, h in hazards.items():
         tmax = tmax_text(hid, h)
-        rows.append([f"{h['symbol']} {SHORT_HAZARD.get(hid, hid)}", _hazard_value(h), h["unit"],
+        rows.append([f"{h['symbol']} {SHORT_HAZARD.get(hid, hid)}", hazard_value_text(h), h["unit"],
                      sig(h["limit"]) if h["limit"] is not None else "—", tmax,
                      group_text(h["risk_group"], h["risk_group_is_lower_bound"], h.get("risk_group_bound")),
                      _pct(h["coverage"]) if h["coverage"] is not None else "—",
@@ -391,7 +393,7 @@ def render_hazards(hazards: dict, d: dict) -> list[str]:
                 else:
                     t = "no time limit within the limit's range" + (" so far" if upper else "")
                 t += " (measured part only)" if upper else ""
-                out.append(f"  {h['symbol']} {_hazard_value(h)} {h['unit']}; t_max {t}")
+                out.append(f"  {h['symbol']} {hazard_value_text(h)} {h['unit']}; t_max {t}")
     return out
 
 
