@@ -122,3 +122,16 @@ def test_a_modelled_led_tail_below_240_nm_does_not_decide_ozone(tmp_path):
     d = _screen_text(tmp_path, "230 nm")
     assert d["germicidal"]["ozone"]["status"] == "present"
     assert next(c for c in d["claims"] if c["id"] == "oz")["verdict"] == "cannot-hold"
+
+
+def test_a_model_without_the_mercury_line_does_not_say_it_was_not_found(tmp_path):
+    # an estimate models a line or does not: "not found" would read as a search of a
+    # measurement; the terminal and the note say the same
+    from uvcheck.report.note import spectral_facts
+
+    d = _screen_text(tmp_path, "265 nm")
+    r = CliRunner().invoke(app, ["screen", str(tmp_path / "bulb_265nm.toml")])
+    line = next(ln for ln in r.output.splitlines() if ln.startswith("Mercury 253.7 nm line"))
+    assert line.endswith("not in the model (no mercury lamp)")
+    facts = {f["label"]: f["value"] for f in spectral_facts(d)}
+    assert facts["Mercury 253.7 nm line"] == "not in the model (no mercury lamp)"

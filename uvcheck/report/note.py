@@ -20,8 +20,8 @@ from typing import Any, Iterable, Mapping
 
 from uvcheck.germicidal import UVC_EMITTING
 from uvcheck.limits import GROUPS
-from uvcheck.report.terminal import (hazard_below_detection, is_estimate, listing_only,
-                                     no_assessment_distance, status_text,
+from uvcheck.report.terminal import (hazard_below_detection, hg_line_text, is_estimate,
+                                     listing_only, no_assessment_distance, status_text,
                                      tmax_is_upper_bound)
 from uvcheck.spectrum import partly_measured
 from uvcheck.report.cautions import (DOES_NOT_COVER, DOES_NOT_COVER_ESTIMATE,
@@ -391,8 +391,8 @@ def spectral_facts(result: Result) -> list[dict[str, str]] | None:
     lines = [ln.get("identified_as") for ln in sp.get("lines") or [] if ln.get("identified_as")]
     if lines:
         out.append({"label": "Lines identified", "value": ", ".join(lines)})
-    hg = ("modelled" if is_estimate(result) else "present") if sp.get("hg_253_7_present") else "not found"
-    out.append({"label": "Mercury 253.7 nm line", "value": hg})
+    out.append({"label": "Mercury 253.7 nm line",
+                "value": hg_line_text(sp.get("hg_253_7_present"), result)})
     ph = result.get("photometry") or {}
     if ph.get("value") is not None:
         out.append({"label": "Illuminance at the measurement position",

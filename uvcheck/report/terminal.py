@@ -44,6 +44,14 @@ def status_text(status: str, d: dict, below: bool = False) -> str:
     return (ESTIMATE_STATUS_TEXT if is_estimate(d) else STATUS_TEXT).get(status, status)
 
 
+def hg_line_text(present: Any, d: Mapping[str, Any]) -> str:
+    """Whether the mercury 253.7 nm line is there, in words; an estimate models it or not,
+    nothing was found or missed in it."""
+    if is_estimate(d):
+        return "modelled" if present else "not in the model (no mercury lamp)"
+    return "present" if present else "not found"
+
+
 def hazard_below_detection(h: Mapping[str, Any]) -> bool:
     """The hazard's value is under its detection limit (whatever its coverage)."""
     v, dl = h.get("value"), h.get("detection_limit")
@@ -187,8 +195,7 @@ def render_assessment(d: dict) -> str:
                  for ln in sp["lines"][:8]]
         out.append(("Emission lines modelled: " if is_estimate(d) else "Emission peaks found: ")
                    + ", ".join(names))
-    out.append("Mercury 253.7 nm line: " + (("modelled" if is_estimate(d) else "present")
-                                            if sp["hg_253_7_present"] else "not found"))
+    out.append("Mercury 253.7 nm line: " + hg_line_text(sp["hg_253_7_present"], d))
     ph = d["photometry"]
     if ph["value"] is not None:
         out.append(f"{ph['quantity'].replace('_', ' ').capitalize()}: {sig(ph['value'])} {ph['unit']}"
