@@ -143,7 +143,7 @@ def spectrum_figure(spectrum: Any, result: Result) -> Any:
         ax0.plot(wl, v, color="#111", lw=0.9, zorder=3, label=what)
         ax0.set_ylabel(ylabel)
         ax0.set_ylim(min(0.0, float(np.min(v))) if v.size else 0.0, peak * 1.15 if peak > 0 else 1.0)
-        ax0.set_title("Spectrum, linear scale (weightings on the right axis, 0–1)", loc="left", y=1.0)
+        ax0.set_title("Spectrum, linear scale (weightings on the right axis)", loc="left", y=1.0)
         pos = np.where(v > 0, v, np.nan)
         ax1.plot(wl, pos, color="#111", lw=0.8, zorder=3, label=f"{what} (values > 0)")
         floor = noise if noise and noise > 0 else None
@@ -171,6 +171,7 @@ def spectrum_figure(spectrum: Any, result: Result) -> Any:
                          xytext=(0, 4), textcoords="offset points", fontsize=6.2, color="#333",
                          ha="center", va="bottom", rotation=90, zorder=6)
         tw0, tw1 = ax0.twinx(), ax1.twinx()
+        top = 1.0   # the highest weighting drawn (a germicidal proxy exceeds 1 below 240 nm)
         for wid, label, col, ls in OVERLAYS:
             try:
                 w = get_weighting(wid)
@@ -183,7 +184,8 @@ def spectrum_figure(spectrum: Any, result: Result) -> Any:
             y = w(x)
             tw0.plot(x, y, color=col, ls=ls, lw=1.1, label=label)
             tw1.plot(x, np.where(y > 0, y, np.nan), color=col, ls=ls, lw=1.1, label=label)
-        tw0.set_ylim(0, 1.15)
+            top = max(top, float(np.nanmax(y)))
+        tw0.set_ylim(0, 1.15 * top)   # no curve runs off the top
         tw1.set_yscale("log")
         _log_axis(tw1.yaxis)
         tw1.set_ylim(1e-5, 3)
