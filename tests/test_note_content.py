@@ -540,3 +540,19 @@ def test_note_spells_out_cjk_unit_characters_its_fonts_lack(tmp_path):
     assert result["claims"][0]["text"] == "for rooms up to 30㎡"
     view = note.build_note(result, date="2026-01-01", references=[])
     assert view["claims"][0]["text"].endswith("30m²") and "㎡" not in str(view)
+
+
+def test_no_weighting_runs_off_the_top_of_the_spectrum_figure(tmp_path):
+    # the germicidal proxy exceeds 1 below 240 nm (DNA absorption rises there): the weighting
+    # axis of the linear plot must reach the highest weighting drawn, so no curve is clipped
+    res, spec = note_result(*TUBE, distance="1 m")
+    fig = figures.spectrum_figure(spec, res)
+    try:
+        tw0 = fig.axes[2]   # the first twin axis (linear plot's weightings)
+        top = max(float(np.nanmax(ln.get_ydata())) for ln in tw0.get_lines())
+        assert top > 1.0                      # the proxy is drawn above 1 in this range
+        assert tw0.get_ylim()[1] >= top
+    finally:
+        import matplotlib.pyplot as plt
+
+        plt.close(fig)
