@@ -250,3 +250,35 @@ def test_partly_measured_hazard_below_detection_reads_as_such(tmp_path):
     # the band table words a partly measured band under its detection limit the same way
     uvc = next(ln for ln in r.output.splitlines() if ln.strip().startswith("UV-C "))
     assert "< " in uvc and "partly measured, below detection" in uvc and "lower bound" not in uvc
+
+
+@pytest.mark.parametrize("case", ["gap", "edge"])
+def test_a_peak_at_a_gap_or_the_data_edge_is_flagged(tmp_path, case):
+    # invented files: a violet band at 410 nm whose top falls in a 399-420 nm gap, and a
+    # UV-C LED at 265 nm measured from 270 nm only: the highest sample is not the lamp's peak,
+    # and the terminal and the note say so
+    from uvcheck.cli_note import note_result
+    from uvcheck.report.note import spectral_facts
+
+    if case == "gap":
+        wl = np.concatenate([np.arange(200.0, 400.0), np.arange(420.0, 900.0)])
+        v = gaussian(wl, 410.0, 8.0, 0.5)
+    else:
+        wl = np.arange(270.0, 500.0, 0.5)
+        v = gaussian(wl, 265.0, 5.0, 0.01)
+    v = v + 1e-6 * np.sin(wl)
+    p = tmp_path / f"{case}.csv"
+    p.write_text("wavelength_nm,irradiance_W_m2_nm\n"
+                 + "\n".join(f"{a:.1f},{b:.6e}" for a, b in zip(wl, v)), encoding="utf-8")
+    r = runner.invoke(app, ["assess", str(p), "--no-uncertainty"])
+    assert r.exit_code == 0, r.output
+    words = "edge of a gap" if case == "gap" else "end of the data"
+    assert words in r.output
+    res, _ = note_result(p, None)
+    peak = next(f for f in spectral_facts(res) if f["label"] == "Peak")
+    assert words in peak["value"]
+
+
+def test_a_peak_inside_the_data_is_not_flagged(lamp_file):
+    r = runner.invoke(app, ["assess", str(lamp_file)])
+    assert "edge of a gap" not in r.output and "end of the data" not in r.output

@@ -21,8 +21,8 @@ from typing import Any, Iterable, Mapping
 from uvcheck.germicidal import UVC_EMITTING
 from uvcheck.limits import GROUPS
 from uvcheck.report.terminal import (hazard_below_detection, hg_line_text, is_estimate,
-                                     listing_only, no_assessment_distance, status_text,
-                                     tmax_is_upper_bound)
+                                     listing_only, no_assessment_distance, peak_caveat,
+                                     status_text, tmax_is_upper_bound)
 from uvcheck.spectrum import partly_measured
 from uvcheck.report.cautions import (DOES_NOT_COVER, DOES_NOT_COVER_ESTIMATE,
                                      DOES_NOT_COVER_LISTING, LOCAL_CODES, applicable)
@@ -384,8 +384,10 @@ def spectral_facts(result: Result) -> list[dict[str, str]] | None:
         return None
     out = []
     if sp.get("peak_nm") is not None:
+        caveat = peak_caveat(result)
         out.append({"label": "Peak", "value": f"{sp['peak_nm']:.4g} nm"
-                    + (f", FWHM {sig(sp['fwhm_nm'])} nm" if sp.get("fwhm_nm") else "")})
+                    + (f", FWHM {sig(sp['fwhm_nm'])} nm" if sp.get("fwhm_nm") else "")
+                    + (f" ({caveat})" if caveat else "")})
     if sp.get("centroid_nm") is not None:
         out.append({"label": "Centroid", "value": f"{sp['centroid_nm']:.4g} nm"})
     lines = [ln.get("identified_as") for ln in sp.get("lines") or [] if ln.get("identified_as")]

@@ -44,6 +44,30 @@ def status_text(status: str, d: dict, below: bool = False) -> str:
     return (ESTIMATE_STATUS_TEXT if is_estimate(d) else STATUS_TEXT).get(status, status)
 
 
+def peak_caveat(d: Mapping[str, Any]) -> str | None:
+    """Why the highest sample may not be the lamp's peak: it lies at the edge of a gap in the
+    data, or at the first or last sample (the output may rise on beyond it); None otherwise.
+
+    >>> peak_caveat({"spectral": {"peak_nm": 420.0}, "input": {"range_nm": [200, 900],
+    ...              "step_nm": 1.0, "inferred": {"gaps_nm": [[399.0, 420.0]]}}})
+    'the highest sample lies at the edge of a gap in the data (399–420 nm): the true peak, and the FWHM, may lie in the gap'
+    """
+    pk = (d.get("spectral") or {}).get("peak_nm")
+    inp = d.get("input") or {}
+    if pk is None or is_estimate(d):
+        return None
+    tol = 1.5 * (inp.get("step_nm") or 0.0) + 1e-9
+    for a, b in (inp.get("inferred") or {}).get("gaps_nm") or ():
+        if abs(pk - a) <= tol or abs(pk - b) <= tol:
+            return (f"the highest sample lies at the edge of a gap in the data ({a:g}–{b:g} nm): "
+                    "the true peak, and the FWHM, may lie in the gap")
+    lo, hi = inp.get("range_nm") or (None, None)
+    if lo is not None and (abs(pk - lo) <= tol or abs(pk - hi) <= tol):
+        return (f"the highest sample is at the end of the data ({sig(pk, 4)} nm): the output may "
+                "rise on beyond it, so the true peak may lie outside the measured range")
+    return None
+
+
 def hg_line_text(present: Any, d: Mapping[str, Any]) -> str:
     """Whether the mercury 253.7 nm line is there, in words; an estimate models it or not,
     nothing was found or missed in it."""
@@ -190,6 +214,9 @@ def render_assessment(d: dict) -> str:
     out.append("")
     pk = f"Peak {sig(sp['peak_nm'], 4)} nm" if sp["peak_nm"] is not None else "No peak"
     out.append(f"{pk}; centroid {sig(sp['centroid_nm'], 4)} nm; FWHM {sig(sp['fwhm_nm'])} nm")
+    caveat = peak_caveat(d)
+    if caveat:
+        out += wrap(f"({caveat})", 2)
     if sp["lines"]:
         names = [f"{sig(ln['wavelength_nm'], 4)} nm" + (f" ({ln['identified_as']})" if ln["identified_as"] else "")
                  for ln in sp["lines"][:8]]
