@@ -107,3 +107,51 @@ def test_cutting_away_part_of_uv_c_never_turns_a_verdict_into_holds():
     assert fv["uvc"] == "cannot-hold"
     assert pv["uvc"] != "holds"
     assert [a.kind for a in evaluate_germicidal(part, cond).artefacts] == ["data-edge"]
+
+
+EFFICACY = parse_listing('''format = "uvcheck-listing/1"
+[product]
+name = "efficacy test lamp (invented)"
+invented = true
+[[claims]]
+id = "kill"
+text = "kills 99.9% of germs in 10 seconds at 5 cm"
+[[claims]]
+id = "power"
+kind = "optical-power"
+text = "UVC output 1 W"
+power = "1 W"
+band = "UV-C"
+''', "efficacy.toml")
+
+
+def efficacy_verdicts(spec):
+    return {v.id: v for v in judge(EFFICACY, readings_from_measurement(spec, COND),
+                                   measured=True).verdicts}
+
+
+def test_an_efficacy_shortfall_on_partly_measured_uvc_is_not_assessable():
+    # a flat UV continuum (an invented broadband lamp) measured from 240 nm: the measured
+    # UV-C falls short of the claims by far, but 200-240 nm (half of UV-C) was not measured
+    # and could hold the rest: benefit of the doubt gives not-assessable, never cannot-hold
+    wl = np.arange(240.0, 900.0, 0.5)
+    v = 2e-4 * (1 + 0.5 * np.sin(wl / 30.0))
+    part = efficacy_verdicts(Spectrum(wl, v, "irradiance"))
+    for cid in ("kill", "power"):
+        assert part[cid].verdict == "not-assessable", cid
+        assert "could make up the shortfall" in part[cid].basis
+    # the same continuum measured from 200 nm: the shortfall is established
+    wl2 = np.arange(200.0, 900.0, 0.5)
+    full = efficacy_verdicts(Spectrum(wl2, 2e-4 * (1 + 0.5 * np.sin(wl2 / 30.0)), "irradiance"))
+    assert full["kill"].verdict == "cannot-hold" and full["power"].verdict == "cannot-hold"
+
+
+def test_a_uvc_led_needs_no_data_below_240_nm():
+    # a 275 nm UV-C LED measured from 240 nm: the technology emits nothing below 240 nm
+    # (data/technologies.toml), so the missing 200-240 nm holds nothing and the verdict stands,
+    # saying why
+    wl = np.arange(240.0, 420.0, 0.5)
+    spec = Spectrum(wl, gaussian(wl, 275.0, 5.0, 5e-4) + 1e-7, "irradiance")
+    v = efficacy_verdicts(spec)["kill"]
+    assert v.verdict == "cannot-hold"
+    assert any("taken as empty" in a and "below 240 nm" in a for a in v.assumptions)

@@ -1102,6 +1102,47 @@ def _each_organism(c: Any, ev: Evidence, names: list[str]) -> Verdict:
                               "must hold for each", "{name}", "organisms")
 
 
+def _unmeasured_could_hold(r: Reading, lo: float, hi: float) -> tuple[str, str | None]:
+    """Whether the part of ``lo``–``hi`` nm that a measured spectrum does not cover could hold
+    output: (``covered``, None) when the data cover it all; (``technology``, why) when only
+    the part below 240 nm is missing and the lamp's technology emits nothing there
+    (``germicidal._ozone``: absent by technology); else (``open``, why)."""
+    integ = integrate(r.spectrum, lo, hi)
+    if covers_all(integ.coverage):
+        return "covered", None
+    d_lo, d_hi = r.spectrum.range_nm
+    below_only = d_hi >= hi and not any(a < hi and b > lo for a, b in r.spectrum.gaps_nm)
+    g = r.germicidal_at(None)
+    oz = g.ozone
+    if below_only and d_lo <= 240.0 and oz.status == "absent" and oz.basis == "technology":
+        name = (g.technology or {}).get("name") or "lamp of this kind"
+        return "technology", (f"{lo:g}–{d_lo:g} nm was not measured and is taken as empty: a "
+                              f"{name} emits nothing below 240 nm")
+    return "open", (f"only {integ.coverage:.0%} of {lo:g}–{hi:g} nm was measured (the data "
+                    f"cover {d_lo:g}–{d_hi:g} nm), and the unmeasured part could make up the "
+                    "shortfall")
+
+
+def _unless_unmeasured(v: Verdict, r: Reading | None, lo: float, hi: float,
+                       needs: str) -> Verdict:
+    """An efficacy or output verdict against the lamp (``cannot-hold`` or ``unlikely``) that
+    rests on a measured band the data cover only in part: ``not-assessable``, since the
+    unmeasured part could hold what is missing (benefit of the doubt; DEVELOPERS.md), unless
+    the lamp's technology rules output there out (then the verdict stands and says so). Any
+    other verdict is returned as it is."""
+    if v.verdict not in ("cannot-hold", "unlikely") or r is None or r.evidence != "measured":
+        return v
+    kind, why = _unmeasured_could_hold(r, lo, hi)
+    if kind == "covered":
+        return v
+    if kind == "technology":
+        return replace(v, assumptions=tuple(v.assumptions) + (why,))
+    basis = v.basis.replace(" allows at most ", " allows, from the measured part, at most ", 1
+                            ).replace(" gives at most ", " gives, from the measured part, at most ", 1)
+    return replace(v, verdict="not-assessable", basis=f"{basis}; but {why}",
+                   missing=(needs,), rule=None)
+
+
 def _one_inactivation(c: Any, ev: Evidence) -> Verdict:
     ev_kind = "measured" if ev.measured else "nominal estimate"
     percent, notes = _percent(c)
@@ -1212,13 +1253,16 @@ def _one_inactivation(c: Any, ev: Evidence) -> Verdict:
              f"({_uw_cm2(best['e'])} × {format_duration(t)}): {_short(ratio)}")
     if decision is not None:
         basis += f" (dose {decision})"
-    return Verdict(c.id, c.kind, c.text, verdict,
-                   Quantity(best["need"], "J m-2", f"dose for {pct(percent)} %"),
-                   Quantity(best["avail"], "J m-2", "dose this lamp gives, most favourable reading"),
-                   ratio, basis, tuple(assumptions), (), ev_kind, best["reading"],
-                   {"organism_id": o.id, "medium": best["medium"], "time_s": t,
-                    "irradiance_W_m2": best["e"], "place": best["place"]},
-                   rule_interval(ev.rule) if decision is not None else rule_margin(ev.margin))
+    v = Verdict(c.id, c.kind, c.text, verdict,
+                Quantity(best["need"], "J m-2", f"dose for {pct(percent)} %"),
+                Quantity(best["avail"], "J m-2", "dose this lamp gives, most favourable reading"),
+                ratio, basis, tuple(assumptions), (), ev_kind, best["reading"],
+                {"organism_id": o.id, "medium": best["medium"], "time_s": t,
+                 "irradiance_W_m2": best["e"], "place": best["place"]},
+                rule_interval(ev.rule) if decision is not None else rule_margin(ev.margin))
+    r = next((x for x in fav if x.label == best["reading"]), None)
+    return _unless_unmeasured(v, r, *UVC_BAND_NM, "a spectrum covering the whole of UV-C "
+                              "(200–280 nm)")
 
 
 def _coverage(c: Any, ev: Evidence) -> Verdict:
@@ -1677,12 +1721,15 @@ def _optical_power(c: Any, ev: Evidence) -> Verdict:
         return _na(c, ev, "needs an absolute spectrum and its measurement distance", ("--distance",))
     ratio = ub / c.power_W
     verdict = _by_ratio(ratio, ev.margin)
-    return Verdict(c.id, c.kind, c.text, verdict, Quantity(c.power_W, "W", "stated optical power"),
-                   Quantity(ub, "W", "largest flux consistent with the measurement"), ratio,
-                   f"the measured irradiance at {sig(r.d_ref)} m allows at most {sig(ub)} W "
-                   f"(all-round emission, Φ = 4πd²E) against the stated {sig(c.power_W)} W: {_short(ratio)}",
-                   ("a directional lamp emits less than this bound",), (), "measured", r.label,
-                   rule=rule_margin(ev.margin))
+    v = Verdict(c.id, c.kind, c.text, verdict, Quantity(c.power_W, "W", "stated optical power"),
+                Quantity(ub, "W", "largest flux consistent with the measurement"), ratio,
+                f"the measured irradiance at {sig(r.d_ref)} m allows at most {sig(ub)} W "
+                f"(all-round emission, Φ = 4πd²E) against the stated {sig(c.power_W)} W: {_short(ratio)}",
+                ("a directional lamp emits less than this bound",), (), "measured", r.label,
+                rule=rule_margin(ev.margin))
+    if c.band_nm is None:
+        return v
+    return _unless_unmeasured(v, r, *c.band_nm, "a spectrum covering the whole band")
 
 
 def _efficiency(c: Any, ev: Evidence) -> Verdict:
