@@ -47,7 +47,7 @@ from typing import Any, Callable, Iterable, Mapping, Sequence
 
 from uvcheck.conditions import WORKDAY_S, Conditions
 from uvcheck.errors import ConfigurationError
-from uvcheck.germicidal import UVC_BAND_NM, UVC_EMITTING
+from uvcheck.germicidal import OZONE_EDGE_NM, UVC_BAND_NM, UVC_EMITTING
 from uvcheck.spectrum import Spectrum, covers_all, integrate
 from uvcheck.units import format_duration, sig
 
@@ -1114,7 +1114,7 @@ def _unmeasured_could_hold(r: Reading, lo: float, hi: float) -> tuple[str, str |
     below_only = d_hi >= hi and not any(a < hi and b > lo for a, b in r.spectrum.gaps_nm)
     g = r.germicidal_at(None)
     oz = g.ozone
-    if below_only and d_lo <= 240.0 and oz.status == "absent" and oz.basis == "technology":
+    if below_only and d_lo <= OZONE_EDGE_NM and oz.status == "absent" and oz.basis == "technology":
         name = (g.technology or {}).get("name") or "lamp of this kind"
         return "technology", (f"{lo:g}–{d_lo:g} nm was not measured and is taken as empty: a "
                               f"{name} emits nothing below 240 nm")
@@ -1137,9 +1137,8 @@ def _unless_unmeasured(v: Verdict, r: Reading | None, lo: float, hi: float,
         return v
     if kind == "technology":
         return replace(v, assumptions=tuple(v.assumptions) + (why,))
-    basis = v.basis.replace(" allows at most ", " allows, from the measured part, at most ", 1
-                            ).replace(" gives at most ", " gives, from the measured part, at most ", 1)
-    return replace(v, verdict="not-assessable", basis=f"{basis}; but {why}",
+    return replace(v, verdict="not-assessable",
+                   basis=f"{v.basis}, from the measured part alone; but {why}",
                    missing=(needs,), rule=None)
 
 

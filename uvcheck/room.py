@@ -62,7 +62,6 @@ from uvcheck.inactivation import (GENERIC_NOTE, STANDARD_PERCENTS, Organism, eac
                                   get_organism, log_for_percent, mixed_air_time,
                                   most_susceptible, select)
 from uvcheck.spectrum import Spectrum, integrate, scaled
-from uvcheck.weighting import get_weighting
 
 PATTERNS = ("isotropic", "lambertian_down", "cylinder")
 #: The patterns in words, for reports.
@@ -787,8 +786,8 @@ def evaluate_room(room: Box, lamp: RoomLamp, *, reflectance: float = DEFAULT_REF
     # `uvcheck assess` integrates it (200-400 nm; ICNIRP's 180-400 nm is its own limit set)
     from uvcheck.limits import get_limit_set
 
-    s_act = integrate(lamp.flux_spectrum, *get_limit_set().entries["actinic_uv"].range_nm,
-                      get_weighting("S_actinic"))
+    actinic = get_limit_set().entries["actinic_uv"]
+    s_act = integrate(lamp.flux_spectrum, *actinic.range_nm, actinic.weight())
     notes: list[str] = []
     warnings: list[str] = []
     figures = _figures_are(g)

@@ -797,22 +797,9 @@ def _unit_from_header(cell: str) -> str | None:
 
 
 def _looks_like_unit_row(toks: list[str]) -> bool:
-    hits = 0
-    for t in toks:
-        if not t:
-            continue
-        try:
-            parse_spectral_unit(t)
-            hits += 1
-            continue
-        except UnitError:
-            pass
-        try:
-            parse_wavelength_unit(t)
-            hits += 1
-        except UnitError:
-            return False
-    return hits >= 1
+    """Every non-empty cell reads as a unit, and there is one at least."""
+    cells = [t for t in toks if t]
+    return bool(cells) and all(_reads_as_unit(t) for t in cells)
 
 
 def _metadata(lines: Iterable[tuple[int, str]]) -> tuple[dict[str, str], list[str]]:

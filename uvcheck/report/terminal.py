@@ -56,7 +56,7 @@ def peak_caveat(d: Mapping[str, Any]) -> str | None:
     inp = d.get("input") or {}
     if pk is None or is_estimate(d):
         return None
-    tol = 1.5 * (inp.get("step_nm") or 0.0) + 1e-9
+    tol = 1.5 * (inp.get("step_nm") or 0.0) + 1e-9   # within 1.5 sample steps (our own rule)
     for a, b in (inp.get("inferred") or {}).get("gaps_nm") or ():
         if abs(pk - a) <= tol or abs(pk - b) <= tol:
             return (f"the highest sample lies at the edge of a gap in the data ({a:g}–{b:g} nm): "
