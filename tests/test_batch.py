@@ -253,14 +253,19 @@ def test_unexpected_exception_becomes_an_error_row(tmp_path):
     assert late["status"] == "error" and "ZeroDivisionError: late" in late["error"]
 
 
+def leds_and_a_bad_file(folder: Path, n: int, bad_name: str, bad: str) -> Path:
+    """A folder of n invented blue-LED spectra and one file that is no spectrum."""
+    folder.mkdir()
+    for k in range(n):
+        blue_led(folder / f"lamp{k}.csv", seed=k)
+    (folder / bad_name).write_text(bad, encoding="utf-8")
+    return folder
+
+
 def test_a_chunk_gives_the_rows_of_one_product_at_a_time(tmp_path):
     # _run_chunk reads the files of a group, then assesses them: the same rows, in the same
     # order, as run_product product by product; with a group limit of one sample too
-    d = tmp_path / "in"
-    d.mkdir()
-    for k in range(4):
-        blue_led(d / f"p{k}.csv", seed=k)
-    (d / "bad.csv").write_text("no numbers here\n", encoding="utf-8")
+    d = leds_and_a_bad_file(tmp_path / "in", 4, "bad.csv", "no numbers here\n")
     (d / "q.toml").write_text((EXAMPLES / "listings" / "uvc_box_48_leds_8w.toml").read_text(
         encoding="utf-8"), encoding="utf-8")
     products = B.scan_folder(d)
@@ -290,11 +295,7 @@ def test_formulas_are_neutralised_in_csv_not_in_json(tmp_path):
 
 
 def test_output_does_not_depend_on_the_number_of_processes(tmp_path):
-    d = tmp_path / "in"
-    d.mkdir()
-    for k in range(7):
-        blue_led(d / f"lamp{k}.csv", seed=k)
-    (d / "broken.csv").write_text("1,2\n", encoding="utf-8")
+    d = leds_and_a_bad_file(tmp_path / "in", 7, "broken.csv", "1,2\n")
     B.run_batch(d, tmp_path / "one.csv", settings(), jobs=1)
     B.run_batch(d, tmp_path / "two.csv", settings(), jobs=2)
     assert (tmp_path / "one.csv").read_bytes() == (tmp_path / "two.csv").read_bytes()

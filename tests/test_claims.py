@@ -264,7 +264,8 @@ text = "kills 99.9% of E. coli and Staphylococcus aureus in 8 seconds at 20 cm"
 def test_safety_for_plants_and_pets_says_the_human_limits_are_a_proxy():
     # no exposure limits exist for animals or plants; the verdict uses the human ones
     # (IEC 62471:2006 / ICNIRP) and says so. A 253.7 nm line of 1 mW/m² at 1 m:
-    # E_S = 1e-3 · S(253.7) ≈ 5e-4 W/m², t_max = 30 / 5e-4 ≈ 17 h > 8 h: within the limits
+    # E_S = 1e-3 · S(253.7) ≈ 5e-4 W/m² (S(254) = 0.5, IEC 62471:2006 Table 4.1),
+    # t_max = 30 J/m² / 5e-4 W/m² ≈ 17 h > 8 h (clause 4.3.1): within the limits
     # (not confirmed: the line-only spectrum leaves L_R and E_IR unassessed)
     lst = listing('[[claims]]\nid = "p"\nkind = "safety"\ntext = "safe for plants and pets"\n'
                   'safe_for = ["plants", "pets"]\ndistance = "1 m"\n')

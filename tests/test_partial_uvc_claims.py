@@ -27,11 +27,15 @@ from uvcheck.io.listing import parse_listing
 from uvcheck.spectrum import Spectrum, restricted
 
 COND = Conditions(measurement_distance_m=0.1)
-LISTING = parse_listing('''format = "uvcheck-listing/1"
-[product]
-name = "partial-range test lamp (invented)"
-invented = true
-[[claims]]
+
+
+def _listing(name: str, claims: str):
+    """An invented listing with these claims (TOML [[claims]] tables)."""
+    return parse_listing(f'format = "uvcheck-listing/1"\n[product]\nname = "{name} (invented)"\n'
+                         f'invented = true\n{claims}', f"{name.split()[0]}.toml")
+
+
+LISTING = _listing("partial-range test lamp", '''[[claims]]
 id = "uvc"
 text = "UV-C"
 [[claims]]
@@ -40,7 +44,7 @@ text = "UVC 254nm"
 [[claims]]
 id = "at222"
 text = "far-UVC 222nm"
-''', "partial.toml")
+''')
 
 
 def _verdicts(spec: Spectrum) -> dict[str, tuple[str, str]]:
@@ -109,11 +113,7 @@ def test_cutting_away_part_of_uv_c_never_turns_a_verdict_into_holds():
     assert [a.kind for a in evaluate_germicidal(part, cond).artefacts] == ["data-edge"]
 
 
-EFFICACY = parse_listing('''format = "uvcheck-listing/1"
-[product]
-name = "efficacy test lamp (invented)"
-invented = true
-[[claims]]
+EFFICACY = _listing("efficacy test lamp", '''[[claims]]
 id = "kill"
 text = "kills 99.9% of germs in 10 seconds at 5 cm"
 [[claims]]
@@ -122,7 +122,7 @@ kind = "optical-power"
 text = "UVC output 1 W"
 power = "1 W"
 band = "UV-C"
-''', "efficacy.toml")
+''')
 
 
 def efficacy_verdicts(spec):

@@ -117,7 +117,8 @@ def test_claims_that_only_stray_uvc_fails_are_not_assessable():
 def test_claims_that_fail_even_without_the_stray_level_still_fail():
     # the same panel with a real UV-B band standing out of the level (310 nm, σ 5 nm,
     # 0.05 W m⁻² nm⁻¹: 0.63 W m⁻², E_S ≈ 0.63 · S(310) ≈ 0.63 · 0.015 ≈ 9e-3 W m⁻², RG2,
-    # t_max ≈ 55 min): the band is not stray light, so the claims fail without the level too
+    # t_max ≈ 55 min; S(310) = 0.015, IEC 62471:2006 Table 4.1 as data/weightings records it):
+    # the band is not stray light, so the claims fail without the level too
     base = red_led(5e-5)
     wl = base.wavelength_nm
     spec = Spectrum(wl, base.values + 0.05 * np.exp(-0.5 * ((wl - 310.0) / 5.0) ** 2),
