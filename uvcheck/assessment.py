@@ -192,13 +192,9 @@ def position_statement(c: Conditions, origin: str = "measured") -> str:
 
 
 def import_warnings(spectrum: Spectrum, report: Any | None) -> list[str]:
-    """``input.warnings``: the reader's warnings, then those of any scaling."""
-    if report is None:
-        warnings: list[str] = []
-    elif hasattr(report, "warnings"):
-        warnings = list(report.warnings)
-    else:
-        warnings = list(report.to_dict().get("warnings", []))
+    """``input.warnings``: the reader's warnings (its :class:`~uvcheck.io.reader.ImportReport`,
+    None for a nominal model), then those of any scaling."""
+    warnings = [] if report is None else list(report.warnings)
     for s in spectrum.meta.get("scaling", []):
         for key in ("warning", "note"):
             if s.get(key):

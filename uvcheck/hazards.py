@@ -114,7 +114,7 @@ from uvcheck.constants import K_M_LM_PER_W
 from uvcheck.errors import ConfigurationError
 from uvcheck.limits import (DEFAULT_LIMIT_SET, GROUPS, HAZARD_IDS, HazardLimits, LimitSet,
                             available_limit_sets, get_limit_set, solid_angle_sr)
-from uvcheck.photometry import v_lambda
+from uvcheck.photometry import v_lambda, visible_share
 from uvcheck.spectrum import Integral, Spectrum, integrate, remembered
 from uvcheck.units import sig as _sig
 from uvcheck.weighting import get_weighting
@@ -1294,8 +1294,6 @@ def _blue_white(spectrum: Spectrum, src: _Source, info: EvaluationInfo) -> BlueL
     note = (f"K_B,v = E_B/E_v; E_thr = {e_rg1:g} W m⁻² / K_B,v, the illuminance at which E_B "
             f"reaches the small-source RG1 limit (formula from memory). A ratio of two integrals, "
             f"so it holds for relative spectra too ({what}).")
-    from uvcheck.photometry import visible_share
-
     share = visible_share(spectrum)   # infrared left out: a filament lamp is a white source
     if share is not None and share < 0.5:
         note += (f" Only {share:.0%} of the measured ultraviolet and visible output lies in "
