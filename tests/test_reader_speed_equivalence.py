@@ -67,7 +67,11 @@ def ref_blocks(lines, delim, decimal, first=0):
             pending = []
         elif cur is not None:
             pending.append(i)
-            if len([p for p in pending if lines[p].strip()]) > 2:
+            # a row of column names, as many as the block's first row has, ends it at once
+            names = (cur.ncols >= 2 and len(toks) == cur.ncols
+                     and all(any(c.isalpha() for c in t) for t in toks)
+                     and all(reader._Num(decimal)(t) is None for t in toks))
+            if names or len([p for p in pending if lines[p].strip()]) > 2:
                 blocks.append(cur)
                 cur, pending = None, []
     if cur is not None:

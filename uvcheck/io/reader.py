@@ -256,6 +256,20 @@ def _is_data(toks: list[str], num: _Num) -> bool:
     return _row_values(toks, num) is not None
 
 
+def _names_row(toks: list[str], ncols: int, num: _Num) -> bool:
+    """Whether a line inside a data block is a row of column names for as many columns as
+    the block has (two or more; every token holds a letter and none is a number or a
+    missing-value word): the heading of another table (a second scan, a calibration
+    table, the next sheet of a workbook), so the block ends there. Other stray lines, up
+    to two in a row, stay inside the block (a note, a marker); without this rule a second
+    table behind a heading would be read on as more rows of the first, its values
+    averaged into the first's at shared wavelengths."""
+    if ncols < 2 or len(toks) != ncols or not all(any(c.isalpha() for c in t) for t in toks):
+        return False
+    probe = _Num(num.decimal)  # a parser of its own: the caller's counts stay as they were
+    return all(probe(t) is None for t in toks)
+
+
 # ---------------------------------------------------------------------------------------------
 # Format detection on the head of the file
 # ---------------------------------------------------------------------------------------------
@@ -397,7 +411,7 @@ def _blocks(lines: list[str], delim: str, decimal: str, first: int = 0,
         if _row_values(toks, num) is None:
             if cur is not None:
                 pending.append(i)
-                if len(pending) > 2:
+                if len(pending) > 2 or _names_row(toks, cur.ncols, num):
                     blocks.append(cur)
                     cur = None
                     pending = []
@@ -922,7 +936,8 @@ def _lines_from(path: Path, decoded: Decoded, start: int, whole: list[str] | Non
 def _stream_rows(path: Path, decoded: Decoded, delim: str, num: _Num, start: int, ncols: int,
                  stats: dict[str, Any], whole: list[str] | None = None
                  ) -> Iterator[tuple[int, list[float]]]:
-    """Data rows from line ``start`` on, until the block ends (3 non-data lines in a row)."""
+    """Data rows from line ``start`` on, until the block ends (3 non-data lines in a row, or
+    a row of column names: :func:`_names_row`)."""
     run_bad: list[tuple[int, str]] = []
     for i, line in _lines_from(path, decoded, start, whole):
         if not line.strip():
@@ -931,7 +946,7 @@ def _stream_rows(path: Path, decoded: Decoded, delim: str, num: _Num, start: int
         vals = _row_values(toks, num)
         if vals is None:
             run_bad.append((i, line))
-            if len(run_bad) > 2:
+            if len(run_bad) > 2 or _names_row(toks, ncols, num):
                 stats["footer_start"] = run_bad[0][0]
                 stats["footer_sample"] = [t for _, t in run_bad[:3]]
                 _look_for_more_blocks(path, decoded, delim, num, i + 1, stats, whole)
