@@ -105,7 +105,8 @@ REPEATS_SEPARATOR = "|"
 #: The per-product options (manifest columns that are not files or ids).
 OPTION_KEYS = MANIFEST_COLUMNS[3:]
 
-SPECTRUM_SUFFIXES = (".csv", ".tsv", ".txt", ".dat", ".asc", ".spdx")  # .spdx: IES TM-27-14
+#: .spdx: IES TM-27-14; .xlsx and .ods: workbooks (uvcheck.io.workbook)
+SPECTRUM_SUFFIXES = (".csv", ".tsv", ".txt", ".dat", ".asc", ".spdx", ".xlsx", ".ods")
 LISTING_SUFFIXES = (".toml",)
 
 #: Verdicts from best to worst (the order ``--fail-on`` uses): the claims module's one order.

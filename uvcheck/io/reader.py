@@ -48,6 +48,7 @@ import numpy as np
 
 from uvcheck.errors import InputFormatError, UnitError
 from uvcheck.features import estimate_noise, negative_dominated
+from uvcheck.io import workbook
 from uvcheck.io.tm2714 import as_table, is_tm2714
 from uvcheck.io.textfile import (HEAD_BYTES, Decoded, decode_lines, file_sha256, iter_lines,
                                  sniff_encoding)
@@ -1116,6 +1117,12 @@ def read_spectrum(path: str | Path, options: ReadOptions | None = None, **overri
     head_bytes = _read_head(p)
     if is_tm2714(head_bytes):
         return _read_tm2714(p, opts)
+    if head_bytes[:4] in (workbook.ZIP_MAGIC, workbook.OLE2_MAGIC[:4]):
+        k = workbook.kind(head_bytes, p)
+        if k in ("xlsx", "ods"):
+            return _read_workbook(p, opts, k)
+        if k is not None:
+            raise workbook.refusal(k, where)
     decoded = sniff_encoding(head_bytes, opts.encoding, where)
     base = [decoded.guess] if decoded.guess else []
     # a file shorter than the head is held whole: decoded once, hashed from the same bytes
@@ -1148,6 +1155,24 @@ def _read_tm2714(p: Path, opts: ReadOptions) -> tuple[Spectrum, ImportReport]:
     report = replace(report, sha256=sha)
     return spec.derive(meta=MappingProxyType({**dict(spec.meta), "sha256": sha,
                                               "format": "IES TM-27-14"})), report
+
+
+def _read_workbook(p: Path, opts: ReadOptions, k: str) -> tuple[Spectrum, ImportReport]:
+    """An .xlsx or .ods workbook (:mod:`uvcheck.io.workbook`): its sheets read as the table
+    that module makes of them, with every check of a text export; the report and the
+    spectrum name the workbook's own sha256."""
+    table, note, what, placed = workbook.as_table(p, k)
+    decoded = Decoded("utf-8", f"{what}, cells read with Python's zipfile and XML parser", False)
+    try:
+        spec, report = _read(p, decoded, opts, [note], table)
+    except InputFormatError as exc:
+        # its line numbers (and --data-start) count the table: say where each sheet is in it
+        raise InputFormatError(f"{exc.what.rstrip('.')} (in the table made of the workbook: "
+                               f"{placed})", exc.where, exc.todo) from None
+    sha = file_sha256(p)
+    report = replace(report, sha256=sha)
+    return spec.derive(meta=MappingProxyType({**dict(spec.meta), "sha256": sha,
+                                              "format": what})), report
 
 
 def _read_head(p: Path) -> bytes:
