@@ -127,6 +127,39 @@ text = "for rooms up to 40 m²"
     assert "mJ/cm²" in vs["room"].basis and vs["room"].basis != vs["kill"].basis
 
 
+def test_coverage_takes_the_first_kill_claim_that_can_be_judged():
+    # A listing whose first kill claim names an organism uvcheck's table lacks (dust mites)
+    # and whose second names bacteria: the room claim used to take the first and stay open
+    # ("no data for 'dust mites'"); it now takes the second, which can decide it. With the
+    # mites claim alone it stays open, and says why. (uvcheck's own reading of a room claim.)
+    base = """
+[lamp]
+technology = "lp_mercury"
+optical_power = "4 W"
+[[claims]]
+id = "mites"
+text = "removes 99.99 % of dust mites in 15 minutes"
+"""
+    bacteria = """
+[[claims]]
+id = "bact"
+text = "kills 99.9 % of bacteria in 30 minutes"
+"""
+    room = """
+[[claims]]
+id = "room"
+text = "for rooms up to 40 m²"
+"""
+    vs = {v.id: v for v in screen_verdicts(listing(base + bacteria + room)).verdicts}
+    assert vs["mites"].verdict == "not-assessable"
+    assert vs["room"].details["judged_as"] == "bact"
+    assert vs["room"].verdict != "not-assessable" and vs["room"].ratio is not None
+    assert "'kills 99.9 % of bacteria in 30 minutes'" in vs["room"].basis
+    vs = {v.id: v for v in screen_verdicts(listing(base + room)).verdicts}
+    assert vs["room"].verdict == "not-assessable"
+    assert vs["room"].details["judged_as"] == "mites" and "dust mites" in vs["room"].basis
+
+
 def test_other_findings_are_listed_once(tmp_path):
     # 5 W optical from 8 W: the UV-C LED flag of 10 % (data/technologies.toml) allows 0.8 W,
     # short by 6.25×; the claim 'p' states the same 5 W as lamp.optical_power.

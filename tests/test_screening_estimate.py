@@ -135,3 +135,25 @@ def test_a_model_without_the_mercury_line_does_not_say_it_was_not_found(tmp_path
     assert line.endswith("not in the model (no mercury lamp)")
     facts = {f["label"]: f["value"] for f in spectral_facts(d)}
     assert facts["Mercury 253.7 nm line"] == "not in the model (no mercury lamp)"
+
+
+def test_a_mercury_model_without_its_184_nm_line_does_not_call_ozone_absent():
+    # The nominal mercury model assumes an ozone-free envelope, so it has no output below
+    # 240 nm; that absence is the model's assumption (data/technologies.toml: the 184.9 nm
+    # line leaves the lamp unless the envelope glass blocks it, "possible"). The germicidal
+    # section said "absent ... modelled down to 180 nm (including the 184.9 nm mercury line)"
+    # while the claims said the ozone could not be judged; both now say it is not known.
+    d = _screen_json("mercury_tube_sold_pet_safe.toml")
+    oz = d["germicidal"]["ozone"]
+    assert oz["status"] == "unknown" and "assumption" in oz["note"]
+    assert "184.9 nm" in oz["note"]
+    r = CliRunner().invoke(app, ["screen", str(LISTINGS / "mercury_tube_sold_pet_safe.toml")])
+    line = next(ln for ln in r.output.splitlines() if "ozone (output below 240 nm)" in ln)
+    assert "unknown" in line and "absent" not in line
+
+
+def test_a_led_model_far_above_240_nm_keeps_its_technology_verdict(tmp_path):
+    # the assumption rule is for technologies that may emit below 240 nm; a 405 nm LED
+    # emits nothing there whatever the model (data/technologies.toml)
+    d = _screen_text(tmp_path, "405 nm")
+    assert d["germicidal"]["ozone"]["status"] == "absent"

@@ -1265,7 +1265,8 @@ def _one_inactivation(c: Any, ev: Evidence) -> Verdict:
 
 
 def _coverage(c: Any, ev: Evidence) -> Verdict:
-    """'for rooms up to 20 m²': the listing's own inactivation claim over that room, else the
+    """'for rooms up to 20 m²': the listing's own inactivation claim over that room (the first
+    that can be judged there, e.g. not one naming an organism the table lacks), else the
     benchmark of :data:`COVERAGE_BENCHMARK`.
 
     The basis says what covering the room was taken to mean. When the inactivation claim is
@@ -1279,12 +1280,22 @@ def _coverage(c: Any, ev: Evidence) -> Verdict:
     from uvcheck.io.listing import Claim
 
     room = (f"{c.area_m2:g} m²" if c.area_m2 is not None else f"{c.volume_m3:g} m³")
-    kill = next((k for k in ev.listing.claims if k.kind == "inactivation" and k.time_s
-                 and (k.reduction_fraction is not None or k.log_reduction is not None)), None)
+    kills = [k for k in ev.listing.claims if k.kind == "inactivation" and k.time_s
+             and (k.reduction_fraction is not None or k.log_reduction is not None)]
+    # the first of the listing's kill claims that can be judged over the room (one naming an
+    # organism the table lacks would leave the room claim open while another could decide
+    # it); when none can, the first, whose verdict says why
+    kill, probe, v = None, None, None
+    for k in kills:
+        p_k = replace(k, id=c.id, text=c.text, kind="inactivation", distance_m=None,
+                      area_m2=c.area_m2, volume_m3=c.volume_m3)
+        v_k = _inactivation(p_k, ev)
+        if kill is None or v.verdict == "not-assessable" and v_k.verdict != "not-assessable":
+            kill, probe, v = k, p_k, v_k
+        if v.verdict != "not-assessable":
+            break
     same_room = False
     if kill is not None:
-        probe = replace(kill, id=c.id, text=c.text, kind="inactivation", distance_m=None,
-                        area_m2=c.area_m2, volume_m3=c.volume_m3)
         how = f"the listing's own claim '{kill.text or kill.id}' applied to the whole room"
         own = (kill.distance_m, kill.area_m2, kill.volume_m3, ev.listing.use_distance_m)
         if all(x is None for x in own):
@@ -1296,7 +1307,7 @@ def _coverage(c: Any, ev: Evidence) -> Verdict:
                       organism_generic=True, time_s=t, area_m2=c.area_m2, volume_m3=c.volume_m3)
         how = (f"uvcheck's benchmark for a room claim: {p:g} % of the most susceptible relevant "
                f"organism within {format_duration(t)} (not a standard)")
-    v = _inactivation(probe, ev)
+        v = _inactivation(probe, ev)
     if v.verdict == "not-assessable":
         basis = f"covering {room}: {v.basis}"
     elif kill is not None and same_room:

@@ -808,6 +808,15 @@ def _ozone(spec: Spectrum, uvc: Reading, total: float, tech_id: str | None,
     if present and artefact and not tech_no:
         return Ozone("unknown", "not-measurable", below, unit, checked, covers_185,
                      "apparent output below 240 nm, but the UV-C signal looks like stray light")
+    if (checked is not None and not present and _seen(spec) != "measured"
+            and tech.get("below_240") == "possible" and not tech_no):
+        # nothing below 240 nm in a nominal model of a technology that may emit there (a
+        # mercury lamp modelled with an ozone-free envelope): the model's assumption, not a
+        # fact about the lamp
+        return Ozone("unknown", "not-measurable", below, unit, checked, covers_185,
+                     f"the nominal model has no output below 240 nm, but that is its "
+                     f"assumption; whether a {tech['name']} emits there a listing cannot show "
+                     f"({tech.get('below_240_source', '')})")
     if checked is not None and covers_185 and not present:
         seen = _seen(spec)
         return Ozone("absent", "measured" if seen == "measured" else "modelled", below, unit,
