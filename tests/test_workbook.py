@@ -69,6 +69,7 @@ def test_xlsx_written_by_openpyxl_reads_as_pandas_reads_it(tmp_path):
     said = " ".join(rep.warnings)
     assert "'Info' lines 1–3; 'Spectrum' lines 4–" in said and "count the table" in said
     assert rep.measurement_distance_m == pytest.approx(0.5)  # from the Info sheet's row
+    assert rep.metadata["sheet"] == "Spectrum"  # the sheet the data come from, not the first
 
 
 def test_ods_written_by_pandas_reads_as_pandas_reads_it(tmp_path):
@@ -164,7 +165,8 @@ def test_xlsx_cells_of_every_kind(tmp_path):
             # formatted but empty cells at the sheet's last row: padding, no lines
             '<row r="1048576"><c r="A1048576" s="1"/></row>')
     p = _xlsx(tmp_path / "cells.xlsx", [("Data", body)], strings)
-    table, warning, what, placed = workbook.as_table(p, "xlsx")
+    t = workbook.as_table(p, "xlsx")
+    table, warning, what, placed = t.text, t.warning, t.format, t.placed
     assert table.decode("utf-8").split("\n") == [
         "sheet: Data",
         "Wavelength\tIrradiance (W/m2/nm)\t\tnote",
@@ -197,8 +199,9 @@ def test_xlsx_strict_namespace_hidden_sheet_and_two_spectra(tmp_path):
     np.testing.assert_allclose(spec.values, e, rtol=1e-15)
     start = 3 + 1 + WL.size + 1 + 2  # 'sheet: Scan 2' line, its heading, then the first row
     assert f"--data-start {start}" in said
-    spec2, _ = read_spectrum(p, data_start=start)
+    spec2, rep2 = read_spectrum(p, data_start=start)
     np.testing.assert_allclose(spec2.values, 2 * e, rtol=1e-15)
+    assert rep2.metadata["sheet"] == "Scan 2"
 
 
 ODS_NS = ('xmlns:office="urn:oasis:names:tc:opendocument:xmlns:office:1.0" '
@@ -235,7 +238,8 @@ def test_ods_repeats_comments_and_stored_precision(tmp_path):
             + '<table:table-row table:number-rows-repeated="1048000">'
               '<table:table-cell table:number-columns-repeated="1024"/></table:table-row>')
     p = _ods(tmp_path / "pad.ods", f'<table:table table:name="Blatt 1">{rows}</table:table>')
-    table, warning, what, placed = workbook.as_table(p, "ods")
+    t = workbook.as_table(p, "ods")
+    table, warning, what, placed = t.text, t.warning, t.format, t.placed
     assert table.decode("utf-8").split("\n") == [
         "sheet: Blatt 1", "nm\tE (W/m2/nm)", "", "",
         "240\t0.00123456", "240.5\t0.0025", "241\t0.00375", ""]  # stored, not displayed

@@ -97,7 +97,9 @@ def read_options(encoding: str | None, delimiter: str | None, decimal: str | Non
 @app.command()
 @guarded
 def assess(
-    spectrum_file: Annotated[Path, typer.Argument(help="Spectrum export (CSV, TSV or text).")],
+    spectrum_file: Annotated[Path, typer.Argument(
+        help="Spectrum export: a text table (CSV, TSV, ...), IES TM-27-14 XML, or a workbook "
+             "(.xlsx, .ods).")],
     json_out: Annotated[Optional[str], typer.Option("--json", help="Write the full result as "
                                                     "JSON to this path ('-' for stdout).")] = None,
     force: Force = False,

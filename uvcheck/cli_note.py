@@ -210,7 +210,7 @@ def write_note(result: dict[str, Any], spectrum: Any, out_html: Path, *, pdf: bo
 
 def note_command(
     spectrum_file: Annotated[Optional[Path], typer.Argument(
-        help="Spectrum export (CSV, TSV or text); optional when --listing is given.")] = None,
+        help="Spectrum export (a text table, TM-27-14 XML, .xlsx or .ods); optional when --listing is given.")] = None,
     listing: Annotated[Optional[Path], typer.Option(
         "--listing", help="Listing file (TOML): the product as sold and its claims "
                           "(see examples/listings/README.md).")] = None,

@@ -1161,18 +1161,23 @@ def _read_workbook(p: Path, opts: ReadOptions, k: str) -> tuple[Spectrum, Import
     """An .xlsx or .ods workbook (:mod:`uvcheck.io.workbook`): its sheets read as the table
     that module makes of them, with every check of a text export; the report and the
     spectrum name the workbook's own sha256."""
-    table, note, what, placed = workbook.as_table(p, k)
-    decoded = Decoded("utf-8", f"{what}, cells read with Python's zipfile and XML parser", False)
+    t = workbook.as_table(p, k)
+    decoded = Decoded("utf-8", f"{t.format}, cells read with Python's zipfile and XML parser",
+                      False)
     try:
-        spec, report = _read(p, decoded, opts, [note], table)
+        spec, report = _read(p, decoded, opts, [t.warning], t.text)
     except InputFormatError as exc:
         # its line numbers (and --data-start) count the table: say where each sheet is in it
         raise InputFormatError(f"{exc.what.rstrip('.')} (in the table made of the workbook: "
-                               f"{placed})", exc.where, exc.todo) from None
+                               f"{t.placed})", exc.where, exc.todo) from None
     sha = file_sha256(p)
-    report = replace(report, sha256=sha)
+    # the metadata's sheet is the one the data were read from (the header lines above the
+    # data may hold the 'sheet:' line of an earlier sheet first)
+    meta = {k: v for k, v in report.metadata.items() if k.lower() != "sheet"}
+    report = replace(report, sha256=sha,
+                     metadata={"sheet": t.sheet_at(report.data_lines[0]) or "?", **meta})
     return spec.derive(meta=MappingProxyType({**dict(spec.meta), "sha256": sha,
-                                              "format": what})), report
+                                              "format": t.format})), report
 
 
 def _read_head(p: Path) -> bytes:

@@ -104,10 +104,30 @@ class _Sheet:
     no_result: int = 0       # formula cells without a stored result
 
 
-def as_table(path: str | Path, k: str) -> tuple[bytes, str, str, str]:
-    """(the workbook as a UTF-8 tab-separated table, a warning for the import report, the
-    format's name, where each sheet is in the table) of an ``.xlsx`` (``k="xlsx"``) or
-    ``.ods`` (``k="ods"``) file."""
+@dataclass(frozen=True)
+class Table:
+    """A workbook made into one table.
+
+    text : the table, UTF-8, tab-separated.
+    warning : for the import report (the sheets, where each is, formulas without results).
+    format : the format's name.
+    placed : where each sheet is in the table, as text ("'Info' lines 1–3; ...").
+    sheets : (name, first line, last line) of each sheet, 1-based lines of the table.
+    """
+
+    text: bytes
+    warning: str
+    format: str
+    placed: str
+    sheets: tuple[tuple[str, int, int], ...]
+
+    def sheet_at(self, line: int) -> str | None:
+        """The name of the sheet holding a (1-based) line of the table."""
+        return next((n for n, a, b in self.sheets if a <= line <= b), None)
+
+
+def as_table(path: str | Path, k: str) -> Table:
+    """The :class:`Table` of an ``.xlsx`` (``k="xlsx"``) or ``.ods`` (``k="ods"``) file."""
     import zipfile
     from xml.etree.ElementTree import ParseError
 
@@ -127,11 +147,13 @@ def as_table(path: str | Path, k: str) -> tuple[bytes, str, str, str]:
                                "save the sheet that holds the spectrum as CSV")
     lines: list[str] = []
     placed = []
+    spans = []
     for s in sheets:
         first = len(lines) + 1
         lines.append(f"sheet: {s.name}")
         lines.extend(s.rows)
         placed.append(f"'{s.name}'{' (hidden)' if s.hidden else ''} lines {first}–{len(lines)}")
+        spans.append((s.name, first, len(lines)))
     what = "Excel workbook (.xlsx)" if k == "xlsx" else "OpenDocument spreadsheet (.ods)"
     warning = (f"{what} read as a table of its {len(sheets)} sheet(s): "
                f"{'; '.join(placed)}{LINES_NOTE}")
@@ -140,7 +162,8 @@ def as_table(path: str | Path, k: str) -> tuple[bytes, str, str, str]:
         warning += (f". {no_result} formula cell(s) hold no stored result (the workbook was "
                     "saved without calculating) and read as empty: open it in a spreadsheet, "
                     "let it calculate and save it again, or save the sheet as CSV")
-    return ("\n".join(lines) + "\n").encode("utf-8"), warning, what, "; ".join(placed)
+    return Table(("\n".join(lines) + "\n").encode("utf-8"), warning, what, "; ".join(placed),
+                 tuple(spans))
 
 
 # ---------------------------------------------------------------------------------------------
