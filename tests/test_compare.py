@@ -87,3 +87,48 @@ def test_values_below_detection_read_as_bounds(tmp_path):
     assert ir["sample_text"].endswith("so far")
     line = next(ln for ln in r.output.splitlines() if ln.strip().startswith("E_IR "))
     assert line.split()[1] == "<"
+    assert ir["ratio"] is None  # both partly measured over the same wavelengths, but noise
+
+
+def write_uvc(path, amp, start=240.0):
+    # an invented mercury-line unit measured from `start` (inside UV-C) at 20 cm
+    wl = np.arange(start, 420.0, 0.5)
+    rng = np.random.default_rng(int(amp))
+    v = amp * 1e-2 * np.exp(-0.5 * ((wl - 253.7) / 1.1) ** 2) + 1e-4 + rng.normal(0, 2e-6, wl.size)
+    path.write_text("Distance: 20 cm\nWavelength (nm),Irradiance (W/m2/nm)\n" + "\n".join(
+        f"{a:.1f},{b:.6e}" for a, b in zip(wl, v)) + "\n", encoding="utf-8")
+    return path
+
+
+def test_two_units_measured_alike_compare_over_the_measured_part(tmp_path):
+    # Both spectra start at 240 nm, so UV-C and E_S are partly measured (lower bounds) in
+    # both. Over the same wavelengths the measured parts compare like for like: the 0.7 ×
+    # UV-C of the sample used to be hidden behind "no ratio" and "No difference beyond 5 %".
+    # The expected ratio is the two assessments' own values (the JSON contract) and the
+    # invented amplitudes' ratio, 28/40.
+    r, c = run(tmp_path, write_uvc(tmp_path / "s.csv", 28), write_uvc(tmp_path / "r.csv", 40))
+    assert r.exit_code == 0, r.output
+    assert c["same_wavelengths"] is True
+    uvc = next(x for x in c["bands"] if x["name"] == "UV-C")
+    assert uvc["sample_status"] == uvc["reference_status"] == "partial"
+    assert uvc["over"] == "measured part"
+    assert uvc["ratio"] == pytest.approx(uvc["sample"] / uvc["reference"], rel=1e-6)
+    assert uvc["ratio"] == pytest.approx(28 / 40, rel=0.02)
+    es = next(x for x in c["hazards"] if x["id"] == "actinic_uv")
+    assert es["over"] == "measured part" and es["ratio"] == pytest.approx(0.7, rel=0.03)
+    assert f"UV-C: the sample is {uvc['ratio']:.3g} × the reference (over the measured part only)" \
+        in c["differences"]
+    assert "over the measured part only" in r.output and "No difference" not in r.output
+    # a complete band keeps its plain ratio
+    uva = next(x for x in c["bands"] if x["name"] == "UV-A")
+    assert uva["over"] is None and uva["ratio"] is not None
+
+
+def test_partly_measured_over_different_wavelengths_give_no_ratio(tmp_path):
+    # one unit measured from 230 nm, the other from 240 nm: the measured parts differ
+    r, c = run(tmp_path, write_uvc(tmp_path / "s.csv", 28, start=230.0),
+               write_uvc(tmp_path / "r.csv", 40))
+    assert r.exit_code == 0, r.output
+    assert c["same_wavelengths"] is False
+    uvc = next(x for x in c["bands"] if x["name"] == "UV-C")
+    assert uvc["ratio"] is None and uvc["over"] is None and "partial" in uvc["note"]

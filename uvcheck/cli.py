@@ -303,7 +303,8 @@ def compare(
 ) -> None:
     """Compare a sample with a reference (two units of one product, or an offered lamp with
     an approved one): bands, hazards, UV-C, peak and risk group side by side, with ratios
-    where both values are established. A screening comparison, not a certification."""
+    where both values are established (or, for spectra over the same wavelengths, over the part
+    both measured). A screening comparison, not a certification."""
     from uvcheck.compare import compare as compare_results
     from uvcheck.compare import render_comparison
     from uvcheck.pipeline import ProductInputs, assess_files

@@ -8,6 +8,11 @@ the peak shift, both risk groups and the UV-C of each.
 
 Honest-results rules: a ratio is given only where both values are established (complete, not
 a bound, not below detection, both in the same unit); otherwise the row says why there is none.
+One exception: two spectra measured over the same wavelengths (the same data range and gaps,
+two units measured alike) that both leave a band or a hazard partly measured compare over
+that measured part. Both values are then lower bounds of the same kind, and their ratio is
+the ratio of the parts measured; the row says so (``over = "measured part"``), and so does a
+difference it shows. Two values below detection never give a ratio.
 Both results must be of one quantity and at one position (the same measurement distance, or
 both at an unstated one), else the comparison is refused: values at different distances do
 not compare.
@@ -39,15 +44,44 @@ def _why_none(sa: str | None, sb: str | None) -> str:
 
 
 def _row(name: str, unit: str | None, va: Any, sa: str | None, vb: Any, sb: str | None,
-         ta: str | None = None, tb: str | None = None) -> dict[str, Any]:
+         ta: str | None = None, tb: str | None = None, part: bool = False) -> dict[str, Any]:
     """ta, tb : the values as the assessment shows them ('< 1.2e-05', '≥ 0.3'), where the
-    number alone would mislead (a detection limit, a lower bound)."""
+    number alone would mislead (a detection limit, a lower bound).
+    part : both values are partly measured, over the same wavelengths, and above detection:
+        their ratio is that of the measured parts (see the module notes)."""
     ok = sa in _ESTABLISHED and sb in _ESTABLISHED
-    r = _ratio(va, vb) if ok else None
+    over = None
+    if ok:
+        r = _ratio(va, vb)
+    elif part and sa == sb == "partial":
+        r = _ratio(va, vb)
+        over = "measured part" if r is not None else None
+    else:
+        r = None
+    note = None if r is not None else _why_none(sa, sb)
+    if over is not None:
+        note = "over the measured part only (both partly measured, over the same wavelengths)"
     return {"name": name, "unit": unit, "sample": va, "sample_status": sa, "reference": vb,
-            "reference_status": sb, "ratio": r,
-            "note": None if r is not None else _why_none(sa, sb),
+            "reference_status": sb, "ratio": r, "over": over, "note": note,
             "sample_text": ta, "reference_text": tb}
+
+
+def _same_wavelengths(a: Mapping[str, Any], b: Mapping[str, Any]) -> bool:
+    """Whether two results' spectra cover the same wavelengths: the same data range and the
+    same gaps, within half the coarser sampling step."""
+    ia, ib = a.get("input") or {}, b.get("input") or {}
+    ra, rb = ia.get("range_nm"), ib.get("range_nm")
+    if not ra or not rb:
+        return False
+    step = max(float(ia.get("step_nm") or 0.0), float(ib.get("step_nm") or 0.0))
+    tol = 0.5 * step
+
+    def close(x: Any, y: Any) -> bool:
+        return len(x) == len(y) and all(abs(float(p) - float(q)) <= tol for p, q in zip(x, y))
+
+    ga = [w for g in ((ia.get("inferred") or {}).get("gaps_nm") or []) for w in g]
+    gb = [w for g in ((ib.get("inferred") or {}).get("gaps_nm") or []) for w in g]
+    return close(ra, rb) and close(ga, gb)
 
 
 def _position(d: Mapping[str, Any]) -> float | None:
@@ -70,7 +104,7 @@ def compare(sample: Mapping[str, Any], reference: Mapping[str, Any]) -> dict[str
     (0.5, 1.0)
     """
     from uvcheck.errors import ConfigurationError
-    from uvcheck.report.terminal import band_value_text, hazard_value_text
+    from uvcheck.report.terminal import band_value_text, hazard_below_detection, hazard_value_text
 
     qa = (sample.get("input") or {}).get("quantity")
     qb = (reference.get("input") or {}).get("quantity")
@@ -84,34 +118,41 @@ def compare(sample: Mapping[str, Any], reference: Mapping[str, Any]) -> dict[str
             f"the reference at {db if db is not None else 'an unstated distance'} m: values "
             "at different positions do not compare",
             todo="give the same --distance for both (measure both at one distance)")
+    same = _same_wavelengths(sample, reference)
     bands = []
     bb = reference.get("bands") or {}
     for name, x in (sample.get("bands") or {}).items():
         y = bb.get(name) or {}
+        part = same and bool(y) and not (x.get("below_detection") or y.get("below_detection"))
         bands.append(_row(name, x.get("unit"), x.get("value"), x.get("status"), y.get("value"),
                           y.get("status"), band_value_text(x, "value") if x else None,
-                          band_value_text(y, "value") if y else None))
+                          band_value_text(y, "value") if y else None, part=part))
     hz = []
     ha, hb = sample.get("hazards") or {}, reference.get("hazards") or {}
     for hid in HAZARD_IDS:
         x, y = ha.get(hid), hb.get(hid)
         if not x or not y:
             continue
+        part = (same and not hazard_below_detection(x) and not hazard_below_detection(y)
+                and x.get("covered_nm") == y.get("covered_nm"))
         row = _row(x.get("symbol") or hid, x.get("unit"), x.get("value"), x.get("status"),
-                   y.get("value"), y.get("status"), hazard_value_text(x), hazard_value_text(y))
+                   y.get("value"), y.get("status"), hazard_value_text(x), hazard_value_text(y),
+                   part=part)
         row.update(id=hid, sample_group=x.get("risk_group"), reference_group=y.get("risk_group"))
         hz.append(row)
     ua = (sample.get("germicidal") or {}).get("uvc") or {}
     ub = (reference.get("germicidal") or {}).get("uvc") or {}
     uvc = _row("UV-C 200–280 nm", ua.get("unit"), ua.get("value"), ua.get("status"),
-               ub.get("value"), ub.get("status"))
+               ub.get("value"), ub.get("status"),
+               part=same and _above_detection(ua) and _above_detection(ub))
     pa = (sample.get("spectral") or {}).get("peak_nm")
     pb = (reference.get("spectral") or {}).get("peak_nm")
     rga, rgb = sample.get("risk_group") or {}, reference.get("risk_group") or {}
     findings = []
     for r in bands + hz + [uvc]:
         if r["ratio"] is not None and abs(r["ratio"] - 1.0) > SAME_WITHIN:
-            findings.append(f"{r['name']}: the sample is {r['ratio']:.3g} × the reference")
+            findings.append(f"{r['name']}: the sample is {r['ratio']:.3g} × the reference"
+                            + (" (over the measured part only)" if r["over"] else ""))
     if rga.get("group") != rgb.get("group") or bool(rga.get("is_lower_bound")) != bool(
             rgb.get("is_lower_bound")):
         findings.append(f"risk group: sample {_group(rga)}, reference {_group(rgb)}")
@@ -126,13 +167,21 @@ def compare(sample: Mapping[str, Any], reference: Mapping[str, Any]) -> dict[str
         "risk_group": {"sample": _group(rga), "reference": _group(rgb)},
         "differences": findings,
         "same_within": SAME_WITHIN,
+        "same_wavelengths": same,
         "notes": ["A ratio is given only where both values are established (not a bound, not "
-                  "below detection); differences under "
+                  "below detection), or, for two spectra over the same wavelengths, where both "
+                  "are partly measured: then over the measured part only; differences under "
                   f"{SAME_WITHIN:.0%} (our own rule, about a UV measurement's calibration "
                   "uncertainty) are not listed as differences.",
                   "Screening comparison, not a certification; local codes and licensed "
                   "practice take precedence."],
     }
+
+
+def _above_detection(u: Mapping[str, Any]) -> bool:
+    """A UV-C reading's value is above its detection limit."""
+    v, dl = u.get("value"), u.get("detection_limit")
+    return v is not None and (dl is None or v >= dl)
 
 
 def _group(rg: Mapping[str, Any]) -> str | None:
@@ -164,7 +213,8 @@ def render_comparison(c: Mapping[str, Any]) -> str:
     for title, rows in (("Bands", c["bands"]), ("Hazards", c["hazards"]), ("UV-C", [c["uvc"]])):
         out.append(f"{title:<30} {'sample':>12}  {'reference':>12}  {'unit':<12} sample/reference")
         for r in rows:
-            ratio = f"{r['ratio']:.3g} ×" if r["ratio"] is not None else r["note"]
+            ratio = (r["note"] if r["ratio"] is None else f"{r['ratio']:.3g} ×"
+                     + (" over the measured part only" if r.get("over") else ""))
             # as the assessment shows them: a detection limit as '< x', a lower bound '≥ x'
             sa = r.get("sample_text") or num(r["sample"], r["sample_status"])
             ra = r.get("reference_text") or num(r["reference"], r["reference_status"])
