@@ -175,6 +175,38 @@ def test_row_equals_what_assess_json_writes(tmp_path):
     assert row["worst_claim_verdict"] == "cannot-hold"  # the listing's "254 nm" cannot hold
 
 
+def test_manifest_block_and_data_start_pick_a_sheet_of_a_workbook(tmp_path):
+    # an invented workbook with one flat-UV-C scan per sheet (1e-3 and 2e-3 W m⁻² nm⁻¹ over
+    # 200–300 nm): without a block the file is ambiguous (an error row naming the sheets);
+    # `block` reads the first scan, `data_start` the second (analytic UV-C 0.08 and 0.16 W m⁻²
+    # over 200–280 nm, trapezoid exact on a flat spectrum). A cell that is no whole number is
+    # the product's error row.
+    import openpyxl
+
+    wl = np.arange(200.0, 801.0, 1.0)
+    wb = openpyxl.Workbook()
+    for k, level in enumerate((1e-3, 2e-3)):
+        ws = wb.active if k == 0 else wb.create_sheet()
+        ws.title = f"Scan {k + 1}"
+        ws.append(["Wavelength (nm)", "Irradiance (W/m2/nm)"])
+        for a in wl:
+            ws.append([float(a), level if a <= 300.0 else 0.0])
+    wb.save(tmp_path / "two.xlsx")
+    start = 1 + 1 + wl.size + 1 + 2   # sheet line, heading, rows; then sheet line, heading
+    m = tmp_path / "manifest.csv"
+    m.write_text("id,spectrum,distance,block,data_start\n"
+                 "none,two.xlsx,1 m,,\n"
+                 f"first,two.xlsx,1 m,1,\nsecond,two.xlsx,1 m,,{start}\n"
+                 "bad,two.xlsx,1 m,first,\n", encoding="utf-8")
+    rows = {r["product_id"]: r for r in (B.run_product(p, settings())
+                                         for p in B.read_manifest(m))}
+    assert rows["none"]["status"] == "error" and "'Scan 2' lines" in rows["none"]["error"]
+    assert rows["first"]["uvc_W_m2"] == pytest.approx(0.08, rel=1e-6)
+    assert rows["second"]["uvc_W_m2"] == pytest.approx(0.16, rel=1e-6)
+    assert rows["bad"]["status"] == "error" and "'block'" in rows["bad"]["error"]
+    assert "not a whole number" in rows["bad"]["error"]
+
+
 def test_listing_only_row_is_marked_nominal(tmp_path):
     lst = EXAMPLES / "listings" / "uvc_box_48_leds_8w.toml"
     row = B.run_product(B.Product("box", None, lst, "", "box.toml"), settings())

@@ -98,7 +98,7 @@ SUMMARY_COLUMNS = (
 MANIFEST_COLUMNS = ("id", "spectrum", "listing", "distance", "source_size", "use_distance",
                     "exposure_time", "electrical_power", "general_lighting", "scale_band",
                     "scale_lux", "scale_total", "unit", "column", "wavelength_unit", "emitter",
-                    "tube_length", "repeats")
+                    "tube_length", "repeats", "block", "data_start")
 #: How a manifest cell lists several repeat scans.
 REPEATS_SEPARATOR = "|"
 
@@ -398,9 +398,23 @@ def prepare_product(product: Product, settings: BatchSettings) -> Any:
 
         listing = read_listing(product.listing)
     opts = (read_options(None, None, None, o.get("column"), None, o.get("wavelength_unit"),
-                         o.get("unit"), None, None) if product.spectrum is not None else None)
+                         o.get("unit"), _line_number(o, "block"), _line_number(o, "data_start"))
+            if product.spectrum is not None else None)
     return prepare_files(product.spectrum, listing, inputs, settings.assess_options(), opts,
                          names=MANIFEST_NAMES)
+
+
+def _line_number(o: Mapping[str, Any], key: str) -> int | None:
+    """A manifest cell that gives a whole number (``block``: which data block of a file with
+    several, e.g. which sheet of a workbook; ``data_start``: the line where the data start),
+    or None when empty."""
+    text = str(o.get(key) or "").strip()
+    if not text:
+        return None
+    if not text.isdigit() or int(text) < 1:
+        raise ConfigurationError(f"manifest column '{key}': {text!r} is not a whole number of "
+                                 "1 or more", todo=f"give the {key.replace('_', ' ')} as 1, 2, …")
+    return int(text)
 
 
 #: Where a per-product input error points: the manifest's column (or the batch option of the

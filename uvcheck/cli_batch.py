@@ -70,8 +70,8 @@ def batch_command(
     certifications.
 
     \b
-    A folder: every spectrum file (.csv .tsv .txt .dat .asc) and listing (.toml)
-    in it, paired by file stem (lamp7.csv with lamp7.toml).
+    A folder: every spectrum file (.csv .tsv .txt .dat .asc .spdx .xlsx .ods)
+    and listing (.toml) in it, paired by file stem (lamp7.csv with lamp7.toml).
 
     \b
     A manifest: a CSV file (comma, semicolon or tab; UTF-8) with a header row.
@@ -90,6 +90,8 @@ def batch_command(
       repeats           repeat scans of the spectrum, 'b.csv|c.csv' (averaged)
       scale_band | scale_lux | scale_total   scaling of a relative spectrum
       unit | column | wavelength_unit        reading the spectrum file
+      block | data_start                     the data block to read (a workbook's
+                                             sheet), or the line where it starts
     Lines starting with # are skipped; an empty cell keeps the option given
     on the command line (--distance, --source-size, ...), which applies to
     every product.
