@@ -6,6 +6,7 @@ from __future__ import annotations
 import json
 from pathlib import Path
 
+import pytest
 from typer.testing import CliRunner
 
 from uvcheck.cli import app
@@ -157,3 +158,45 @@ def test_a_led_model_far_above_240_nm_keeps_its_technology_verdict(tmp_path):
     # emits nothing there whatever the model (data/technologies.toml)
     d = _screen_text(tmp_path, "405 nm")
     assert d["germicidal"]["ozone"]["status"] == "absent"
+
+
+def test_a_listing_that_says_its_mercury_lamp_makes_ozone_is_modelled_so(tmp_path):
+    # An invented listing of a mercury tube sold for "UV + ozone" at "185nm and 254nm": the
+    # model now takes the seller's word and lets the 184.9 nm line out (the ozone-producing,
+    # clear fused-silica envelope of data/emitters/lamp_models.toml), so the estimate shows
+    # output below 200 nm and ozone "present", on the listing's statement ("stated"). An
+    # ozone-free claim in the same listing stays 'unlikely' (examples/listings/README.md:
+    # the listing's own statements give at most 'unlikely').
+    p = tmp_path / "ozone_tube.toml"
+    p.write_text("""
+[product]
+name = "invented 38 W quartz tube"
+invented = true
+[lamp]
+electrical_power = "38 W"
+peak_wavelength = "253.7 nm"
+[[claims]]
+id = "both"
+text = "UV + ozone double sterilization, 185nm and 254nm"
+[[claims]]
+id = "free"
+text = "ozone-free"
+""", encoding="utf-8")
+    r = CliRunner().invoke(app, ["screen", str(p), "--json", "-", "--quiet"])
+    d = json.loads(r.stdout[r.stdout.index("{"):])
+    oz = d["germicidal"]["ozone"]
+    assert oz["status"] == "present" and oz["basis"] == "stated"
+    assert "185nm and 254nm" in oz["note"] and "ventilate" in oz["note"]
+    assert 184.9 in [ln["wavelength_nm"] for ln in d["spectral"]["lines"]]
+    assert d["bands"]["below-200nm"]["value"] > 0
+    free = next(c for c in d["claims"] if c["id"] == "free")
+    assert free["verdict"] == "unlikely" and free["details"]["contradicted_by"] == "both"
+    # UV-C is the same as without the statement: the efficiency range is per UV-C watt
+    q = tmp_path / "plain.toml"
+    q.write_text(p.read_text(encoding="utf-8").replace(
+        'text = "UV + ozone double sterilization, 185nm and 254nm"', 'text = "UV-C 254nm"'),
+        encoding="utf-8")
+    r = CliRunner().invoke(app, ["screen", str(q), "--json", "-", "--quiet"])
+    d2 = json.loads(r.stdout[r.stdout.index("{"):])
+    assert d2["germicidal"]["ozone"]["status"] == "unknown"
+    assert d2["germicidal"]["uvc"]["value"] == pytest.approx(d["germicidal"]["uvc"]["value"])

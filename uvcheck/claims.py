@@ -1362,7 +1362,7 @@ def _ozone(c: Any, ev: Evidence) -> Verdict:
     note = oz.get("note") or oz.get("basis") or ""
     ev_kind = r.evidence
     own = _own_ozone_statement(c, ev)
-    if own is not None and status != "present":
+    if own is not None and (status != "present" or oz.get("basis") == "stated"):
         # the seller's own words say otherwise; a measurement down to 185 nm would decide
         return Verdict(c.id, c.kind, c.text, "unlikely", None, None, None,
                        f"the listing's own claim {own.id} ({own.text!r}) says the lamp makes "

@@ -275,7 +275,8 @@ class Ozone:
     """Output below 240 nm (where oxygen absorbs and ozone forms).
 
     status : ``present`` | ``absent`` | ``unknown``.
-    basis : ``measured`` | ``modelled`` (a nominal spectrum) | ``technology`` | ``not-measurable``.
+    basis : ``measured`` | ``modelled`` (a nominal spectrum) | ``stated`` (a nominal spectrum whose
+        output below 240 nm the listing states) | ``technology`` | ``not-measurable``.
     below_240 : the measured integral over [data start, 240) nm (None if not covered). [unit]
     checked_nm : the wavelengths looked at. [nm]
     covers_185nm : the data reach the 184.9 nm mercury line.
@@ -791,6 +792,14 @@ def _ozone(spec: Spectrum, uvc: Reading, total: float, tech_id: str | None,
         present = r.value > dl and ref > 0 and r.value > MIN_SIGNIFICANT_SHARE * ref
     tech = technologies().get(tech_id or "", {})
     tech_no = rules_out_below_240(tech_id, uvc_peak_nm)
+    stated = ((spec.meta or {}).get("parameters") or {}).get("envelope_from_listing")
+    if present and not artefact and stated and _seen(spec) != "measured":
+        # a nominal model that lets the 184.9 nm line out because the listing says the lamp
+        # makes ozone (or emits 185 nm): the seller's statement, not the model's guess
+        return Ozone("present", "stated", below, unit, checked, covers_185,
+                     f"the listing says the lamp makes ozone or emits 185 nm ({stated!r}), so the "
+                     f"model lets the 184.9 nm line out ({sig(below)} {unit} over "
+                     f"{checked[0]:g}–240 nm): the lamp can make ozone; ventilate after use")  # type: ignore[index]
     if (present and not artefact and _seen(spec) != "measured"
             and tech.get("below_240") == "possible" and not tech_no
             and uvc_peak_nm is not None and uvc_peak_nm >= OZONE_EDGE_NM):

@@ -539,6 +539,18 @@ def default_emitter(technology: str, tube_length_m: float | None = None) -> str:
     return "point"
 
 
+def _says_ozone_made(listing: Any) -> str | None:
+    """The first claim text of a listing that says the lamp makes ozone or emits the 185 nm
+    line ("UV-C + ozone", "254nm + 185nm", "produces ozone"; not an ozone-free wording:
+    :func:`uvcheck.io.listing.says_ozone_made`), or None."""
+    from uvcheck.io.listing import says_ozone_made
+
+    for c in getattr(listing, "claims", None) or ():
+        if c.kind != "ozone-free" and says_ozone_made(c.text):
+            return c.text
+    return None
+
+
 def _shape_for(technology: str, peak_nm: float | None, fwhm_nm: float | None,
                listing: Any, assumptions: list[str]) -> tuple[Spectrum, float | None, float | None]:
     tech = _tech_data().get(technology)
@@ -554,6 +566,16 @@ def _shape_for(technology: str, peak_nm: float | None, fwhm_nm: float | None,
         raise ConfigurationError(f"no nominal model for technology {technology!r}",
                                  todo="name a technology of data/technologies.toml")
     if technology == "lp_mercury":
+        said = _says_ozone_made(listing)
+        if said is not None:
+            assumptions.append(f"the listing says the lamp makes ozone or emits 185 nm "
+                               f"({said!r}): modelled with an ozone-producing (clear "
+                               "fused-silica) envelope, which lets the 184.9 nm line out")
+            shape = mercury_lp_shape("ozone-producing")
+            meta = dict(shape.meta)
+            meta["parameters"] = {**meta.get("parameters", {}),
+                                  "envelope_from_listing": said}
+            return shape.derive(meta=meta), 253.7, None
         assumptions.append("mercury lamp with an ozone-free envelope assumed: the 184.9 nm line "
                            "is not modelled (ozone cannot be judged from this estimate)")
         return mercury_lp_shape("ozone-free"), 253.7, None
