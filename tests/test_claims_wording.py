@@ -293,3 +293,43 @@ def test_fail_on_help_says_or_worse(command):
     r = runner.invoke(app, [command, "--help"], terminal_width=200)
     text = " ".join(r.output.split())
     assert "this verdict or a worse one" in text
+
+
+@pytest.mark.parametrize("text", [
+    "Safe to use around children when nobody is in the room",
+    "safe for pets if no one is present",
+    "Safe for your family: use only in unoccupied rooms",
+    "harmless to people - leave the room during use",
+    "safe for kids as long as the room is empty",
+])
+def test_a_safety_claim_for_an_empty_room_is_not_decided_by_exposure_limits(text):
+    # With nobody in the room nobody is exposed, so the exposure limits cannot decide a
+    # claim made for that case: it used to be 'cannot-hold' on the lamp's E_S at 0.2 m. It
+    # is 'not-assessable', names the safeguards that decide it, and keeps the lamp's figures
+    # for anyone who is there. (uvcheck's own reading of plain English.)
+    lst = listing(f"""
+[lamp]
+technology = "lp_mercury"
+optical_power = "4 W"
+[[claims]]
+id = "s"
+text = "{text}"
+""")
+    v = next(x for x in screen_verdicts(lst).verdicts if x.id == "s")
+    assert v.kind == "safety" and v.verdict == "not-assessable", v.basis
+    assert v.basis.startswith("the claim is made for an empty room")
+    assert "for anyone who is there:" in v.basis and "limit" in v.basis
+    assert any("interlock" in m for m in v.missing)
+
+
+def test_a_plain_safety_claim_is_still_judged_on_the_limits():
+    lst = listing("""
+[lamp]
+technology = "lp_mercury"
+optical_power = "4 W"
+[[claims]]
+id = "s"
+text = "safe for children and pets"
+""")
+    v = next(x for x in screen_verdicts(lst).verdicts if x.id == "s")
+    assert v.verdict == "cannot-hold" and "empty room" not in v.basis

@@ -1509,8 +1509,30 @@ def _other_cases(c: Any, ev: Evidence, r: Reading, t: float, where: str, cases: 
     return None, shortest
 
 
+#: A safety claim made for an empty room ("safe around children when nobody is in the room",
+#: "safe: use only in unoccupied rooms"): our own reading of plain English.
+_EMPTY_ROOM_RE = re.compile(
+    r"\b(?:when|while|if|once|as\s+long\s+as|provided)\s+(?:the\s+room\s+is\s+(?:empty|vacant|"
+    r"unoccupied)|(?:nobody|no\s*one|no\s+(?:people|persons?|humans?|one|pets?|animals?|"
+    r"children|kids))\s+(?:is|are)\s+(?:in|present|around|inside|there))|\bunoccupied\b|"
+    r"\bempty\s+rooms?\b|\bvacant\s+rooms?\b|\bleave\s+the\s+room\b|"
+    r"\bno\s*one\s+(?:is\s+)?(?:present|around|in\s+the\s+room)\b", re.I)
+#: What decides a safety claim made for an empty room.
+EMPTY_ROOM_NEEDS = ("the product's safeguards (a timer, a presence sensor or an interlock that "
+                    "keeps it off with people or animals present) and its instructions",)
+
+
 def _safety(c: Any, ev: Evidence) -> Verdict:
     v = _safety_verdict(c, ev)
+    if _EMPTY_ROOM_RE.search(c.text or "") and "occupied-rooms" not in c.safe_for:
+        # With nobody there, nobody is exposed: the exposure limits do not decide the claim;
+        # the lamp's figures stay in the basis, since they say what happens if someone is
+        return _na(c, ev, "the claim is made for an empty room, where nobody is exposed, so "
+                          "the exposure limits do not decide it; what decides it is whether the "
+                          "lamp can be lit with people or animals present (and, for a lamp that "
+                          "makes ozone, whether the room is aired before they return); for "
+                          "anyone who is there: "
+                          + v.basis, EMPTY_ROOM_NEEDS, v.assumptions)
     if v.verdict == "holds" and not ev.measured and _rests_on_stated_filter(ev):
         # the estimate is within the limits because the seller says a filter removes the
         # longer-wavelength UV-C; a listing cannot show that filter (as the envelope glass
