@@ -295,6 +295,19 @@ def test_fail_on_help_says_or_worse(command):
     assert "this verdict or a worse one" in text
 
 
+def _mercury_tube_claim(text: str):
+    """The verdict on one claim of an invented listing of a 4 W (optical) mercury tube."""
+    lst = listing(f"""
+[lamp]
+technology = "lp_mercury"
+optical_power = "4 W"
+[[claims]]
+id = "s"
+text = "{text}"
+""")
+    return next(x for x in screen_verdicts(lst).verdicts if x.id == "s")
+
+
 @pytest.mark.parametrize("text", [
     "Safe to use around children when nobody is in the room",
     "safe for pets if no one is present",
@@ -307,15 +320,7 @@ def test_a_safety_claim_for_an_empty_room_is_not_decided_by_exposure_limits(text
     # claim made for that case: it used to be 'cannot-hold' on the lamp's E_S at 0.2 m. It
     # is 'not-assessable', names the safeguards that decide it, and keeps the lamp's figures
     # for anyone who is there. (uvcheck's own reading of plain English.)
-    lst = listing(f"""
-[lamp]
-technology = "lp_mercury"
-optical_power = "4 W"
-[[claims]]
-id = "s"
-text = "{text}"
-""")
-    v = next(x for x in screen_verdicts(lst).verdicts if x.id == "s")
+    v = _mercury_tube_claim(text)
     assert v.kind == "safety" and v.verdict == "not-assessable", v.basis
     assert v.basis.startswith("the claim is made for an empty room")
     assert "for anyone who is there:" in v.basis and "limit" in v.basis
@@ -323,13 +328,5 @@ text = "{text}"
 
 
 def test_a_plain_safety_claim_is_still_judged_on_the_limits():
-    lst = listing("""
-[lamp]
-technology = "lp_mercury"
-optical_power = "4 W"
-[[claims]]
-id = "s"
-text = "safe for children and pets"
-""")
-    v = next(x for x in screen_verdicts(lst).verdicts if x.id == "s")
+    v = _mercury_tube_claim("safe for children and pets")
     assert v.verdict == "cannot-hold" and "empty room" not in v.basis
