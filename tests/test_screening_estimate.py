@@ -69,8 +69,8 @@ def test_a_modelled_line_source_reports_its_lines_and_no_spectrometer_artefacts(
 
 def test_a_listing_alone_note_never_calls_the_lamp_measured():
     """A note of a listing alone (an ESTIMATE) had 'screening assessment of the measured
-    sample', 'Measurement distance 20 cm', 'no measurable emission' and 'of the measured
-    180–3000 nm output'; only the estimate banner may use the word, to say nothing was
+    sample', 'Measurement distance 20 cm', 'no measurable emission', 'of the measured
+    180–3000 nm output' and 'Where: measurement position (20 cm)'; only the estimate banner may use the word, to say nothing was
     measured."""
     import re
 
@@ -82,7 +82,7 @@ def test_a_listing_alone_note_never_calls_the_lamp_measured():
     d = json.loads(json.dumps(screen_listing_file(lst).to_dict(), default=str))
     view = build_note(d, lst.to_dict() if hasattr(lst, "to_dict") else None)
     text = json.dumps({k: v for k, v in view.items() if k != "finding"}, ensure_ascii=False)
-    hits = [m.group(0) for m in re.finditer(r".{40}\bmeasur(?:ed|able)\b.{20}", text)
+    hits = [m.group(0) for m in re.finditer(r".{40}\bmeasur(?:ed|able|ement position|ement distance)\b.{20}", text)
             if "organism was measured" not in m.group(0) and "nothing was measured" not in m.group(0)]
     assert not hits, hits
     assert "screening estimate from the seller's stated data" in view["does_not_cover"]

@@ -302,7 +302,8 @@ class Position:
     """Where the figures apply.
 
     distance_m : distance from the lamp, None if unknown (or a flux: no position). [m]
-    basis : ``measurement position``, a scaling description, or ``flux``.
+    basis : ``measurement position`` (``position of the estimate`` for a nominal spectrum), a
+        scaling description, or ``flux``.
     scaling : the distance scaling used (model, factor, regime, note), or None.
     """
 
@@ -906,7 +907,9 @@ def _at_position(spectrum: Spectrum, cond: Conditions, distance_m: float | None
     if distance_m is None:
         if spectrum.quantity == "flux":
             return spectrum, Position(None, "flux: the lamp's total output, no position", None)
-        return spectrum, Position(cond.measurement_distance_m, "measurement position", None)
+        # a nominal estimate is placed at a distance, not measured there
+        where = "position of the estimate" if is_nominal(spectrum) else "measurement position"
+        return spectrum, Position(cond.measurement_distance_m, where, None)
     d = float(distance_m)
     if not (math.isfinite(d) and d > 0):
         raise ConfigurationError(f"distance must be positive, got {distance_m}")

@@ -397,8 +397,8 @@ def spectral_facts(result: Result) -> list[dict[str, str]] | None:
                 "value": hg_line_text(sp.get("hg_253_7_present"), result)})
     ph = result.get("photometry") or {}
     if ph.get("value") is not None:
-        out.append({"label": "Illuminance at the measurement position",
-                    "value": f"{sig(ph['value'])} lx"})
+        where = "the position of the estimate" if is_estimate(result) else "the measurement position"
+        out.append({"label": f"Illuminance at {where}", "value": f"{sig(ph['value'])} lx"})
     return out
 
 
