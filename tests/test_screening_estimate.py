@@ -200,3 +200,54 @@ text = "ozone-free"
     d2 = json.loads(r.stdout[r.stdout.index("{"):])
     assert d2["germicidal"]["ozone"]["status"] == "unknown"
     assert d2["germicidal"]["uvc"]["value"] == pytest.approx(d["germicidal"]["uvc"]["value"])
+
+
+def test_the_note_names_each_identified_line_once():
+    # the mercury model has both lines of the 312.6/313.2 nm doublet, which carry one name
+    # (data/emitters/emission_lines.csv); the note listed that name twice
+    from uvcheck.report.note import spectral_facts
+
+    d = _screen_json("mercury_tube_sold_pet_safe.toml")
+    names = [ln["identified_as"] for ln in d["spectral"]["lines"] if ln.get("identified_as")]
+    assert len(names) > len(set(names))  # the doublet: one name, two lines
+    facts = {f["label"]: f["value"] for f in spectral_facts(d)}
+    listed = facts["Lines identified"].split(", Hg ")
+    assert len(listed) == len(set(listed)) == len(set(names))
+
+
+def test_the_finding_says_when_the_lamp_makes_ozone(tmp_path):
+    # The finding, the note's first paragraph, said nothing of ozone when the result found
+    # output below 240 nm (PRACTICE-style caution: ventilate after use). Measured: an
+    # invented mercury spectrum from 180 nm with the 184.9 and 253.7 nm lines; stated: the
+    # listing's own words.
+    import numpy as np
+    from conftest import gaussian
+
+    from uvcheck.assessment import assess
+    from uvcheck.conditions import Conditions
+    from uvcheck.report.note import finding
+    from uvcheck.spectrum import Spectrum
+
+    wl = np.arange(180.0, 400.0, 0.5)
+    v = gaussian(wl, 253.7, 1.0, 0.05) + gaussian(wl, 184.9, 1.0, 0.008) + 1e-7
+    d = json.loads(json.dumps(assess(Spectrum(wl, v, "irradiance"),
+                                     Conditions(measurement_distance_m=0.5)).to_dict(),
+                              default=str))
+    assert d["germicidal"]["ozone"]["status"] == "present"
+    assert "It emits below 240 nm, where light forms ozone" in finding(d)
+    p = tmp_path / "oz.toml"
+    p.write_text("""
+[product]
+name = "invented quartz tube"
+invented = true
+[lamp]
+electrical_power = "38 W"
+peak_wavelength = "253.7 nm"
+[[claims]]
+text = "UV + ozone 185nm"
+""", encoding="utf-8")
+    r = CliRunner().invoke(app, ["screen", str(p), "--json", "-", "--quiet"])
+    d = json.loads(r.stdout[r.stdout.index("{"):])
+    assert "The listing says the lamp makes ozone" in finding(d)
+    d = _screen_json("mercury_tube_sold_pet_safe.toml")  # ozone unknown: no sentence
+    assert "ozone" not in finding(d).lower()

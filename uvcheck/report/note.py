@@ -390,7 +390,9 @@ def spectral_facts(result: Result) -> list[dict[str, str]] | None:
                     + (f" ({caveat})" if caveat else "")})
     if sp.get("centroid_nm") is not None:
         out.append({"label": "Centroid", "value": f"{sp['centroid_nm']:.4g} nm"})
-    lines = [ln.get("identified_as") for ln in sp.get("lines") or [] if ln.get("identified_as")]
+    # each name once: the two lines of a doublet carry the same name ("Hg 312.6/313.2 nm")
+    lines = list(dict.fromkeys(ln.get("identified_as") for ln in sp.get("lines") or []
+                               if ln.get("identified_as")))
     if lines:
         out.append({"label": "Lines identified", "value": ", ".join(lines)})
     out.append({"label": "Mercury 253.7 nm line",
@@ -1118,6 +1120,14 @@ def finding(result: Result, claims: list[dict[str, Any]] | None = None) -> str:
         elif strongest and strongest["identified_as"].startswith("KrCl"):
             txt = f"{its} is a narrow {what.replace(' radiation', '')} band peaking at {peak:.4g} nm"
         s.append(txt + (f"; {comp}." if comp else "."))
+    oz = g.get("ozone") or {}
+    if oz.get("status") == "present":
+        s.append("The listing says the lamp makes ozone (or emits at 185 nm), and ozone forms "
+                 "in the air it lights: air the room after use before anyone goes in."
+                 if oz.get("basis") == "stated" else
+                 f"{'On this estimate it' if est else 'It'} emits below 240 nm, where light "
+                 "forms ozone from the oxygen in the air: air the room after use before anyone "
+                 "goes in.")
     if g:
         hl, _ = organism_rows(g)
         best = _fastest(hl, g)
