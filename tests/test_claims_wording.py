@@ -330,3 +330,25 @@ def test_a_safety_claim_for_an_empty_room_is_not_decided_by_exposure_limits(text
 def test_a_plain_safety_claim_is_still_judged_on_the_limits():
     v = _mercury_tube_claim("safe for children and pets")
     assert v.verdict == "cannot-hold" and "empty room" not in v.basis
+
+
+@pytest.mark.parametrize("text", [
+    "Safe design: automatic shut-off when a human body is detected (radar sensor)",
+    "safe for pets thanks to the PIR sensor",
+    "Child-safe: switches off when the lid is opened",
+    "safe for people, with a safety interlock",
+])
+def test_a_safety_claim_that_rests_on_a_safeguard_is_not_decided_by_exposure_limits(text):
+    # A sensor or an interlock that switches the lamp off is what such a claim rests on, and
+    # neither a spectrum nor a listing tests it: 'not-assessable', naming the test that
+    # would decide it, with the lamp's time to the limit (how fast the safeguard must act).
+    # (uvcheck's own reading of plain English.)
+    v = _mercury_tube_claim(text)
+    assert v.kind == "safety" and v.verdict == "not-assessable", v.basis
+    assert v.basis.startswith("the claim rests on a safeguard") and "reached in" in v.basis
+    assert any("test of the safeguard" in m for m in v.missing)
+
+
+def test_safeguard_words_elsewhere_do_not_make_a_safeguard_claim():
+    v = _mercury_tube_claim("safe for people: stops germs on surfaces people touch")
+    assert v.verdict == "cannot-hold" and "safeguard" not in v.basis

@@ -1517,6 +1517,16 @@ _EMPTY_ROOM_RE = re.compile(
     r"children|kids))\s+(?:is|are)\s+(?:in|present|around|inside|there))|\bunoccupied\b|"
     r"\bempty\s+rooms?\b|\bvacant\s+rooms?\b|\bleave\s+the\s+room\b|"
     r"\bno\s*one\s+(?:is\s+)?(?:present|around|in\s+the\s+room)\b", re.I)
+#: A safety claim that rests on a safeguard switching the lamp off when someone is there
+#: ("automatic shut-off when a human body is detected", "radar sensor", "switches off when
+#: the lid is opened"): our own reading of plain English.
+_SAFEGUARD_RE = re.compile(
+    r"(?:\b(?:shut|switch|turn|power)(?:s|es|ed)?[\s-]*off|\bauto(?:matic(?:ally)?)?[\s-]*"
+    r"(?:off|stop|shut)|\binterlock)"
+    r".{0,60}?\b(?:human|body|bodies|person|people|motion|movement|presence|radar|sensor|"
+    r"detect\w*|enter\w*|opened|lid|door)"
+    r"|\b(?:human|body|motion|presence|radar|pir|microwave)[\s-]*(?:sensor|sensing|detection|"
+    r"induction)\b|\binterlock\w*\b", re.I)
 #: What decides a safety claim made for an empty room.
 EMPTY_ROOM_NEEDS = ("the product's safeguards (a timer, a presence sensor or an interlock that "
                     "keeps it off with people or animals present) and its instructions",)
@@ -1524,6 +1534,15 @@ EMPTY_ROOM_NEEDS = ("the product's safeguards (a timer, a presence sensor or an 
 
 def _safety(c: Any, ev: Evidence) -> Verdict:
     v = _safety_verdict(c, ev)
+    if _SAFEGUARD_RE.search(c.text or "") and "occupied-rooms" not in c.safe_for:
+        # the claim rests on a safeguard, which no spectrum or listing tests; the lamp's
+        # figures say how fast it must act
+        return _na(c, ev, "the claim rests on a safeguard that switches the lamp off when "
+                          "someone is there (a sensor, an interlock), which neither a spectrum "
+                          "nor a listing can test; it must act before the exposure limit is "
+                          "reached, and for anyone it misses: " + v.basis,
+                   ("a test of the safeguard: that it keeps the lamp off, or switches it off "
+                    "fast enough, with a person or animal present",), v.assumptions)
     if _EMPTY_ROOM_RE.search(c.text or "") and "occupied-rooms" not in c.safe_for:
         # With nobody there, nobody is exposed: the exposure limits do not decide the claim;
         # the lamp's figures stay in the basis, since they say what happens if someone is
