@@ -225,6 +225,8 @@ def input_section(spectrum: Spectrum, report: Any | None) -> dict[str, Any]:
         "warnings": warnings,
         # repeat scans (uvcheck.repeats): how far the scans agree; None for one scan
         "repeats": meta.get("repeats"),
+        # a dark scan subtracted (uvcheck.background): which, over what range, its level
+        "dark": meta.get("dark"),
     }
 
 

@@ -98,7 +98,7 @@ SUMMARY_COLUMNS = (
 MANIFEST_COLUMNS = ("id", "spectrum", "listing", "distance", "source_size", "use_distance",
                     "exposure_time", "electrical_power", "general_lighting", "scale_band",
                     "scale_lux", "scale_total", "unit", "column", "wavelength_unit", "emitter",
-                    "tube_length", "repeats", "block", "data_start")
+                    "tube_length", "repeats", "dark", "block", "data_start")
 #: How a manifest cell lists several repeat scans.
 REPEATS_SEPARATOR = "|"
 
@@ -150,6 +150,8 @@ class Product:
     note : the note to write for this product (HTML), or None.
     repeats : repeat scans of the spectrum (a manifest's ``repeats`` cell, files separated by
         :data:`REPEATS_SEPARATOR`, relative to the manifest), averaged with it.
+    dark : a dark (background) scan subtracted from the spectrum (a manifest's ``dark``
+        cell, relative to the manifest), or None.
     """
 
     product_id: str
@@ -161,6 +163,7 @@ class Product:
     problem: str | None = None
     note: Path | None = None
     repeats: tuple[Path, ...] = ()
+    dark: Path | None = None
 
 
 def scan_folder(folder: Path, exclude: Iterable[Path] = ()) -> list[Product]:
@@ -263,9 +266,13 @@ def read_manifest(path: Path) -> list[Product]:
                      if f.strip())
         if reps and not sp:
             problem = problem or f"repeat scans (line {line_no}) without a spectrum"
+        dark = row.get("dark", "").strip()
+        if dark and not sp:
+            problem = problem or f"a dark scan (line {line_no}) without a spectrum"
         out.append(Product(product_id=pid, spectrum=(base / sp) if sp else None,
                            listing=(base / ls) if ls else None, spectrum_label=sp,
-                           listing_label=ls, options=opts, problem=problem, repeats=reps))
+                           listing_label=ls, options=opts, problem=problem, repeats=reps,
+                           dark=(base / dark) if dark else None))
     return out
 
 
@@ -390,7 +397,7 @@ def prepare_product(product: Product, settings: BatchSettings) -> Any:
                            exposure_time=given["exposure_time"] or "8 h",
                            electrical_power=given["electrical_power"],
                            emitter=given["emitter"], tube_length=given["tube_length"],
-                           repeats=product.repeats)
+                           repeats=product.repeats, dark=product.dark)
     inputs.check(MANIFEST_NAMES)
     listing = None
     if product.listing is not None:
@@ -421,7 +428,7 @@ def _line_number(o: Mapping[str, Any], key: str) -> int | None:
 #: same meaning); the keys of :data:`uvcheck.pipeline.CLI_NAMES`.
 MANIFEST_NAMES = {k: k for k in ("distance", "scale_band", "scale_lux", "scale_total",
                                  "source_size", "alpha", "use_distance", "exposure_time",
-                                 "electrical_power", "emitter", "tube_length")}
+                                 "electrical_power", "emitter", "tube_length", "dark")}
 
 
 def summary_row(product: Product, result: Mapping[str, Any] | None, error: str | None = None,
@@ -516,9 +523,10 @@ def worst_claim(claims: Sequence[Mapping[str, Any]]) -> Mapping[str, Any] | None
 
 def inputs_fingerprint(product: Product, settings: BatchSettings,
                        spectrum_sha256: str | None = None) -> str:
-    """SHA-256 of what a product's row depends on: the bytes of its files, its options and
-    the batch settings that change figures (limit set, uncertainty inputs), and the tool
-    version. ``--resume`` keeps a row only when this is unchanged.
+    """SHA-256 of what a product's row depends on: the bytes of its files (the spectrum, the
+    listing, any repeat scans and dark scan), its options and the batch settings that change
+    figures (limit set, uncertainty inputs), and the tool version. ``--resume`` keeps a row
+    only when this is unchanged.
 
     spectrum_sha256 : the SHA-256 of the spectrum file's bytes where the reader has it
         already (the bytes it assessed); else the file is hashed here."""
@@ -536,7 +544,13 @@ def inputs_fingerprint(product: Product, settings: BatchSettings,
 
     sp = (spectrum_sha256 if spectrum_sha256 is not None and product.spectrum is not None
           else file_hash(product.spectrum))
-    what = {"spectrum": sp, "listing": file_hash(product.listing),
+    if product.repeats:
+        what_more = {"repeats": [file_hash(f) for f in product.repeats]}
+    else:
+        what_more = {}
+    if product.dark is not None:
+        what_more["dark"] = file_hash(product.dark)
+    what = {"spectrum": sp, "listing": file_hash(product.listing), **what_more,
             "options": {**settings.defaults, **product.options}, "limits": settings.limits,
             "uncertainty": settings.uncertainty,
             "uncertainty_options": dict(settings.uncertainty_options), "version": __version__}
@@ -561,7 +575,11 @@ def _run_product(product: Product, settings: BatchSettings,
         if isinstance(prepared, BaseException):
             raise prepared
         a = (prepared if prepared is not None else prepare_product(product, settings)).assess()
-        sha = a.spectrum.meta.get("sha256") if product.spectrum is not None else None
+        # the reader's hash of the spectrum file's bytes; a mean of repeat scans or a
+        # dark-subtracted scan carries a digest of several files instead, so the files are
+        # hashed by inputs_fingerprint (each of them)
+        sha = (a.spectrum.meta.get("sha256") if product.spectrum is not None
+               and not product.repeats and product.dark is None else None)
         if product.note is None:
             return summary_row(product, a.summary_parts()), sha
         from uvcheck.cli_note import write_note

@@ -73,11 +73,11 @@ def guarded(fn: Callable[..., Any]) -> Callable[..., Any]:
 # ---------------------------------------------------------------------------------------------
 
 from uvcheck.cli_options import (  # noqa: E402  (typer only)
-    Alpha, Block, CalibrationUncertainty, Column, DataStart, Decimal, DecisionRule, Delimiter,
-    Distance, DistanceUncertainty, Draws, ElectricalPower, Emitter, Encoding, ExposureTime, Force,
-    GeneralLighting, Limits, MeterResponse, NoUncertainty, Quiet, Repeat, ScaleBand, ScaleLux,
-    ScaleTotal, SourceSize, StrayLight, TestInfo, TubeLength, Unit, UseDistance, WavelengthUncertainty,
-    WlColumn, WlUnit)
+    Alpha, Block, CalibrationUncertainty, Column, Dark, DataStart, Decimal, DecisionRule,
+    Delimiter, Distance, DistanceUncertainty, Draws, ElectricalPower, Emitter, Encoding,
+    ExposureTime, Force, GeneralLighting, Limits, MeterResponse, NoUncertainty, Quiet, Repeat,
+    ScaleBand, ScaleLux, ScaleTotal, SourceSize, StrayLight, TestInfo, TubeLength, Unit,
+    UseDistance, WavelengthUncertainty, WlColumn, WlUnit)
 
 
 def read_options(encoding: str | None, delimiter: str | None, decimal: str | None,
@@ -134,6 +134,7 @@ def assess(
     column: Column = None, wavelength_column: WlColumn = None, wavelength_unit: WlUnit = None,
     unit: Unit = None, block: Block = None, data_start: DataStart = None,
     repeat: Repeat = None,
+    dark: Dark = None,
     test_info: TestInfo = None,
 ) -> None:
     """Assess a measured spectrum: band breakdown, peak, photometry, IEC 62471 hazards,
@@ -148,8 +149,8 @@ def assess(
                            use_distance=use_distance, general_lighting=general_lighting,
                            exposure_time=exposure_time, electrical_power=electrical_power,
                            emitter=emitter, tube_length=tube_length,
-                           repeats=tuple(repeat or ()), meter_response=meter_response,
-                           test_info=tuple(test_info or ()))
+                           repeats=tuple(repeat or ()), dark=dark,
+                           meter_response=meter_response, test_info=tuple(test_info or ()))
     inputs.check()
     check_output_file(json_out, force)
     _check_fail_on(fail_on)

@@ -88,6 +88,7 @@ def batch_command(
       emitter           point, lambertian or tube (distance model)
       tube_length       a tube's length, e.g. '1.2 m' (the tube model)
       repeats           repeat scans of the spectrum, 'b.csv|c.csv' (averaged)
+      dark              a dark (background) scan, subtracted from the spectrum
       scale_band | scale_lux | scale_total   scaling of a relative spectrum
       unit | column | wavelength_unit        reading the spectrum file
       block | data_start                     the data block to read (a workbook's

@@ -17,7 +17,8 @@ from typing import Annotated, Any, Optional
 
 import typer
 
-from uvcheck.cli_options import (Alpha, Block, CalibrationUncertainty, Column, DataStart, Decimal,
+from uvcheck.cli_options import (Alpha, Block, CalibrationUncertainty, Column, Dark, DataStart,
+                                 Decimal,
                                  DecisionRule, Delimiter, Distance, DistanceUncertainty, Draws,
                                  ElectricalPower, Encoding, ExposureTime, EyeHeight, Force,
                                  GeneralLighting, LampAt, Limits, MeterResponse,
@@ -55,6 +56,7 @@ def note_result(spectrum_file: Path | None, listing_file: Path | None, *, read_o
                 room_where: dict[str, str] | None = None,
                 uncertainty: dict[str, Any] | None = None,
                 repeats: tuple[Path, ...] = (),
+                dark: Path | None = None,
                 meter_response: Path | None = None,
                 test_info: tuple[str, ...] = ()) -> tuple[dict[str, Any], Any]:
     """(``Assessment.to_dict()`` made strict-JSON, the spectrum it was computed from).
@@ -83,7 +85,7 @@ def note_result(spectrum_file: Path | None, listing_file: Path | None, *, read_o
                            scale_total=scale_total, source_size=source_size, alpha=alpha,
                            use_distance=use_distance, general_lighting=general_lighting,
                            exposure_time=exposure_time, electrical_power=electrical_power,
-                           repeats=tuple(repeats), meter_response=meter_response,
+                           repeats=tuple(repeats), dark=dark, meter_response=meter_response,
                            test_info=tuple(test_info))
     inputs.check()
     options = assess_options(limits, **(uncertainty or {}))
@@ -253,6 +255,7 @@ def note_command(
     column: Column = None, wavelength_column: WlColumn = None, wavelength_unit: WlUnit = None,
     unit: Unit = None, block: Block = None, data_start: DataStart = None,
     repeat: Repeat = None,
+    dark: Dark = None,
     test_info: TestInfo = None,
 ) -> None:
     """Write the consumer-safety note (self-contained HTML and PDF) for a spectrum and/or a
@@ -303,7 +306,7 @@ def note_command(
                                source_size=source_size, alpha=alpha, use_distance=use_distance,
                                general_lighting=general_lighting, exposure_time=exposure_time,
                                limits=limits, electrical_power=electrical_power, room=room_d,
-                               uncertainty=unc, repeats=tuple(repeat or ()),
+                               uncertainty=unc, repeats=tuple(repeat or ()), dark=dark,
                                meter_response=meter_response,
                                test_info=tuple(test_info or ()))
     h, p, _ = write_note(result, spec, html_path, pdf=not no_pdf, force=force, salt=stem)

@@ -51,6 +51,11 @@ Repeat = Annotated[Optional[list[Path]], typer.Option(
                      "mean of all scans is assessed, and their spread reported.",
     rich_help_panel=_READ)]
 
+Dark = Annotated[Optional[Path], typer.Option(
+    "--dark", help="A dark (background) scan, taken as the lamp scan was with the lamp off or "
+                   "shuttered: subtracted from it (after averaging any --repeat scans).",
+    rich_help_panel=_READ)]
+
 # --- scaling and geometry -----------------------------------------------------------------------
 Distance = Annotated[Optional[str], typer.Option(help="Measurement distance, e.g. '20 cm' "
                                                  "(default: from the file, else none).")]

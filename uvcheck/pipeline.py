@@ -26,7 +26,7 @@ CLI_NAMES: dict[str, str] = {
     "scale_total": "--scale-total", "source_size": "--source-size", "alpha": "--alpha",
     "use_distance": "--use-distance", "exposure_time": "--exposure-time",
     "electrical_power": "--electrical-power", "emitter": "--emitter",
-    "tube_length": "--tube-length", "meter_response": "--meter-response"}
+    "tube_length": "--tube-length", "meter_response": "--meter-response", "dark": "--dark"}
 
 
 def emitter_options(emitter: str | None, tube_length: str | None,
@@ -146,6 +146,8 @@ class ProductInputs:
         (a table file); None: a flat response over the band.
     repeats : further scans of the same lamp in the same position (files); the mean of all
         scans is assessed (:func:`uvcheck.repeats.combine_scans`).
+    dark : a dark (background) scan (a file), subtracted from the (mean) lamp scan
+        (:func:`uvcheck.background.subtract_dark`).
     """
 
     distance: str | None = None
@@ -161,6 +163,7 @@ class ProductInputs:
     emitter: str | None = None
     tube_length: str | None = None
     repeats: tuple[Path, ...] = ()
+    dark: Path | None = None
     meter_response: str | Path | None = None
     test_info: tuple[str, ...] = ()
 
@@ -260,6 +263,9 @@ def prepare_files(spectrum_file: Path | None, listing: Any | None, inputs: Produ
     if spectrum_file is None and inputs.repeats:
         raise ConfigurationError("repeat scans need the first scan as the spectrum file",
                                  todo="give the spectrum file first, then --repeat for the others")
+    if spectrum_file is None and inputs.dark is not None:
+        raise ConfigurationError(f"a dark scan ({names.get('dark', '--dark')}) is subtracted "
+                                 "from a lamp scan: give the spectrum file too")
     if spectrum_file is None:
         if listing is None:
             raise ConfigurationError("give a spectrum file, a listing file, or both")
@@ -281,6 +287,8 @@ def prepare_files(spectrum_file: Path | None, listing: Any | None, inputs: Produ
     spec, report = read_spectrum(spectrum_file, read_opts)
     if inputs.repeats:
         spec, report = _with_repeats(spec, report, spectrum_file, inputs.repeats, read_opts)
+    if inputs.dark is not None:
+        spec, report = _with_dark(spec, report, inputs.dark, read_opts)
     spec = apply_scaling(spec, inputs.scale_band, inputs.scale_lux, inputs.scale_total,
                          inputs.meter_response)
     if inputs.test_info:
@@ -333,8 +341,46 @@ def _with_repeats(spec: Any, report: Any, first: Path, repeats: Sequence[Path],
         warnings.append(summary.warning())
     noise = dict(report.noise)
     noise.update(sigma=mean.noise_floor, basis=summary.noise_basis,
-                 method=f"mean of {summary.n} scans, σ/√{summary.n}")
+                 method=f"mean of {summary.n} scans, σ/√{summary.n}",
+                 n_negative=int((mean.values < 0).sum()))
     return mean, replace(report, warnings=tuple(warnings), noise=noise, sha256=mean.meta["sha256"])
+
+
+def _with_dark(spec: Any, report: Any, dark_file: Path, read_opts: Any) -> tuple[Any, Any]:
+    """The lamp scan minus a dark scan (read with the same options), with the lamp scan's
+    report: its baseline warnings (an offset that a dark subtraction would remove, or one
+    that went wrong) replaced by the same check on the result, the dark scan's own warnings
+    and what the subtraction did."""
+    from uvcheck.background import subtract_dark
+    from uvcheck.io.reader import BASELINE_MARK, baseline_warning, read_spectrum
+
+    dark, r = read_spectrum(dark_file, read_opts)
+    out, summary = subtract_dark(spec, dark, str(dark_file))
+    name = Path(dark_file).name
+    warnings = [w for w in report.warnings if BASELINE_MARK not in w]
+    warnings += [f"{name}: {w}" for w in r.warnings if BASELINE_MARK not in w]
+    lo, hi = summary.range_nm
+    share = (f", {summary.peak_share:.2g} of the lamp scan's peak"
+             if summary.peak_share is not None else "")
+    warnings.append(f"dark scan {name} subtracted, over {lo:g}–{hi:g} nm (the range both cover):"
+                    f" its median level {summary.level_text()}{share}; that it was taken with "
+                    "the lamp scan's settings (integration time, averaging, position) cannot be "
+                    "checked from the data")
+    after = baseline_warning(out.values, out.noise_floor, out.quantity)
+    lo_v, hi_v = float(out.values.min()), float(out.values.max())
+    if after:
+        warnings.append(f"after the dark subtraction: {after}")
+    elif -lo_v > max(hi_v, 10.0 * (out.noise_floor or 0.0)):
+        # the dark stands above the lamp where the lamp emits (our own rule: the deepest dip
+        # beyond both the highest point and 10 σ of the noise)
+        warnings.append(f"after the dark subtraction the deepest dip ({lo_v:.3g}) goes further "
+                        f"below zero than the highest point ({hi_v:.3g}) rises above it: are the "
+                        f"dark scan and the lamp scan swapped, or was the dark taken with the "
+                        "lamp on? Check the two files")
+    noise = dict(report.noise)
+    noise.update(sigma=out.noise_floor, basis=summary.noise_basis,
+                 method="lamp scan minus dark scan", n_negative=int((out.values < 0).sum()))
+    return out, replace(report, warnings=tuple(warnings), noise=noise, sha256=out.meta["sha256"])
 
 
 def _read_listing(path: str | Path) -> Any:

@@ -1589,8 +1589,7 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
         plateau = _noisy_plateau(values, wl_nm, noise.sigma, unit_label)
         if plateau:
             warnings.append(plateau)
-    baseline = (_mostly_negative(values) or _negative_offset(values, noise.sigma, su)
-                or _positive_offset(values, noise.sigma, su))
+    baseline = baseline_warning(values, noise.sigma, su.quantity)
     if baseline:
         warnings.append(baseline)
     if su.quantity != "relative":
@@ -1677,6 +1676,26 @@ def _flag_ambiguous_separators(cols: list[_SepColumn], head: list[str], start: i
                 f"column {label!r} (column {k + 1}): {tok!r} on line {line + 1} uses '{decimal}' "
                 f"as a thousands separator, but the file also uses '{decimal}' as its decimal "
                 f"mark; such rows cannot be read: check the export")
+
+
+#: Every baseline warning (:func:`baseline_warning`) names the dark measurement so.
+BASELINE_MARK = "dark (background)"
+
+
+class _Quantity:
+    """What the baseline checks need of a spectral unit: its quantity."""
+
+    def __init__(self, quantity: str):
+        self.quantity = quantity
+
+
+def baseline_warning(values: np.ndarray, sigma: float | None, quantity: str) -> str | None:
+    """The reader's baseline check on values of a quantity (``irradiance``, ``relative``…):
+    a spectrum below zero as a whole, or a baseline offset below or above zero, as a warning
+    that names the :data:`BASELINE_MARK`; None when the baseline is sound."""
+    su = _Quantity(quantity)
+    return (_mostly_negative(values) or _negative_offset(values, sigma, su)
+            or _positive_offset(values, sigma, su))
 
 
 def _mostly_negative(values: np.ndarray) -> str | None:

@@ -1360,6 +1360,10 @@ def provenance(result: Result, listing: Mapping[str, Any] | None, date: str,
                 + ", ".join(os.path.basename(str(f)) for f in rep["files"]) + ")"
                 + (f"; their totals differ by {100 * rep['spread']:.1f} %"
                    if rep.get("spread") is not None else ""))})
+        dark = inp.get("dark")
+        if dark:
+            inputs.append({"label": "Dark scan subtracted",
+                           "value": os.path.basename(str(dark.get("file")))})
         inputs.append({"label": "sha256", "value": str(inp.get("sha256"))})
         lo, hi = inp.get("range_nm") or (None, None)
         inputs.append({"label": "Data", "value": f"{inp.get('origin')} {inp.get('quantity')} in "

@@ -142,6 +142,12 @@ def render_import(inp: dict) -> list[str]:
                      + ", ".join(Path(f).name for f in rep["files"]) + ")"
                      + (f"; totals differ by {rep['spread']:.1%}" if rep.get("spread") is not None
                         else ""))
+    dark = inp.get("dark")
+    if dark:
+        from uvcheck.background import level_text
+
+        lines.append(f"  dark scan subtracted: {Path(dark['file']).name}, median level "
+                     f"{level_text(dark['level'], dark.get('unit') or 'relative')}")
     if r.get("measurement_distance_m"):
         lines.append(f"  measurement distance in the file: {sig(r['measurement_distance_m'])} m")
     return lines
