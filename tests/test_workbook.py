@@ -174,10 +174,38 @@ def test_xlsx_cells_of_every_kind(tmp_path):
         "240\t0.0025",
         "241",
         "242\t#N/A",
-        "243\t3e-3\tTRUE\t\ta tab and a break",
+        "243\t3e-3",   # the text cells beside the row's numbers are left out, and said so
         ""]
     assert "1 formula cell(s) hold no stored result" in warning
+    assert "2 text cell(s) beside the numbers of data rows were left out (the first: 'TRUE', " \
+        "sheet 'Data' row 6)" in warning
     assert placed == "'Data' lines 1–7" and what == "Excel workbook (.xlsx)"
+
+
+def test_a_note_beside_the_numbers_and_offset_columns(tmp_path):
+    # A workbook laid out by hand: the table starts in column C, row 5, and a note sits in
+    # column F of the first data row. The note used to make that row unreadable as data,
+    # which lost the first sample and hid the heading above it (the spectrum was read as
+    # relative, its columns unnamed). Invented data.
+    import openpyxl
+
+    wb = openpyxl.Workbook()
+    ws = wb.active
+    ws.title = "Messung"
+    ws["C3"], ws["D3"] = "Abstand", "30 cm"
+    ws["C5"], ws["D5"] = "Wellenlänge / nm", "E / (µW/cm²/nm)"
+    for i, (a, b) in enumerate(zip(WL, E_UW)):
+        ws.cell(row=6 + i, column=3, value=float(a))
+        ws.cell(row=6 + i, column=4, value=float(b))
+    ws["F6"] = "note: calibrated 2026-05"
+    p = tmp_path / "by_hand.xlsx"
+    wb.save(p)
+    spec, rep = read_spectrum(p)
+    np.testing.assert_array_equal(spec.wavelength_nm, WL)           # the first row is kept
+    np.testing.assert_allclose(spec.values, E_UW * UW_TO_SI, rtol=1e-15)
+    assert rep.value_column == "E / (µW/cm²/nm)" and spec.quantity == "irradiance"
+    assert rep.measurement_distance_m == pytest.approx(0.3)
+    assert "(the first: 'note: calibrated 2026-05', sheet 'Messung' row 6)" in " ".join(rep.warnings)
 
 
 def test_xlsx_strict_namespace_hidden_sheet_and_two_spectra(tmp_path):

@@ -26,6 +26,7 @@ Element names are matched without their namespace, so the Strict variant of the 
 from __future__ import annotations
 
 import math
+import re
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import IO, TYPE_CHECKING, Any, Iterator
@@ -102,6 +103,8 @@ class _Sheet:
     hidden: bool = False
     rows: list[str] = field(default_factory=list)
     no_result: int = 0       # formula cells without a stored result
+    notes_left_out: int = 0  # text cells beside a data row's numbers (see _line)
+    first_note: tuple[int, str] | None = None   # (sheet row, text) of the first
 
 
 @dataclass(frozen=True)
@@ -157,6 +160,13 @@ def as_table(path: str | Path, k: str) -> Table:
     what = "Excel workbook (.xlsx)" if k == "xlsx" else "OpenDocument spreadsheet (.ods)"
     warning = (f"{what} read as a table of its {len(sheets)} sheet(s): "
                f"{'; '.join(placed)}{LINES_NOTE}")
+    left = [(s, s.notes_left_out) for s in sheets if s.notes_left_out]
+    if left:
+        s0 = left[0][0]
+        row, text = s0.first_note  # type: ignore[misc]
+        warning += (f". {sum(n for _, n in left)} text cell(s) beside the numbers of data rows "
+                    f"were left out (the first: {text[:60]!r}, sheet '{s0.name}' row {row}), so "
+                    "that those rows read as data")
     no_result = sum(s.no_result for s in sheets)
     if no_result:
         warning += (f". {no_result} formula cell(s) hold no stored result (the workbook was "
@@ -186,9 +196,34 @@ def _number_text(v: str) -> str:
     return repr(x) if x != int(x) or abs(x) >= 1e16 else str(int(x))
 
 
-def _line(cells: dict[int, str]) -> str:
+_NUMBER_RE = re.compile(r"[-+]?(?:\d+(?:[.,]\d*)?|[.,]\d+)(?:[eE][-+]?\d+)?")
+
+
+def _is_number(text: str) -> bool:
+    return bool(_NUMBER_RE.fullmatch(text))
+
+
+def _line(cells: dict[int, str], sheet: "_Sheet | None" = None, row: int = 0) -> str:
+    """A row's cells (column index → text) as a tab-separated line. A note typed beside the
+    numbers of a data row ("240 | 0.010 | | calibrated 2026-05") would make the whole row
+    unreadable as data, and hide the heading above it: text cells to the right of a row's
+    numbers (two or more, nothing but empty cells between them) are left out, and counted on
+    the sheet (our own rule)."""
     if not cells:
         return ""
+    cols = sorted(cells)
+    nums = 0
+    for k in cols:
+        if not _is_number(cells[k]):
+            break
+        nums += 1
+    if 2 <= nums < len(cols):
+        notes = [cells[k] for k in cols[nums:]]
+        if sheet is not None:
+            sheet.notes_left_out += len(notes)
+            if sheet.first_note is None:
+                sheet.first_note = (row, notes[0])
+        cells = {k: cells[k] for k in cols[:nums]}
     out = [""] * (max(cells) + 1)
     for c, t in cells.items():
         out[c] = t
@@ -335,7 +370,7 @@ def _xlsx_rows(fh: IO[bytes], strings: list[str], sheet: _Sheet) -> None:
             el.clear()
         elif tag == "row":
             row_no += 1
-            line = _line(cells)
+            line = _line(cells, sheet, row_no)
             if line:  # empty rows are written only when a row with cells follows them
                 sheet.rows.extend([""] * (row_no - 1 - len(sheet.rows)))
                 sheet.rows.append(line)
@@ -398,7 +433,8 @@ def _ods_sheets(z: zipfile.ZipFile, where: str) -> Iterator[_Sheet]:
                 row.extend([text] * min(cell_repeat, _MAX_REPEAT))
             el.clear()
         elif tag == "table-row":
-            line = "\t".join(row).rstrip("\t")
+            line = _line({k: t for k, t in enumerate(row) if t}, sheet,
+                         len(sheet.rows) + blank_run + 1 if sheet is not None else 0)
             if sheet is not None:
                 if not line:
                     blank_run += min(row_repeat, _MAX_REPEAT)
