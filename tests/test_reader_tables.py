@@ -96,3 +96,33 @@ def test_names_row_rule():
     assert not reader._names_row(["--", "***"], 2, num)         # no letter
     assert not reader._names_row(["x"], 1, num)                 # one column: no heading rule
     assert num.mixed == num.thousands_seen == 0                 # the caller's counts untouched
+
+
+@pytest.mark.parametrize("sep", [",", ";", "\t"])
+def test_a_note_beside_the_first_data_row_does_not_take_the_headers_place(tmp_path, sep):
+    # A note typed beside the first data row ("240,0.0100,,calibrated 2026-05") made that
+    # line the header (split on its spaces), so the real header and its unit were lost and
+    # the spectrum was read as relative. The header is now found above it, and the row is
+    # reported as not read (it does not read as numbers). Invented data.
+    rows = [f"{a:.1f}{sep}{b:.6e}" for a, b in zip(WL, E)]
+    rows[0] += f"{sep}{sep}calibrated 2026-05"
+    p = tmp_path / "noted.txt"
+    p.write_text(f"Wavelength (nm){sep}E (uW/cm2/nm)\n" + "\n".join(rows) + "\n",
+                 encoding="utf-8")
+    spec, rep = read_spectrum(p)
+    assert rep.header_line == 1 and rep.value_column == "E (uW/cm2/nm)"
+    assert spec.quantity == "irradiance"
+    np.testing.assert_allclose(spec.values, E[1:] * 1e-2, rtol=1e-6)   # µW/cm² → W/m²
+    assert any(w.startswith("line 2 holds a data row with a note beside it "
+                            "('calibrated 2026-05')") for w in rep.warnings)
+
+
+def test_numbers_then_note_rule():
+    assert reader._numbers_then_note(["240", "0.01", "", "calibrated"], 2, ".")
+    assert reader._numbers_then_note(["240", "0.01", "see note 3"], 2, ".")  # words with a number
+    assert not reader._numbers_then_note(["240", "0.01"], 2, ".")            # a plain row
+    assert not reader._numbers_then_note(["240", "0.01", "5"], 2, ".")       # a third number
+    assert not reader._numbers_then_note(["Integration", "time", "ms"], 2, ".")
+    assert not reader._numbers_then_note(["12", "05", "2024", "Lab A"], 2, ".")
+    assert not reader._numbers_then_note(["240", "nm", "note"], 2, ".")      # not ncols numbers
+    assert not reader._numbers_then_note(["240", "0.01", "---"], 2, ".")     # no letter

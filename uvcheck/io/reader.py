@@ -257,6 +257,24 @@ def _is_data(toks: list[str], num: _Num) -> bool:
     return _row_values(toks, num) is not None
 
 
+def _numbers_then_note(toks: list[str], ncols: int, decimal: str) -> bool:
+    """Whether a line is a data row of ``ncols`` numbers with a note typed beside it: its first
+    ``ncols`` tokens are numbers (the first one a real number), and every token after them is
+    empty or words (a token holding a letter and no number; at least one). Such a line right above
+    the data is neither data (it does not read as numbers) nor the header, which lies above
+    it; without this rule it was taken for the header, and the real header, with the units,
+    was lost."""
+    if ncols < 2 or len(toks) <= ncols:
+        return False
+    probe = _Num(decimal)  # a parser of its own: the caller's counts stay as they were
+    lead = [probe(t) for t in toks[:ncols]]
+    if any(v is None for v in lead) or lead[0] is None or math.isnan(lead[0]):
+        return False
+    rest = [t.strip() for t in toks[ncols:]]
+    words = [t for t in rest if t]
+    return bool(words) and all(probe(t) is None and any(c.isalpha() for c in t) for t in words)
+
+
 def _names_row(toks: list[str], ncols: int, num: _Num) -> bool:
     """Whether a line inside a data block is a row of column names for as many columns as
     the block has (two or more; every token holds a letter and none is a number or a
@@ -1284,9 +1302,14 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
     col_units: list[str | None] = [None] * ncols
     j = block.start - 1
     above: list[int] = []
+    noted: list[int] = []  # data rows with a note beside them, between the header and the data
     first_above = True
     while j >= 0 and len(above) < 2:
         s = head[j].strip()
+        if s and not above and _numbers_then_note(_split(s, delim), ncols, num.decimal):
+            noted.append(j)
+            j -= 1
+            continue
         if s and not _COMMENT.match(s):
             above.append(j)
         elif s and first_above:
@@ -1323,6 +1346,11 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
                 header_line = above[0]
             hdr = cells(header_line)[:ncols]
             names = [h if h else f"column {k + 1}" for k, h in enumerate(hdr)] + names[len(hdr):]
+    for k in sorted(noted):
+        note = next(t.strip() for t in _split(head[k], delim)[ncols:] if t.strip())
+        warnings.append(f"line {k + 1} holds a data row with a note beside it ({note[:60]!r}), "
+                        "so it was not read as data: move the note to a line of its own to "
+                        "include that row")
     hint = ""
     if above and header_line is None and delim == "comma":
         t0 = cells(above[0])
