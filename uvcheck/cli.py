@@ -136,6 +136,10 @@ def assess(
     repeat: Repeat = None,
     dark: Dark = None,
     test_info: TestInfo = None,
+    export_spectrum: Annotated[Optional[Path], typer.Option(
+        "--export-spectrum", help="Also write the spectrum as assessed (after any repeats, "
+                                  "dark scan and scaling) with its provenance: IES TM-27-14 XML "
+                                  "for a .spdx or .xml name, else a CSV table.")] = None,
 ) -> None:
     """Assess a measured spectrum: band breakdown, peak, photometry, IEC 62471 hazards,
     germicidal output, measurement uncertainty, and the verdicts on a listing's claims
@@ -153,6 +157,7 @@ def assess(
                            meter_response=meter_response, test_info=tuple(test_info or ()))
     inputs.check()
     check_output_file(json_out, force)
+    check_output_file(export_spectrum, force, "--export-spectrum")
     _check_fail_on(fail_on)
     options = assess_options(limits, no_uncertainty, calibration_uncertainty,
                              wavelength_uncertainty, distance_uncertainty, stray_light,
@@ -160,9 +165,14 @@ def assess(
     opts = read_options(encoding, delimiter, decimal, column, wavelength_column, wavelength_unit,
                         unit, block, data_start)
     # the listing file is read after the spectrum (each file's errors in that order)
-    result = assess_files(spectrum_file, claims, inputs, options, opts).to_dict()
+    a = assess_files(spectrum_file, claims, inputs, options, opts)
+    result = a.to_dict()
     if json_out:
         write_json(json_out, result, force=force)
+    if export_spectrum is not None:
+        from uvcheck.io.export import write_spectrum
+
+        write_spectrum(a.spectrum, export_spectrum, result, force=force)
     if not quiet and json_out != "-":
         typer.echo(render_assessment(result), nl=False)
     _exit_for(result, fail_on)
