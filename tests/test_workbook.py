@@ -300,3 +300,38 @@ def test_a_workbook_without_numbers_says_so(tmp_path):
                                                   '<t>no data here</t></is></c></row>')])
     with pytest.raises(InputFormatError, match="in the table made of the workbook: 'Only'"):
         read_spectrum(p)
+
+
+def test_damaged_workbook_parts_give_a_reading_error_not_a_crash(tmp_path):
+    # every XML part of a small valid workbook damaged in turn (bytes cut, flipped or made
+    # nonsense, seeded): the reader either reads it or raises InputFormatError naming the
+    # file, never another exception (a batch turns that into an 'internal error' row)
+    import random
+
+    e = 1e-3 * np.exp(-0.5 * ((WL - 300.0) / 5.0) ** 2) + 1e-6
+    strings = ['<si><t>nm</t></si>', '<si><t>W/m2/nm</t></si>']
+    head = '<row r="1"><c r="A1" t="s"><v>0</v></c><c r="B1" t="s"><v>1</v></c></row>'
+    good = _xlsx(tmp_path / "good.xlsx", [("Data", head + _rows(WL, e))], strings)
+    read_spectrum(good)
+    with zipfile.ZipFile(good) as z:
+        parts = {n: z.read(n) for n in z.namelist()}
+    rng = random.Random(62471)
+    for k in range(60):
+        name = rng.choice([n for n in parts if n.endswith((".xml", ".rels"))])
+        data = bytearray(parts[name])
+        how = k % 3
+        if how == 0:
+            data = data[:rng.randrange(len(data))]
+        elif how == 1:
+            for _ in range(5):
+                data[rng.randrange(len(data))] = rng.randrange(256)
+        else:
+            data = data.replace(b'"1"', b'"x"').replace(b"<v>0</v>", b"<v>99</v>")
+        p = tmp_path / f"bad{k}.xlsx"
+        with zipfile.ZipFile(p, "w") as z:
+            for n, b in parts.items():
+                z.writestr(n, bytes(data) if n == name else b)
+        try:
+            read_spectrum(p)
+        except InputFormatError as exc:
+            assert str(p) in exc.one_line()

@@ -270,19 +270,20 @@ def _xlsx_sheets(z: zipfile.ZipFile, where: str) -> Iterator[_Sheet]:
 
     rels: dict[str, str] = {}
     if "xl/_rels/workbook.xml.rels" in z.namelist():
-        for _, el in iterparse(z.open("xl/_rels/workbook.xml.rels")):
+        for _, el in iterparse(_parts(z, "xl/_rels/workbook.xml.rels", where)):
             if _local(el.tag) == "Relationship":
                 target = el.get("Target", "")
                 target = (target.lstrip("/") if target.startswith("/")
                           else posixpath.normpath(posixpath.join("xl", target)))
                 rels[el.get("Id", "")] = target
     listed = []
-    for _, el in iterparse(z.open("xl/workbook.xml")):
+    for _, el in iterparse(_parts(z, "xl/workbook.xml", where)):
         if _local(el.tag) == "sheet":
             rid = el.get(_REL) or el.get(_REL_STRICT) or ""
             listed.append((el.get("name", "?"), el.get("state", "visible") != "visible",
                            rels.get(rid)))
-    strings = _shared_strings(z) if "xl/sharedStrings.xml" in z.namelist() else []
+    strings = (_shared_strings(_parts(z, "xl/sharedStrings.xml", where))
+               if "xl/sharedStrings.xml" in z.namelist() else [])
     names = set(z.namelist())
     for name, hidden, target in listed:
         if target is None or target not in names or "worksheets/" not in target:
@@ -292,7 +293,7 @@ def _xlsx_sheets(z: zipfile.ZipFile, where: str) -> Iterator[_Sheet]:
         yield sheet
 
 
-def _shared_strings(z: zipfile.ZipFile) -> list[str]:
+def _shared_strings(fh: IO[bytes]) -> list[str]:
     """The shared-string table: each ``<si>``'s text (its ``<t>`` and rich-text runs; not the
     phonetic guides, ``<rPh>``)."""
     from xml.etree.ElementTree import iterparse
@@ -300,7 +301,7 @@ def _shared_strings(z: zipfile.ZipFile) -> list[str]:
     out: list[str] = []
     parts: list[str] = []
     skip = 0
-    for ev, el in iterparse(z.open("xl/sharedStrings.xml"), events=("start", "end")):
+    for ev, el in iterparse(fh, events=("start", "end")):
         tag = _local(el.tag)
         if ev == "start":
             if tag == "rPh":
