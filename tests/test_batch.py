@@ -256,11 +256,33 @@ def test_import_warnings_reach_the_row(tmp_path):
     warned = _all_import_warnings(d / "normalised.csv")
     assert any("normalised to a peak of 1" in w for w in warned)
     assert rows["normalised"]["import_warnings"] == str(len(warned))
-    assert rows["normalised"]["first_import_warning"] == warned[0]
+    assert rows["normalised"]["first_import_warning"] == B.first_warning(warned)
+    assert "normalised to a peak of 1" in rows["normalised"]["first_import_warning"]
     # the JSON lines carry the same count
     recs = [json.loads(ln) for ln in (tmp_path / "s.jsonl").read_text(encoding="utf-8").splitlines()]
     assert {r["product_id"]: r["import_warnings"] for r in recs} == {
         "clean": 0, "normalised": int(rows["normalised"]["import_warnings"])}
+
+
+def test_the_rows_warning_is_the_one_that_matters_most(tmp_path):
+    # An export with a pixel-index column and a dark level left in (invented): the reader
+    # warns of the ignored index column first, in reading order, and of the offset later;
+    # the offset changes every figure, so the row shows it (our own ranking, WARNING_RANKS).
+    wl = np.linspace(250.0, 800.0, 1200)
+    v = 1e-3 + gaussian(wl, 450.0, 10.0, 0.05) + np.random.default_rng(4).normal(0, 2e-6, wl.size)
+    p = tmp_path / "offset.csv"
+    p.write_text("Pixel,Wavelength (nm),Irradiance (W/m2/nm)\n" + "\n".join(
+        f"{k},{a:.3f},{b:.6e}" for k, (a, b) in enumerate(zip(wl, v))) + "\n", encoding="utf-8")
+    warned = _all_import_warnings(p)
+    assert "was ignored" in warned[0]
+    offset = next(w for w in warned if "dark (background)" in w)
+    row = B.run_product(B.Product("offset", p, None, "offset.csv"), settings())
+    assert row["first_import_warning"] == offset
+    assert B.first_warning([]) is None
+    assert B.warning_rank("the mean of 3 scans (a, b, c) is assessed; their totals differ by "
+                          "1%") == 2
+    assert B.warning_rank("the 3 repeat scans differ by 7.0% in total (more than 5%): a lamp "
+                          "not yet stable") == 0
 
 
 def _all_import_warnings(path):

@@ -79,8 +79,9 @@ from uvcheck.errors import ConfigurationError, InputFormatError, UvcheckError
 #: command line's or the listing's), where one is known. ``import_warnings`` counts what the
 #: reader (and a scaling) warned of for the spectrum file (a normalised spectrum labelled
 #: absolute, photon units converted, thousands separators, dropped rows, gaps, spikes, …) and
-#: ``first_import_warning`` gives the first: a row whose figures may not mean what they seem
-#: is not silent; ``uvcheck assess`` on that file shows them all.
+#: ``first_import_warning`` gives the one that matters most (:func:`first_warning`): a row
+#: whose figures may not mean what they seem is not silent; ``uvcheck assess`` on that file
+#: shows them all.
 SUMMARY_COLUMNS = (
     "product_id", "spectrum_file", "listing_file", "status", "error",
     "peak_nm", "uvc_W_m2", "uvc_status",
@@ -465,7 +466,7 @@ def _fill(row: dict[str, Any], result: Mapping[str, Any]) -> None:
     row["origin"] = inp.get("origin")
     if inp.get("warnings") is not None:
         row["import_warnings"] = len(inp["warnings"])
-        row["first_import_warning"] = inp["warnings"][0] if inp["warnings"] else None
+        row["first_import_warning"] = first_warning(inp["warnings"])
     spectral = result.get("spectral") or {}
     row["peak_nm"] = spectral.get("peak_nm")
     uvc = (result.get("germicidal") or {}).get("uvc") or {}
@@ -501,6 +502,43 @@ def _fill(row: dict[str, Any], result: Mapping[str, Any]) -> None:
             row["worst_claim_id"] = worst.get("id")
             row["worst_claim_verdict"] = worst.get("verdict")
             row["worst_claim_ratio"] = worst.get("ratio")
+
+
+#: How much an import warning matters to a row's figures, by a phrase it holds (our own
+#: ranking; the first phrase found decides, unmatched warnings rank 1): 0, the figures may not
+#: mean what they seem (a relative or normalised spectrum, a baseline offset, clipping,
+#: saturation, a swapped dark, read against the file's conventions, unstable repeat scans,
+#: conflicting distances); 2, what was done as asked or as usual (a workbook or TM-27-14 file
+#: made into a table, photon units converted, an index column ignored, a mean or a dark
+#: subtraction done, a noise floor set for smooth data).
+WARNING_RANKS: tuple[tuple[str, int], ...] = (
+    ("the mean of ", 2), ("subtracted, over", 2), ("read as a table of its", 2),
+    ("IES TM-27-14 file", 2), ("photon units converted", 2), ("was ignored", 2),
+    ("was used: of the", 2), ("almost no noise", 2),
+    ("RELATIVE", 0), ("normalised", 0), ("swapped", 0), ("below zero", 0), ("negative", 0),
+    ("dark (background)", 0), ("clip", 0), ("saturat", 0), ("all values are zero", 0),
+    ("pedestal", 0), ("stray light", 0), ("mixes encodings", 0), ("thousands separator", 0),
+    ("mixed decimal", 0), ("no unit was found", 0), ("check which is right", 0),
+    ("repeat scans differ", 0), ("not yet stable", 0))
+
+
+def warning_rank(text: str) -> int:
+    """How much an import warning matters (:data:`WARNING_RANKS`; 0 most)."""
+    return next((r for phrase, r in WARNING_RANKS if phrase in text), 1)
+
+
+def first_warning(warnings: Sequence[str]) -> str | None:
+    """The import warning that matters most (:func:`warning_rank`), the first in reading
+    order among equals; None for none.
+
+    >>> first_warning(["column 1 ('Pixel') looks like a row or pixel index and was ignored",
+    ...                "the spectrum sits on a flat level ...: a dark (background) level not "
+    ...                "subtracted, or a stray-light pedestal?"])[:30]
+    'the spectrum sits on a flat le'
+    """
+    if not warnings:
+        return None
+    return min(warnings, key=warning_rank)
 
 
 def worst_claim(claims: Sequence[Mapping[str, Any]]) -> Mapping[str, Any] | None:

@@ -110,7 +110,8 @@ def batch_command(
     claims_cannot_hold, claims_not_assessable, worst_claim_id,
     worst_claim_verdict, worst_claim_ratio, import_warnings (how many warnings
     the reader gave for the spectrum file: a normalised spectrum labelled
-    absolute, converted units, dropped rows, ...), first_import_warning,
+    absolute, converted units, dropped rows, ...), first_import_warning (the
+    one that matters most to the figures),
     note_path, origin (measured, or
     nominal: a listing without a spectrum, every figure an ESTIMATE; or
     listing-only: a listing too thin to model the lamp, claims only),
