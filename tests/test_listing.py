@@ -327,6 +327,32 @@ def test_french_and_german_kill_claims_are_read(text, organism, time_s):
     assert c.reduction_fraction is not None
 
 
+@pytest.mark.parametrize("text, safe_for", [
+    ("Sicher für Haustiere", ("pets",)),
+    ("Unbedenklich für Menschen und Tiere", ("people", "pets")),
+    ("Sans danger pour les enfants", ("children",)),
+    ("Inoffensif pour la peau et les yeux", ("eyes", "skin")),
+    ("sûr pour les animaux", ("pets",)),
+])
+def test_french_and_german_safety_claims_are_read(text, safe_for):
+    # these were 'unrecognised'; as the kill words, a short list of our own
+    c = parse_claim_text(text)
+    assert c.kind == "safety" and set(c.safe_for) == set(safe_for), (c.kind, c.safe_for)
+
+
+@pytest.mark.parametrize("text", ["Vorsicht: nicht in die Lampe schauen, nicht sicher für Augen",
+                                  "Attention : dangereux pour les yeux",
+                                  "Ne pas regarder la lampe, sans danger seulement pièce vide"])
+def test_french_and_german_warnings_are_no_safety_claims(text):
+    assert parse_claim_text(text).kind != "safety"
+
+
+def test_french_haut_is_not_skin():
+    # 'haut' is French for high; the German noun 'Haut' (skin) is written capitalised
+    c = parse_claim_text("sans danger pour les enfants, fixation en haut du mur")
+    assert c.kind == "safety" and c.safe_for == ("children",)
+
+
 # Listing wordings met in marketplace texts (our own reading rules; invented examples).
 @pytest.mark.parametrize("text,kind,fields", [
     ("Effective range: 30㎡", "coverage", {"area_m2": 30.0}),                 # U+33A1

@@ -1039,6 +1039,10 @@ _RADIATION_FREE = r"\bradiation[\s-]*free\b|\bno\s+(?:harmful\s+)?radiation\b"
 _RADIATION_FREE_RE = re.compile(_RADIATION_FREE, re.I)
 _SAFE_RE = re.compile(r"\bsafe\b|\bsafely\b|harmless|\bno\s+harm\b|-safe\b|\bnot\s+harmful\b|"
                       r"\b(?:pets?|animals?|child(?:ren)?|kids?|bab(?:y|ies)|family)[\s-]*friendly\b|"
+                      # German and French (a short list, as for the kill words)
+                      r"\bsicher\b|\bunbedenklich|\bungefährlich|\bharmlos\b|"
+                      r"\bsans\s+danger\b|\bsans\s+risque\b|\binoffensi(?:f|ve)\b|"
+                      r"\bs[ûu]re?\s+pour\b|"
                       + _RADIATION_FREE, re.I)
 
 
@@ -1046,17 +1050,23 @@ def _unit_characters(text: str) -> str:
     """Unit characters such as '㎡' and '㎝' written out ('m²', 'cm')."""
     return text.translate(UNIT_CHARACTERS)
 _NEGATION_RE = re.compile(r"\b(not\s+safe|unsafe|do\s+not|don'?t|never\s+(?:look|expose)|avoid|"
+                          r"nicht\s+sicher|unsicher|gefährlich|warnung|vorsicht|niemals|"
+                          r"dangereux|dangereuse|attention|avertissement|jamais|ne\s+pas|"
                           r"(?<!no\s)(?<!not\s)harmful|dangerous|warning|caution)\b", re.I)
 _SUBJECT_RES = (
-    ("people", re.compile(r"\b(people|humans?|persons?|adults?|family|families|everyone|users?)\b",
-                          re.I)),
-    ("children", re.compile(r"\b(child(?:ren)?|kids?|bab(?:y|ies)|infants?)\b", re.I)),
-    ("pets", re.compile(r"\b(pets?|animals?|dogs?|cats?)\b", re.I)),
-    ("plants", re.compile(r"\bplants?\b", re.I)),
+    ("people", re.compile(r"\b(people|humans?|persons?|adults?|family|families|everyone|users?|"
+                          r"menschen|personen|familie|personnes|humains?|adultes?|"
+                          r"famille)\b", re.I)),
+    ("children", re.compile(r"\b(child(?:ren)?|kids?|bab(?:y|ies)|infants?|kinder[n]?|babys?|"
+                            r"enfants?|bébés?)\b", re.I)),
+    ("pets", re.compile(r"\b(pets?|animals?|dogs?|cats?|haustiere[n]?|tiere[n]?|hunde?|katzen?|"
+                        r"animaux|chiens?)\b", re.I)),
+    ("plants", re.compile(r"\b(plants?|pflanzen|plantes?)\b", re.I)),
     ("occupied-rooms", re.compile(r"\b(occupied|while\s+(?:you|people)\s+are\s+(?:present|in)|"
                                   r"with\s+people\s+present|in\s+presence)\b", re.I)),
-    ("eyes", re.compile(r"\beyes?\b", re.I)),
-    ("skin", re.compile(r"\bskin\b", re.I)),
+    ("eyes", re.compile(r"\b(eyes?|augen|yeux)\b", re.I)),
+    # German 'Haut' capitalised only: French 'haut' means high
+    ("skin", re.compile(r"\b(?:(?i:skin|peau)|Haut)\b")),
 )
 _EFFICIENCY_RE = re.compile(r"efficien", re.I)
 #: A stated IEC 62471 risk group: "Risk group 1", "RG0", "RG 2", "risk group: exempt", "exempt
