@@ -47,7 +47,7 @@ from typing import Any, Callable, Iterable, Mapping, Sequence
 
 from uvcheck.conditions import WORKDAY_S, Conditions
 from uvcheck.errors import ConfigurationError
-from uvcheck.germicidal import OZONE_EDGE_NM, UVC_BAND_NM, UVC_EMITTING
+from uvcheck.germicidal import NO_UVC_FRACTION, OZONE_EDGE_NM, UVC_BAND_NM, UVC_EMITTING
 from uvcheck.spectrum import Spectrum, covers_all, integrate
 from uvcheck.units import format_duration, sig
 
@@ -741,6 +741,20 @@ def _one_emission(c: Any, ev: Evidence) -> Verdict:
     lines = find_lines(r.spectrum)
     pk = peak_info(r.spectrum)
     uvc_ok = g.status in UVC_EMITTING  # (partial: found, part of the band unmeasured)
+    shape_open = False
+    no_uvc = g.statement_clause()
+    if g.status == "shape-only":
+        # a relative spectrum: whether it emits UV-C is a matter of shape (UV-C's share of the
+        # output, no artefact of the spectrometer), as the statuses of an absolute one say;
+        # UV-C that reads as stray light is none (as 'no-uvc'), a share too small to tell
+        # with part of UV-C unmeasured is open (as 'not-assessed')
+        frac = g.uvc.fraction or 0.0
+        stray = [a for a in g.artefacts if a.is_stray]
+        uvc_ok = not g.artefacts and frac >= NO_UVC_FRACTION
+        shape_open = not uvc_ok and not stray
+        if stray:
+            no_uvc = (f"the apparent UV-C of this relative spectrum ({sig(frac * 100)} % of the "
+                      f"output) is likely stray light or noise, not emission ({stray[0].detail})")
     d_lo, d_hi = r.spectrum.range_nm
     if lam is not None and not any(a <= lam <= b for a, b in r.spectrum.segments()):
         # the stated wavelength itself was not measured: no presence test can be made there
@@ -749,7 +763,7 @@ def _one_emission(c: Any, ev: Evidence) -> Verdict:
                                                      if d_lo <= lam <= d_hi else ""),
                    ("a spectrum covering the stated wavelength",))
     if (lam is None and band is not None and band[1] <= UVC_BAND_NM[1] and not uvc_ok
-            and g.status == "not-assessed"):
+            and (g.status == "not-assessed" or shape_open)):
         if not covers_all(integrate(r.spectrum, *band).coverage):
             # nothing found in the measured part, but UV-C is not ruled out (the germicidal
             # statement says why): the part of the band not measured could hold the emission
@@ -765,7 +779,7 @@ def _one_emission(c: Any, ev: Evidence) -> Verdict:
                            Quantity(lam, "nm", "stated peak"),
                            Quantity(pk.peak_nm, "nm", "measured peak"), None,
                            f"stated {lam:g} nm, but the output peaks at {sig(pk.peak_nm, 4)} nm "
-                           + (f"with no germicidal UV-C: {g.statement_clause()}"
+                           + (f"with no germicidal UV-C: {no_uvc}"
                               if g.status != "not-assessed" else
                               f"and nothing stands out at {lam:g} nm, which was measured "
                               f"(the data cover {d_lo:g}–{d_hi:g} nm)"),
@@ -797,8 +811,8 @@ def _one_emission(c: Any, ev: Evidence) -> Verdict:
         return Verdict(c.id, c.kind, c.text, "cannot-hold",
                        Quantity(dl, r.spectrum.integrated_unit, f"emission in {c.band_name or 'the band'} above the detection limit"),
                        Quantity(g.uvc.upper_bound, r.spectrum.integrated_unit, "UV-C, at most"), None,
-                       g.statement_clause(keep_head=True), (), (), ev_kind, r.label,
-                       rule=RULE_PRESENCE)
+                       no_uvc if g.status == "shape-only" else g.statement_clause(keep_head=True),
+                       (), (), ev_kind, r.label, rule=RULE_PRESENCE)
     if integ.value > dl:
         frac = integ.value / tot if tot > 0 else None
         return Verdict(c.id, c.kind, c.text, "holds",
