@@ -76,6 +76,17 @@ class Assessment:
         return photometry(self.spectrum, visible_share(self.spectrum))
 
     @cached_property
+    def scale_shift(self) -> Any:
+        """A shift of the wavelength scale that the mercury lines reveal, or None
+        (:func:`uvcheck.features.mercury_scale_shift`; measured spectra only)."""
+        from uvcheck.features import mercury_scale_shift
+        from uvcheck.spectrum import is_nominal
+
+        if is_nominal(self.spectrum) or self.spectrum.lines:
+            return None
+        return mercury_scale_shift(self.lines, self.spectrum.step_nm)
+
+    @cached_property
     def line_warnings(self) -> tuple[str, ...]:
         """A warning per peak that may be a stronger line's second diffraction order (of a
         measured spectrum only: a nominal model built from a listing has no spectrometer)."""
@@ -101,7 +112,20 @@ class Assessment:
             "emission; if so, the visible share and the blue-light figures are "
             "overstated. Check with a long-pass filter or the instrument's "
             "order-sorting setting"
-            for parent, suspect in second_order_suspects(self.lines, self.spectrum.step_nm))
+            for parent, suspect in second_order_suspects(self.lines, self.spectrum.step_nm)
+        ) + self._shift_warning()
+
+    def _shift_warning(self) -> tuple[str, ...]:
+        sh = self.scale_shift
+        if sh is None:
+            return ()
+        pk = ", ".join(f"{p:.1f}" for p, _ in sh.matched)
+        ref = ", ".join(f"{r:g}" for _, r in sh.matched)
+        return (f"the peaks at {pk} nm match the mercury lines at {ref} nm with the wavelength "
+                f"scale shifted by {sh.shift_nm:+.1f} nm: the spectrometer's wavelength "
+                "calibration is likely off by that much (the values are not corrected: the "
+                "weighted hazards and the germicidal figures move with the scale, and lines "
+                "are not named); check the calibration, or correct the wavelength column",)
 
     def to_dict(self) -> dict[str, Any]:
         hg = any(ln.identified_as == "Hg 253.7 nm" for ln in self.lines)
@@ -117,6 +141,9 @@ class Assessment:
                 **self.peak.to_dict(),
                 "lines": [ln.to_dict() for ln in self.lines],
                 "hg_253_7_present": hg,
+                # a shift of the wavelength scale that the mercury lines reveal (or None)
+                "wavelength_scale_shift": (self.scale_shift.to_dict()
+                                           if self.scale_shift is not None else None),
             },
             "photometry": self.photometry.to_dict(),
         }

@@ -396,6 +396,78 @@ def _continuum_peaks(spectrum: Spectrum, min_snr: float, min_relative: float,
     return sorted(found, key=lambda d: d.wavelength_nm)
 
 
+#: A wavelength-scale shift is looked for within ±this of the mercury lines. [nm]
+SHIFT_SEARCH_NM = 5.0
+#: Peaks match shifted mercury lines when within this of one (after the shift). [nm]
+SHIFT_MATCH_NM = 0.5
+#: At least this many peaks must match (our own rule: three lines fix a shift beyond chance).
+SHIFT_MIN_LINES = 3
+
+
+@dataclass(frozen=True)
+class ScaleShift:
+    """Peaks that match the mercury lines once the wavelength scale is shifted.
+
+    shift_nm : the shift (measured minus reference, the median over the matched lines). [nm]
+    matched : (peak, mercury line) pairs. [nm]
+    """
+
+    shift_nm: float
+    matched: tuple[tuple[float, float], ...]
+
+    def to_dict(self) -> dict:
+        return {"shift_nm": self.shift_nm, "matched": [list(m) for m in self.matched]}
+
+
+def mercury_scale_shift(lines: list[DetectedLine], step_nm: float | None = None
+                        ) -> ScaleShift | None:
+    """A shift of the wavelength scale that the peaks reveal, or None.
+
+    A low-pressure mercury spectrum holds several lines at known wavelengths (the lines of
+    ``data/emitters/emission_lines.csv``, the doublets left out), so they are the usual
+    check of a spectrometer's wavelength calibration. When at least :data:`SHIFT_MIN_LINES`
+    peaks, and at least half of all the line-like peaks (so that a lamp of many lines does
+    not line three up by chance), sit within :data:`SHIFT_MATCH_NM` of mercury lines moved by one common shift
+    (within ±:data:`SHIFT_SEARCH_NM`), more than match them unshifted (a fluorescent lamp's
+    named mercury lines outvote phosphor peaks that a shift would line up), the scale is
+    likely off by that shift; it is reported only where it is larger than the
+    identification tolerance (max(1 nm, 1.5 steps)), so that the lines went unnamed. Our
+    own rule.
+
+    >>> mk = lambda w: DetectedLine(w, 1.0, 1.0, 50.0, None)
+    >>> s = mercury_scale_shift([mk(255.9), mk(367.2), mk(438.0), mk(548.3)], 0.5)
+    >>> round(s.shift_nm, 2), len(s.matched)
+    (2.2, 4)
+    """
+    tol = max(1.0, 1.5 * (step_nm or 0.0))
+    refs = [k["wavelength_nm"] for k in known_lines()
+            if k["emitter"] == "low-pressure mercury" and "/" not in k["label"]]
+    peaks = [ln.wavelength_nm for ln in lines]
+    if sum(ln.identified_as is None for ln in lines) < SHIFT_MIN_LINES:
+        return None
+
+    def matches(delta: float) -> list[tuple[float, float]]:
+        out = []
+        for p in peaks:
+            near = min(refs, key=lambda r: abs(p - delta - r))
+            if abs(p - delta - near) <= SHIFT_MATCH_NM:
+                out.append((p, near))
+        return out
+
+    cands = sorted({round(p - r, 2) for p in peaks for r in refs if abs(p - r) <= SHIFT_SEARCH_NM})
+    best: list[tuple[float, float]] = []
+    for delta in cands:
+        m = matches(delta)
+        if len(m) > len(best):
+            best = m
+    if len(best) < max(SHIFT_MIN_LINES, len(peaks) / 2):
+        return None
+    shift = float(np.median([p - r for p, r in best]))
+    if abs(shift) <= tol or len(best) <= len(matches(0.0)):
+        return None
+    return ScaleShift(shift, tuple(best))
+
+
 def second_order_suspects(lines: list[DetectedLine], step_nm: float | None = None
                           ) -> list[tuple[DetectedLine, DetectedLine]]:
     """Peaks that sit at twice the wavelength of a stronger peak: (parent, suspect) pairs.

@@ -73,7 +73,14 @@ def hg_line_text(present: Any, d: Mapping[str, Any]) -> str:
     nothing was found or missed in it."""
     if is_estimate(d):
         return "modelled" if present else "not in the model (no mercury lamp)"
-    return "present" if present else "not found"
+    if present:
+        return "present"
+    sh = (d.get("spectral") or {}).get("wavelength_scale_shift") or {}
+    at = next((p for p, r in sh.get("matched") or [] if abs(r - 253.7) < 0.05), None)
+    if at is not None:
+        return (f"not found at 253.7 nm; the peak at {at:.1f} nm is that line if the "
+                f"wavelength scale is off by {sh['shift_nm']:+.1f} nm (see the warnings)")
+    return "not found"
 
 
 def hazard_below_detection(h: Mapping[str, Any]) -> bool:
