@@ -76,3 +76,32 @@ def test_random_narrow_peaks_rarely_line_up():
     hits = sum(mercury_scale_shift(_lines(np.sort(rng.uniform(220, 700, 10))), 0.5) is not None
                for _ in range(2000))
     assert hits <= 2
+
+
+def test_the_correction_puts_the_lines_back(tmp_path):
+    # --wavelength-correction adds a constant to every wavelength: the shifted spectrum,
+    # corrected by -2.2 nm, names its mercury lines and shows no shift; the correction is
+    # reported, bounded, and read from a manifest too
+    import json
+
+    s = mercury(2.2)
+    p = tmp_path / "shifted.csv"
+    p.write_text("nm,W/m2/nm\n" + "\n".join(f"{a:.1f},{b:.6e}" for a, b in
+                                           zip(s.wavelength_nm, s.values)) + "\n", encoding="utf-8")
+    out = tmp_path / "r.json"
+    r = CliRunner().invoke(app, ["assess", str(p), "--no-uncertainty", "--quiet",
+                                 "--wavelength-correction", "-2.2 nm", "--json", str(out)])
+    assert r.exit_code == 0, r.output
+    d = json.loads(out.read_text())
+    assert d["spectral"]["hg_253_7_present"] is True
+    assert d["spectral"]["wavelength_scale_shift"] is None
+    assert d["input"]["range_nm"] == pytest.approx([197.8, 797.3])
+    assert any(w.startswith("every wavelength corrected by -2.2 nm") for w in d["input"]["warnings"])
+    r = CliRunner().invoke(app, ["assess", str(p), "--wavelength-correction", "-30 nm"])
+    assert r.exit_code == 2 and "more than a calibration error" in r.output
+    m = tmp_path / "m.csv"
+    m.write_text("id,spectrum,wavelength_correction\nfixed,shifted.csv,-2.2 nm\n", encoding="utf-8")
+    from uvcheck import batch as B
+
+    row = B.run_product(B.read_manifest(m)[0], B.BatchSettings())
+    assert row["status"] == "ok" and row["peak_nm"] == pytest.approx(253.7, abs=0.15)

@@ -125,7 +125,8 @@ class Assessment:
                 f"scale shifted by {sh.shift_nm:+.1f} nm: the spectrometer's wavelength "
                 "calibration is likely off by that much (the values are not corrected: the "
                 "weighted hazards and the germicidal figures move with the scale, and lines "
-                "are not named); check the calibration, or correct the wavelength column",)
+                "are not named); check the calibration, or give --wavelength-correction "
+                f"'{-sh.shift_nm:+.1f} nm' once the shift is confirmed",)
 
     def to_dict(self) -> dict[str, Any]:
         hg = any(ln.identified_as == "Hg 253.7 nm" for ln in self.lines)

@@ -99,7 +99,8 @@ SUMMARY_COLUMNS = (
 MANIFEST_COLUMNS = ("id", "spectrum", "listing", "distance", "source_size", "use_distance",
                     "exposure_time", "electrical_power", "general_lighting", "scale_band",
                     "scale_lux", "scale_total", "unit", "column", "wavelength_unit", "emitter",
-                    "tube_length", "repeats", "dark", "block", "data_start")
+                    "tube_length", "repeats", "dark", "block", "data_start",
+                    "wavelength_correction")
 #: How a manifest cell lists several repeat scans.
 REPEATS_SEPARATOR = "|"
 
@@ -406,7 +407,8 @@ def prepare_product(product: Product, settings: BatchSettings) -> Any:
 
         listing = read_listing(product.listing)
     opts = (read_options(None, None, None, o.get("column"), None, o.get("wavelength_unit"),
-                         o.get("unit"), _line_number(o, "block"), _line_number(o, "data_start"))
+                         o.get("unit"), _line_number(o, "block"), _line_number(o, "data_start"),
+                         o.get("wavelength_correction") or None)
             if product.spectrum is not None else None)
     return prepare_files(product.spectrum, listing, inputs, settings.assess_options(), opts,
                          names=MANIFEST_NAMES)
@@ -514,7 +516,7 @@ def _fill(row: dict[str, Any], result: Mapping[str, Any]) -> None:
 WARNING_RANKS: tuple[tuple[str, int], ...] = (
     ("the mean of ", 2), ("subtracted, over", 2), ("read as a table of its", 2),
     ("IES TM-27-14 file", 2), ("photon units converted", 2), ("was ignored", 2),
-    ("was used: of the", 2), ("almost no noise", 2),
+    ("was used: of the", 2), ("almost no noise", 2), ("every wavelength corrected by", 2),
     ("RELATIVE", 0), ("normalised", 0), ("swapped", 0), ("below zero", 0), ("negative", 0),
     ("dark (background)", 0), ("clip", 0), ("saturat", 0), ("all values are zero", 0),
     ("pedestal", 0), ("stray light", 0), ("mixes encodings", 0), ("thousands separator", 0),

@@ -77,17 +77,21 @@ from uvcheck.cli_options import (  # noqa: E402  (typer only)
     Delimiter, Distance, DistanceUncertainty, Draws, ElectricalPower, Emitter, Encoding,
     ExposureTime, Force, GeneralLighting, Limits, MeterResponse, NoUncertainty, Quiet, Repeat,
     ScaleBand, ScaleLux, ScaleTotal, SourceSize, StrayLight, TestInfo, TubeLength, Unit,
-    UseDistance, WavelengthUncertainty, WlColumn, WlUnit)
+    UseDistance, WavelengthUncertainty, WlColumn, WlCorrection, WlUnit)
 
 
 def read_options(encoding: str | None, delimiter: str | None, decimal: str | None,
                  column: str | None, wavelength_column: str | None, wavelength_unit: str | None,
-                 unit: str | None, block: int | None, data_start: int | None) -> Any:
-    from uvcheck.io.reader import ReadOptions
+                 unit: str | None, block: int | None, data_start: int | None,
+                 wavelength_correction: str | None = None) -> Any:
+    from uvcheck.io.reader import ReadOptions, wavelength_correction_nm
 
+    if wavelength_correction is not None:
+        wavelength_correction_nm(wavelength_correction)  # checked before any file is read
     return ReadOptions(encoding=encoding, delimiter=delimiter, decimal=decimal, column=column,
                        wavelength_column=wavelength_column, wavelength_unit=wavelength_unit,
-                       unit=unit, block=block, data_start=data_start)
+                       unit=unit, block=block, data_start=data_start,
+                       wavelength_correction=wavelength_correction)
 
 
 # ---------------------------------------------------------------------------------------------
@@ -132,6 +136,7 @@ def assess(
     quiet: Quiet = False,
     encoding: Encoding = None, delimiter: Delimiter = None, decimal: Decimal = None,
     column: Column = None, wavelength_column: WlColumn = None, wavelength_unit: WlUnit = None,
+    wavelength_correction: WlCorrection = None,
     unit: Unit = None, block: Block = None, data_start: DataStart = None,
     repeat: Repeat = None,
     dark: Dark = None,
@@ -163,7 +168,7 @@ def assess(
                              wavelength_uncertainty, distance_uncertainty, stray_light,
                              decision_rule, draws)
     opts = read_options(encoding, delimiter, decimal, column, wavelength_column, wavelength_unit,
-                        unit, block, data_start)
+                        unit, block, data_start, wavelength_correction)
     # the listing file is read after the spectrum (each file's errors in that order)
     a = assess_files(spectrum_file, claims, inputs, options, opts)
     result = a.to_dict()
@@ -310,6 +315,7 @@ def compare(
     quiet: Quiet = False,
     encoding: Encoding = None, delimiter: Delimiter = None, decimal: Decimal = None,
     column: Column = None, wavelength_column: WlColumn = None, wavelength_unit: WlUnit = None,
+    wavelength_correction: WlCorrection = None,
     unit: Unit = None, block: Block = None, data_start: DataStart = None,
 ) -> None:
     """Compare a sample with a reference (two units of one product, or an offered lamp with
@@ -326,7 +332,7 @@ def compare(
     check_output_file(json_out, force)
     options = assess_options(limits, True)
     opts = read_options(encoding, delimiter, decimal, column, wavelength_column, wavelength_unit,
-                        unit, block, data_start)
+                        unit, block, data_start, wavelength_correction)
     a = clean(assess_files(sample, None, inputs, options, opts).to_dict())
     b = clean(assess_files(reference, None, inputs, options, opts).to_dict())
     result = clean(compare_results(a, b))

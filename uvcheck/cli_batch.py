@@ -93,6 +93,7 @@ def batch_command(
       unit | column | wavelength_unit        reading the spectrum file
       block | data_start                     the data block to read (a workbook's
                                              sheet), or the line where it starts
+      wavelength_correction   added to every wavelength, e.g. '-2.2 nm'
     Lines starting with # are skipped; an empty cell keeps the option given
     on the command line (--distance, --source-size, ...), which applies to
     every product.

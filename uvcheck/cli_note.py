@@ -25,7 +25,7 @@ from uvcheck.cli_options import (Alpha, Block, CalibrationUncertainty, Column, D
                                  NoUncertainty, Quiet, Reflectance, Repeat, RoomPattern,
                                  ScaleBand, ScaleLux, ScaleTotal, SourceSize, StrayLight,
                                  TestInfo, TubeAxis, TubeLength, Unit, UseDistance,
-                                 WavelengthUncertainty, WlColumn, WlUnit, WorkPlane)
+                                 WavelengthUncertainty, WlColumn, WlCorrection, WlUnit, WorkPlane)
 
 #: The demo scenario, relative to a source checkout (next to the package, or the current folder).
 SCENARIO_RELPATH = Path("examples") / "demo" / "scenario.toml"
@@ -253,6 +253,7 @@ def note_command(
     quiet: Quiet = False,
     encoding: Encoding = None, delimiter: Delimiter = None, decimal: Decimal = None,
     column: Column = None, wavelength_column: WlColumn = None, wavelength_unit: WlUnit = None,
+    wavelength_correction: WlCorrection = None,
     unit: Unit = None, block: Block = None, data_start: DataStart = None,
     repeat: Repeat = None,
     dark: Dark = None,
@@ -300,7 +301,7 @@ def note_command(
         room_spec(room_d)   # the lamp inside the room, before any work (the listing's tube
         #                     length, if any, is checked again once the listing is read)
     opts = read_options(encoding, delimiter, decimal, column, wavelength_column, wavelength_unit,
-                        unit, block, data_start)
+                        unit, block, data_start, wavelength_correction)
     result, spec = note_result(spectrum_file, listing, read_opts=opts, distance=distance,
                                scale_band=scale_band, scale_lux=scale_lux, scale_total=scale_total,
                                source_size=source_size, alpha=alpha, use_distance=use_distance,

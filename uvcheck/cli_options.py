@@ -31,6 +31,10 @@ WlColumn = Annotated[Optional[str], typer.Option("--wavelength-column",
 WlUnit = Annotated[Optional[str], typer.Option("--wavelength-unit",
                                                help="Wavelength unit: nm, um, m or cm-1.",
                                                rich_help_panel=_READ)]
+WlCorrection = Annotated[Optional[str], typer.Option(
+    "--wavelength-correction", help="Add this to every wavelength, e.g. '-2.2 nm' for a scale "
+                                    "that reads 2.2 nm high (as the mercury lines can show).",
+    rich_help_panel=_READ)]
 Unit = Annotated[Optional[str], typer.Option(help="Unit of the values, e.g. 'uW/cm2/nm', "
                                              "'W/m2/sr/nm', 'W/nm' or 'relative'.",
                                              rich_help_panel=_READ)]

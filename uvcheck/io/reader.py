@@ -108,6 +108,7 @@ class ReadOptions:
     unit: str | None = None               # value unit, e.g. "uW/cm2/nm" or "relative"
     block: int | None = None              # 1-based data block when a file holds several
     data_start: int | None = None         # 1-based line where the data rows start
+    wavelength_correction: str | None = None  # added to every wavelength, e.g. "-2.2 nm"
 
 
 @dataclass(frozen=True)
@@ -1115,6 +1116,28 @@ def _look_for_more_blocks(path: Path, decoded: Decoded, delim: str, num: _Num, s
             run = 0
 
 
+#: A wavelength correction larger than this is refused (our own bound: a calibration error of
+#: an instrument that still works is a few nanometres; more is a wrong unit or a wrong file). [nm]
+MAX_WAVELENGTH_CORRECTION_NM = 20.0
+
+
+def wavelength_correction_nm(text: str) -> float:
+    """A ``--wavelength-correction`` text ("-2.2 nm") in nm, checked.
+
+    >>> wavelength_correction_nm("-2.2 nm"), wavelength_correction_nm("0.5nm")
+    (-2.2, 0.5)
+    """
+    from uvcheck.units import parse_quantity
+
+    q = parse_quantity(text, "length", "--wavelength-correction")
+    nm = round(q.value_si * 1e9, 9)
+    if not abs(nm) <= MAX_WAVELENGTH_CORRECTION_NM:
+        raise UnitError(f"a wavelength correction of {nm:g} nm is more than a calibration error "
+                        f"(at most ±{MAX_WAVELENGTH_CORRECTION_NM:g} nm)", "--wavelength-correction",
+                        "check the wavelength unit (--wavelength-unit) or the file")
+    return nm
+
+
 def read_spectrum(path: str | Path, options: ReadOptions | None = None, **overrides: Any
                   ) -> tuple[Spectrum, ImportReport]:
     """Read a spectrum from a text export, inferring the format and reporting every guess.
@@ -1476,6 +1499,11 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
 
     wl_nm, wl_label, wl_how = _to_nm(wl_raw, wl_unit_text, wl_how, where, warnings,
                                      col_place, row_place)
+    if opts.wavelength_correction is not None:
+        corr = wavelength_correction_nm(opts.wavelength_correction)
+        wl_nm = wl_nm + corr
+        warnings.append(f"every wavelength corrected by {corr:+g} nm (--wavelength-correction): "
+                        "the report and every figure use the corrected scale")
     # ---- value unit -----------------------------------------------------------------
     unit_text = opts.unit
     unit_how = "given with --unit"
