@@ -142,3 +142,26 @@ def test_every_baseline_warning_names_the_dark_measurement():
     for v in (base + 50.0, base - 3.0, -np.abs(base) * 50 - 1):
         w = reader.baseline_warning(v, 1.0, "relative")
         assert w is not None and reader.BASELINE_MARK in w, v[:3]
+
+
+def test_a_dark_or_repeat_taken_with_other_settings_is_flagged(tmp_path):
+    # a dark must be taken with the lamp scan's integration time and averaging (common
+    # practice); a metadata line that says otherwise is reported, for repeat scans too
+    lamp, dark = pair(tmp_path)
+    for path, it in ((lamp, "100000"), (dark, "200000")):
+        path.write_text(f"Integration Time (usec): {it}\nScans to average: 3\n"
+                        + path.read_text(encoding="utf-8"), encoding="utf-8")
+    a = assess_files(lamp, None, ProductInputs(dark=dark), None)
+    said = [w for w in a.report.warnings if "do not combine" in w]
+    assert len(said) == 1 and "'200000'" in said[0] and "integration time" in said[0]
+    again = tmp_path / "again.csv"
+    again.write_text(lamp.read_text(encoding="utf-8").replace("Scans to average: 3",
+                                                              "Scans to average: 10"),
+                     encoding="utf-8")
+    a = assess_files(lamp, None, ProductInputs(repeats=(again,)), None)
+    said = [w for w in a.report.warnings if "do not combine" in w]
+    assert len(said) == 1 and "averaging" in said[0] and "again.csv" in said[0]
+    same = tmp_path / "same.csv"
+    same.write_text(lamp.read_text(encoding="utf-8"), encoding="utf-8")
+    a = assess_files(lamp, None, ProductInputs(repeats=(same,)), None)
+    assert not any("do not combine" in w for w in a.report.warnings)

@@ -12,6 +12,7 @@ A screening assessment, not a certification.
 
 from __future__ import annotations
 
+import re
 from dataclasses import dataclass, replace
 from pathlib import Path
 from typing import Any, Callable, Mapping, Sequence
@@ -326,6 +327,7 @@ def _with_repeats(spec: Any, report: Any, first: Path, repeats: Sequence[Path],
         scans.append(s)
         files.append(str(f))
         warnings += [f"{Path(f).name}: {w}" for w in r.warnings]
+        warnings += _settings_differ(report, r, "repeat scan", Path(f).name)
         d0, d1 = report.measurement_distance_m, r.measurement_distance_m
         if d0 is not None and d1 is not None and abs(d1 - d0) > DISTANCE_AGREE * d0:
             raise ConfigurationError(f"the repeat scan {Path(f).name} states a measurement "
@@ -346,6 +348,42 @@ def _with_repeats(spec: Any, report: Any, first: Path, repeats: Sequence[Path],
     return mean, replace(report, warnings=tuple(warnings), noise=noise, sha256=mean.meta["sha256"])
 
 
+#: Metadata keys that name an acquisition setting a dark or repeat scan must share with the
+#: lamp scan (as spectrometer exports write them; our own list): setting → key pattern.
+ACQUISITION_KEYS = (
+    ("integration time", re.compile(r"integration|exposure\s*time|int\.?\s*time", re.I)),
+    ("averaging", re.compile(r"averag|scans?\s*to\s*average|accumulat", re.I)),
+    ("smoothing", re.compile(r"boxcar|smooth", re.I)),
+)
+
+
+def acquisition_settings(report: Any) -> dict[str, tuple[str, str]]:
+    """The acquisition settings a file's metadata states: setting → (the key as written, the
+    value), for the settings of :data:`ACQUISITION_KEYS` (the first key that names each)."""
+    out: dict[str, tuple[str, str]] = {}
+    for key, value in (getattr(report, "metadata", None) or {}).items():
+        for name, rx in ACQUISITION_KEYS:
+            if name not in out and rx.search(str(key)):
+                out[name] = (str(key), str(value).strip())
+    return out
+
+
+def _settings_differ(first: Any, other: Any, what: str, name: str) -> list[str]:
+    """Warnings for each acquisition setting that two files' metadata both state and that
+    differs (the same key and value, spaces and case aside, agree)."""
+    a, b = acquisition_settings(first), acquisition_settings(other)
+    out = []
+    for setting in a.keys() & b.keys():
+        (ka, va), (kb, vb) = a[setting], b[setting]
+        same = (ka.lower() == kb.lower()
+                and "".join(va.split()).lower() == "".join(vb.split()).lower())
+        if not same:
+            out.append(f"the {what} {name} states {kb} = {vb!r}, the lamp scan {ka} = {va!r}: "
+                       f"scans taken with different settings ({setting}) do not combine; "
+                       "take them with the same settings")
+    return out
+
+
 def _with_dark(spec: Any, report: Any, dark_file: Path, read_opts: Any) -> tuple[Any, Any]:
     """The lamp scan minus a dark scan (read with the same options), with the lamp scan's
     report: its baseline warnings (an offset that a dark subtraction would remove, or one
@@ -359,6 +397,7 @@ def _with_dark(spec: Any, report: Any, dark_file: Path, read_opts: Any) -> tuple
     name = Path(dark_file).name
     warnings = [w for w in report.warnings if BASELINE_MARK not in w]
     warnings += [f"{name}: {w}" for w in r.warnings if BASELINE_MARK not in w]
+    warnings += _settings_differ(report, r, "dark scan", name)
     lo, hi = summary.range_nm
     share = (f", {summary.peak_share:.2g} of the lamp scan's peak"
              if summary.peak_share is not None else "")
