@@ -98,6 +98,7 @@ def note_result(spectrum_file: Path | None, listing_file: Path | None, *, read_o
     if room:
         tube = listing.tube_length_m if listing is not None and listing.emitter == "tube" else None
         rs = room_spec(room, room_where, tube)
+        rs["limit_set"] = limits   # the occupant's exposure under the note's limit set
     a = assess_files(spectrum_file, listing, inputs, options, read_opts,
                      extra=(lambda spec, cond: {"room": room_result(spec, cond, rs)}) if rs
                      else None)
@@ -125,7 +126,7 @@ def room_result(spec: Any, cond: Any, rs: dict[str, Any]) -> dict[str, Any]:
     else:
         lamp = _placed("--distance", lamp_from_spectrum, spec, geom, cond.measurement_distance_m)
     d = _placed(rs["where"]["lamp_at"], evaluate_room, rs["box"], lamp,
-                **rs["settings"]).to_dict()
+                **rs["settings"], limit_set=rs.get("limit_set")).to_dict()
     if rs["notes"]:
         d["notes"] = list(d.get("notes") or []) + list(rs["notes"])
     return d

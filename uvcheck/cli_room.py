@@ -15,8 +15,8 @@ from typing import Any, Annotated, Optional
 
 import typer
 
-from uvcheck.cli_options import (EyeHeight, LampAt, Reflectance, RoomPattern, TubeAxis,
-                                 TubeLength, WorkPlane)
+from uvcheck.cli_options import (EyeHeight, LampAt, Limits, Reflectance, RoomPattern,
+                                 TubeAxis, TubeLength, WorkPlane)
 
 PATTERN_NAMES = {"isotropic": "isotropic", "lambertian-down": "lambertian_down",
                  "lambertian_down": "lambertian_down", "cylinder": "cylinder"}
@@ -45,7 +45,7 @@ def _fov_lines(occ: dict) -> list[str]:
     if not fv:
         return []
     return [f"  {fv['fov_deg']:g}° field-of-view convention (horizontal detector at eye height): "
-            f"E_S {_fmt(fv['effective_S_W_m2'], 'W m-2')}; 8-h limit reached in "
+            f"{occ.get('symbol', 'E_S')} {_fmt(fv['effective_S_W_m2'], 'W m-2')}; 8-h limit reached in "
             f"{format_duration(fv['time_to_limit_s'])}"
             + ("  — EXCEEDS the 8-h limit" if fv["exceeds_8h_limit"] else "")]
 
@@ -130,7 +130,8 @@ def render_room(d: dict) -> str:
         lines.append(f"  ({ams['note']})")
     lines += ["", f"Occupant at eye height {sig(occ['eye_height_m'])} m (worst point, eyes facing the lamp):"]
     lines += (_unbounded_lines(occ) if occ.get("unbounded") else [
-              f"  UV-C {_fmt(occ['irradiance_W_m2'], 'W m-2')}, E_S {_fmt(occ['effective_S_W_m2'], 'W m-2')}"
+              f"  UV-C {_fmt(occ['irradiance_W_m2'], 'W m-2')}, {occ.get('symbol', 'E_S')} "
+              f"{_fmt(occ['effective_S_W_m2'], 'W m-2')}"
               + (" (lower bound)" if occ["effective_S_is_lower_bound"] else ""),
               f"  8-h actinic limit reached in {format_duration(occ['time_to_limit_s'])}"
               + ("  — EXCEEDS the 8-h limit" if occ["exceeds_8h_limit"] else ""),
@@ -168,7 +169,7 @@ def _room_bounds(d: dict) -> list[str]:
                          f"{_fmt(d['fluence_rate_avg_upper_bound_W_m2'], 'W m-2')} (254-nm-equivalent)")
     lines += ["", f"Occupant at eye height {sig(occ['eye_height_m'])} m (worst point, eyes facing the lamp):"]
     lines += (_unbounded_lines(occ) if occ.get("unbounded") else [
-              f"  E_S {_fmt(occ['effective_S_W_m2'], 'W m-2')}"
+              f"  {occ.get('symbol', 'E_S')} {_fmt(occ['effective_S_W_m2'], 'W m-2')}"
               + (" (lower bound)" if occ["effective_S_is_lower_bound"] else "")
               + f"; 8-h actinic limit reached in {format_duration(occ['time_to_limit_s'])}"
               + ("  — EXCEEDS the 8-h limit" if occ["exceeds_8h_limit"] else ""),
@@ -286,6 +287,7 @@ def room_command(
         help="Unit of the spectrum's values, e.g. 'uW/cm2/nm' or 'W/nm'.")] = None,
     column: Annotated[Optional[str], typer.Option(
         help="Value column of the spectrum file: name or number.")] = None,
+    limits: Limits = "iec62471_2006",
 ) -> None:
     """What one lamp does in a room: work-plane irradiance, air disinfection (eACH, times in
     well-mixed air) and the occupant's exposure against the 8-h limit. A screening
@@ -301,6 +303,9 @@ def room_command(
     if json_out and json_out != "-" and Path(json_out).exists() and not force:
         raise OutputExistsError("the output file exists", json_out,
                                 "give --force to replace it, or choose another name")
+    from uvcheck.limits import get_limit_set
+
+    get_limit_set(limits)   # an unknown set fails before any work, listing the sets
     rs = room_spec({"size": size, "lamp_at": lamp_at, "pattern": pattern,
                     "tube_length": tube_length, "axis": axis, "reflectance": reflectance,
                     "work_plane": work_plane, "eye_height": eye_height},
@@ -320,7 +325,7 @@ def room_command(
         lamp = _placed("--distance", lamp_from_spectrum, spec, geom, d0)
     dose = parse_quantity(target_dose, "dose", "--target-dose").value_si if target_dose else None
     result = _placed("--lamp-at", evaluate_room, room, lamp, **rs["settings"],
-                     target_dose_J_m2=dose, organisms=organism or None)
+                     target_dose_J_m2=dose, organisms=organism or None, limit_set=limits)
     d = result.to_dict()
     if json_out:
         from uvcheck.report.jsonout import write_json

@@ -747,7 +747,8 @@ def evaluate_room(room: Box, lamp: RoomLamp, *, reflectance: float = DEFAULT_REF
                   target_dose_J_m2: float | None = None,
                   organisms: Iterable[str] | None = None,
                   grid_step_m: float = DEFAULT_GRID_STEP_M,
-                  order: int = DEFAULT_ORDER) -> RoomResult:
+                  order: int = DEFAULT_ORDER,
+                  limit_set: str | None = None) -> RoomResult:
     """A lamp in a box room: work plane, air (fluence rate, eACH, times) and occupant exposure.
 
     room : :class:`Box`. lamp : :class:`RoomLamp` (see :func:`lamp_from_spectrum`,
@@ -759,6 +760,8 @@ def evaluate_room(room: Box, lamp: RoomLamp, *, reflectance: float = DEFAULT_REF
         (phages excluded).
     grid_step_m : work-plane and eye-height grid spacing (at most 201 nodes a side). [m]
     order : Gauss–Legendre order per mapped quadrant. [-]
+    limit_set : the exposure-limit set for the occupant's actinic UV (default IEC 62471:2006;
+        ``acgih_2022_far_uvc`` for a far-UVC lamp): its E_S range, weighting and daily limit.
 
     All irradiances and fluence rates are 254-nm-equivalent (most favourable action
     spectrum) unless named ``uvc`` (unweighted UV-C 200–280 nm).
@@ -784,10 +787,19 @@ def evaluate_room(room: Box, lamp: RoomLamp, *, reflectance: float = DEFAULT_REF
     phi_254 = g.equivalent_irradiance(253.7)  # in W here: the spectrum is a flux
     # E_S over the range the IEC 62471:2006 limit (ACTINIC_LIMIT_J_M2) is stated for, as
     # `uvcheck assess` integrates it (200-400 nm; ICNIRP's 180-400 nm is its own limit set)
-    from uvcheck.limits import get_limit_set
+    from uvcheck.limits import DEFAULT_LIMIT_SET, get_limit_set
 
-    actinic = get_limit_set().entries["actinic_uv"]
+    lset = get_limit_set(limit_set or DEFAULT_LIMIT_SET)
+    actinic = lset.hazard("actinic_uv")
     s_act = integrate(lamp.flux_spectrum, *actinic.range_nm, actinic.weight())
+
+    # the actinic limit is a daily dose (IEC 62471:2006 4.3.1: E_S·t ≤ 30 J m⁻²): the limit
+    # for 8 h times 8 h, so that the time to it is that dose over E_S
+    dose = actinic.limit_at(WORKDAY_S) * WORKDAY_S
+
+    def to_limit(e: float) -> float | None:
+        """The time an occupant reaches the set's daily actinic limit at E_S = e. [s]"""
+        return dose / e if e > 0 else None
     notes: list[str] = []
     warnings: list[str] = []
     figures = _figures_are(g)
@@ -886,7 +898,7 @@ def evaluate_room(room: Box, lamp: RoomLamp, *, reflectance: float = DEFAULT_REF
     i_max = int(np.argmax(eye))
     eye_max = float(eye[i_max])
     e_s = s_act.value * eye_max
-    t_lim = ACTINIC_LIMIT_J_M2 / e_s if e_s > 0 else None
+    t_lim = to_limit(e_s)
     lower = s_act.coverage < 1.0 - 1e-9
     # the eye-level convention for occupied rooms: a horizontal detector with an 80° field;
     # the diffuse reflected field (fluence rate e_r, radiance e_r/4π) gives π·L·sin²(40°) on it
@@ -903,9 +915,13 @@ def evaluate_room(room: Box, lamp: RoomLamp, *, reflectance: float = DEFAULT_REF
                                "reflected",
         "effective_S_W_m2": e_s,
         "effective_S_is_lower_bound": lower,
-        "limit": "IEC 62471:2006 clause 4.3.1, actinic UV: E_S·t ≤ 30 J/m² within 8 h",
+        "limit": ("IEC 62471:2006 clause 4.3.1, actinic UV: E_S·t ≤ 30 J/m² within 8 h"
+                  if lset.id == DEFAULT_LIMIT_SET else
+                  f"{lset.name}: {actinic.symbol}, the daily actinic UV limit"),
+        "limit_set": lset.id,
+        "symbol": actinic.symbol,
         "time_to_limit_s": t_lim,
-        "exceeds_8h_limit": bool(e_s * WORKDAY_S > ACTINIC_LIMIT_J_M2),
+        "exceeds_8h_limit": bool(t_lim is not None and t_lim < WORKDAY_S),
         "note": ("worst case with the eyes facing the lamp; the 80° field-of-view convention used "
                  "for occupied rooms gives less (shown beside it). " + SCREENING_NOTE),
         "fov_convention": {
@@ -913,8 +929,9 @@ def evaluate_room(room: Box, lamp: RoomLamp, *, reflectance: float = DEFAULT_REF
             "position_m": [float(v) for v in pts_e[j_max]],
             "irradiance_W_m2": None if phi_uvc is None or bound else phi_uvc * fov_max,
             "effective_S_W_m2": e_s_fov,
-            "time_to_limit_s": ACTINIC_LIMIT_J_M2 / e_s_fov if e_s_fov > 0 else None,
-            "exceeds_8h_limit": bool(e_s_fov * WORKDAY_S > ACTINIC_LIMIT_J_M2),
+            "time_to_limit_s": to_limit(e_s_fov),
+            "exceeds_8h_limit": bool(to_limit(e_s_fov) is not None
+                                     and to_limit(e_s_fov) < WORKDAY_S),  # type: ignore[operator]
             "basis": (f"a detector at eye height facing horizontally toward the lamp with an "
                       f"{FOV_CONVENTION_DEG:g}° field of view (common practice for occupied "
                       "rooms, from memory), direct + reflected; the worst case above is what "
@@ -929,10 +946,14 @@ def evaluate_room(room: Box, lamp: RoomLamp, *, reflectance: float = DEFAULT_REF
         if lamp.flux_spectrum.lines else None
     if peak is None and lamp.flux_spectrum.wavelength_nm.size > 2:
         peak = float(lamp.flux_spectrum.wavelength_nm[int(np.argmax(lamp.flux_spectrum.values))])
-    if peak is not None and peak < 235.0:
+    if peak is not None and peak < 235.0 and lset.id != "acgih_2022_far_uvc":
         occupant["note"] += (" For far-UVC the ACGIH 2022 threshold limit values (at 222 nm about "
                              "161 mJ/cm² for the eye and 479 mJ/cm² for the skin; from memory, via "
-                             "a secondary source) are higher than this IEC/ICNIRP limit.")
+                             "a secondary source) are higher than this IEC/ICNIRP limit (see "
+                             "--limits acgih_2022_far_uvc).")
+    if lset.id != DEFAULT_LIMIT_SET:
+        occupant["note"] += (f" Limit set: {lset.name} ("
+                             + "; ".join(n.rstrip(".") for n in lset.notes) + ").")
     if bound and any(a.is_stray for a in g.artefacts):
         occupant["note"] += (" E_S counts the apparent UV-C signal, which is likely stray light: "
                              "that can only overstate the actinic exposure, never understate it.")

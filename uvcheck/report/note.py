@@ -898,7 +898,8 @@ def _fov_text(fv: Mapping[str, Any] | None) -> str | None:
     if not fv:
         return None
     return (f"Under the {fv['fov_deg']:g}° field-of-view convention (a detector at eye height "
-            f"facing horizontally): E_S {quantity(fv.get('effective_S_W_m2'), 'W m-2')}, the "
+            f"facing horizontally): {fv.get('symbol', 'E_S')} "
+            f"{quantity(fv.get('effective_S_W_m2'), 'W m-2')}, the "
             f"8-hour limit reached in {duration(fv.get('time_to_limit_s'))}"
             + (" — exceeds the 8-hour limit" if fv.get("exceeds_8h_limit") else "") + ".")
 
@@ -983,7 +984,10 @@ def room_block(result: Result) -> dict[str, Any] | None:
                      "t_limit": duration(occ.get("time_to_limit_s")),
                      "exceeds": bool(occ.get("exceeds_8h_limit")),
                      "note": occ.get("note"), "limit": occ.get("limit"),
-                     "fov": _fov_text(occ.get("fov_convention"))},
+                     "symbol": occ.get("symbol") or "E_S",
+                     "fov": _fov_text({**(occ.get("fov_convention") or {}),
+                                       "symbol": occ.get("symbol") or "E_S"}
+                                      if occ.get("fov_convention") else None)},
         "has_grid": bool((pl.get("grid") or {}).get("values_W_m2")),
         "notes": list(r.get("notes") or []),
     }

@@ -567,7 +567,7 @@ def render_note_pdf(view: Mapping[str, Any], figures: Sequence[Mapping[str, Any]
                    [(a["organism"] + (" (bound)" if a["bound"] else ""), a["each"], a["t90"], a["t999"])
                     for a in r["air"]], (40, 20, 20, 20), size=7.5)
         o = r["occupant"]
-        _box(pdf, None, f"UV-C {o['uvc']}, E_S {o['e_s']}; 8-hour actinic limit reached in {o['t_limit']}"
+        _box(pdf, None, f"UV-C {o['uvc']}, {o.get('symbol', 'E_S')} {o['e_s']}; 8-hour actinic limit reached in {o['t_limit']}"
              + (" — exceeds the 8-hour limit" if o["exceeds"] else "")
              + (f". {o['fov']}" if o.get("fov") else "") + f" {o['limit']}. {o['note']}",
              (255, 249, 232) if o["exceeds"] else (255, 255, 255), (192, 138, 0), size=8,
