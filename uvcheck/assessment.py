@@ -241,6 +241,8 @@ def input_section(spectrum: Spectrum, report: Any | None) -> dict[str, Any]:
         "sha256": meta.get("sha256"),
         "origin": meta.get("origin", "measured"),
         "invented": bool(meta.get("invented")),
+        # a curve read off a graph (--digitised): no measurement of the lamp
+        "digitised": bool(meta.get("digitised")),
         "quantity": spectrum.quantity,
         "unit": spectrum.spectral_unit,
         "range_nm": [lo, hi],

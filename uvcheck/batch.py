@@ -100,7 +100,7 @@ MANIFEST_COLUMNS = ("id", "spectrum", "listing", "distance", "source_size", "use
                     "exposure_time", "electrical_power", "general_lighting", "scale_band",
                     "scale_lux", "scale_total", "unit", "column", "wavelength_unit", "emitter",
                     "tube_length", "repeats", "dark", "block", "data_start",
-                    "wavelength_correction")
+                    "wavelength_correction", "digitised")
 #: How a manifest cell lists several repeat scans.
 REPEATS_SEPARATOR = "|"
 
@@ -259,10 +259,9 @@ def read_manifest(path: Path) -> list[Product]:
                                    f"{line_no})", f"{where} line {line_no}",
                                    "give each row its own 'id'")
         seen[pid] = line_no
-        gl = row.get("general_lighting", "").lower()
-        if gl not in _TRUE | _FALSE:
-            problem = problem or (f"general_lighting {row['general_lighting']!r} (line {line_no}) "
-                                  "is not yes or no")
+        for flag in ("general_lighting", "digitised"):
+            if row.get(flag, "").lower() not in _TRUE | _FALSE:
+                problem = problem or (f"{flag} {row[flag]!r} (line {line_no}) is not yes or no")
         opts = {k: row[k] for k in OPTION_KEYS if row.get(k)}
         reps = tuple(base / f.strip() for f in row.get("repeats", "").split(REPEATS_SEPARATOR)
                      if f.strip())
@@ -408,7 +407,8 @@ def prepare_product(product: Product, settings: BatchSettings) -> Any:
         listing = read_listing(product.listing)
     opts = (read_options(None, None, None, o.get("column"), None, o.get("wavelength_unit"),
                          o.get("unit"), _line_number(o, "block"), _line_number(o, "data_start"),
-                         o.get("wavelength_correction") or None)
+                         o.get("wavelength_correction") or None,
+                         str(o.get("digitised", "")).lower() in _TRUE)
             if product.spectrum is not None else None)
     return prepare_files(product.spectrum, listing, inputs, settings.assess_options(), opts,
                          names=MANIFEST_NAMES)
@@ -517,7 +517,7 @@ WARNING_RANKS: tuple[tuple[str, int], ...] = (
     ("the mean of ", 2), ("subtracted, over", 2), ("read as a table of its", 2),
     ("IES TM-27-14 file", 2), ("photon units converted", 2), ("was ignored", 2),
     ("was used: of the", 2), ("almost no noise", 2), ("every wavelength corrected by", 2),
-    ("RELATIVE", 0), ("normalised", 0), ("swapped", 0), ("below zero", 0), ("negative", 0),
+    ("DIGITISED", 0), ("RELATIVE", 0), ("normalised", 0), ("swapped", 0), ("below zero", 0), ("negative", 0),
     ("dark (background)", 0), ("clip", 0), ("saturat", 0), ("all values are zero", 0),
     ("pedestal", 0), ("stray light", 0), ("mixes encodings", 0), ("thousands separator", 0),
     ("mixed decimal", 0), ("no unit was found", 0), ("check which is right", 0),

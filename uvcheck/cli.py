@@ -74,7 +74,7 @@ def guarded(fn: Callable[..., Any]) -> Callable[..., Any]:
 
 from uvcheck.cli_options import (  # noqa: E402  (typer only)
     Alpha, Block, CalibrationUncertainty, Column, Dark, DataStart, Decimal, DecisionRule,
-    Delimiter, Distance, DistanceUncertainty, Draws, ElectricalPower, Emitter, Encoding,
+    Delimiter, Digitised, Distance, DistanceUncertainty, Draws, ElectricalPower, Emitter, Encoding,
     ExposureTime, Force, GeneralLighting, Limits, MeterResponse, NoUncertainty, Quiet, Repeat,
     ScaleBand, ScaleLux, ScaleTotal, SourceSize, StrayLight, TestInfo, TubeLength, Unit,
     UseDistance, WavelengthUncertainty, WlColumn, WlCorrection, WlUnit)
@@ -83,7 +83,7 @@ from uvcheck.cli_options import (  # noqa: E402  (typer only)
 def read_options(encoding: str | None, delimiter: str | None, decimal: str | None,
                  column: str | None, wavelength_column: str | None, wavelength_unit: str | None,
                  unit: str | None, block: int | None, data_start: int | None,
-                 wavelength_correction: str | None = None) -> Any:
+                 wavelength_correction: str | None = None, digitised: bool = False) -> Any:
     from uvcheck.io.reader import ReadOptions, wavelength_correction_nm
 
     if wavelength_correction is not None:
@@ -91,7 +91,7 @@ def read_options(encoding: str | None, delimiter: str | None, decimal: str | Non
     return ReadOptions(encoding=encoding, delimiter=delimiter, decimal=decimal, column=column,
                        wavelength_column=wavelength_column, wavelength_unit=wavelength_unit,
                        unit=unit, block=block, data_start=data_start,
-                       wavelength_correction=wavelength_correction)
+                       wavelength_correction=wavelength_correction, digitised=digitised)
 
 
 # ---------------------------------------------------------------------------------------------
@@ -137,6 +137,7 @@ def assess(
     encoding: Encoding = None, delimiter: Delimiter = None, decimal: Decimal = None,
     column: Column = None, wavelength_column: WlColumn = None, wavelength_unit: WlUnit = None,
     wavelength_correction: WlCorrection = None,
+    digitised: Digitised = False,
     unit: Unit = None, block: Block = None, data_start: DataStart = None,
     repeat: Repeat = None,
     dark: Dark = None,
@@ -168,7 +169,7 @@ def assess(
                              wavelength_uncertainty, distance_uncertainty, stray_light,
                              decision_rule, draws)
     opts = read_options(encoding, delimiter, decimal, column, wavelength_column, wavelength_unit,
-                        unit, block, data_start, wavelength_correction)
+                        unit, block, data_start, wavelength_correction, digitised)
     # the listing file is read after the spectrum (each file's errors in that order)
     a = assess_files(spectrum_file, claims, inputs, options, opts)
     result = a.to_dict()
@@ -316,6 +317,7 @@ def compare(
     encoding: Encoding = None, delimiter: Delimiter = None, decimal: Decimal = None,
     column: Column = None, wavelength_column: WlColumn = None, wavelength_unit: WlUnit = None,
     wavelength_correction: WlCorrection = None,
+    digitised: Digitised = False,
     unit: Unit = None, block: Block = None, data_start: DataStart = None,
 ) -> None:
     """Compare a sample with a reference (two units of one product, or an offered lamp with
@@ -332,7 +334,7 @@ def compare(
     check_output_file(json_out, force)
     options = assess_options(limits, True)
     opts = read_options(encoding, delimiter, decimal, column, wavelength_column, wavelength_unit,
-                        unit, block, data_start, wavelength_correction)
+                        unit, block, data_start, wavelength_correction, digitised)
     a = clean(assess_files(sample, None, inputs, options, opts).to_dict())
     b = clean(assess_files(reference, None, inputs, options, opts).to_dict())
     result = clean(compare_results(a, b))

@@ -94,6 +94,7 @@ def batch_command(
       block | data_start                     the data block to read (a workbook's
                                              sheet), or the line where it starts
       wavelength_correction   added to every wavelength, e.g. '-2.2 nm'
+      digitised         yes: a curve read off a graph, not a measurement
     Lines starting with # are skipped; an empty cell keeps the option given
     on the command line (--distance, --source-size, ...), which applies to
     every product.

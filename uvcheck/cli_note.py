@@ -18,8 +18,7 @@ from typing import Annotated, Any, Optional
 import typer
 
 from uvcheck.cli_options import (Alpha, Block, CalibrationUncertainty, Column, Dark, DataStart,
-                                 Decimal,
-                                 DecisionRule, Delimiter, Distance, DistanceUncertainty, Draws,
+                                 Decimal, DecisionRule, Digitised, Delimiter, Distance, DistanceUncertainty, Draws,
                                  ElectricalPower, Encoding, ExposureTime, EyeHeight, Force,
                                  GeneralLighting, LampAt, Limits, MeterResponse,
                                  NoUncertainty, Quiet, Reflectance, Repeat, RoomPattern,
@@ -255,6 +254,7 @@ def note_command(
     encoding: Encoding = None, delimiter: Delimiter = None, decimal: Decimal = None,
     column: Column = None, wavelength_column: WlColumn = None, wavelength_unit: WlUnit = None,
     wavelength_correction: WlCorrection = None,
+    digitised: Digitised = False,
     unit: Unit = None, block: Block = None, data_start: DataStart = None,
     repeat: Repeat = None,
     dark: Dark = None,
@@ -302,7 +302,7 @@ def note_command(
         room_spec(room_d)   # the lamp inside the room, before any work (the listing's tube
         #                     length, if any, is checked again once the listing is read)
     opts = read_options(encoding, delimiter, decimal, column, wavelength_column, wavelength_unit,
-                        unit, block, data_start, wavelength_correction)
+                        unit, block, data_start, wavelength_correction, digitised)
     result, spec = note_result(spectrum_file, listing, read_opts=opts, distance=distance,
                                scale_band=scale_band, scale_lux=scale_lux, scale_total=scale_total,
                                source_size=source_size, alpha=alpha, use_distance=use_distance,

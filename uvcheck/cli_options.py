@@ -35,6 +35,10 @@ WlCorrection = Annotated[Optional[str], typer.Option(
     "--wavelength-correction", help="Add this to every wavelength, e.g. '-2.2 nm' for a scale "
                                     "that reads 2.2 nm high (as the mercury lines can show).",
     rich_help_panel=_READ)]
+Digitised = Annotated[bool, typer.Option(
+    "--digitised", help="The file is a curve read off a graph (a datasheet, a listing's "
+                        "picture), not a measurement: every figure is indicative, and values "
+                        "under 1 % of the peak count as below detection.", rich_help_panel=_READ)]
 Unit = Annotated[Optional[str], typer.Option(help="Unit of the values, e.g. 'uW/cm2/nm', "
                                              "'W/m2/sr/nm', 'W/nm' or 'relative'.",
                                              rich_help_panel=_READ)]

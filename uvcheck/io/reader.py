@@ -109,6 +109,7 @@ class ReadOptions:
     block: int | None = None              # 1-based data block when a file holds several
     data_start: int | None = None         # 1-based line where the data rows start
     wavelength_correction: str | None = None  # added to every wavelength, e.g. "-2.2 nm"
+    digitised: bool = False               # a curve read off a graph (datasheet, listing photo)
 
 
 @dataclass(frozen=True)
@@ -1116,6 +1117,31 @@ def _look_for_more_blocks(path: Path, decoded: Decoded, delim: str, num: _Num, s
             run = 0
 
 
+#: The noise floor of a curve read off a graph, as a share of its peak: about the accuracy
+#: with which a point is read off a plotted curve by hand or with a digitiser (common
+#: practice, not a standard value). [-]
+DIGITISED_FLOOR = 0.01
+#: Said with every digitised curve.
+DIGITISED_WARNING = ("DIGITISED curve (--digitised): points read off a graph, not a "
+                     "measurement of the lamp. The shape is the graph's as read; its floor, "
+                     "line widths and weak bands are not known, so values under "
+                     f"{DIGITISED_FLOOR:.0%} of the peak are taken as below detection; treat "
+                     "every figure as indicative only")
+
+
+def _digitised_noise(noise: Any, values: np.ndarray) -> Any:
+    """The noise estimate of a digitised curve: at least :data:`DIGITISED_FLOOR` of its
+    peak (a graph is read to about that; its own ripple says nothing of the lamp)."""
+    peak = float(np.max(np.abs(values))) if values.size else 0.0
+    floor = DIGITISED_FLOOR * peak
+    if not floor > 0 or (noise.sigma is not None and noise.sigma >= floor):
+        return noise
+    return replace(noise, sigma=floor, method="digitised-graph floor", floor=floor,
+                   floor_fraction=DIGITISED_FLOOR,
+                   basis=f"a curve read off a graph: {DIGITISED_FLOOR:.0%} of its peak, about "
+                         "the accuracy of reading a plotted curve (common practice)")
+
+
 #: A wavelength correction larger than this is refused (our own bound: a calibration error of
 #: an instrument that still works is a few nanometres; more is a wrong unit or a wrong file). [nm]
 MAX_WAVELENGTH_CORRECTION_NM = 20.0
@@ -1635,7 +1661,10 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
     if sat or flat:
         warnings.append(sat or flat)
     noise = estimate_noise(values)
-    if noise.method == "dynamic-range floor":
+    if opts.digitised:
+        noise = _digitised_noise(noise, values)
+        warnings.append(DIGITISED_WARNING)
+    elif noise.method == "dynamic-range floor":
         warnings.append(f"the data show almost no noise (estimate {noise.data_sigma:.3g} "
                         f"{_spectral_unit_text(su)}): synthetic, modelled or smoothed data? The "
                         f"noise floor is set to {noise.floor_fraction:g} of the peak (a "
@@ -1684,6 +1713,7 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
                     noise_floor=noise.sigma, gaps_nm=tuple(gaps),
                     meta={"source": str(p), "sha256": sha, "file_name": p.name,
                           "instrument": _instrument_notes(meta), "origin": "measured",
+                          **({"digitised": True} if opts.digitised else {}),
                           "invented": _says_invented(head[:block.start])})
     return spec, report
 

@@ -1370,7 +1370,9 @@ def provenance(result: Result, listing: Mapping[str, Any] | None, date: str,
                            "value": os.path.basename(str(dark.get("file")))})
         inputs.append({"label": "sha256", "value": str(inp.get("sha256"))})
         lo, hi = inp.get("range_nm") or (None, None)
-        inputs.append({"label": "Data", "value": f"{inp.get('origin')} {inp.get('quantity')} in "
+        origin = ("digitised (read off a graph, not a measurement)" if inp.get("digitised")
+                  else inp.get("origin"))
+        inputs.append({"label": "Data", "value": f"{origin} {inp.get('quantity')} in "
                        f"{unit_label(inp.get('unit'))}, {lo:g}–{hi:g} nm, step {sig(inp.get('step_nm'))} nm"
                        if lo is not None else str(inp.get("quantity"))})
         if inp.get("noise_floor") is not None:
@@ -1502,6 +1504,11 @@ def key_caution(result: Result, cautions: list[dict[str, Any]]) -> dict[str, str
 def _does_not_cover(result: Result) -> str:
     if listing_only(result):
         return DOES_NOT_COVER_LISTING
+    if (result.get("input") or {}).get("digitised"):
+        # a curve read off a graph: said first, in the box every note carries
+        return ("The spectrum is a curve read off a graph (a datasheet or a listing's picture), "
+                "not a measurement of this lamp: every figure is indicative only. "
+                + DOES_NOT_COVER)
     return DOES_NOT_COVER_ESTIMATE if is_estimate(result) else DOES_NOT_COVER
 
 

@@ -149,6 +149,9 @@ def render_import(inp: dict) -> list[str]:
                      + ", ".join(Path(f).name for f in rep["files"]) + ")"
                      + (f"; totals differ by {rep['spread']:.1%}" if rep.get("spread") is not None
                         else ""))
+    if inp.get("digitised"):
+        lines.append("  DIGITISED: a curve read off a graph (--digitised), not a measurement of "
+                     "the lamp; every figure below is indicative only")
     dark = inp.get("dark")
     if dark:
         from uvcheck.background import level_text
