@@ -165,3 +165,25 @@ def test_a_dark_or_repeat_taken_with_other_settings_is_flagged(tmp_path):
     same.write_text(lamp.read_text(encoding="utf-8"), encoding="utf-8")
     a = assess_files(lamp, None, ProductInputs(repeats=(same,)), None)
     assert not any("do not combine" in w for w in a.report.warnings)
+
+
+def test_a_dark_column_of_the_same_file_is_subtracted(tmp_path):
+    # exports often hold the dark scan as a column beside the raw one; --dark-column takes
+    # it from the same file, with the same checks (invented counts)
+    rng = np.random.default_rng(8)
+    raw = SIGNAL + DARK + rng.normal(0, 4, WL.size)
+    dark = DARK + rng.normal(0, 4, WL.size)
+    p = tmp_path / "export.txt"
+    p.write_text("Wavelength\tDark\tRaw\n" + "\n".join(
+        f"{a:.3f}\t{d:.1f}\t{r:.1f}" for a, d, r in zip(WL, dark, raw)) + "\n", encoding="utf-8")
+    a = assess_files(p, None, ProductInputs(dark_column="Dark"), None,
+                     reader.ReadOptions(column="Raw"))
+    np.testing.assert_allclose(a.spectrum.values, SIGNAL, atol=30)
+    assert a.to_dict()["input"]["dark"]["file"] == "export.txt, column 'Dark'"
+    assert not any(w.startswith("export.txt, column 'Dark': wavelength unit")
+                   for w in a.report.warnings)    # the lamp scan's report says it once
+    with pytest.raises(ConfigurationError, match="give one dark scan"):
+        ProductInputs(dark=p, dark_column="Dark").check()
+    r = CliRunner().invoke(app, ["assess", str(p), "--column", "Raw", "--dark-column", "Dark",
+                                 "--no-uncertainty"])
+    assert r.exit_code == 0 and "dark scan subtracted: export.txt, column 'Dark'" in r.output

@@ -99,7 +99,7 @@ SUMMARY_COLUMNS = (
 MANIFEST_COLUMNS = ("id", "spectrum", "listing", "distance", "source_size", "use_distance",
                     "exposure_time", "electrical_power", "general_lighting", "scale_band",
                     "scale_lux", "scale_total", "unit", "column", "wavelength_unit", "emitter",
-                    "tube_length", "repeats", "dark", "block", "data_start",
+                    "tube_length", "repeats", "dark", "dark_column", "block", "data_start",
                     "wavelength_correction", "digitised")
 #: How a manifest cell lists several repeat scans.
 REPEATS_SEPARATOR = "|"
@@ -398,7 +398,8 @@ def prepare_product(product: Product, settings: BatchSettings) -> Any:
                            exposure_time=given["exposure_time"] or "8 h",
                            electrical_power=given["electrical_power"],
                            emitter=given["emitter"], tube_length=given["tube_length"],
-                           repeats=product.repeats, dark=product.dark)
+                           repeats=product.repeats, dark=product.dark,
+                           dark_column=given["dark_column"])
     inputs.check(MANIFEST_NAMES)
     listing = None
     if product.listing is not None:
@@ -431,7 +432,8 @@ def _line_number(o: Mapping[str, Any], key: str) -> int | None:
 #: same meaning); the keys of :data:`uvcheck.pipeline.CLI_NAMES`.
 MANIFEST_NAMES = {k: k for k in ("distance", "scale_band", "scale_lux", "scale_total",
                                  "source_size", "alpha", "use_distance", "exposure_time",
-                                 "electrical_power", "emitter", "tube_length", "dark")}
+                                 "electrical_power", "emitter", "tube_length", "dark",
+                                 "dark_column")}
 
 
 def summary_row(product: Product, result: Mapping[str, Any] | None, error: str | None = None,

@@ -73,11 +73,12 @@ def guarded(fn: Callable[..., Any]) -> Callable[..., Any]:
 # ---------------------------------------------------------------------------------------------
 
 from uvcheck.cli_options import (  # noqa: E402  (typer only)
-    Alpha, Block, CalibrationUncertainty, Column, Dark, DataStart, Decimal, DecisionRule,
-    Delimiter, Digitised, Distance, DistanceUncertainty, Draws, ElectricalPower, Emitter, Encoding,
-    ExposureTime, Force, GeneralLighting, Limits, MeterResponse, NoUncertainty, Quiet, Repeat,
-    ScaleBand, ScaleLux, ScaleTotal, SourceSize, StrayLight, TestInfo, TubeLength, Unit,
-    UseDistance, WavelengthUncertainty, WlColumn, WlCorrection, WlUnit)
+    Alpha, Block, CalibrationUncertainty, Column, Dark, DarkColumn, DataStart, Decimal,
+    DecisionRule, Delimiter, Digitised, Distance, DistanceUncertainty, Draws, ElectricalPower,
+    Emitter, Encoding, ExposureTime, Force, GeneralLighting, Limits, MeterResponse,
+    NoUncertainty, Quiet, Repeat, ScaleBand, ScaleLux, ScaleTotal, SourceSize, StrayLight,
+    TestInfo, TubeLength, Unit, UseDistance, WavelengthUncertainty, WlColumn, WlCorrection,
+    WlUnit)
 
 
 def read_options(encoding: str | None, delimiter: str | None, decimal: str | None,
@@ -141,6 +142,7 @@ def assess(
     unit: Unit = None, block: Block = None, data_start: DataStart = None,
     repeat: Repeat = None,
     dark: Dark = None,
+    dark_column: DarkColumn = None,
     test_info: TestInfo = None,
     export_spectrum: Annotated[Optional[Path], typer.Option(
         "--export-spectrum", help="Also write the spectrum as assessed (after any repeats, "
@@ -159,7 +161,7 @@ def assess(
                            use_distance=use_distance, general_lighting=general_lighting,
                            exposure_time=exposure_time, electrical_power=electrical_power,
                            emitter=emitter, tube_length=tube_length,
-                           repeats=tuple(repeat or ()), dark=dark,
+                           repeats=tuple(repeat or ()), dark=dark, dark_column=dark_column,
                            meter_response=meter_response, test_info=tuple(test_info or ()))
     inputs.check()
     check_output_file(json_out, force)

@@ -89,6 +89,7 @@ def batch_command(
       tube_length       a tube's length, e.g. '1.2 m' (the tube model)
       repeats           repeat scans of the spectrum, 'b.csv|c.csv' (averaged)
       dark              a dark (background) scan, subtracted from the spectrum
+      dark_column       or the spectrum file's column that holds the dark scan
       scale_band | scale_lux | scale_total   scaling of a relative spectrum
       unit | column | wavelength_unit        reading the spectrum file
       block | data_start                     the data block to read (a workbook's

@@ -17,13 +17,13 @@ from typing import Annotated, Any, Optional
 
 import typer
 
-from uvcheck.cli_options import (Alpha, Block, CalibrationUncertainty, Column, Dark, DataStart,
-                                 Decimal, DecisionRule, Digitised, Delimiter, Distance, DistanceUncertainty, Draws,
-                                 ElectricalPower, Encoding, ExposureTime, EyeHeight, Force,
-                                 GeneralLighting, LampAt, Limits, MeterResponse,
-                                 NoUncertainty, Quiet, Reflectance, Repeat, RoomPattern,
-                                 ScaleBand, ScaleLux, ScaleTotal, SourceSize, StrayLight,
-                                 TestInfo, TubeAxis, TubeLength, Unit, UseDistance,
+from uvcheck.cli_options import (Alpha, Block, CalibrationUncertainty, Column, Dark, DarkColumn,
+                                 DataStart, Decimal, DecisionRule, Delimiter, Digitised, Distance,
+                                 DistanceUncertainty, Draws, ElectricalPower, Encoding,
+                                 ExposureTime, EyeHeight, Force, GeneralLighting, LampAt, Limits,
+                                 MeterResponse, NoUncertainty, Quiet, Reflectance, Repeat,
+                                 RoomPattern, ScaleBand, ScaleLux, ScaleTotal, SourceSize,
+                                 StrayLight, TestInfo, TubeAxis, TubeLength, Unit, UseDistance,
                                  WavelengthUncertainty, WlColumn, WlCorrection, WlUnit, WorkPlane)
 
 #: The demo scenario, relative to a source checkout (next to the package, or the current folder).
@@ -55,7 +55,7 @@ def note_result(spectrum_file: Path | None, listing_file: Path | None, *, read_o
                 room_where: dict[str, str] | None = None,
                 uncertainty: dict[str, Any] | None = None,
                 repeats: tuple[Path, ...] = (),
-                dark: Path | None = None,
+                dark: Path | None = None, dark_column: str | None = None,
                 meter_response: Path | None = None,
                 test_info: tuple[str, ...] = ()) -> tuple[dict[str, Any], Any]:
     """(``Assessment.to_dict()`` made strict-JSON, the spectrum it was computed from).
@@ -84,7 +84,8 @@ def note_result(spectrum_file: Path | None, listing_file: Path | None, *, read_o
                            scale_total=scale_total, source_size=source_size, alpha=alpha,
                            use_distance=use_distance, general_lighting=general_lighting,
                            exposure_time=exposure_time, electrical_power=electrical_power,
-                           repeats=tuple(repeats), dark=dark, meter_response=meter_response,
+                           repeats=tuple(repeats), dark=dark, dark_column=dark_column,
+                           meter_response=meter_response,
                            test_info=tuple(test_info))
     inputs.check()
     options = assess_options(limits, **(uncertainty or {}))
@@ -258,6 +259,7 @@ def note_command(
     unit: Unit = None, block: Block = None, data_start: DataStart = None,
     repeat: Repeat = None,
     dark: Dark = None,
+    dark_column: DarkColumn = None,
     test_info: TestInfo = None,
 ) -> None:
     """Write the consumer-safety note (self-contained HTML and PDF) for a spectrum and/or a
@@ -309,6 +311,7 @@ def note_command(
                                general_lighting=general_lighting, exposure_time=exposure_time,
                                limits=limits, electrical_power=electrical_power, room=room_d,
                                uncertainty=unc, repeats=tuple(repeat or ()), dark=dark,
+                               dark_column=dark_column,
                                meter_response=meter_response,
                                test_info=tuple(test_info or ()))
     h, p, _ = write_note(result, spec, html_path, pdf=not no_pdf, force=force, salt=stem)

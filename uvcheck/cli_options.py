@@ -64,6 +64,11 @@ Dark = Annotated[Optional[Path], typer.Option(
                    "shuttered: subtracted from it (after averaging any --repeat scans).",
     rich_help_panel=_READ)]
 
+DarkColumn = Annotated[Optional[str], typer.Option(
+    "--dark-column", help="The column of the spectrum file that holds a dark (background) "
+                          "scan (name or number): subtracted from the value column.",
+    rich_help_panel=_READ)]
+
 # --- scaling and geometry -----------------------------------------------------------------------
 Distance = Annotated[Optional[str], typer.Option(help="Measurement distance, e.g. '20 cm' "
                                                  "(default: from the file, else none).")]

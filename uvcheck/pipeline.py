@@ -27,7 +27,8 @@ CLI_NAMES: dict[str, str] = {
     "scale_total": "--scale-total", "source_size": "--source-size", "alpha": "--alpha",
     "use_distance": "--use-distance", "exposure_time": "--exposure-time",
     "electrical_power": "--electrical-power", "emitter": "--emitter",
-    "tube_length": "--tube-length", "meter_response": "--meter-response", "dark": "--dark"}
+    "tube_length": "--tube-length", "meter_response": "--meter-response", "dark": "--dark",
+    "dark_column": "--dark-column"}
 
 
 def emitter_options(emitter: str | None, tube_length: str | None,
@@ -149,6 +150,8 @@ class ProductInputs:
         scans is assessed (:func:`uvcheck.repeats.combine_scans`).
     dark : a dark (background) scan (a file), subtracted from the (mean) lamp scan
         (:func:`uvcheck.background.subtract_dark`).
+    dark_column : the column of the spectrum file that holds the dark scan (a name or a
+        number, as ``--column`` takes it), subtracted the same way; not with ``dark``.
     """
 
     distance: str | None = None
@@ -165,6 +168,7 @@ class ProductInputs:
     tube_length: str | None = None
     repeats: tuple[Path, ...] = ()
     dark: Path | None = None
+    dark_column: str | None = None
     meter_response: str | Path | None = None
     test_info: tuple[str, ...] = ()
 
@@ -179,6 +183,10 @@ class ProductInputs:
             raise ConfigurationError("give only one of " + ", ".join(
                 names[k] for k in ("scale_band", "scale_lux", "scale_total")))
         test_record(self.test_info)
+        if self.dark is not None and self.dark_column is not None:
+            raise ConfigurationError(f"give one dark scan: {names.get('dark', '--dark')} (a file) "
+                                     f"or {names.get('dark_column', '--dark-column')} (a column "
+                                     "of the spectrum file)")
         if self.meter_response is not None and self.scale_band is None:
             raise ConfigurationError(f"{names.get('meter_response', '--meter-response')} goes "
                                      f"with {names['scale_band']} (the meter's reading)",
@@ -264,7 +272,7 @@ def prepare_files(spectrum_file: Path | None, listing: Any | None, inputs: Produ
     if spectrum_file is None and inputs.repeats:
         raise ConfigurationError("repeat scans need the first scan as the spectrum file",
                                  todo="give the spectrum file first, then --repeat for the others")
-    if spectrum_file is None and inputs.dark is not None:
+    if spectrum_file is None and (inputs.dark is not None or inputs.dark_column is not None):
         raise ConfigurationError(f"a dark scan ({names.get('dark', '--dark')}) is subtracted "
                                  "from a lamp scan: give the spectrum file too")
     if spectrum_file is None:
@@ -290,6 +298,13 @@ def prepare_files(spectrum_file: Path | None, listing: Any | None, inputs: Produ
         spec, report = _with_repeats(spec, report, spectrum_file, inputs.repeats, read_opts)
     if inputs.dark is not None:
         spec, report = _with_dark(spec, report, inputs.dark, read_opts)
+    elif inputs.dark_column is not None:
+        from uvcheck.io.reader import ReadOptions
+
+        spec, report = _with_dark(spec, report, spectrum_file,
+                                  replace(read_opts or ReadOptions(), column=inputs.dark_column),
+                                  label=f"{Path(spectrum_file).name}, column "
+                                        f"{inputs.dark_column!r}")
     spec = apply_scaling(spec, inputs.scale_band, inputs.scale_lux, inputs.scale_total,
                          inputs.meter_response)
     if inputs.test_info:
@@ -384,19 +399,25 @@ def _settings_differ(first: Any, other: Any, what: str, name: str) -> list[str]:
     return out
 
 
-def _with_dark(spec: Any, report: Any, dark_file: Path, read_opts: Any) -> tuple[Any, Any]:
+def _with_dark(spec: Any, report: Any, dark_file: Path, read_opts: Any,
+               label: str | None = None) -> tuple[Any, Any]:
     """The lamp scan minus a dark scan (read with the same options), with the lamp scan's
     report: its baseline warnings (an offset that a dark subtraction would remove, or one
     that went wrong) replaced by the same check on the result, the dark scan's own warnings
-    and what the subtraction did."""
+    and what the subtraction did. label : how the dark scan is named (default: its file
+    name; a column of the spectrum file names itself)."""
     from uvcheck.background import subtract_dark
     from uvcheck.io.reader import BASELINE_MARK, baseline_warning, read_spectrum
 
     dark, r = read_spectrum(dark_file, read_opts)
-    out, summary = subtract_dark(spec, dark, str(dark_file))
-    name = Path(dark_file).name
+    name = label or Path(dark_file).name
+    out, summary = subtract_dark(spec, dark, label or str(dark_file))
     warnings = [w for w in report.warnings if BASELINE_MARK not in w]
-    warnings += [f"{name}: {w}" for w in r.warnings if BASELINE_MARK not in w]
+    # the dark scan's own warnings, but what the lamp scan's report says already (a column of
+    # the same file: the same wavelength axis) and its being relative where the lamp scan is
+    warnings += [f"{name}: {w}" for w in r.warnings
+                 if BASELINE_MARK not in w and w not in report.warnings
+                 and not (spec.quantity == "relative" and "treated as RELATIVE" in w)]
     warnings += _settings_differ(report, r, "dark scan", name)
     lo, hi = summary.range_nm
     share = (f", {summary.peak_share:.2g} of the lamp scan's peak"
