@@ -51,6 +51,8 @@ def test_every_report_says_it_is_digitised(curve, tmp_path):
     d = json.loads(out.read_text())
     assert d["input"]["digitised"] is True
     assert d["bands"]["UV-A"]["below_detection"] is True   # the read-off floor is no output
+    assert d["position"].startswith("A curve read off a graph, taken to hold at 0.1 m")
+    assert "Measured at" not in r.output
     html = tmp_path / "n.html"
     r = CliRunner().invoke(app, ["note", str(curve), "--digitised", "--scale-total", "2 W/m2",
                                  "--distance", "10 cm", "--no-uncertainty", "--out", str(html),

@@ -135,7 +135,8 @@ class Assessment:
             "tool": {"name": "uvcheck", "version": __version__},
             "input": self.input,
             "conditions": self.conditions.to_dict(),
-            "position": position_statement(self.conditions, self.input.get("origin", "measured")),
+            "position": position_statement(self.conditions, self.input.get("origin", "measured"),
+                                           bool(self.input.get("digitised"))),
             "bands": {k: v.to_dict() for k, v in self.bands.items()},
             "band_convention": UVC_DEFINITION_NOTE,
             "spectral": {
@@ -209,10 +210,13 @@ class Assessment:
         return d
 
 
-def position_statement(c: Conditions, origin: str = "measured") -> str:
+def position_statement(c: Conditions, origin: str = "measured", digitised: bool = False) -> str:
     if origin == "nominal":
         return (f"Nominal estimate placed at {c.measurement_distance_m:g} m from the lamp "
                 "(no measurement).")
+    if digitised and c.measurement_distance_m is not None:
+        return (f"A curve read off a graph, taken to hold at {c.measurement_distance_m:g} m "
+                "from the lamp (no measurement).")
     if c.measurement_distance_m is None:
         return ("No measurement distance was given: results apply at the measurement "
                 "position only.")
