@@ -1351,12 +1351,9 @@ def _own_ozone_statement(c: Any, ev: Evidence) -> Any | None:
     "produces ozone", "not ozone-free", "UV-C + ozone", "254nm + 185nm"; an ozone-free wording
     ("0 ozone emission", "Ozonfrei") is not one
     (:func:`uvcheck.io.listing.says_ozone_made`)."""
-    from uvcheck.io.listing import says_ozone_made
+    from uvcheck.io.listing import ozone_statement
 
-    for o in ev.listing.claims:
-        if o is not c and o.kind != "ozone-free" and says_ozone_made(o.text):
-            return o
-    return None
+    return ozone_statement(ev.listing.claims, besides=c)
 
 
 def _ozone(c: Any, ev: Evidence) -> Verdict:

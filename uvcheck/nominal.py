@@ -539,18 +539,9 @@ def default_emitter(technology: str, tube_length_m: float | None = None) -> str:
     return "point"
 
 
-def _says_ozone_made(listing: Any) -> str | None:
-    """The first claim text of a listing that says the lamp makes ozone or emits the 185 nm
-    line ("UV-C + ozone", "254nm + 185nm", "produces ozone"; not an ozone-free wording:
-    :func:`uvcheck.io.listing.says_ozone_made`), or None."""
-    from uvcheck.io.listing import says_ozone_made
+    from uvcheck.io.listing import ozone_statement
 
-    for c in getattr(listing, "claims", None) or ():
-        if c.kind != "ozone-free" and says_ozone_made(c.text):
-            return c.text
-    return None
-
-
+    return ozone_statement(ev.listing.claims, besides=c)
 def _shape_for(technology: str, peak_nm: float | None, fwhm_nm: float | None,
                listing: Any, assumptions: list[str]) -> tuple[Spectrum, float | None, float | None]:
     tech = _tech_data().get(technology)
@@ -566,7 +557,10 @@ def _shape_for(technology: str, peak_nm: float | None, fwhm_nm: float | None,
         raise ConfigurationError(f"no nominal model for technology {technology!r}",
                                  todo="name a technology of data/technologies.toml")
     if technology == "lp_mercury":
-        said = _says_ozone_made(listing)
+        from uvcheck.io.listing import ozone_statement
+
+        own = ozone_statement(getattr(listing, "claims", None))
+        said = own.text if own is not None else None
         if said is not None:
             assumptions.append(f"the listing says the lamp makes ozone or emits 185 nm "
                                f"({said!r}): modelled with an ozone-producing (clear "

@@ -1033,6 +1033,15 @@ def says_ozone_made(text: str | None) -> bool:
     return bool(_OZONE_MENTION_RE.search(t)) and not says_ozone_free(t)
 
 
+def ozone_statement(claims: Any, besides: Any = None) -> Any | None:
+    """The first claim (other than ``besides``) whose text says the lamp makes ozone or emits
+    185 nm (:func:`says_ozone_made`; an ozone-free claim is not one), or None."""
+    for c in claims or ():
+        if c is not besides and c.kind != "ozone-free" and says_ozone_made(c.text):
+            return c
+    return None
+
+
 #: "radiation-free": a UV lamp emits radiation by its nature, so the wording is read as a
 #: safety claim for people (our own reading).
 _RADIATION_FREE = r"\bradiation[\s-]*free\b|\bno\s+(?:harmful\s+)?radiation\b"
