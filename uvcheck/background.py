@@ -27,6 +27,7 @@ from typing import Any
 import numpy as np
 
 from uvcheck.errors import ConfigurationError
+from uvcheck.repeats import on_shared_range
 from uvcheck.spectrum import Spectrum, median
 
 
@@ -88,21 +89,9 @@ def subtract_dark(scan: Spectrum, dark: Spectrum, file: str | None = None
     if scan.lines or dark.lines:
         raise ConfigurationError("a dark scan is subtracted from measured spectra only (no "
                                  "modelled lines)")
-    lo = max(scan.range_nm[0], dark.range_nm[0])
-    hi = min(scan.range_nm[1], dark.range_nm[1])
-    if not hi > lo:
-        raise ConfigurationError(f"the dark scan ({file}) and the lamp scan share no wavelength "
-                                 "range", todo="give a dark scan of the same range")
-    wl0 = scan.wavelength_nm
-    keep = (wl0 >= lo) & (wl0 <= hi)
-    wl = wl0[keep]
-    if wl.size < 2:
-        raise ConfigurationError("the dark scan and the lamp scan share fewer than two samples")
-    same = dark.wavelength_nm.shape == wl0.shape and bool(np.array_equal(dark.wavelength_nm, wl0))
-    d = dark.values[keep] if same else np.interp(wl, dark.wavelength_nm, dark.values)
-    values = scan.values[keep] - d
-    gaps = sorted({(max(a, lo), min(b, hi)) for s in (scan, dark) for a, b in s.gaps_nm
-                   if min(b, hi) > max(a, lo)})
+    wl, (lamp_v, d), lo, hi, gaps = on_shared_range(
+        (scan, dark), f"the dark scan ({file}) and the lamp scan")
+    values = lamp_v - d
     s_scan, s_dark = scan.noise_floor, dark.noise_floor
     if s_scan is None and s_dark is None:
         sigma, basis = None, "unknown (neither scan has a noise estimate)"
@@ -112,9 +101,9 @@ def subtract_dark(scan: Spectrum, dark: Spectrum, file: str | None = None
                  f"({s_dark:.3g}) noise (JCGM 100:2008 §5.1.2)"
                  if s_scan is not None and s_dark is not None else
                  "the one scan's noise that is known (the other's is not)")
-    top = float(np.max(scan.values[keep]))
+    top = float(np.max(lamp_v))
     level = float(median(d))
-    summary = DarkSummary(file, (float(lo), float(hi)), level, scan.spectral_unit,
+    summary = DarkSummary(file, (lo, hi), level, scan.spectral_unit,
                           level / top if top > 0 else None, basis)
     meta = dict(scan.meta)
     digest = hashlib.sha256(f"{scan.meta.get('sha256', '')}\n{dark.meta.get('sha256', '')}"
@@ -122,6 +111,6 @@ def subtract_dark(scan: Spectrum, dark: Spectrum, file: str | None = None
     meta.update(dark=summary.to_dict(), sha256=digest.hexdigest(),
                 file_name=f"{meta.get('file_name', 'scan')} (− dark {file})")
     out = Spectrum(wl, values, scan.quantity, noise_floor=sigma if sigma else None,
-                   covered_nm=(float(lo), float(hi)), gaps_nm=tuple(gaps),
+                   covered_nm=(lo, hi), gaps_nm=gaps,
                    meta=MappingProxyType(meta))
     return out, summary

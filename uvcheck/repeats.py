@@ -68,6 +68,32 @@ class RepeatSummary:
                 "check the setup and scan again once the output is steady")
 
 
+def on_shared_range(scans: Sequence[Spectrum], what: str = "the repeat scans"
+                    ) -> tuple[np.ndarray, np.ndarray, float, float, tuple]:
+    """The scans on the first one's wavelengths over the range every one covers: (those
+    wavelengths, a row of values per scan, the range's ends, the gaps of any scan within
+    it). A scan on other wavelengths is linearly interpolated there, as the integrals of
+    :mod:`uvcheck.spectrum` interpolate; a gap of any scan is a gap of the result (missing
+    data are never filled). ``what`` names the scans in an error."""
+    lo = max(s.range_nm[0] for s in scans)
+    hi = min(s.range_nm[1] for s in scans)
+    if not hi > lo:
+        raise ConfigurationError(f"{what} share no wavelength range",
+                                 todo="give scans of the same range")
+    wl0 = scans[0].wavelength_nm
+    keep = (wl0 >= lo) & (wl0 <= hi)
+    wl = wl0[keep]
+    if wl.size < 2:
+        raise ConfigurationError(f"{what} share fewer than two samples of the first")
+    rows = []
+    for s in scans:
+        same = s.wavelength_nm.shape == wl0.shape and bool(np.array_equal(s.wavelength_nm, wl0))
+        rows.append(s.values[keep] if same else np.interp(wl, s.wavelength_nm, s.values))
+    gaps = tuple(sorted({(max(a, lo), min(b, hi)) for s in scans for a, b in s.gaps_nm
+                         if min(b, hi) > max(a, lo)}))
+    return wl, np.vstack(rows), float(lo), float(hi), gaps
+
+
 def combine_scans(scans: Sequence[Spectrum], files: Sequence[str] | None = None
                   ) -> tuple[Spectrum, RepeatSummary]:
     """The mean of repeat scans of one lamp, and how far they agree (see the module notes).
@@ -95,25 +121,9 @@ def combine_scans(scans: Sequence[Spectrum], files: Sequence[str] | None = None
                                      todo="give scans of the same export and unit")
         if s.lines or first.lines:
             raise ConfigurationError("repeat scans must be measured spectra (no modelled lines)")
-    lo = max(s.range_nm[0] for s in scans)
-    hi = min(s.range_nm[1] for s in scans)
-    if not hi > lo:
-        raise ConfigurationError("the repeat scans share no wavelength range",
-                                 todo="give scans of the same range")
-    wl0 = first.wavelength_nm
-    keep = (wl0 >= lo) & (wl0 <= hi)
-    wl = wl0[keep]
-    if wl.size < 2:
-        raise ConfigurationError("the repeat scans share fewer than two samples of the first")
-    rows = []
-    for s in scans:
-        same = s.wavelength_nm.shape == wl0.shape and bool(np.array_equal(s.wavelength_nm, wl0))
-        rows.append(s.values[keep] if same else np.interp(wl, s.wavelength_nm, s.values))
-    stack = np.vstack(rows)
+    wl, stack, lo, hi, gaps = on_shared_range(scans)
     n = len(scans)
     mean = stack.mean(axis=0)
-    gaps = sorted({(max(a, lo), min(b, hi)) for s in scans for a, b in s.gaps_nm
-                   if min(b, hi) > max(a, lo)})
     # the noise of a mean of n scans: σ/√n, σ the larger of the scans' own noise (rms) and
     # the median scan-to-scan standard deviation per sample (JCGM 100:2008 §4.2)
     sig_scan = [s.noise_floor for s in scans if s.noise_floor is not None]
