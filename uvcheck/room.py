@@ -76,7 +76,6 @@ DEFAULT_GRID_STEP_M = 0.05
 MAX_GRID_NODES = 201                # per side
 DEFAULT_ORDER = 24                  # Gauss-Legendre points per mapped quadrant side
 DEFAULT_SEGMENTS = 16               # Gauss-Legendre points along a tube
-ACTINIC_LIMIT_J_M2 = 30.0           # IEC 62471:2006 clause 4.3.1: E_S·t ≤ 30 J m⁻² in 8 h
 #: A lamp closer than this to eye height is within reach of the eyes: no occupant exposure
 #: figure bounds it (our own rule). [m]
 EYE_CLEARANCE_M = 0.3
@@ -785,8 +784,8 @@ def evaluate_room(room: Box, lamp: RoomLamp, *, reflectance: float = DEFAULT_REF
     g = evaluate_germicidal(lamp.flux_spectrum)
     phi_uvc = g.uvc.favourable()
     phi_254 = g.equivalent_irradiance(253.7)  # in W here: the spectrum is a flux
-    # E_S over the range the IEC 62471:2006 limit (ACTINIC_LIMIT_J_M2) is stated for, as
-    # `uvcheck assess` integrates it (200-400 nm; ICNIRP's 180-400 nm is its own limit set)
+    # E_S over the range the limit set's actinic entry is stated for, as `uvcheck assess`
+    # integrates it (IEC 62471:2006: 200-400 nm; ICNIRP's 180-400 nm is its own limit set)
     from uvcheck.limits import DEFAULT_LIMIT_SET, get_limit_set
 
     lset = get_limit_set(limit_set or DEFAULT_LIMIT_SET)
