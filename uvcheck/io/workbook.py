@@ -26,7 +26,6 @@ Element names are matched without their namespace, so the Strict variant of the 
 from __future__ import annotations
 
 import math
-import re
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import IO, TYPE_CHECKING, Any, Iterator
@@ -196,11 +195,11 @@ def _number_text(v: str) -> str:
     return repr(x) if x != int(x) or abs(x) >= 1e16 else str(int(x))
 
 
-_NUMBER_RE = re.compile(r"[-+]?(?:\d+(?:[.,]\d*)?|[.,]\d+)(?:[eE][-+]?\d+)?")
-
-
 def _is_number(text: str) -> bool:
-    return bool(_NUMBER_RE.fullmatch(text))
+    """A cell that is a plain number in either decimal convention (the reader's patterns)."""
+    from uvcheck.io.reader import _NUM_COMMA, _NUM_DOT  # (the reader imports this module)
+
+    return bool(_NUM_DOT.match(text) or _NUM_COMMA.match(text))
 
 
 def _line(cells: dict[int, str], sheet: "_Sheet | None" = None, row: int = 0) -> str:
