@@ -136,7 +136,9 @@ def test_uva_plus_uvc_on_a_screening():
 
 @pytest.mark.parametrize("text", ["0 ozone", "0 ozone emission", "zero ozone", "Ozonfrei",
                                   "sans ozone", "ozon free", "ozone: none", "no ozone",
-                                  "does not produce ozone", "NON-OZONE"])
+                                  "does not produce ozone", "NON-OZONE",
+                                  "100% free of ozone", "free from ozone", "ozone-less",
+                                  "Ozoneless", "no harmful ozone", "ozone is not produced"])
 def test_ozone_free_wordings(text):
     c = parse_claim_text(text)
     assert c.kind == "ozone-free", c.note
@@ -150,6 +152,27 @@ def test_wordings_that_the_lamp_makes_ozone(text):
     assert c.kind != "ozone-free"
     assert "makes ozone" in c.note
     assert says_ozone_made(text) and not says_ozone_free(text)
+
+
+@pytest.mark.parametrize("text, made", [
+    ("UV-C + ozone", True), ("with ozone for odours", True), ("ozone mode", True),
+    ("254nm + 185nm", True), ("ozone sterilization", True),
+    ("ozone level tested", False), ("ozone concentration meets the standard", False)])
+def test_a_bare_mention_of_ozone_is_no_statement_that_the_lamp_makes_it(text, made):
+    """Only a wording that puts ozone (or the 184.9 nm line) among what the lamp gives says
+    the lamp makes ozone (our own reading); a mention alone does not, so it cannot turn a
+    mercury model into an ozone-producing one."""
+    assert says_ozone_made(text) is made
+
+
+def test_free_of_ozone_is_no_statement_that_the_lamp_makes_ozone():
+    """Before, '100% free of ozone' was read as the seller saying the lamp makes ozone: the
+    model gained the 184.9 nm line and the plain 'Ozone free' claim beside it became
+    'unlikely'. Both are ozone-free claims, not assessable on a mercury listing (the envelope
+    glass decides, technologies.toml below_240 = "possible")."""
+    v = screened(MERCURY + claims("Ozone free", "100% free of ozone, doped quartz glass"))
+    assert v["c1"].verdict == v["c2"].verdict == "not-assessable", v["c1"].basis
+    assert "contradicted_by" not in v["c1"].details
 
 
 def test_an_ozone_free_wording_is_not_a_statement_of_ozone():

@@ -976,7 +976,11 @@ _OZONE_FREE_RE = re.compile(
     rf"libre\s+de)[\s-]+{_OZ}\b|\bwithout\s+(?:any\s+)?{_OZ}\b|\b0\s*(?:ppm\s+)?{_OZ}\b|"
     rf"\b{_OZ}\s*[:=]\s*(?:none|no|nil|zero|0)\b|"
     rf"(?:does\s+not|doesn'?t|won'?t|will\s+not|never)\s+(?:produce|generate|emit|create|make|"
-    rf"release)\s+(?:any\s+)?{_OZ}\b|\b(?:no|without)\s+(?:the\s+)?18[45](?:\.\d)?\s*nm",
+    rf"release)\s+(?:any\s+)?{_OZ}\b|\b(?:no|without)\s+(?:the\s+)?18[45](?:\.\d)?\s*nm|"
+    # "free of ozone", "ozone-less", "no harmful ozone", "ozone is not produced"
+    rf"\bfree\s+(?:of|from)\s+(?:any\s+)?{_OZ}\b|\b{_OZ}[\s-]*less\b|"
+    rf"\bno\s+(?:harmful|residual|toxic|dangerous|secondary)\s+{_OZ}\b|"
+    rf"\b{_OZ}\s+(?:is\s+)?(?:not|never)\s+(?:produced|generated|emitted|created|released)\b",
     re.I)
 #: "not ozone-free", "isn't ozone free": the negation of an ozone-free wording.
 _OZONE_NOT_FREE_RE = re.compile(
@@ -990,6 +994,12 @@ _OZONE_MAKES_RE = re.compile(
 _OZONE_VERB_NEGATED_RE = re.compile(r"(?:\bnot|n't|\bnever|\bno)\s+(?:\w+\s+)?$", re.I)
 #: Any mention of ozone or of the 184.9 nm line that makes it ("UVC + ozone 185nm").
 _OZONE_MENTION_RE = re.compile(rf"\b{_OZ}\b|\bozonfrei|\b18[45](?:\.\d)?\s*nm", re.I)
+#: A wording that puts ozone among what the lamp gives ("UV-C + ozone", "with ozone", "ozone
+#: mode", "ozone sterilisation") or names the 184.9 nm line that makes it ("254nm + 185nm").
+_OZONE_GIVEN_RE = re.compile(
+    rf"\+\s*{_OZ}\b|\b{_OZ}\s*\+|\b(?:with|and|plus|und|avec|et)\s+{_OZ}\b|"
+    rf"\b{_OZ}\s+(?:mode|function|generat\w*|sterili[sz]\w*|disinfect\w*|lamp|"
+    rf"deodori[sz]\w*|purif\w*|cleaning|output)\b|\b18[45](?:\.\d)?\s*nm", re.I)
 
 
 #: How far before "produces ozone" a negation is looked for ("does not produce"): two short
@@ -1021,16 +1031,20 @@ def says_ozone_free(text: str | None) -> bool:
 
 def says_ozone_made(text: str | None) -> bool:
     """The wording says (or implies) that the lamp makes ozone or emits the 185 nm line that
-    makes it: it mentions ozone or 185 nm and is not an ozone-free wording ("produces ozone",
-    "UV-C + ozone", "not ozone-free", "254nm + 185nm").
+    makes it ("produces ozone", "not ozone-free", "UV-C + ozone", "ozone mode", "254nm +
+    185nm"), and is not an ozone-free wording. A bare mention of ozone ("ozone tested") is not
+    such a statement.
 
     Examples
     --------
-    >>> [says_ozone_made(t) for t in ("produces ozone", "0 ozone emission", "UV-C + ozone")]
-    [True, False, True]
+    >>> [says_ozone_made(t) for t in ("produces ozone", "0 ozone emission", "UV-C + ozone",
+    ...                               "free of ozone", "ozone level tested")]
+    [True, False, True, False, False]
     """
     t = text or ""
-    return bool(_OZONE_MENTION_RE.search(t)) and not says_ozone_free(t)
+    if _makes_ozone_wording(t):
+        return True
+    return bool(_OZONE_GIVEN_RE.search(t)) and not says_ozone_free(t)
 
 
 def ozone_statement(claims: Any, besides: Any = None) -> Any | None:
