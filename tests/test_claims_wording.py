@@ -314,6 +314,8 @@ text = "{text}"
     "Safe for your family: use only in unoccupied rooms",
     "harmless to people - leave the room during use",
     "safe for kids as long as the room is empty",
+    "Ne pas regarder la lampe, sans danger seulement pièce vide",
+    "Sicher für Kinder, nur in leeren Räumen verwenden",
 ])
 def test_a_safety_claim_for_an_empty_room_is_not_decided_by_exposure_limits(text):
     # With nobody in the room nobody is exposed, so the exposure limits cannot decide a
@@ -330,6 +332,17 @@ def test_a_safety_claim_for_an_empty_room_is_not_decided_by_exposure_limits(text
 def test_a_plain_safety_claim_is_still_judged_on_the_limits():
     v = _mercury_tube_claim("safe for children and pets")
     assert v.verdict == "cannot-hold" and "empty room" not in v.basis
+
+
+@pytest.mark.parametrize("text", ["safe for humans and pets, no need to leave the room",
+                                  "You don't have to leave the room, safe for kids",
+                                  "Safe for pets (do not look directly at the lamp)"])
+def test_a_safety_claim_for_people_who_stay_is_judged_on_the_limits(text):
+    # "no need to leave the room" was read as "leave the room", an empty-room claim, and a
+    # caution beside a safety claim dropped it: both are judged on the 4 W tube's E_S now
+    v = _mercury_tube_claim(text)
+    assert v.kind == "safety" and v.verdict == "cannot-hold", v.basis
+    assert "empty room" not in v.basis
 
 
 @pytest.mark.parametrize("text", [

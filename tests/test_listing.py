@@ -341,10 +341,38 @@ def test_french_and_german_safety_claims_are_read(text, safe_for):
 
 
 @pytest.mark.parametrize("text", ["Vorsicht: nicht in die Lampe schauen, nicht sicher für Augen",
-                                  "Attention : dangereux pour les yeux",
-                                  "Ne pas regarder la lampe, sans danger seulement pièce vide"])
+                                  "Attention : dangereux pour les yeux"])
 def test_french_and_german_warnings_are_no_safety_claims(text):
     assert parse_claim_text(text).kind != "safety"
+
+
+@pytest.mark.parametrize("text, safe_for", [
+    ("Safe for humans and pets (do not look directly at the lamp)", ("people", "pets")),
+    ("safe around kids, avoid direct eye exposure", ("children",)),
+    ("Vorsicht: nicht direkt in das Licht schauen, sicher für Pflanzen", ("plants",)),
+    ("safe for plants, keep pets and people away", ("plants",)),
+    ("safe for pets, keep out of reach of children", ("pets",)),
+    ("Do not use around children; safe for adults", ("people",)),
+])
+def test_a_safety_claim_with_a_caution_beside_it_is_still_a_safety_claim(text, safe_for):
+    """Sellers add a caution to a safety claim; only a negation in the safety wording's own
+    clause ("not safe for eyes") undoes it, and the subjects of the caution ("keep pets
+    away") are not what the lamp is said to be safe for (our own reading of plain wording).
+    Before, any "do not" or "Vorsicht" in the text dropped the claim as a warning."""
+    c = parse_claim_text(text)
+    assert c.kind == "safety" and set(c.safe_for) == set(safe_for), (c.kind, c.safe_for, c.note)
+
+
+@pytest.mark.parametrize("text", [
+    "can be used while people are present", "no need to leave the room",
+    "You don't have to leave the room during use", "works without leaving the room",
+    "Kann verwendet werden, während Personen anwesend sind",
+    "safe for humans and pets, no need to leave the room"])
+def test_use_while_people_are_in_the_room_is_a_safety_claim_for_occupied_rooms(text):
+    """"No need to leave the room" says people may stay: a safety claim for an occupied
+    room, never one made for an empty room (our own reading of plain English and German)."""
+    c = parse_claim_text(text)
+    assert c.kind == "safety" and "occupied-rooms" in c.safe_for, (c.kind, c.safe_for)
 
 
 def test_french_haut_is_not_skin():

@@ -1527,7 +1527,10 @@ _EMPTY_ROOM_RE = re.compile(
     r"unoccupied)|(?:nobody|no\s*one|no\s+(?:people|persons?|humans?|one|pets?|animals?|"
     r"children|kids))\s+(?:is|are)\s+(?:in|present|around|inside|there))|\bunoccupied\b|"
     r"\bempty\s+rooms?\b|\bvacant\s+rooms?\b|\bleave\s+the\s+room\b|"
-    r"\bno\s*one\s+(?:is\s+)?(?:present|around|in\s+the\s+room)\b", re.I)
+    r"\bno\s*one\s+(?:is\s+)?(?:present|around|in\s+the\s+room)\b|"
+    # French and German (a short list, as for the safety words)
+    r"\b(?:pièce|salle|chambre)s?\s+vides?\b|\ben\s+l'absence\s+de\s+(?:personnes?|toute\s+personne)\b|"
+    r"\bleeren?\s+(?:Raum|Räumen|Zimmer[n]?)\b|\bwenn\s+niemand\b|\bunbewohnt", re.I)
 #: A safety claim that rests on a safeguard switching the lamp off when someone is there
 #: ("automatic shut-off when a human body is detected", "radar sensor", "switches off when
 #: the lid is opened"): our own reading of plain English.

@@ -1061,6 +1061,7 @@ def ozone_statement(claims: Any, besides: Any = None) -> Any | None:
 _RADIATION_FREE = r"\bradiation[\s-]*free\b|\bno\s+(?:harmful\s+)?radiation\b"
 _RADIATION_FREE_RE = re.compile(_RADIATION_FREE, re.I)
 _SAFE_RE = re.compile(r"\bsafe\b|\bsafely\b|harmless|\bno\s+harm\b|-safe\b|\bnot\s+harmful\b|"
+                      r"\bno\s+(?:danger|risk|hazard)\s+(?:to|for)\b|\bkeine\s+gefahr\b|"
                       r"\b(?:pets?|animals?|child(?:ren)?|kids?|bab(?:y|ies)|family)[\s-]*friendly\b|"
                       # German and French (a short list, as for the kill words)
                       r"\bsicher\b|\bunbedenklich|\bungefährlich|\bharmlos\b|"
@@ -1075,7 +1076,33 @@ def _unit_characters(text: str) -> str:
 _NEGATION_RE = re.compile(r"\b(not\s+safe|unsafe|do\s+not|don'?t|never\s+(?:look|expose)|avoid|"
                           r"nicht\s+sicher|unsicher|gefährlich|warnung|vorsicht|niemals|"
                           r"dangereux|dangereuse|attention|avertissement|jamais|ne\s+pas|"
-                          r"(?<!no\s)(?<!not\s)harmful|dangerous|warning|caution)\b", re.I)
+                          r"(?<!no\s)(?<!not\s)harmful|dangerous|warning|caution|"
+                          r"keep\s+(?:\w+\s+){0,4}?(?:away|out)|out\s+of\s+(?:the\s+)?reach)\b", re.I)
+#: Use while people are in the room, said as a safety claim ("can be used while people are
+#: present", "no need to leave the room", "you don't have to leave the room"): our own reading
+#: of plain English and German. Its "don't" is no negation of the claim.
+_OCCUPIED_USE_RE = re.compile(
+    r"\b(?:can|may|could)\s+(?:safely\s+)?be\s+used\s+(?:while|when|with|in\s+the\s+presence\s+of)"
+    r"\s+(?:people|persons|humans|you|someone|anyone|occupants|others|family)"
+    r"(?:\s+(?:are|is))?(?:\s+(?:present|around|in\s+the\s+room|inside|there|at\s+home))?|"
+    r"\bno\s+need\s+to\s+(?:leave|vacate|exit)\s+the\s+room\b|"
+    r"\b(?:don'?t|do\s+not|needn'?t|need\s+not|never)\s+(?:have\s+|need\s+)?to\s+(?:leave|vacate|"
+    r"exit)\s+the\s+room\b|\bwithout\s+(?:having\s+to\s+)?(?:leav|vacat|exit)\w*\s+the\s+room\b|"
+    r"\bwährend\s+(?:Personen|Menschen|Leute)\s+(?:im\s+Raum\s+)?anwesend\b|"
+    r"\bpendant\s+que\s+(?:des\s+)?(?:personnes|gens)\s+(?:sont\s+)?présent", re.I)
+#: Where a safety wording and a caution beside it part: a safety claim with a caution in the
+#: same text ("safe for pets (do not look into the lamp)") is still a safety claim; only a
+#: negation in its own clause ("not safe for eyes") undoes it.
+_CLAUSE_SPLIT_RE = re.compile(r"[,;()\[\]!?]|\.(?:\s|$)|:\s|\s[-–—]\s")
+
+
+def _unnegated_clauses(text: str) -> list[str]:
+    """The clauses of ``text`` without a negation or caution of their own (use in an occupied
+    room taken out first: its "don't have to leave" negates nothing)."""
+    return [c for c in _CLAUSE_SPLIT_RE.split(_OCCUPIED_USE_RE.sub(" ", text))
+            if c and c.strip() and not _NEGATION_RE.search(c)]
+
+
 _SUBJECT_RES = (
     ("people", re.compile(r"\b(people|humans?|persons?|adults?|family|families|everyone|users?|"
                           r"menschen|personen|familie|personnes|humains?|adultes?|"
@@ -1086,7 +1113,8 @@ _SUBJECT_RES = (
                         r"animaux|chiens?)\b", re.I)),
     ("plants", re.compile(r"\b(plants?|pflanzen|plantes?)\b", re.I)),
     ("occupied-rooms", re.compile(r"\b(occupied|while\s+(?:you|people)\s+are\s+(?:present|in)|"
-                                  r"with\s+people\s+present|in\s+presence)\b", re.I)),
+                                  r"with\s+people\s+present|in\s+presence)\b|"
+                                  + _OCCUPIED_USE_RE.pattern, re.I)),
     ("eyes", re.compile(r"\b(eyes?|augen|yeux)\b", re.I)),
     # German 'Haut' capitalised only: French 'haut' means high
     ("skin", re.compile(r"\b(?:(?i:skin|peau)|Haut)\b")),
@@ -1339,8 +1367,8 @@ def parse_claim_text(text: str, claim_id: str = "c1", kind: str | None = None) -
     ozone_free = says_ozone_free(text)
     if ozone_free:
         kinds.append("ozone-free")
-    safe = bool(_SAFE_RE.search(text)) and not _NEGATION_RE.search(text)
-    if safe:
+    plain_clauses = _unnegated_clauses(text)
+    if any(_SAFE_RE.search(c) for c in plain_clauses) or _OCCUPIED_USE_RE.search(text):
         kinds.append("safety")
     if "power_W" in q and _OUTPUT_RE.search(text):
         kinds.append("optical-power")
@@ -1390,7 +1418,11 @@ def parse_claim_text(text: str, claim_id: str = "c1", kind: str | None = None) -
     elif kind == "coverage":
         kw["area_m2"], kw["volume_m3"] = q.get("area_m2"), q.get("volume_m3")
     elif kind == "safety":
-        kw["safe_for"] = tuple(s for s, rx in _SUBJECT_RES if rx.search(text))
+        # the subjects outside the clauses that caution or negate ("safe for plants, keep
+        # pets away"); use in an occupied room from the whole text
+        said = " , ".join(plain_clauses)
+        kw["safe_for"] = tuple(s for s, rx in _SUBJECT_RES
+                               if rx.search(text if s == "occupied-rooms" else said))
         if not kw["safe_for"] and _RADIATION_FREE_RE.search(text):
             kw["safe_for"] = ("people",)
         kw["distance_m"] = q.get("distance_m")
