@@ -1087,8 +1087,9 @@ _ORGANISM_LIST_RE = re.compile(r"\s*(?:,|;|&|\band\b|\bund\b|\bplus\b|/)\s*", re
 
 def _named_organisms(c: Any) -> list[str]:
     """The organisms a claim names, where it names more than one that the table does not
-    know as a whole ("E. coli and Staphylococcus aureus"); [] otherwise."""
-    if c.organism is None or c.organism_generic or find_organism(c.organism):
+    know as a whole ("E. coli and Staphylococcus aureus"), groups among them ("bacteria and
+    viruses": each group is judged by its own most susceptible organism); [] otherwise."""
+    if c.organism is None or find_organism(c.organism):
         return []
     names = [n.strip(" .") for n in _ORGANISM_LIST_RE.split(c.organism) if n and n.strip(" .")]
     return names if len(names) > 1 else []
