@@ -167,3 +167,28 @@ def test_an_undecided_uvc_reading_is_kept():
     from uvcheck.germicidal import Artefact
 
     assert without_stray_uvc(red_led(5e-5), [Artefact("data-edge", "undecided")]) is None
+
+
+def test_a_kill_claim_is_not_credited_with_stray_uvc():
+    """The mirror for efficacy (our own rule): the benefit of the doubt does not stretch to a
+    dose from UV-C that the tool itself reads as not emitted. With the level, the red panel
+    gives about 4e-3 W m⁻² of UV-C (5e-5 W m⁻² nm⁻¹ over 200–280 nm) and, in 24 h, more than
+    the 2-log dose of E. coli (2 × 23.3 J m⁻², legacy chart row, data/organisms/organisms.csv):
+    before, the claim held. Without the level a 630 nm LED gives no germicidal dose, so the
+    claim is 'not-assessable', naming the measurement that decides it."""
+    from uvcheck.claims import RULE_STRAY_UVC_EFFICACY
+
+    lst = parse_listing(LISTING + '[[claims]]\nid = "kill"\n'
+                        'text = "kills 99% of E. coli in 24 hours at 20 cm"\n', "panel.toml")
+    spec = red_led(5e-5)
+    v = {x.id: x for x in judge(lst, readings_from_measurement(spec, COND),
+                                measured=True).verdicts}["kill"]
+    assert v.available.value > v.needed.value       # the dose with the stray level
+    assert v.verdict == "not-assessable", v.basis
+    assert v.rule == RULE_STRAY_UVC_EFFICACY and v.missing == STRAY_UVC_NEEDED
+    assert "stray light" in v.basis and "without it, cannot-hold" in v.basis
+    assert v.details["without_stray_uvc"] == "cannot-hold"
+    # with no level there is no stray UV-C to discount: the plain verdict on the panel
+    plain = {x.id: x for x in judge(lst, readings_from_measurement(red_led(0.0), COND),
+                                    measured=True).verdicts}["kill"]
+    assert plain.verdict == "cannot-hold", plain.basis

@@ -13,7 +13,9 @@ listing can be read — and every claim is judged over them:
   (:data:`MARGIN`, a factor of 2 unless the uncertainty module gives an interval);
   ``unlikely`` when it falls short by less than that; ``holds`` when it reaches the need.
   A reading that a plausibility check refutes (an LED voltage that cannot make the stated
-  wavelength) is not used as the favourable reading;
+  wavelength) is not used as the favourable reading, and UV-C that the germicidal evaluation
+  reads as likely stray light is no dose: a kill claim that holds only through it is
+  ``not-assessable`` (:func:`_unless_stray_credit`);
 * **safety claims** fail as soon as the *most likely* reading (the measurement; without one,
   the typical case of the most credible nominal reading) exceeds an exposure limit of the
   assessment's limit set (``judge(limit_set=...)``; a basis names a set other than the
@@ -220,6 +222,9 @@ RULE_STRAY_UVC = ("the stray-light rule (a verdict against a safety or risk-grou
                   "rest on UV-C below 280 nm that reads as likely stray light or noise, nor on "
                   "that stray level where it goes on into UV-B and UV-A)")
 #: What would decide such a claim.
+#: Rule of an efficacy verdict that would hold only on UV-C read as stray light (our own rule).
+RULE_STRAY_UVC_EFFICACY = ("the stray-light rule for efficacy (a dose is not credited to UV-C "
+                           "below 280 nm that reads as likely stray light or noise)")
 STRAY_UVC_NEEDED = ("a measurement below 280 nm with the stray light controlled (a solar-blind "
                     "or short-pass filter, or a double-monochromator spectroradiometer)",)
 #: Rule of an emission claim that a nominal estimate can only take at its word.
@@ -1158,6 +1163,41 @@ def _unless_unmeasured(v: Verdict, r: Reading | None, lo: float, hi: float,
 
 
 def _one_inactivation(c: Any, ev: Evidence) -> Verdict:
+    """One organism (or group): judged on the readings, then by the stray-light rule for
+    efficacy (:func:`_unless_stray_credit`)."""
+    return _unless_stray_credit(_inactivation_on(c, ev), c, ev)
+
+
+def _unless_stray_credit(v: Verdict, c: Any, ev: Evidence) -> Verdict:
+    """An efficacy verdict that ``holds`` on a measurement whose UV-C reads as likely stray
+    light or noise is judged again without that UV-C (:meth:`Reading.stray_free`). If it
+    still holds (on output the tool reads as real), it stands and its basis says so; if not,
+    it is ``not-assessable``: crediting a dose to UV-C that the tool itself reads as not
+    emitted would contradict its own emission verdict, and a measurement with the stray light
+    controlled decides it (the mirror of :func:`_unless_stray` for safety claims; our own
+    rule). Any other verdict is returned as it is."""
+    if v.verdict != "holds" or not ev.measured:
+        return v
+    free = [r.stray_free() for r in ev.readings]
+    if all(x is None for x in free):
+        return v
+    ev2 = replace(ev, readings=tuple(x if x is not None else r for r, x in zip(ev.readings, free)),
+                  uncertainty=None)
+    v2 = _inactivation_on(c, ev2)
+    details = {**v.details, "without_stray_uvc": v2.verdict}
+    if v2.verdict == "holds":
+        return replace(v, basis=f"{v.basis}; it holds even without the UV-C below 280 nm that "
+                                f"reads as likely stray light ({v2.basis})", details=details)
+    without = (f"{v2.verdict}: {v2.basis}" if v2.verdict != "not-assessable"
+               else f"not assessable: {v2.basis}")
+    return replace(v, verdict="not-assessable",
+                   basis=f"{v.basis}, but only through the UV-C below 280 nm, which reads as "
+                         f"likely stray light or noise (see the germicidal artefacts) and is "
+                         f"not credited as germicidal output; without it, {without}",
+                   missing=STRAY_UVC_NEEDED, details=details, rule=RULE_STRAY_UVC_EFFICACY)
+
+
+def _inactivation_on(c: Any, ev: Evidence) -> Verdict:
     ev_kind = "measured" if ev.measured else "nominal estimate"
     percent, notes = _percent(c)
     missing = list(c.missing(ev.listing))
@@ -1988,7 +2028,9 @@ SAFETY_ESTIMATE_TEXT = (
 def decision_rule_text(margin: float = MARGIN, rule: str | None = None,
                        estimate: bool = False) -> str:
     head = ("efficacy claims: benefit of the doubt (most favourable reading, most susceptible "
-            "organism, lowest dose across studies). Safety claims: fail as soon as the most "
+            "organism, lowest dose across studies; no dose from UV-C that reads as stray "
+            "light: 'not-assessable' when only that UV-C would make it hold). Safety claims: "
+            "fail as soon as the most "
             "likely reading exceeds an exposure limit, except where only UV-C that reads as "
             "stray light (and that stray level in UV-B and UV-A) makes it exceed "
             "('not-assessable' then). "
