@@ -1168,7 +1168,8 @@ def _one_inactivation(c: Any, ev: Evidence) -> Verdict:
     return _unless_stray_credit(_inactivation_on(c, ev), c, ev)
 
 
-def _unless_stray_credit(v: Verdict, c: Any, ev: Evidence) -> Verdict:
+def _unless_stray_credit(v: Verdict, c: Any, ev: Evidence,
+                         judge_on: Callable[[Any, Evidence], Verdict] | None = None) -> Verdict:
     """An efficacy verdict that ``holds`` on a measurement whose UV-C reads as likely stray
     light or noise is judged again without that UV-C (:meth:`Reading.stray_free`). If it
     still holds (on output the tool reads as real), it stands and its basis says so; if not,
@@ -1183,7 +1184,7 @@ def _unless_stray_credit(v: Verdict, c: Any, ev: Evidence) -> Verdict:
         return v
     ev2 = replace(ev, readings=tuple(x if x is not None else r for r, x in zip(ev.readings, free)),
                   uncertainty=None)
-    v2 = _inactivation_on(c, ev2)
+    v2 = (judge_on or _inactivation_on)(c, ev2)
     details = {**v.details, "without_stray_uvc": v2.verdict}
     if v2.verdict == "holds":
         return replace(v, basis=f"{v.basis}; it holds even without the UV-C below 280 nm that "
@@ -1838,6 +1839,66 @@ def _optical_power(c: Any, ev: Evidence) -> Verdict:
     return _unless_unmeasured(v, r, *c.band_nm, "a spectrum covering the whole band")
 
 
+def _irradiance(c: Any, ev: Evidence) -> Verdict:
+    """A stated irradiance ("UV-C output 2.5 mW/cm² at 10 cm") against the most favourable
+    reading's irradiance in that band at that distance (benefit of the doubt, as for
+    efficacy; the emitter model scales it with distance). No band named: all UV, 200–400 nm,
+    the most favourable reading. UV-C that reads as stray light is not credited
+    (:func:`_unless_stray_credit`)."""
+    return _unless_stray_credit(_irradiance_on(c, ev), c, ev, _irradiance_on)
+
+
+def _irradiance_on(c: Any, ev: Evidence) -> Verdict:
+    from uvcheck.germicidal import spectrum_at
+
+    missing = c.missing(ev.listing)
+    if missing:
+        return _na(c, ev, "the claim does not say " + " or ".join(missing), missing)
+    d = c.distance_m or ev.listing.use_distance_m
+    assumptions: list[str] = []
+    if c.distance_m is None:
+        assumptions.append(f"the claim names no distance: judged at the listing's distance of "
+                           f"use, {sig(d)} m")
+    if c.band_nm is not None:
+        (lo, hi), band = c.band_nm, c.band_name or f"{c.band_nm[0]:g}–{c.band_nm[1]:g} nm"
+    else:
+        (lo, hi), band = (200.0, 400.0), "UV (200–400 nm)"
+        assumptions.append("the claim names no band: judged on all UV, 200–400 nm (the most "
+                           "favourable reading)")
+    fav = ev.favourable()
+    if not fav and not ev.readings:
+        return _na(c, ev, NO_LAMP_DATA, NO_LAMP_DATA_NEEDS)
+    if not fav:
+        return _na(c, ev, "no absolute output: the spectrum is relative and no power is stated",
+                   ("a scaled spectrum (--scale-band) or lamp.optical_power / lamp.electrical_power",))
+    if any(r.d_ref is None and r.spectrum.quantity == "irradiance" for r in fav):
+        return _na(c, ev, f"the spectrum's measurement distance is unknown, so the irradiance at "
+                          f"{sig(d)} m cannot be worked out", ("--distance",))
+    best: tuple[float, Reading] | None = None
+    for r in fav:
+        spec = spectrum_at(r.spectrum, r.conditions, d)
+        if spec.quantity != "irradiance":
+            continue
+        e = integrate(spec, lo, hi).value
+        if best is None or e > best[0]:
+            best = (e, r)
+    if best is None:
+        return _na(c, ev, "the lamp's output cannot be made an irradiance at that distance",
+                   ("an irradiance spectrum with --distance",))
+    e, r = best
+    stated = c.irradiance_W_m2
+    ratio = e / stated
+    basis = (f"the claim states {_uw_cm2(stated)} of {band} at {sig(d)} m; this lamp gives at "
+             f"most {_uw_cm2(e)} there: {_short(ratio)}")
+    v = Verdict(c.id, c.kind, c.text, _by_ratio(ratio, ev.margin),
+                Quantity(stated, "W m-2", f"stated {band} irradiance"),
+                Quantity(e, "W m-2", "irradiance this lamp gives, most favourable reading"),
+                ratio, basis, tuple(assumptions), (),
+                "measured" if ev.measured else "nominal estimate", r.label,
+                {"distance_m": d, "band_nm": [lo, hi]}, rule_margin(ev.margin))
+    return _unless_unmeasured(v, r, lo, hi, f"a spectrum covering the whole of {band}")
+
+
 def _efficiency(c: Any, ev: Evidence) -> Verdict:
     f = ev.plausibility.by_id(f"efficiency:{c.id}") if ev.plausibility else None
     if f is None:
@@ -1977,6 +2038,7 @@ def _approval(c: Any, ev: Evidence) -> Verdict:
 
 _JUDGES = {"emission": _emission, "inactivation": _inactivation, "coverage": _coverage,
            "ozone-free": _ozone, "safety": _safety, "optical-power": _optical_power,
+           "irradiance": _irradiance,
            "efficiency": _efficiency, "risk-group": _risk_group, "approval": _approval}
 
 

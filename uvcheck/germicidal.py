@@ -902,6 +902,13 @@ def _efficiency(uvc: Reading, spec: Spectrum, position: Position, cond: Conditio
     return Efficiency(status, p_el, flux, basis, eff, tech_id, rng, verdict, note)
 
 
+def spectrum_at(spectrum: Spectrum, cond: Conditions, distance_m: float | None) -> Spectrum:
+    """The spectrum at ``distance_m`` on the lamp's axis, scaled with the conditions' emitter
+    model as every germicidal figure at a distance is (a flux spectrum becomes an on-axis
+    irradiance); the spectrum itself for None. [m]"""
+    return _at_position(spectrum, cond, distance_m)[0]
+
+
 def _at_position(spectrum: Spectrum, cond: Conditions, distance_m: float | None
                  ) -> tuple[Spectrum, Position]:
     if distance_m is None:

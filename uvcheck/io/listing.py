@@ -39,7 +39,7 @@ FORMAT_ID = "uvcheck-listing/1"
 
 #: The fixed set of claim kinds.
 CLAIM_KINDS = ("emission", "inactivation", "coverage", "ozone-free", "safety", "optical-power",
-               "efficiency", "risk-group", "approval", "unrecognised")
+               "irradiance", "efficiency", "risk-group", "approval", "unrecognised")
 
 #: The IEC 62471 risk groups a risk-group claim can state (as uvcheck.limits.GROUPS, repeated
 #: so that the listing reader stays free of numpy).
@@ -94,6 +94,7 @@ KIND_FIELDS: dict[str, tuple[str, ...]] = {
     "ozone-free": (),
     "safety": ("safe_for", "distance", "time"),
     "optical-power": ("power", "band"),
+    "irradiance": ("irradiance", "distance", "band"),
     "efficiency": ("efficiency", "efficiency_of"),
     "risk-group": ("risk_group",),
     "approval": ("agency",),
@@ -138,6 +139,8 @@ class Claim:
     medium : ``surface`` | ``air`` | None.
     safe_for : subjects of a safety claim, from :data:`SUBJECTS`.
     power_W : stated optical power. [W]
+    irradiance_W_m2 : stated irradiance (an irradiance claim, "UV-C 2.5 mW/cm² at 10 cm"),
+        in ``band_nm`` (all UV when the claim names no band) at ``distance_m``. [W m⁻²]
     efficiency_fraction : stated efficiency. [-]
     efficiency_of : ``UV-C`` (UV-C watts per electrical watt) | ``optical`` (all optical
         watts per electrical watt) | None.
@@ -167,6 +170,7 @@ class Claim:
     medium: str | None = None
     safe_for: tuple[str, ...] = ()
     power_W: float | None = None
+    irradiance_W_m2: float | None = None
     efficiency_fraction: float | None = None
     efficiency_of: str | None = None
     risk_group: str | None = None
@@ -219,6 +223,11 @@ class Claim:
         elif self.kind == "optical-power":
             if self.power_W is None:
                 out.append("power")
+        elif self.kind == "irradiance":
+            if self.irradiance_W_m2 is None:
+                out.append("irradiance")
+            if self.distance_m is None and (listing is None or listing.use_distance_m is None):
+                out.append("distance")
         elif self.kind == "efficiency":
             if self.efficiency_fraction is None:
                 out.append("efficiency")
@@ -244,6 +253,7 @@ class Claim:
             "ozone-free": (),
             "safety": ("safe_for", "distance_m", "time_s"),
             "optical-power": ("power_W", "band_name", "band_nm"),
+            "irradiance": ("irradiance_W_m2", "distance_m", "band_name", "band_nm"),
             "efficiency": ("efficiency_fraction", "efficiency_of"),
             "risk-group": ("risk_group",),
             "approval": ("agency",),
@@ -458,6 +468,7 @@ class _Ctx:
 
 
 _KIND_OF_TYPE = {"length": "length", "power": "power", "voltage": "voltage",
+                 "irradiance": "irradiance",
                  "current": "current", "area": "area", "volume": "volume", "time": "time"}
 
 
@@ -475,7 +486,7 @@ def _quantity(ctx: _Ctx, key: str, value: Any, kind: str) -> float:
     return v
 
 
-_EXAMPLES = {"length": "2 m", "power": "8 W", "voltage": "3.1 V", "current": "20 mA",
+_EXAMPLES = {"length": "2 m", "power": "8 W", "irradiance": "2.5 mW/cm²", "voltage": "3.1 V", "current": "20 mA",
              "area": "20 m²", "volume": "50 m³", "time": "30 min"}
 
 
@@ -808,7 +819,8 @@ def _claim(ctx: _Ctx, raw: Any, i: int) -> Claim:
         kw["organism_generic"] = bool(_GENERIC_ORG_RE.search(org)) and not _SPECIFIC_ORG_RE.search(org)
     for k, attr, kind_q in (("time", "time_s", "time"), ("distance", "distance_m", "length"),
                             ("area", "area_m2", "area"), ("volume", "volume_m3", "volume"),
-                            ("power", "power_W", "power")):
+                            ("power", "power_W", "power"),
+                            ("irradiance", "irradiance_W_m2", "irradiance")):
         if k in raw:
             kw[attr] = _quantity(ctx, f(k), raw[k], kind_q)
     if "medium" in raw:
@@ -940,6 +952,9 @@ _WL_RANGE_RE = re.compile(r"(\d{3}(?:[.,]\d+)?)\s*(?:nm)?\s*(?:-|–|to)\s*(\d{3
                           re.I)
 _WL_RE = re.compile(r"(\d{3}(?:[.,]\d+)?)\s*nm\b", re.I)
 _POWER_RE = re.compile(rf"{_BIG}\s*(mW|W|watts?)\b")
+#: An irradiance ("2.5 mW/cm²", "120 µW/cm2", "25 W/m²"; not a spectral one, per nm).
+_IRRADIANCE_RE = re.compile(rf"{_BIG}\s*((?:[mµμu]|micro|milli)?W\s*/\s*(?:c?m)\s*(?:²|2|\^\s*2))"
+                            r"(?!\s*(?:/|per\s)\s*(?:nm|µm|um))", re.I)
 _KILL_RE = re.compile(r"\b(kill\w*|inactivat\w*|eliminat\w*|destroy\w*|remov\w*|disinfect\w*|"
                       r"efficacy|germicidal\s+(?:rate|effect)|"
                       r"sterili[sz]\w*|saniti[sz]\w*|neutrali[sz]\w*|reduc\w*|"
@@ -1228,6 +1243,14 @@ def _find_quantities(text: str) -> dict[str, Any]:
                 found["time_s"], found["time_word"] = VAGUE_TIMES[word][0], word
                 spans.append(m.span())
                 break
+    for m in _IRRADIANCE_RE.finditer(text):
+        if free(m):
+            unit = (m.group(2).replace(" ", "").replace("micro", "µ").replace("milli", "m")
+                    .replace("μ", "µ").replace("^2", "2").replace("²", "2"))
+            unit = unit[0].lower() + unit[1:] if unit[0] in "MU" else unit
+            found.setdefault("irradiance_W_m2", parse_quantity(
+                f"{_big(m.group(1), found)} {unit}", "irradiance").value_si)
+            spans.append(m.span())
     for m in _DIST_RE.finditer(text):
         if free(m):
             found.setdefault("distance_m", parse_quantity(
@@ -1370,6 +1393,8 @@ def parse_claim_text(text: str, claim_id: str = "c1", kind: str | None = None) -
     plain_clauses = _unnegated_clauses(text)
     if any(_SAFE_RE.search(c) for c in plain_clauses) or _OCCUPIED_USE_RE.search(text):
         kinds.append("safety")
+    if "irradiance_W_m2" in q:
+        kinds.append("irradiance")
     if "power_W" in q and _OUTPUT_RE.search(text):
         kinds.append("optical-power")
     band_name = _band_of_text(text)
@@ -1436,6 +1461,12 @@ def parse_claim_text(text: str, claim_id: str = "c1", kind: str | None = None) -
         kw["power_W"] = q["power_W"]
         if band_name:
             kw["band_name"], kw["band_nm"] = band_name, BANDS_NM[band_name]
+    elif kind == "irradiance":
+        kw["irradiance_W_m2"], kw["distance_m"] = q["irradiance_W_m2"], q.get("distance_m")
+        if "band_nm" in q:
+            kw["band_nm"] = q["band_nm"]
+        elif band_name:
+            kw["band_name"], kw["band_nm"] = band_name, BANDS_NM[band_name]
     elif kind == "emission":
         kw["wavelength_nm"] = q.get("wavelength_nm")
         if "band_nm" in q:
@@ -1449,6 +1480,7 @@ def parse_claim_text(text: str, claim_id: str = "c1", kind: str | None = None) -
         if len(q.get("wavelengths_nm", ())) > 1:
             kw["wavelengths_nm"] = tuple(q["wavelengths_nm"])
     others = [k for k in kinds[1:] if not (k == "emission" and kind in ("optical-power",
+                                                                         "irradiance",
                                                                          "efficiency"))]
     notes = [f"read from the wording as {_article(kind)} {kind} claim"]
     if q.get("thousands"):

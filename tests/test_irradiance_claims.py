@@ -1,0 +1,90 @@
+"""Irradiance claims: "UV-C output 2.5 mW/cm² at 10 cm" states an irradiance, not a power.
+
+Before, the reader took "2.5 mW" out of "2.5 mW/cm²" as an optical power of 2.5 mW, and the
+claim held against any lamp that emits that much in all; "UVC irradiance 120 µW/cm² at 1 m"
+lost its number and was judged as a plain emission claim.
+
+Sources:
+* Unit conversion: 1 mW/cm² = 10 W/m², 1 µW/cm² = 0.01 W/m² (SI prefixes, BIPM SI Brochure,
+  9th edition, Table 7).
+* A flat irradiance spectrum E_λ over a band of width Δλ gives E = E_λ·Δλ (the integral);
+  with a point source, E scales as 1/d² (inverse-square law).
+The spectra and listings are invented.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+import pytest
+
+from uvcheck.claims import judge, readings_from_measurement
+from uvcheck.conditions import Conditions
+from uvcheck.io.listing import parse_claim_text, parse_listing
+from uvcheck.spectrum import Spectrum
+
+
+@pytest.mark.parametrize("text, w_m2, d_m, band", [
+    ("UV-C output 2.5 mW/cm² at 10 cm", 25.0, 0.1, (200.0, 280.0)),
+    ("UVC irradiance 120 µW/cm² at 1 m", 1.2, 1.0, (200.0, 280.0)),
+    ("UV intensity: 80uW/cm2 (1m)", 0.8, 1.0, None),
+    ("irradiance 25 W/m2 at 1 m", 25.0, 1.0, None),
+    ("UVC 1.5 mW/cm^2 at 5 cm", 15.0, 0.05, (200.0, 280.0)),
+])
+def test_an_irradiance_is_read_as_an_irradiance(text, w_m2, d_m, band):
+    c = parse_claim_text(text)
+    assert c.kind == "irradiance", (c.kind, c.note)
+    assert c.irradiance_W_m2 == pytest.approx(w_m2) and c.distance_m == pytest.approx(d_m)
+    assert c.band_nm == band and c.power_W is None
+
+
+def test_a_spectral_irradiance_is_no_irradiance_claim():
+    # "per nm" is a spectral value, not what a band gives
+    assert parse_claim_text("peak 1.2 mW/cm2/nm at 5 cm").kind != "irradiance"
+
+
+def _flat_uvc(level: float = 0.01) -> Spectrum:
+    """A flat 0.01 W m⁻² nm⁻¹ over 200–280 nm (0.8 W m⁻² of UV-C, 80 µW/cm²), nothing from
+    285 nm on, on 200–800 nm at 1 nm (invented)."""
+    wl = np.arange(200.0, 800.5, 1.0)
+    return Spectrum(wl, np.where(wl <= 280.0, level, 0.0), "irradiance")
+
+
+def _verdicts(spec: Spectrum, d0: float, *texts: str) -> dict:
+    body = "".join(f'[[claims]]\nid = "c{i}"\ntext = "{t}"\n' for i, t in enumerate(texts, 1))
+    lst = parse_listing('format = "uvcheck-listing/1"\n[product]\nname = "box (invented)"\n'
+                        "invented = true\n" + body, "box.toml")
+    res = judge(lst, readings_from_measurement(spec, Conditions(measurement_distance_m=d0)),
+                measured=True)
+    return {v.id: v for v in res.verdicts}
+
+
+def test_a_stated_irradiance_is_judged_against_the_measured_band():
+    # 0.8 W/m² of UV-C at 10 cm (0.01 × 80 nm; the trapezoid takes half a step at 280.5 nm's
+    # edge, so within 1 %); at 20 cm a quarter of it (inverse square, point source)
+    v = _verdicts(_flat_uvc(), 0.1, "UV-C output 2.5 mW/cm² at 10 cm",
+                  "UVC 70 µW/cm² at 10 cm", "UVC 30 µW/cm² at 20 cm", "UVC 15 µW/cm² at 20 cm")
+    assert v["c1"].available.value == pytest.approx(0.8, rel=0.01)
+    assert v["c1"].needed.value == pytest.approx(25.0)
+    assert v["c1"].verdict == "cannot-hold" and v["c1"].ratio == pytest.approx(0.8 / 25, rel=0.01)
+    assert v["c2"].verdict == "holds"                       # 80 ≥ 70 µW/cm²
+    assert v["c3"].verdict == "unlikely"                    # 20 against 30 µW/cm²: short by 1.5×
+    assert v["c3"].available.value == pytest.approx(0.2, rel=0.01)
+    assert v["c4"].verdict == "holds"
+
+
+def test_an_irradiance_claim_without_a_distance_is_not_assessable():
+    c = parse_claim_text("UV-C irradiance 120 µW/cm²")
+    assert c.kind == "irradiance" and "distance" in c.missing()
+    v = _verdicts(_flat_uvc(), 0.1, "UV-C irradiance 120 µW/cm²")["c1"]
+    assert v.verdict == "not-assessable" and "distance" in v.basis
+
+
+def test_a_structured_irradiance_claim():
+    lst = parse_listing('format = "uvcheck-listing/1"\n[product]\nname = "box (invented)"\n'
+                        'invented = true\n[[claims]]\nid = "e"\nkind = "irradiance"\n'
+                        'irradiance = "2.5 mW/cm2"\ndistance = "10 cm"\nband = "UV-C"\n', "b.toml")
+    c = lst.claims[0]
+    assert c.irradiance_W_m2 == pytest.approx(25.0) and c.band_nm == (200.0, 280.0)
+    res = judge(lst, readings_from_measurement(_flat_uvc(), Conditions(measurement_distance_m=0.1)),
+                measured=True)
+    assert res.verdicts[0].verdict == "cannot-hold"
