@@ -96,15 +96,31 @@ def test_a_clipped_top_in_absolute_units_is_warned(tmp_path):
     assert n_top >= 5 and len(got) == 1, warnings_of(p)
 
 
-def test_a_smooth_peak_and_a_short_flat_top_are_not_warned(tmp_path):
+def test_a_smooth_peak_and_two_equal_samples_at_the_top_are_not_warned(tmp_path):
     rng = np.random.default_rng(4)
     v = 0.04 * led(WL) + rng.normal(0, 1e-6, WL.size)
     assert not matching(warnings_of(write(tmp_path, "smooth.csv", [HEADER], WL, v)),
                         r"consecutive samples at")
     top = int(np.argmax(v))
-    v[top - 2:top + 2] = v[top]  # four equal samples: not five
-    assert not matching(warnings_of(write(tmp_path, "four.csv", [HEADER], WL, v)),
+    v[top + 1] = v[top]  # two equal samples, as a symmetric peak between samples gives
+    assert not matching(warnings_of(write(tmp_path, "two.csv", [HEADER], WL, v)),
                         r"consecutive samples at")
+
+
+@pytest.mark.parametrize("n_clipped", [3, 4])
+def test_a_narrow_line_clipped_over_a_few_samples_is_warned(tmp_path, n_clipped):
+    """A mercury 253.7 nm line (FWHM 1 nm, invented, 0.5 nm steps) clipped at 0.6 W/m²/nm
+    over 3 or 4 samples, as a saturated detector leaves it: before, a run of 5 was needed and
+    the line passed unflagged with its band values about halved (FLAT_TOP_RUN, our own rule)."""
+    wl = np.arange(230.0, 600.01, 0.5)
+    centre = 253.5 if n_clipped % 2 else 253.75   # on a sample (1 + 2) or between two (2 + 2)
+    line = 1.5 * np.exp(-0.5 * ((wl - centre) / 0.55) ** 2) + 1e-5
+    top = np.sort(line)[::-1]
+    v = np.minimum(line, round(0.5 * (top[n_clipped - 1] + top[n_clipped]), 4))
+    assert int(np.count_nonzero(v == v.max())) == n_clipped
+    p = write(tmp_path, "hg_clipped.csv", [HEADER], wl, v, "{:.6g}")
+    assert matching(warnings_of(p), rf"^{n_clipped} consecutive samples at .* exactly the maximum"), \
+        warnings_of(p)
 
 
 def test_a_broad_peak_written_with_3_digits_is_not_clipped_but_its_clipped_twin_is(tmp_path):

@@ -1887,18 +1887,25 @@ def _negative_offset(values: np.ndarray, sigma: float | None, su: Any) -> str | 
             "understated; check the dark (background) measurement")
 
 
+#: The shortest run of samples exactly at the maximum read as a clipped top. A mercury line
+#: 1–2 nm wide sampled every 0.5 nm clips over 3 or 4 samples; before, 5 were needed, and a
+#: line clipped over 4 passed unflagged with its UV-C halved. Two equal samples at the top are
+#: what a symmetric peak between two samples gives, so 3 is the least (our own rule). [-]
+FLAT_TOP_RUN = 3
+
+
 def _flat_top(raw: np.ndarray, wl: np.ndarray, quantity: str, unit_label: str) -> str | None:
-    """A warning when the values as written hold a run of at least 5 consecutive samples
-    exactly equal to their maximum, else None: a spectrum clipped flat at the top, as a
-    saturated detector leaves it, whatever the unit after calibration. A smooth peak, even
-    a rounded one, does not repeat its maximum exactly 5 times (our own rule; the relative
+    """A warning when the values as written hold a run of at least :data:`FLAT_TOP_RUN`
+    consecutive samples exactly equal to their maximum, else None: a spectrum clipped flat at
+    the top, as a saturated detector leaves it, whatever the unit after calibration. A smooth
+    peak, even a rounded one, does not repeat its maximum exactly 3 times (our own rule; the relative
     counts at an ADC full scale are :func:`_saturation`'s). ``raw`` and ``wl`` in file order.
     A spectrum that is one constant throughout is not flagged (nothing rises to the top), nor
     a run that the rounding of the values as written explains: a broad peak written with 3
     significant digits repeats its maximum over several samples, its neighbours then one
     step of the rounding below. So the run's neighbours must lie more than 2 such steps below
     the maximum, the step being the last decimal place the values in the upper half are
-    written to (our own rule; only worked out when a run of 5 is found)."""
+    written to (our own rule; only worked out when such a run is found)."""
     if raw.size < 5:
         return None
     vmax = float(raw.max())
@@ -1906,10 +1913,10 @@ def _flat_top(raw: np.ndarray, wl: np.ndarray, quantity: str, unit_label: str) -
         return None
     at = raw == vmax
     n_at = int(np.count_nonzero(at))
-    if n_at < 5 or n_at == raw.size:
+    if n_at < FLAT_TOP_RUN or n_at == raw.size:
         return None
     start, length = _longest_run(at)
-    if length < 5:
+    if length < FLAT_TOP_RUN:
         return None
     step = _decimal_step(raw[raw >= 0.5 * vmax])
     neighbours = raw[[k for k in (start - 1, start + length) if 0 <= k < raw.size]]
