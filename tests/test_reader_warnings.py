@@ -285,3 +285,20 @@ def test_a_clipped_top_with_noise_on_it_is_reported_and_a_smooth_peak_is_not(tmp
                        f"c{clip}.csv")
     for snr in (30, 300, 3000):
         assert not clipped(g * 50000 + rng.normal(0, 50000 / snr, wl.size), f"g{snr}.csv")
+
+
+def test_a_header_in_megawatts_is_read_as_milliwatts_and_says_so(tmp_path):
+    # 1 mW/cm²/nm = 10 W/m²/nm (SI prefixes): the LED's values are read ×10, not ×1e10
+    v = 0.01 * led(WL)
+    p = write(tmp_path, "mw.csv", ["Wavelength [nm],E [MW/cm2/nm]"], WL, v)
+    s, rep = read_spectrum(p)
+    assert np.allclose(s.values, 10 * np.interp(s.wavelength_nm, WL, v), rtol=1e-5, atol=1e-12)
+    assert matching(rep.warnings, r"reads as megawatts, which no lamp emits")
+
+
+def test_values_no_lamp_can_give_are_warned(tmp_path):
+    # 1e6 W/m²/nm at the peak: far above the bound (IMPLAUSIBLE_W_M2_NM, our own; full
+    # sunlight peaks near 2 W/m²/nm, from memory); 1 W/m²/nm is not warned
+    for peak, warned in ((1e6, True), (1.0, False)):
+        p = write(tmp_path, f"p{peak:g}.csv", [HEADER], WL, peak * led(WL) / led(WL).max())
+        assert bool(matching(warnings_of(p), r"no lamp gives that")) is warned, peak

@@ -163,3 +163,25 @@ def test_cjk_unit_characters():
     assert parse_quantity("30㎡", "area").value_si == pytest.approx(30.0)
     assert parse_quantity("10㎝", "length").value_si == pytest.approx(0.1)
     assert parse_quantity("5 ㎽", "power").value_si == pytest.approx(0.005)
+
+
+@pytest.mark.parametrize("text, factor, quantity, mentions", [
+    # 1 mW/cm²/nm = 10 W/m²/nm, 1 µW/cm²/nm = 0.01 W/m²/nm (SI prefixes, BIPM SI Brochure,
+    # 9th edition, Table 7); a unit in capitals is read in lower case with W capital
+    ("MW/CM2/NM", 10.0, "irradiance", "milli, not mega"),
+    ("UW/CM2/NM", 0.01, "irradiance", "written in capitals"),
+    ("W/M2/NM", 1.0, "irradiance", "written in capitals"),
+    ("W/M2/SR/NM", 1.0, "radiance", "written in capitals"),
+    # a leading MW is a capitalised milliwatt: a megawatt per cm² per nm is no lamp's output
+    ("MW/cm2/nm", 10.0, "irradiance", "megawatts"),
+])
+def test_units_in_capitals_and_a_capital_mw_are_read_as_an_export_means_them(
+        text, factor, quantity, mentions):
+    u = parse_spectral_unit(text)
+    assert u.quantity == quantity and u.factor == pytest.approx(factor)
+    assert u.note is not None and mentions in u.note
+
+
+def test_a_unit_as_written_has_no_case_note():
+    for text in ("mW/cm2/nm", "W/m2/nm", "uW/cm^2/nm", "W m-2 nm-1", "counts"):
+        assert parse_spectral_unit(text).note is None, text

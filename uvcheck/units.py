@@ -468,6 +468,36 @@ class SpectralUnit:
     factor: float
     photon: bool
     text: str
+    #: how the unit's letter case was read, when it was not taken as written (an all-capitals
+    #: unit, or "MW" read as milliwatts); None otherwise
+    note: str | None = None
+
+
+#: "MW/CM2/NM", "UW/CM^2/NM": a unit written in capitals, letters only upper case.
+_ALL_CAPS = re.compile(r"^[^a-z]*[A-Z][^a-z]*$")
+#: A megawatt at the head of a spectral unit ("MW/cm2/nm"): no lamp's output, always a
+#: capitalised milliwatt (our own reading).
+_MEGAWATT_HEAD = re.compile(r"^\s*MW(?=\s*(?:/|·|\*|\s|$|\())")
+
+
+def _case_read(raw: str) -> tuple[str, str | None]:
+    """The unit text with its letter case read as a lamp export means it, and a note when
+    that is not as written: an all-capitals unit is read in lower case with W (watt) and J
+    (joule) capital ("MW/CM2/NM" -> "mW/cm2/nm", "UW/CM2/NM" -> "uW/cm2/nm"); a leading "MW"
+    is milliwatts. Relative words and photon units are left as they are."""
+    if _ALL_CAPS.match(raw) and re.search(r"W|J", raw) and not re.search(r"MOL|PHOTON", raw):
+        fixed = re.sub(r"w", "W", re.sub(r"j", "J", raw.lower()))
+        fixed = re.sub(r"\bsr\b|SR", "sr", fixed)
+        if fixed != raw:
+            return fixed, (f"the unit {raw!r} is written in capitals: read as {fixed!r}"
+                           + (" (M read as milli, not mega: a megawatt is no lamp's output; "
+                              "check which is right and give --unit if not)"
+                              if fixed.startswith("mW") else ""))
+    if _MEGAWATT_HEAD.match(raw):
+        fixed = _MEGAWATT_HEAD.sub("mW", raw, count=1)
+        return fixed, (f"the unit {raw!r} reads as megawatts, which no lamp emits: read as "
+                       f"{fixed!r} (milliwatts); check which is right and give --unit if not")
+    return raw, None
 
 
 @_remembered("unit")
@@ -495,6 +525,7 @@ def parse_spectral_unit(text: str, where: str | None = None) -> SpectralUnit:
         raw = raw[1:-1].strip()
     if _RELATIVE_WORDS.match(raw.strip()):
         return SpectralUnit("relative", 1.0, False, text)
+    raw, case_note = _case_read(raw)
     candidate = raw
     if "_" in raw and "/" not in raw:
         # name_W_m2_nm -> W/m2/nm ; name_W_per_m2_per_nm -> W/m2/nm
@@ -540,7 +571,7 @@ def parse_spectral_unit(text: str, where: str | None = None) -> SpectralUnit:
                         place, "give it with --unit, e.g. --unit 'W/m2/nm' or --unit relative")
     scale = float(f"{parsed.scale * 1e-9:.12g}")  # per m -> per nm; round off binary noise
     # for photon units the scale is in mol (or photons) s^-1; the reader multiplies by N_A·hc/λ
-    return SpectralUnit(table[key], scale, photon, text)
+    return SpectralUnit(table[key], scale, photon, text, case_note)
 
 
 def _balanced(text: str) -> bool:

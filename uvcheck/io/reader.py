@@ -89,6 +89,10 @@ _WAVENUMBER = re.compile(r"(?i)wave\s*number|cm\s*-\s*1|cm⁻¹|1/cm")
 #: Largest magnitude accepted for a value. No measurement comes near it; the bound keeps every
 #: later product, square and sum finite in float64 (largest ≈ 1.8e308; IEEE 754 binary64).
 MAX_ABS_VALUE = 1e100
+#: A spectral irradiance above this is taken as a unit or scale error: 1e5 W m⁻² nm⁻¹ is some
+#: 50 000 times the peak of full sunlight (about 2 W m⁻² nm⁻¹, from memory), more than a
+#: kilowatt lamp's strongest line gives even 1 cm away (our own bound). [W m⁻² nm⁻¹]
+IMPLAUSIBLE_W_M2_NM = 1e5
 
 
 # ---------------------------------------------------------------------------------------------
@@ -1575,6 +1579,8 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
         except UnitError as exc:
             raise InputFormatError(exc.what, where, exc.todo) from None
         unit_label = unit_text
+        if su.note:
+            warnings.append(su.note)
     dq = _meta_lookup(meta, r"^(data\s*type|quantity|measurement\s*type|mode|type)$")
     if dq and su.quantity == "relative" and re.search(r"(?i)irradiance|radiance", dq[1]) and unit_text is None:
         warnings.append(f"metadata says {dq[0]} = {dq[1]!r} but no unit was found: values kept relative")
@@ -1616,6 +1622,11 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
                                f"{MAX_ABS_VALUE:g} {_spectral_unit_text(su)})",
                                row_place(k, val_idx),
                                "the row is corrupt or the column is not a spectrum; repair the file")
+    if su.quantity == "irradiance" and float(np.abs(values).max()) > IMPLAUSIBLE_W_M2_NM:
+        warnings.append(f"values up to {float(np.abs(values).max()):.3g} W/m2/nm (read as "
+                        f"{unit_label}): no lamp gives that at a measurement distance (full "
+                        f"sunlight peaks near 2 W/m2/nm); check which is right: the unit "
+                        f"(--unit) or the scale of the file")
     # a flat top, in the file's order and as written (before sorting and averaging)
     flat = _flat_top(v_raw[finite] if n_drop else v_raw, wl_nm, su.quantity, unit_label)
     d = wl_nm[1:] - wl_nm[:-1]  # numpy.diff, without its wrapper
