@@ -302,3 +302,20 @@ def test_values_no_lamp_can_give_are_warned(tmp_path):
     for peak, warned in ((1e6, True), (1.0, False)):
         p = write(tmp_path, f"p{peak:g}.csv", [HEADER], WL, peak * led(WL) / led(WL).max())
         assert bool(matching(warnings_of(p), r"no lamp gives that")) is warned, peak
+
+
+@pytest.mark.parametrize("lines, warned", [
+    (["Distance: 50 cm", "Distance: 20 cm"], True),
+    (["Lamp distance: 50 cm", "Distance to sensor: 30 cm"], True),
+    (["Distance: 50 cm", "Distance: 0.5 m"], False),          # the same distance twice
+    (["Distance: 50 cm", "Integration time: 10 ms", "Integration time: 20 ms"], False),
+])
+def test_metadata_that_state_two_distances_are_warned(tmp_path, lines, warned):
+    """A file that states its measurement distance twice, differently: the first is used and
+    the import report says so (the distance sets every value at 200 mm by the inverse square,
+    so 50 against 20 cm is a factor 6.25). Invented files."""
+    p = write(tmp_path, "two.csv", lines + [HEADER], WL, 0.01 * led(WL))
+    s, rep = read_spectrum(p)
+    assert rep.measurement_distance_m == pytest.approx(0.5)
+    got = matching(rep.warnings, r"more than one measurement distance .* the first, 0.5 m, is used")
+    assert bool(got) is warned, rep.warnings

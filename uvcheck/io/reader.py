@@ -859,8 +859,16 @@ def _metadata(lines: Iterable[tuple[int, str]]) -> tuple[dict[str, str], list[st
             key = m.group(1).strip()
             if section:
                 key = f"{section}/{key}"
+            value = m.group(2).strip()
             if key not in meta:
-                meta[key] = m.group(2).strip()
+                meta[key] = value
+            elif meta[key] != value:
+                # a key given again with another value ("Distance: 50 cm" ... "Distance:
+                # 20 cm"): kept as "KEY #2", so that a conflict can be reported
+                n = 2
+                while f"{key} #{n}" in meta:
+                    n += 1
+                meta[f"{key} #{n}"] = value
         else:
             other.append(s)
     return meta, other
@@ -889,11 +897,34 @@ _DIST_KEY_UNIT = re.compile(rf"(?i)(?:[\[(]\s*({_DIST_UNITS})\s*[\])]|[\s_/]in\s
 
 def _distance_entry(meta: dict[str, str]) -> tuple[str, str] | None:
     """The first metadata entry that states the measurement distance, as (key, value)."""
+    return next(iter(_distance_entries(meta)), None)
+
+
+def _distance_entries(meta: dict[str, str]) -> list[tuple[str, str]]:
+    """Every metadata entry that states a measurement distance, as (key, value), in order."""
+    out = []
     for k, v in meta.items():
         key = k.rsplit("/", 1)[-1].strip()
         if v and _DIST_KEY.search(key) and not _DIST_NOT.search(key):
-            return k, v
-    return None
+            out.append((k, v))
+    return out
+
+
+def _distance_conflict(meta: dict[str, str], used: tuple[str, str], dist: float) -> str | None:
+    """A warning when the metadata state other measurement distances than the one used
+    (more than 1 % apart: our own tolerance for the same distance written twice), else None."""
+    others = []
+    for k, v in _distance_entries(meta):
+        if (k, v) == used:
+            continue
+        d = _read_distance(k, v, meta)
+        if d is not None and abs(d - dist) > 0.01 * dist:
+            others.append(f"{k} = {v!r}")
+    if not others:
+        return None
+    return (f"the metadata give more than one measurement distance ({used[0]} = {used[1]!r}; "
+            f"{'; '.join(others[:3])}): the first, {dist:g} m, is used; check which is right "
+            "and give --distance")
 
 
 def _read_distance(key: str, value: str, meta: dict[str, str]) -> float | None:
@@ -1703,6 +1734,10 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
         dist = _read_distance(found[0], found[1], meta)
         if dist is None:
             warnings.append(f"metadata {found[0]} = {found[1]!r} could not be read as a distance")
+        else:
+            conflict = _distance_conflict(meta, found, dist)
+            if conflict:
+                warnings.append(conflict)
     sha = file_sha256(p) if raw is None else hashlib.sha256(raw).hexdigest()
     step = {"median": median(steps), "min": float(steps.min()), "max": float(steps.max()),
             # numpy.allclose(steps, steps[0], rtol=1e-3, atol=1e-6) for finite steps, its
