@@ -129,7 +129,10 @@ class Assessment:
                 f"'{-sh.shift_nm:+.1f} nm' once the shift is confirmed",)
 
     def to_dict(self) -> dict[str, Any]:
-        hg = any(ln.identified_as == "Hg 253.7 nm" for ln in self.lines)
+        hg: bool | None = any(ln.identified_as == "Hg 253.7 nm" for ln in self.lines)
+        if not hg and not any(a <= 253.7 <= b for a, b in self.spectrum.segments()) \
+                and not self.spectrum.lines:
+            hg = None   # 253.7 nm was not measured: the line can be neither found nor missed
         d: dict[str, Any] = {
             "schema": SCHEMA,
             "tool": {"name": "uvcheck", "version": __version__},

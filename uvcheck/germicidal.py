@@ -711,13 +711,30 @@ def uvc_artefacts(spectrum: Spectrum, sigma: float | None = None) -> tuple[Artef
     return tuple(out)
 
 
+#: Distinct mercury lines among the peaks that name a mercury discharge when the data do not
+#: reach its 253.7 nm line (404.7, 435.8, 546.1, 577/579 nm...; our own rule: no LED or
+#: phosphor has three narrow peaks at mercury lines). [-]
+MERCURY_LINES_TO_NAME = 3
+
+
+def _mercury_lines(spectrum: Spectrum) -> bool:
+    """Whether the spectrum's peaks include :data:`MERCURY_LINES_TO_NAME` distinct mercury
+    lines (:func:`uvcheck.features.find_lines`)."""
+    from uvcheck.features import find_lines
+
+    hg = {ln.identified_as for ln in find_lines(spectrum)
+          if (ln.identified_as or "").startswith("Hg ")}
+    return len(hg) >= MERCURY_LINES_TO_NAME
+
+
 def detect_technology(spectrum: Spectrum) -> str | None:
     """A best guess of the emitter technology from the spectrum's shape, or None.
 
     Rules (windows and widths from ``data/technologies.toml``): a narrow UV-C maximum at a
     technology's line (253.7 nm low-pressure mercury, 222 nm KrCl*) names it; otherwise the
     global peak's window names an LED type (a blue peak with more than 30 % of the output in
-    500–700 nm is a phosphor white LED). A guess only: give ``technology=`` to override.
+    500–700 nm is a phosphor white LED). Data that do not reach UV-C but show three or more
+    mercury lines are a mercury discharge. A guess only: give ``technology=`` to override.
 
     Examples
     --------
@@ -744,6 +761,8 @@ def detect_technology(spectrum: Spectrum) -> str | None:
                     lo, hi = t["peak_window_nm"]
                     if lo <= pk.peak_nm <= hi and (pk.fwhm_nm is None or pk.fwhm_nm <= 10.0):
                         return tid
+        if integrate(spectrum, *UVC_BAND_NM).coverage < 0.5 and _mercury_lines(spectrum):
+            return "lp_mercury"
         pk = peak_info(spectrum)
         if pk.peak_nm is None:
             return None

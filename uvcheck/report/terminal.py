@@ -75,6 +75,10 @@ def hg_line_text(present: Any, d: Mapping[str, Any]) -> str:
         return "modelled" if present else "not in the model (no mercury lamp)"
     if present:
         return "present"
+    if present is None:
+        rng = (d.get("input") or {}).get("range_nm") or ()
+        return ("not measured (the data cover " + "–".join(f"{x:g}" for x in rng) + " nm)"
+                if len(rng) == 2 else "not measured")
     sh = (d.get("spectral") or {}).get("wavelength_scale_shift") or {}
     at = next((p for p, r in sh.get("matched") or [] if abs(r - 253.7) < 0.05), None)
     if at is not None:
