@@ -2,8 +2,9 @@
 so it is neither "found" nor "missed", and the lamp is still named a mercury discharge by its
 visible lines, not guessed an LED.
 
-Sources: the mercury lines at 302.2, 313.2, 365.0, 404.7, 435.8, 546.1 and 577.0/579.1 nm
-(NIST Atomic Spectra Database, Hg I, as data/lines records them). The spectrum is invented.
+Sources: the mercury lines at 302.2, 313.2, 365.0, 404.7, 435.8, 546.1 and 577.0/579.1 nm,
+as data/emitters/emission_lines.csv records them (from memory, marked so there). The
+spectrum is invented.
 """
 
 from __future__ import annotations
