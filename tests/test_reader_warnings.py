@@ -319,3 +319,25 @@ def test_metadata_that_state_two_distances_are_warned(tmp_path, lines, warned):
     assert rep.measurement_distance_m == pytest.approx(0.5)
     got = matching(rep.warnings, r"more than one measurement distance .* the first, 0.5 m, is used")
     assert bool(got) is warned, rep.warnings
+
+
+def test_duplicated_wavelengths_that_disagree_are_reported_with_the_spread(tmp_path):
+    """A segment of the scan written twice, the second time at twice the value (two scans
+    joined in one table, invented): the mean at those wavelengths is neither, so the
+    warning gives the spread; a row merely written twice (the same values) gets the plain
+    averaging warning (DUPLICATE_SPREAD_SHARE, our own rule)."""
+    wl = np.arange(230.0, 400.01, 0.5)
+    v = 0.01 * led(wl, centre=254.0, fwhm=3.0)
+    seg = (wl >= 250.0) & (wl <= 258.0)
+    rows = [f"{a:g},{b:.6g}" for a, b in zip(wl, v)]
+    twice = rows + [f"{a:g},{2 * b:.6g}" for a, b in zip(wl[seg], v[seg])]
+    same = rows + [r for r, s_ in zip(rows, seg) if s_]
+    for name, body, spread in (("twice.csv", twice, True), ("same.csv", same, False)):
+        p = tmp_path / name
+        p.write_text("\n".join(["# invented test data", HEADER] + body) + "\n", encoding="utf-8")
+        ws = matching(warnings_of(p), rf"^{int(seg.sum())} duplicated wavelength\(s\): their "
+                                      r"values were averaged")
+        assert len(ws) == 1
+        assert ("but they disagree" in ws[0]) is spread, ws[0]
+        if spread:
+            assert "2 times" in ws[0]

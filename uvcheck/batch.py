@@ -523,7 +523,7 @@ WARNING_RANKS: tuple[tuple[str, int], ...] = (
     ("dark (background)", 0), ("clip", 0), ("saturat", 0), ("all values are zero", 0),
     ("pedestal", 0), ("stray light", 0), ("mixes encodings", 0), ("thousands separator", 0),
     ("mixed decimal", 0), ("no unit was found", 0), ("check which is right", 0),
-    ("repeat scans differ", 0), ("not yet stable", 0), ("do not combine", 0))
+    ("repeat scans differ", 0), ("but they disagree", 0), ("not yet stable", 0), ("do not combine", 0))
 
 
 def warning_rank(text: str) -> int:

@@ -1675,9 +1675,14 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
         uniq, inv, counts = np.unique(wl_nm, return_inverse=True, return_counts=True)
         n_dup = int((counts > 1).sum())
     if n_dup:
+        raw_sorted = values
         values = np.bincount(inv, weights=values) / counts
         wl_nm = uniq
-        warnings.append(f"{n_dup} duplicated wavelength(s): their values were averaged")
+        text = f"{n_dup} duplicated wavelength(s): their values were averaged"
+        spread = _duplicate_spread(raw_sorted, inv, values, uniq)
+        if spread is not None:
+            text += spread
+        warnings.append(text)
     if wl_nm.size < 2:
         raise InputFormatError(f"all rows have the same wavelength ({wl_nm[0]:g} nm)",
                                f"{where} lines {int(line_no.min()) + 1}–{int(line_no.max()) + 1}, "
@@ -1931,6 +1936,36 @@ def _negative_offset(values: np.ndarray, sigma: float | None, su: Any) -> str | 
     return (f"most samples are below zero ({n_neg} of {n}; median {med:.3g} {unit}, noise "
             f"{sigma:.3g}): a dark level subtracted too large? Band and hazard values are then "
             "understated; check the dark (background) measurement")
+
+
+#: Duplicated wavelengths whose values differ by more than this share of the spectrum's peak
+#: are reported with the spread: two scans or segments joined, not a repeated row (our own
+#: rule: 5 %, well above a repeat's noise and below a joined segment at another gain). [-]
+DUPLICATE_SPREAD_SHARE = 0.05
+
+
+def _duplicate_spread(raw: np.ndarray, inv: np.ndarray, mean: np.ndarray,
+                      wl: np.ndarray) -> str | None:
+    """A clause for the duplicates warning when the values at one wavelength disagree by
+    more than :data:`DUPLICATE_SPREAD_SHARE` of the peak, else None. ``raw`` sorted by
+    wavelength, ``inv`` each raw value's index into ``mean`` and ``wl``."""
+    peak = float(np.abs(mean).max()) if mean.size else 0.0
+    if not peak > 0:
+        return None
+    hi = np.full(mean.size, -np.inf)
+    lo = np.full(mean.size, np.inf)
+    np.maximum.at(hi, inv, raw)
+    np.minimum.at(lo, inv, raw)
+    diff = hi - lo
+    k = int(np.argmax(diff))
+    if not diff[k] > DUPLICATE_SPREAD_SHARE * peak:
+        return None
+    bad = wl[diff > DUPLICATE_SPREAD_SHARE * peak]
+    ratio = (f", {hi[k] / lo[k]:.3g} times" if lo[k] > 0 else "")
+    return (f"; but they disagree: at {wl[k]:g} nm by {diff[k] / peak:.0%} of the peak"
+            f"{ratio} ({bad.size} wavelength(s), {bad[0]:g}–{bad[-1]:g} nm, differ by more "
+            f"than {DUPLICATE_SPREAD_SHARE:.0%}), so two scans or segments may be joined in one "
+            "table: the mean there is neither; check the file")
 
 
 #: The shortest run of samples exactly at the maximum read as a clipped top. A mercury line
