@@ -11,8 +11,8 @@ from pathlib import Path
 import pytest
 
 from uvcheck.errors import InputFormatError
-from uvcheck.io.listing import (BANDS_NM, CLAIM_KINDS, Claim, key_lines, parse_claim_text,
-                                parse_listing, read_listing)
+from uvcheck.io.listing import (BANDS_NM, CLAIM_KINDS, Claim, _find_quantities, key_lines,
+                                parse_claim_text, parse_listing, read_listing)
 
 EXAMPLES = Path(__file__).resolve().parents[1] / "examples" / "listings"
 HEAD = '[product]\nname = "Test lamp (invented)"\ninvented = true\n'
@@ -312,6 +312,26 @@ def test_a_lamps_life_is_not_a_treatment_time(text):
     c = parse_claim_text(text)
     assert c.kind == "inactivation" and c.time_s is None
     assert "lamp's life" in c.note
+
+
+@pytest.mark.parametrize("text, time_s, life_s", [
+    # a treatment time before a bracketed aside about the lamp's life stays the treatment's
+    ("Kills 99.9% of germs in 30 min (lamp life 8000 h)", 1800.0, 8000 * 3600.0),
+    ("8000 h lamp life, kills 99% of germs in 10 min", 600.0, 8000 * 3600.0),
+])
+def test_a_treatment_time_beside_the_lamps_life_is_kept(text, time_s, life_s):
+    q = _find_quantities(text)
+    assert q["time_s"] == pytest.approx(time_s) and q["lifetime_s"] == pytest.approx(life_s)
+    assert parse_claim_text(text).time_s == pytest.approx(time_s)
+
+
+@pytest.mark.parametrize("text, field, value", [
+    ("in a 1e6 m3 room", "volume_m3", 1e6),         # scientific notation, not "6 m3"
+    ("for rooms up to 2.5E2 m2", "area_m2", 250.0),
+    ("2x30W UVC", "power_W", 30.0),
+])
+def test_numbers_in_scientific_notation_are_read_whole(text, field, value):
+    assert _find_quantities(text)[field] == pytest.approx(value)
 
 
 @pytest.mark.parametrize("text, organism, time_s", [

@@ -922,14 +922,15 @@ _PERCENT_RE = re.compile(rf"{_NUM}\s*(?:%|percent\b|per\s*cent\b)", re.I)
 _LOG_RE = re.compile(rf"{_NUM}\s*-?\s*logs?(?:10)?\b|\blog\s*-?\s*{_NUM}\b", re.I)
 #: A count written with thousands groups ("1,000", "12 000"): areas, volumes, times, distances
 #: and powers; percentages keep the decimal comma ("99,9 %").
-_BIG = r"(\d{1,3}(?:[,\u00a0\u202f ]\d{3})+(?![\d,.])|\d+(?:[.,]\d+)?|\d+\s*/\s*\d+)"
+_BIG = (r"(?<![\d.,])(?<!\d[eE])(\d{1,3}(?:[,\u00a0\u202f ]\d{3})+(?![\d,.])|"
+        r"\d+(?:[.,]\d+)?(?:[eE][+-]?\d+(?![\w]))?|\d+\s*/\s*\d+)")
 _TIME_RE = re.compile(rf"{_BIG}\s*(seconds?|secs?|s|minutes?|mins?|min|hours?|hrs?|h|"
                       r"sekunden|minuten|stunden?|secondes?|heures?)\b", re.I)
 #: Time units of other languages, as the unit parser writes them.
 _FOREIGN_TIME = {"sekunden": "s", "minuten": "min", "stunde": "h", "stunden": "h",
                  "seconde": "s", "secondes": "s", "heure": "h", "heures": "h"}
 #: Words after a time that make it a lamp's life, not a treatment time ("8000 hrs life").
-_LIFETIME_AFTER_RE = re.compile(r"^\W{0,3}(?:of\s+)?(?:\w+\s+)?(?:life(?:time|span)?|service|"
+_LIFETIME_AFTER_RE = re.compile(r"^[^\w(\[]{0,3}(?:of\s+)?(?:\w+\s+)?(?:life(?:time|span)?|service|"
                                 r"lebensdauer|durée)", re.I)
 _LIFETIME_BEFORE_RE = re.compile(r"(?:life(?:time|span)?|lebensdauer|durée de vie)\W{0,3}"
                                  r"(?:of\s+|up\s+to\s+|:\s*)?$", re.I)
