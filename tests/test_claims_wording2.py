@@ -326,3 +326,18 @@ text = "no ozone"
     assert v["both"]["verdict"] != "holds"
     assert set(v["both"]["details"]["parts"]) == {"ozone-free", "safety"}
     assert "the safety part decides it" in v["both"]["basis"]
+
+
+@pytest.mark.parametrize("text", ["UVC 30W", "30W UVC germicidal lamp"])
+def test_a_wattage_beside_a_band_name_is_said_to_be_unchecked(text):
+    """"UVC 30W" on a listing that states 5 W electrical: the 30 W is no optical power (a bare
+    wattage is the electrical rating, as the listing reader takes it), so the verdict on the
+    emission says it was not checked and that the listing's own figures disagree (our own
+    reading). Before, the number was dropped without a word."""
+    v = screened('[lamp]\ntechnology = "lp_mercury"\nelectrical_power = "5 W"\n'
+                 'cover = "quartz"\n' + claims(text))["c1"]
+    assert v.kind == "emission"
+    assert "30 W in the claim is not checked" in v.basis
+    assert "electrical power is 5 W: the two figures disagree" in v.basis, v.basis
+    plain = screened(MERCURY + claims("UVC 254nm"))["c1"]
+    assert "not checked" not in plain.basis

@@ -681,6 +681,31 @@ def _emission(c: Any, ev: Evidence) -> Verdict:
     as far as the lamp emits in each: every band and wavelength is judged on its own and the
     worst verdict decides, naming the band or wavelength that decides it (our own rule, as for
     several organisms in :func:`_each_organism`)."""
+    return _with_unread_wattage(_emission_in_parts(c, ev), c, ev)
+
+
+def _with_unread_wattage(v: Verdict, c: Any, ev: Evidence) -> Verdict:
+    """An emission claim worded with a wattage but no output word ("UVC 30W"): the wattage is
+    not an optical power (a bare wattage is the electrical rating, as the listing reader
+    takes it), so the basis says it was not checked, and names the listing's own electrical
+    power where that is another figure (our own reading)."""
+    if not c.text or c.structured:
+        return v
+    from uvcheck.io.listing import _find_quantities
+
+    w = _find_quantities(c.text).get("power_W")
+    if w is None:
+        return v
+    said = f"the {w:g} W in the claim is not checked: a wattage without 'output' reads as " \
+           "the lamp's electrical rating, not its UV output"
+    pe = getattr(ev.listing, "electrical_power_W", None)
+    if pe is not None and abs(pe - w) > 0.1 * max(pe, w):
+        said += (f", and the listing's own electrical power is {pe:g} W: the two figures "
+                 "disagree")
+    return replace(v, basis=f"{v.basis}; {said}")
+
+
+def _emission_in_parts(c: Any, ev: Evidence) -> Verdict:
     parts = _emission_parts(c)
     if not parts:
         return _one_emission(c, ev)
