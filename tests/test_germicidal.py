@@ -339,3 +339,14 @@ def test_a_pedestal_under_a_uv_a_led_and_an_unsubtracted_dark_level_are_not_uv_c
     uvc = Spectrum(wl, gaussian(wl, 275.0, 5.0, 0.05) + rng.normal(0, 2e-6, wl.size),
                    "irradiance", noise_floor=2e-6)
     assert uvc_artefacts(uvc) == ()
+
+
+def test_the_uvc_band_note_agrees_with_the_band_convention():
+    # both say where 100-200 nm goes (the CIE UV-C band is 100-280 nm; uvcheck reports
+    # 100-200 nm as below-200nm): before, one note said "reported as ozone-forming output"
+    from uvcheck.bands import UVC_DEFINITION_NOTE
+
+    s = Spectrum(np.arange(200.0, 800.5, 1.0), np.full(601, 1e-4), "irradiance")
+    note = next(n for n in evaluate_germicidal(s).notes if n.startswith("UV-C is integrated"))
+    assert "reported separately as below-200nm" in note
+    assert "reported separately as below-200nm" in UVC_DEFINITION_NOTE

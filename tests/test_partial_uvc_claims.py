@@ -140,6 +140,8 @@ def test_an_efficacy_shortfall_on_partly_measured_uvc_is_not_assessable():
     for cid in ("kill", "power"):
         assert part[cid].verdict == "not-assessable", cid
         assert "could make up the shortfall" in part[cid].basis
+        # the shortfall (and any 'fail' of a decision rule) is the measured part's, said first
+        assert part[cid].basis.startswith("on the measured part alone, "), part[cid].basis
     # the same continuum measured from 200 nm: the shortfall is established
     wl2 = np.arange(200.0, 900.0, 0.5)
     full = efficacy_verdicts(Spectrum(wl2, 2e-4 * (1 + 0.5 * np.sin(wl2 / 30.0)), "irradiance"))

@@ -1183,7 +1183,7 @@ def _unless_unmeasured(v: Verdict, r: Reading | None, lo: float, hi: float,
     if kind == "technology":
         return replace(v, assumptions=tuple(v.assumptions) + (why,))
     return replace(v, verdict="not-assessable",
-                   basis=f"{v.basis}, from the measured part alone; but {why}",
+                   basis=f"on the measured part alone, {v.basis}; but {why}",
                    missing=(needs,), rule=None)
 
 

@@ -1059,7 +1059,8 @@ def evaluate_germicidal(spectrum: Spectrum, conditions: Conditions | None = None
     if any(e.from_memory for e in effective):
         notes.append("germicidal_classical is three points from memory, labelled as such")
     notes.append("UV-C is integrated over 200–280 nm (the CIE band is 100–280 nm; 100–200 nm is "
-                 "absorbed by air and reported as ozone-forming output)")
+                 "absorbed by air and reported separately as below-200nm; output below 240 nm "
+                 "is what forms ozone)")
     notes.append(SCREENING_NOTE)
     return GermicidalResult(
         status=status, statement=statement, quantity=spec.quantity, unit=spec.integrated_unit,
