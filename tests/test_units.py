@@ -185,3 +185,16 @@ def test_units_in_capitals_and_a_capital_mw_are_read_as_an_export_means_them(
 def test_a_unit_as_written_has_no_case_note():
     for text in ("mW/cm2/nm", "W/m2/nm", "uW/cm^2/nm", "W m-2 nm-1", "counts"):
         assert parse_spectral_unit(text).note is None, text
+
+
+@pytest.mark.parametrize("text, quantity, factor", [
+    ("W/m2/cm-1", "irradiance", 1.0), ("W/(m2 cm-1)", "irradiance", 1.0),
+    ("W/m2/cm^-1", "irradiance", 1.0), ("W m-2 (cm-1)-1", "irradiance", 1.0),
+    ("mW/cm2/cm-1", "irradiance", 10.0), ("W/m2/sr/cm-1", "radiance", 1.0),
+    ("W/cm-1", "flux", 1.0)])
+def test_a_density_per_wavenumber_is_no_flux(text, quantity, factor):
+    # W m⁻² per cm⁻¹ was read as W m⁻² × cm, a "flux" 10⁻¹¹ too small; the factor is to the
+    # base unit per cm⁻¹ (SI prefixes), the reader converts per sample (test_reader_units)
+    u = parse_spectral_unit(text)
+    assert u.per_wavenumber and u.quantity == quantity and u.factor == pytest.approx(factor)
+    assert not parse_spectral_unit("W/m2/nm").per_wavenumber

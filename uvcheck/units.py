@@ -19,7 +19,7 @@ from __future__ import annotations
 import functools
 import math
 import re
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from types import MappingProxyType
 from typing import Any
 
@@ -471,6 +471,42 @@ class SpectralUnit:
     #: how the unit's letter case was read, when it was not taken as written (an all-capitals
     #: unit, or "MW" read as milliwatts); None otherwise
     note: str | None = None
+    #: True when the values are per wavenumber (W m⁻² per cm⁻¹); the reader then converts
+    #: each sample to per nm with E_λ = E_ν̃ · 10⁷ / λ² (λ in nm), and ``factor`` is to W m⁻²
+    #: (W m⁻² sr⁻¹, W) per cm⁻¹
+    per_wavenumber: bool = False
+
+
+#: A unit that ends "per wavenumber": "/cm-1", "/cm^-1", "/(cm-1)", "(cm-1)-1", " per cm-1".
+_PER_WAVENUMBER = re.compile(
+    r"(?:\s*/\s*\(?\s*cm\s*(?:\^?\s*-\s*1|⁻¹)\s*\)?|\s*\(\s*cm\s*(?:\^?\s*-\s*1|⁻¹)\s*\)\s*"
+    r"(?:\^?\s*-\s*1|⁻¹)|\s+per\s+(?:cm\s*-\s*1|cm⁻¹|wave\s*number))\s*$", re.I)
+#: "W/(m2 cm-1)": the wavenumber inside the bracket of the denominator.
+_PER_WAVENUMBER_BRACKET = re.compile(
+    r"/\s*\(\s*(.+?)\s*[\s·*.]\s*cm\s*(?:\^?\s*-\s*1|⁻¹)\s*\)\s*$", re.I)
+
+
+def _per_wavenumber(raw: str, text: str, place: str) -> SpectralUnit | None:
+    """The spectral unit of values per wavenumber ("W/m2/cm-1", "W/(m2 cm-1)",
+    "W m-2 (cm-1)-1"), or None when the unit is not per wavenumber."""
+    m = _PER_WAVENUMBER.search(raw)
+    if m:
+        base = raw[:m.start()]
+    else:
+        b = _PER_WAVENUMBER_BRACKET.search(raw)
+        if not b:
+            return None
+        base = raw[:b.start()] + "/" + b.group(1)
+    try:
+        parsed = parse_unit(base, place)
+    except UnitError:
+        return None
+    table = {KINDS["irradiance"]: "irradiance", KINDS["radiance"]: "radiance",
+             KINDS["power"]: "flux"}
+    q = table.get(parsed.dims_key())
+    if q is None:
+        return None
+    return SpectralUnit(q, float(f"{parsed.scale:.12g}"), False, text, None, True)
 
 
 #: "MW/CM2/NM", "UW/CM^2/NM": a unit written in capitals, letters only upper case.
@@ -526,6 +562,9 @@ def parse_spectral_unit(text: str, where: str | None = None) -> SpectralUnit:
     if _RELATIVE_WORDS.match(raw.strip()):
         return SpectralUnit("relative", 1.0, False, text)
     raw, case_note = _case_read(raw)
+    wn = _per_wavenumber(raw, text, place)
+    if wn is not None:
+        return replace(wn, note=case_note) if case_note else wn
     candidate = raw
     if "_" in raw and "/" not in raw:
         # name_W_m2_nm -> W/m2/nm ; name_W_per_m2_per_nm -> W/m2/nm

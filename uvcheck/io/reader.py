@@ -1624,6 +1624,11 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
         n_factor = AVOGADRO_PER_MOL if re.search(r"mol", unit_text or "") else 1.0
         values = values * n_factor * per_photon
         warnings.append("photon units converted to W with E = hc/λ per sample")
+    if su.per_wavenumber:
+        # per cm⁻¹ -> per nm: ν̃ = 10⁷/λ, so |dν̃/dλ| = 10⁷/λ² (λ in nm, ν̃ in cm⁻¹)
+        values = values * (1e7 / (wl_nm * wl_nm))
+        warnings.append("values per wavenumber (per cm⁻¹) converted to per nm with "
+                        "E_λ = E_ν̃ · 10⁷/λ² per sample")
     finite = np.isfinite(wl_nm) & np.isfinite(values)
     n_drop = int((~finite).sum())
     if n_drop:
@@ -2261,8 +2266,8 @@ def _to_nm(wl: np.ndarray, unit_text: str | None, how: str, where: str,
                                        "wavenumbers must be positive; check --wavelength-unit")
             out = 1e7 / (wl * factor)
             warnings.append("wavenumbers (cm⁻¹) converted to wavelengths: λ[nm] = 10⁷ / ν[cm⁻¹]; "
-                            "the values are used as they are (a density per cm⁻¹ is not "
-                            "converted to per nm)")
+                            "the values are converted from per cm⁻¹ to per nm only when their "
+                            "unit says per cm⁻¹ (else used as they are)")
             return out, unit_text, how
         out = wl * factor
         if hi * factor < 100.0:
