@@ -200,9 +200,28 @@ def _anchor(spectrum: Spectrum, lo: float, hi: float, weight: Any, covered: str,
         raise ConfigurationError(f"the spectrum covers only {r.coverage:.0%} of {covered}", where,
                                  cover_todo)
     if not r.value > (r.detection_limit or 0.0):
-        raise ConfigurationError(f"the spectrum has no signal above its noise {signal}", where,
-                                 signal_todo)
+        neg = _negative_text(spectrum)
+        raise ConfigurationError(f"the spectrum has no signal above its noise {signal}"
+                                 + (f"; {neg}" if neg else ""), where,
+                                 NEGATIVE_TODO if neg else signal_todo)
     return r
+
+
+#: What to do with a spectrum that is mostly below zero.
+NEGATIVE_TODO = ("check the dark subtraction (--dark, --dark-column: a dark and a lamp scan "
+                 "swapped, or subtracted the wrong way round) and the value column")
+
+
+def _negative_text(spectrum: Spectrum) -> str | None:
+    """Why a spectrum cannot be scaled when it is mostly below zero (as a swapped dark and
+    lamp scan leave it), in words, else None (:func:`uvcheck.features.negative_dominated`)."""
+    from uvcheck.features import negative_dominated
+
+    nd = negative_dominated(spectrum.values)
+    if nd is None:
+        return None
+    return (f"{nd[0]} of its {nd[1]} values are below zero, and deeply: a dark and a lamp scan "
+            "swapped, or a dark subtracted the wrong way round, leave it so")
 
 
 def _scale_by_meter(spectrum: Spectrum, text: str, band: str, lo: float, hi: float,
@@ -252,9 +271,13 @@ def scale_by_total(spectrum: Spectrum, text: str) -> Spectrum:
     value = parse_quantity(reading, "irradiance", "--scale-total").value_si
     u_rel = reading_u_rel(text, value, "irradiance", "--scale-total") if value > 0 else None
     tot = total_integral(spectrum)
-    if not (value > 0 and tot > 0):
-        raise ConfigurationError("the total and the spectrum's integral must be positive",
-                                 "--scale-total")
+    if not value > 0:
+        raise ConfigurationError("the total must be positive", "--scale-total")
+    if not tot > 0:
+        neg = _negative_text(spectrum)
+        raise ConfigurationError(f"the spectrum's integral is {tot:.3g}, not positive"
+                                 + (f": {neg}" if neg else ""), "--scale-total",
+                                 NEGATIVE_TODO if neg else "check the value column")
     lo, hi = spectrum.range_nm
     return _scaled(spectrum, value / tot,
                   {"method": "known total", "range_nm": [lo, hi], "total_W_m2": value,
