@@ -341,3 +341,14 @@ def test_duplicated_wavelengths_that_disagree_are_reported_with_the_spread(tmp_p
         assert ("but they disagree" in ws[0]) is spread, ws[0]
         if spread:
             assert "2 times" in ws[0]
+
+
+def test_a_fortran_style_exponent_gets_its_own_error(tmp_path):
+    # "1.5D-03" (Fortran's double-precision exponent) is not read; the error says what to
+    # change, not to give --delimiter and --decimal as for any other cell that is no number
+    p = tmp_path / "fortran.dat"
+    p.write_text("# invented\nWavelength Irradiance\n250.0 1.5D-03\n251.0 1.6D-03\n252.0 1.4D-03\n",
+                 encoding="utf-8")
+    with pytest.raises(reader.InputFormatError) as exc:
+        read_spectrum(p)
+    assert "Fortran style" in str(exc.value) and "E" in exc.value.todo

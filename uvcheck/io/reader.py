@@ -76,6 +76,8 @@ _NUM_COMMA = re.compile(rf"^{_NUM_COMMA_TEXT}$")
 _THOUS_DOT = re.compile(r"^[-+]?[1-9]\d{0,2}(,\d{3})+(\.\d*)?$")      # 1,234.5
 _THOUS_COMMA = re.compile(r"^[-+]?[1-9]\d{0,2}(\.\d{3})+(,\d*)?$")    # 1.234,5
 _STARTS_NUMERIC = re.compile(r"^\s*[-+]?(\d|[.,]\d)")
+#: A number with a Fortran-style exponent ("3.116346D-06").
+_FORTRAN_EXPONENT = re.compile(r"^[-+]?(?:\d+(?:[.,]\d*)?|[.,]\d+)[dD][-+]?\d+$")
 _COMMENT = re.compile(r"^\s*(#|//|%|!|\*|REM\b)")
 _SECTION = re.compile(r"^\s*\[([^\]]+)\]\s*$")
 _KEYVAL = re.compile(r"^\s*([^:=;\t]{1,60}?)\s*(?::|=|;|\t)\s*(.*?)\s*;*\s*$")
@@ -759,6 +761,12 @@ def _no_rows_error(lines: list[str], first: int, where: str) -> InputFormatError
                                 f"{where} line {i + 1}", todo)
     for k, t in enumerate(toks):
         if dot(t) is None and comma(t) is None:
+            if _FORTRAN_EXPONENT.match(t.strip()):
+                return InputFormatError(
+                    f"{t[:30]!r} writes its exponent with D (Fortran style), which uvcheck does "
+                    "not read", f"{where} line {i + 1}, column {k + 1}",
+                    "replace the D of the exponents with E (1.5D-03 -> 1.5E-03) and read the "
+                    "file again")
             return InputFormatError(f"no rows of numbers found: {t[:30]!r} is not a number",
                                     f"{where} line {i + 1}, column {k + 1}", todo)
     return InputFormatError("no rows of numbers found", f"{where} line {i + 1}", todo)
