@@ -352,3 +352,18 @@ def test_a_fortran_style_exponent_gets_its_own_error(tmp_path):
     with pytest.raises(reader.InputFormatError) as exc:
         read_spectrum(p)
     assert "Fortran style" in str(exc.value) and "E" in exc.value.todo
+
+
+@pytest.mark.parametrize("ref, index", [("Sample [counts]", 1), ("sample", 1), ("Dark", 2),
+                                        ("3", 2)])
+def test_a_column_is_found_by_its_name_without_the_unit(tmp_path, ref, index):
+    # "--column Sample" for "Sample [counts]": the name as a user reads it, without its unit
+    names = ["Wavelength [nm]", "Sample [counts]", "Dark [counts]"]
+    assert reader._col_ref(ref, names, "value column", "f.csv") == index
+
+
+def test_a_bare_name_two_columns_share_is_refused():
+    with pytest.raises(reader.InputFormatError) as exc:
+        reader._col_ref("E", ["Wavelength [nm]", "E [counts]", "E (W/m2/nm)"], "value column",
+                        "f.csv")
+    assert "2 columns are named 'E'" in str(exc.value)

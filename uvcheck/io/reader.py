@@ -985,8 +985,20 @@ def _col_ref(ref: str, names: list[str], what: str, where: str) -> int:
     low = [n.strip().lower() for n in names]
     if r.lower() in low:
         return low.index(r.lower())
-    raise InputFormatError(f"no column named {ref!r}", where,
-                           "columns: " + ", ".join(f"{i + 1} {n!r}" for i, n in enumerate(names)))
+    # the name without the unit written after it ("Sample" for "Sample [counts]")
+    bare = [_UNIT_SUFFIX.sub("", n).strip() for n in low]
+    hits = [i for i, n in enumerate(bare) if n and n == r.lower()]
+    if len(hits) == 1:
+        return hits[0]
+    listed = "columns: " + ", ".join(f"{i + 1} {n!r}" for i, n in enumerate(names))
+    if len(hits) > 1:
+        raise InputFormatError(f"{len(hits)} columns are named {ref!r}", where,
+                               "give the column's number or its whole name; " + listed)
+    raise InputFormatError(f"no column named {ref!r}", where, listed)
+
+
+#: A unit written after a column name: "Sample [counts]", "Irradiance (W/m2/nm)", "E / W m-2".
+_UNIT_SUFFIX = re.compile(r"\s*(?:\[[^\]]*\]|\([^)]*\)|/\s*\S.*)\s*$")
 
 
 def _lines_from(path: Path, decoded: Decoded, start: int, whole: list[str] | None
