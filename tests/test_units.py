@@ -198,3 +198,12 @@ def test_a_density_per_wavenumber_is_no_flux(text, quantity, factor):
     u = parse_spectral_unit(text)
     assert u.per_wavenumber and u.quantity == quantity and u.factor == pytest.approx(factor)
     assert not parse_spectral_unit("W/m2/nm").per_wavenumber
+
+
+@pytest.mark.parametrize("text, factor", [
+    # 1 µW/cm²/nm = 0.01 W/m²/nm, 1 mW/m²/nm = 0.001 W/m²/nm (SI prefixes)
+    ("irradiance_uW/cm2/nm", 0.01), ("E_W/m2/nm", 1.0),
+    ("microW/cm2/nm", 0.01), ("milliW/m2/nm", 0.001)])
+def test_a_unit_after_a_name_or_with_a_prefix_word_is_read(text, factor):
+    u = parse_spectral_unit(text)
+    assert u.quantity == "irradiance" and u.factor == pytest.approx(factor)

@@ -536,6 +536,28 @@ def _case_read(raw: str) -> tuple[str, str | None]:
     return raw, None
 
 
+#: Prefixes written as words before a unit symbol ("microW/cm2/nm", "milliW").
+_WORD_PREFIXES = (("micro", "µ"), ("milli", "m"), ("nano", "n"))
+
+
+def _unit_after_name(text: str, place: str) -> Any | None:
+    """A unit written after a name and an underscore ("irradiance_uW/cm2/nm"), or with its
+    prefix as a word ("microW/cm2/nm"): the parsed unit, else None."""
+    tries = [text]
+    if "_" in text:
+        tries += [text[i + 1:] for i, ch in enumerate(text) if ch == "_"]
+    for t in list(tries):
+        for word, sym in _WORD_PREFIXES:
+            if re.match(rf"(?i){word}(?=W)", t):
+                tries.append(sym + t[len(word):])
+    for t in tries[1:]:
+        try:
+            return parse_unit(t, place)
+        except UnitError:
+            continue
+    return None
+
+
 @_remembered("unit")
 def parse_spectral_unit(text: str, where: str | None = None) -> SpectralUnit:
     """Read a spectral unit as written in a header, a units row or a column name.
@@ -584,8 +606,10 @@ def parse_spectral_unit(text: str, where: str | None = None) -> SpectralUnit:
     try:
         parsed = parse_unit(candidate, place)
     except UnitError:
-        raise UnitError(f"cannot read the spectral unit {text!r}", place,
-                        "give it with --unit, e.g. --unit 'uW/cm2/nm' or --unit relative")
+        parsed = _unit_after_name(candidate, place)
+        if parsed is None:
+            raise UnitError(f"cannot read the spectral unit {text!r}", place,
+                            "give it with --unit, e.g. --unit 'uW/cm2/nm' or --unit relative")
     key = parsed.dims_key()
     d = dict(parsed.dims)
     photon = False
