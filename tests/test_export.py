@@ -54,6 +54,8 @@ def test_a_csv_export_reads_back_as_assessed(tmp_path, assessed):
     assert f"sha256 of what was assessed: {result['input']['sha256']}" in text
     assert "dark scan subtracted: dark.csv" in text and "scaling: known total (2 W/m2)" in text
     assert "INVENTED data" in text and "not a certification" in text
+    # read back, it says it was scaled: no calibrated measurement
+    assert any("the file says its values were scaled" in w for w in rep.warnings)
 
 
 def test_a_tm2714_export_reads_back_in_colour_and_in_uvcheck(tmp_path, assessed):
@@ -71,10 +73,14 @@ def test_a_tm2714_export_reads_back_in_colour_and_in_uvcheck(tmp_path, assessed)
                                atol=1e-12 * np.abs(a.spectrum.values).max())
     assert "dark scan subtracted: dark.csv" in sd.header.comments
     assert "None" not in p.read_text(encoding="utf-8")   # no unset header field
-    spec, _ = read_spectrum(p)
+    spec, rep = read_spectrum(p)
     assert spec.quantity == "irradiance"
     np.testing.assert_allclose(spec.values, a.spectrum.values, rtol=1e-11,
                                atol=1e-12 * np.abs(a.spectrum.values).max())
+    # the provenance in the comments comes back: the distance and the scaling (before, the
+    # distance was lost, and every value then held at an unstated position)
+    assert rep.measurement_distance_m == pytest.approx(0.4)
+    assert any("the file says its values were scaled" in w for w in rep.warnings)
 
 
 def test_the_command_checks_the_export_before_any_work(tmp_path):

@@ -1768,6 +1768,13 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
             conflict = _distance_conflict(meta, found, dist)
             if conflict:
                 warnings.append(conflict)
+    scaled_by = _meta_lookup(meta, r"^scal(?:ing|ed)(?:\s+by)?$")
+    if scaled_by:
+        # uvcheck's own --export-spectrum writes "scaling: band reading (…)" for a spectrum it
+        # scaled; any export that says so is read the same way
+        warnings.append(f"the file says its values were scaled ({scaled_by[0]}: "
+                        f"{scaled_by[1]!r}): they are as good as that reading, not a calibrated "
+                        "measurement of the spectrum")
     sha = file_sha256(p) if raw is None else hashlib.sha256(raw).hexdigest()
     step = {"median": median(steps), "min": float(steps.min()), "max": float(steps.max()),
             # numpy.allclose(steps, steps[0], rtol=1e-3, atol=1e-6) for finite steps, its

@@ -15,6 +15,7 @@ T factors, exitance, intensity) are refused with the reason.
 
 from __future__ import annotations
 
+import re
 from pathlib import Path
 from typing import Any
 
@@ -77,6 +78,10 @@ def as_table(path: str | Path, unit: str | None = None) -> tuple[bytes, str]:
         v = getattr(header, name, None) if header is not None else None
         if v is not None and str(v).strip() not in ("", "None"):
             lines.append(f"{name.replace('_', ' ').capitalize()}: {_one_line(v)}")
+            if name == "comments":
+                # "Measurement distance: 0.5 m; scaling: …": each "key: value" part of the
+                # comments becomes a line of its own, so that the reader sees it as metadata
+                lines += [p.strip() for p in str(v).split(";") if _KEY_VALUE.match(p.strip())]
     for name, label in (("bandwidth_FWHM", "Bandwidth FWHM (nm)"),
                         ("bandwidth_corrected", "Bandwidth corrected")):
         v = getattr(sd, name, None)
@@ -96,6 +101,10 @@ def as_table(path: str | Path, unit: str | None = None) -> tuple[bytes, str]:
                    f"{QUANTITY_UNITS[quantity]}, its SI unit (from memory); give --unit if the "
                    "file was written in another one")
     return ("\n".join(lines) + "\n").encode("utf-8"), warning + LINES_NOTE
+
+
+#: A "key: value" part of a comments element ("Measurement distance: 0.5 m").
+_KEY_VALUE = re.compile(r"^[A-Za-z][\w ()/.-]{0,40}:\s*\S")
 
 
 def _one_line(v: Any) -> str:
