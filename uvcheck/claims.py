@@ -50,7 +50,7 @@ from typing import Any, Callable, Iterable, Mapping, Sequence
 from uvcheck.conditions import WORKDAY_S, Conditions
 from uvcheck.errors import ConfigurationError
 from uvcheck.germicidal import NO_UVC_FRACTION, OZONE_EDGE_NM, UVC_BAND_NM, UVC_EMITTING
-from uvcheck.spectrum import Spectrum, covers_all, integrate
+from uvcheck.spectrum import Spectrum, covers_all, integrate, total_integral
 from uvcheck.units import format_duration, sig
 
 VERDICTS = ("holds", "unlikely", "cannot-hold", "not-assessable")
@@ -1924,6 +1924,113 @@ def _irradiance_on(c: Any, ev: Evidence) -> Verdict:
     return _unless_unmeasured(v, r, lo, hi, f"a spectrum covering the whole of {band}")
 
 
+#: A share of the lamp's output in a band it is said not to emit in at or above which the
+#: claim cannot hold; a share above the detection limit but below it is 'unlikely' (traces).
+#: Our own rule: 1 % is far above any stray light a measurement would report as emission. [-]
+NO_EMISSION_SHARE = 0.01
+#: Rule of a no-emission claim ("UV-free"): a safety statement, so no benefit of the doubt.
+RULE_NO_EMISSION = ("the no-emission rule (output in the band above the detection limit "
+                    "contradicts the claim: 'cannot-hold' from 1 % of the lamp's output, "
+                    "'unlikely' below; no benefit of the doubt, as for safety claims)")
+
+
+def _no_emission(c: Any, ev: Evidence) -> Verdict:
+    """"UV-free", "no UV-C": the lamp emits nothing in the band(s). A safety statement: judged
+    on the most likely reading, no benefit of the doubt. Each named band is judged and the
+    worst decides. A leakage claim ("no UV leakage") is about an enclosure, which a spectrum
+    of the lamp does not show: not assessable."""
+    from uvcheck.io.listing import DENIABLE_BANDS_NM
+
+    if c.band_nm is None:
+        return _na(c, ev, "the claim names no band", c.missing())
+    if re.search(r"(?i)leak", c.text or ""):
+        return _na(c, ev, "a claim of no leakage is about the enclosure: a spectrum of the lamp "
+                          "(or a listing) does not show what leaves the closed enclosure",
+                   ("a measurement outside the closed enclosure, where a person would be",))
+    bands = list(c.bands or (c.band_name or f"{c.band_nm[0]:g}–{c.band_nm[1]:g} nm",))
+    if len(bands) == 1:
+        return _one_no_emission(c, ev, bands[0], c.band_nm)
+    subs = [(b, _one_no_emission(c, ev, b, DENIABLE_BANDS_NM[b])) for b in bands]
+    return _in_parts(c, subs, f"the claim names {len(bands)} bands ({', '.join(bands)}) and the "
+                              "lamp must emit in none", "{name}", "parts",
+                     {"decided_by": _worst_part(subs)[0]})
+
+
+def _one_no_emission(c: Any, ev: Evidence, band: str, nm: tuple[float, float]) -> Verdict:
+    lo, hi = nm
+    r = ev.likely()
+    if r is None:
+        return _na(c, ev, NO_LAMP_DATA, NO_LAMP_DATA_NEEDS)
+    if ev.measured:
+        x = r.stray_free()
+        spec = r.spectrum
+        if spec.noise_floor is None and spec.wavelength_nm.size >= 12:
+            # as the germicidal evaluation does: the noise estimated from the data
+            from uvcheck.features import estimate_noise
+
+            sigma = estimate_noise(spec.values).sigma
+            if sigma is not None:
+                spec = spec.derive(noise_floor=sigma)
+        integ = integrate(spec, lo, hi)
+        tot = total_integral(spec)
+        dl = integ.detection_limit or 0.0
+        share = integ.value / tot if tot > 0 else None
+        what = (f"{band} ({lo:g}–{hi:g} nm): {sig(integ.value)} {spec.integrated_unit}"
+                + (f", {share:.2%} of the lamp's output" if share is not None else ""))
+        if integ.value > dl and share is not None and x is not None:
+            # judged without the UV-C that reads as stray light (the germicidal evaluation)
+            xi = integrate(x.spectrum, lo, hi)
+            if not xi.value > (xi.detection_limit or 0.0):
+                return _na(c, ev, f"the lamp shows {what}, but only through UV-C that reads as "
+                                  "likely stray light or noise (see the germicidal artefacts)",
+                           STRAY_UVC_NEEDED)
+        if integ.value > dl and share is not None:
+            verdict = "cannot-hold" if share >= NO_EMISSION_SHARE else "unlikely"
+            basis = f"the lamp emits in {what}, above the detection limit ({sig(dl)})"
+        elif not covers_all(integ.coverage):
+            return _na(c, ev, f"only {integ.coverage:.0%} of {band} was measured (the data "
+                              f"cover {spec.range_nm[0]:g}–{spec.range_nm[1]:g} nm); in the "
+                              f"measured part the output is below the detection limit",
+                       (f"a spectrum covering the whole of {band}",))
+        else:
+            verdict = "holds"
+            basis = (f"{band} ({lo:g}–{hi:g} nm) is below the detection limit "
+                     f"({sig(integ.value)} ≤ {sig(dl)} {spec.integrated_unit})")
+        return Verdict(c.id, c.kind, c.text, verdict,
+                       Quantity(NO_EMISSION_SHARE, "1", f"largest share of the output in {band}"),
+                       None if share is None else Quantity(share, "1", f"share in {band}"),
+                       None, basis, (), (), "measured", r.label,
+                       {"band_nm": [lo, hi], "share": share}, RULE_NO_EMISSION)
+    # an estimate: a model shows what the technology emits, not traces
+    cases = ev.safety_cases() or [r]
+    shares = []
+    for x in cases:
+        tot = total_integral(x.spectrum)
+        shares.append(integrate(x.spectrum, lo, hi).value / tot if tot > 0 else 0.0)
+    likely_tot = total_integral(r.spectrum)
+    likely = integrate(r.spectrum, lo, hi).value / likely_tot if likely_tot > 0 else 0.0
+    if likely >= NO_EMISSION_SHARE:
+        return Verdict(c.id, c.kind, c.text, "unlikely",
+                       Quantity(NO_EMISSION_SHARE, "1", f"largest share of the output in {band}"),
+                       Quantity(likely, "1", f"share in {band} (nominal estimate)"), None,
+                       f"the nominal estimate puts {likely:.2%} of the lamp's output in {band} "
+                       f"({lo:g}–{hi:g} nm); only a measurement can show how much there is",
+                       (), ("a measured spectrum covering the band",), "nominal estimate",
+                       r.label, {"band_nm": [lo, hi], "share": likely},
+                       "the stated technology's nominal spectrum (technology data: at most "
+                       "'unlikely', not a hard bound)")
+    if max(shares) < 0.1 * NO_EMISSION_SHARE:
+        return Verdict(c.id, c.kind, c.text, "holds", None,
+                       Quantity(max(shares), "1", f"share in {band} (nominal estimate)"), None,
+                       f"the nominal estimate puts at most {max(shares):.2%} of the lamp's output "
+                       f"in {band} ({lo:g}–{hi:g} nm): the technology emits next to nothing there",
+                       (), (), "nominal estimate", r.label, {"band_nm": [lo, hi]},
+                       "the stated technology's nominal spectrum")
+    return _na(c, ev, f"the nominal estimate puts up to {max(shares):.2%} of the lamp's output in "
+                      f"{band}: whether that is none only a measurement can show",
+               ("a measured spectrum covering the band",))
+
+
 def _efficiency(c: Any, ev: Evidence) -> Verdict:
     f = ev.plausibility.by_id(f"efficiency:{c.id}") if ev.plausibility else None
     if f is None:
@@ -2063,7 +2170,7 @@ def _approval(c: Any, ev: Evidence) -> Verdict:
 
 _JUDGES = {"emission": _emission, "inactivation": _inactivation, "coverage": _coverage,
            "ozone-free": _ozone, "safety": _safety, "optical-power": _optical_power,
-           "irradiance": _irradiance,
+           "irradiance": _irradiance, "no-emission": _no_emission,
            "efficiency": _efficiency, "risk-group": _risk_group, "approval": _approval}
 
 

@@ -39,7 +39,7 @@ FORMAT_ID = "uvcheck-listing/1"
 
 #: The fixed set of claim kinds.
 CLAIM_KINDS = ("emission", "inactivation", "coverage", "ozone-free", "safety", "optical-power",
-               "irradiance", "efficiency", "risk-group", "approval", "unrecognised")
+               "irradiance", "no-emission", "efficiency", "risk-group", "approval", "unrecognised")
 
 #: The IEC 62471 risk groups a risk-group claim can state (as uvcheck.limits.GROUPS, repeated
 #: so that the listing reader stays free of numpy).
@@ -59,6 +59,9 @@ BANDS_NM: dict[str, tuple[float, float]] = {
     "UV-C": (200.0, 280.0), "far-UVC": (200.0, 235.0), "UV-B": (280.0, 315.0),
     "UV-A": (315.0, 400.0), "visible": (400.0, 780.0), "IR-A": (780.0, 1400.0),
 }
+#: Bands a claim can say the lamp does not emit in ("no-emission": "UV-free", "no UV-C"):
+#: the named bands, and all UV (200–400 nm; UV below 200 nm does not travel in air).
+DENIABLE_BANDS_NM: dict[str, tuple[float, float]] = {**BANDS_NM, "UV": (200.0, 400.0)}
 
 #: Geometry models a listing may name (as uvcheck.geometry.EMITTER_MODELS).
 EMITTERS = ("point", "lambertian", "tube")
@@ -95,6 +98,7 @@ KIND_FIELDS: dict[str, tuple[str, ...]] = {
     "safety": ("safe_for", "distance", "time"),
     "optical-power": ("power", "band"),
     "irradiance": ("irradiance", "distance", "band"),
+    "no-emission": ("band",),
     "efficiency": ("efficiency", "efficiency_of"),
     "risk-group": ("risk_group",),
     "approval": ("agency",),
@@ -223,6 +227,9 @@ class Claim:
         elif self.kind == "optical-power":
             if self.power_W is None:
                 out.append("power")
+        elif self.kind == "no-emission":
+            if self.band_nm is None:
+                out.append("the band it says the lamp does not emit in")
         elif self.kind == "irradiance":
             if self.irradiance_W_m2 is None:
                 out.append("irradiance")
@@ -254,6 +261,7 @@ class Claim:
             "safety": ("safe_for", "distance_m", "time_s"),
             "optical-power": ("power_W", "band_name", "band_nm"),
             "irradiance": ("irradiance_W_m2", "distance_m", "band_name", "band_nm"),
+            "no-emission": ("band_name", "band_nm", "bands"),
             "efficiency": ("efficiency_fraction", "efficiency_of"),
             "risk-group": ("risk_group",),
             "approval": ("agency",),
@@ -793,6 +801,15 @@ def _claim(ctx: _Ctx, raw: Any, i: int) -> Claim:
             kw["band_name"], kw["band_nm"] = names[0], BANDS_NM[names[0]]
             if len(names) > 1:
                 kw["bands"] = tuple(names)
+        elif kind == "no-emission":
+            names = [v] if isinstance(v, str) else v
+            if (not isinstance(names, list) or not names
+                    or not all(isinstance(x, str) and _deniable(x) for x in names)):
+                raise ctx.fail(f("band"), f"unknown band {v!r}",
+                               f"use one of {', '.join(DENIABLE_BANDS_NM)}, or a list of them")
+            got = list(dict.fromkeys(_deniable(x) for x in names))
+            kw["band_name"], kw["band_nm"] = got[0], DENIABLE_BANDS_NM[got[0]]
+            kw["bands"] = tuple(got)
         else:
             kw["band_name"], kw["band_nm"] = _band(ctx, f("band"), v)
     if "reduction" in raw and "log_reduction" in raw:
@@ -1315,6 +1332,36 @@ def _bands_of_text(text: str) -> list[str]:
     return list(dict.fromkeys(name for (m, name), n in zip(found, neg) if not n))
 
 
+#: "UV-free", "no UV", "no UV leakage", "free of UV rays", "0 UV", "ohne UV": all UV denied.
+_UV_DENIED_RE = re.compile(
+    r"\b(?:uv|ultra[\s-]?violet)[\s-]*(?:free|frei)\b|"
+    r"\b(?:no|zero|0|without|free\s+(?:of|from)|ohne|kein\w*|sans|sin)\s+(?:harmful\s+|any\s+)?"
+    r"(?:uv|ultra[\s-]?violet)(?![\s-]?[abc]\b)(?:\s+(?:light|radiation|rays?|leak\w*|emission))?\b",
+    re.I)
+
+
+def _deniable(name: str) -> str | None:
+    """The canonical name of a band a no-emission claim may name ("UV", "UV-C", …), or None."""
+    if re.fullmatch(r"(?i)\s*(?:uv|ultra[\s-]?violet)\s*", name):
+        return "UV"
+    return band_from_name(name)
+
+
+def _denied_bands(text: str) -> list[str]:
+    """The bands the text says the lamp does not emit in ("UV-free" -> UV; "no UV-B or UV-C"
+    -> UV-B, UV-C), in order, once each (:func:`_negated`; our own reading)."""
+    found: list[tuple[re.Match, str]] = []
+    for m in _BAND_WORD_RE.finditer(text):
+        w = m.group(0)
+        name = "far-UVC" if re.search(r"far", w, re.I) else band_from_name(w)
+        if name is not None:
+            found.append((m, name))
+    neg = _negated(text, [m for m, _ in found])
+    out = ["UV"] if _UV_DENIED_RE.search(text) else []
+    out += [name for (m, name), n in zip(found, neg) if n]
+    return list(dict.fromkeys(out))
+
+
 def _band_of_text(text: str) -> str | None:
     bands = _bands_of_text(text)
     return bands[0] if bands else None
@@ -1401,6 +1448,9 @@ def parse_claim_text(text: str, claim_id: str = "c1", kind: str | None = None) -
     band_name = _band_of_text(text)
     if "wavelength_nm" in q or "band_nm" in q or band_name:
         kinds.append("emission")
+    denied = _denied_bands(text)
+    if denied:
+        kinds.append("no-emission")
     stated_rg = _stated_risk_group(text)
     if stated_rg is not None:
         kinds.append("risk-group")
@@ -1462,6 +1512,9 @@ def parse_claim_text(text: str, claim_id: str = "c1", kind: str | None = None) -
         kw["power_W"] = q["power_W"]
         if band_name:
             kw["band_name"], kw["band_nm"] = band_name, BANDS_NM[band_name]
+    elif kind == "no-emission":
+        kw["band_name"], kw["band_nm"] = denied[0], DENIABLE_BANDS_NM[denied[0]]
+        kw["bands"] = tuple(denied)
     elif kind == "irradiance":
         kw["irradiance_W_m2"], kw["distance_m"] = q["irradiance_W_m2"], q.get("distance_m")
         if "band_nm" in q:
