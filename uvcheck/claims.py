@@ -1997,8 +1997,8 @@ def _one_no_emission(c: Any, ev: Evidence, band: str, nm: tuple[float, float]) -
             basis = (f"{band} ({lo:g}–{hi:g} nm) is below the detection limit "
                      f"({sig(integ.value)} ≤ {sig(dl)} {spec.integrated_unit})")
         return Verdict(c.id, c.kind, c.text, verdict,
-                       Quantity(NO_EMISSION_SHARE, "1", f"largest share of the output in {band}"),
-                       None if share is None else Quantity(share, "1", f"share in {band}"),
+                       Quantity(NO_EMISSION_SHARE, "-", f"largest share of the output in {band}"),
+                       None if share is None else Quantity(share, "-", f"share in {band}"),
                        None, basis, (), (), "measured", r.label,
                        {"band_nm": [lo, hi], "share": share}, RULE_NO_EMISSION)
     # an estimate: a model shows what the technology emits, not traces
@@ -2011,8 +2011,8 @@ def _one_no_emission(c: Any, ev: Evidence, band: str, nm: tuple[float, float]) -
     likely = integrate(r.spectrum, lo, hi).value / likely_tot if likely_tot > 0 else 0.0
     if likely >= NO_EMISSION_SHARE:
         return Verdict(c.id, c.kind, c.text, "unlikely",
-                       Quantity(NO_EMISSION_SHARE, "1", f"largest share of the output in {band}"),
-                       Quantity(likely, "1", f"share in {band} (nominal estimate)"), None,
+                       Quantity(NO_EMISSION_SHARE, "-", f"largest share of the output in {band}"),
+                       Quantity(likely, "-", f"share in {band} (nominal estimate)"), None,
                        f"the nominal estimate puts {likely:.2%} of the lamp's output in {band} "
                        f"({lo:g}–{hi:g} nm); only a measurement can show how much there is",
                        (), ("a measured spectrum covering the band",), "nominal estimate",
@@ -2021,7 +2021,7 @@ def _one_no_emission(c: Any, ev: Evidence, band: str, nm: tuple[float, float]) -
                        "'unlikely', not a hard bound)")
     if max(shares) < 0.1 * NO_EMISSION_SHARE:
         return Verdict(c.id, c.kind, c.text, "holds", None,
-                       Quantity(max(shares), "1", f"share in {band} (nominal estimate)"), None,
+                       Quantity(max(shares), "-", f"share in {band} (nominal estimate)"), None,
                        f"the nominal estimate puts at most {max(shares):.2%} of the lamp's output "
                        f"in {band} ({lo:g}–{hi:g} nm): the technology emits next to nothing there",
                        (), (), "nominal estimate", r.label, {"band_nm": [lo, hi]},
