@@ -88,3 +88,19 @@ def test_a_structured_irradiance_claim():
     res = judge(lst, readings_from_measurement(_flat_uvc(), Conditions(measurement_distance_m=0.1)),
                 measured=True)
     assert res.verdicts[0].verdict == "cannot-hold"
+
+
+def test_the_terminal_shows_what_was_assumed():
+    # a claim with no distance of its own is judged at the listing's distance of use: the
+    # terminal says so on an "assumed:" line, as the note and the JSON do
+    from uvcheck.report.terminal import render_claims
+
+    lst = parse_listing('format = "uvcheck-listing/1"\n[product]\nname = "box (invented)"\n'
+                        'invented = true\n[use]\ndistance = "10 cm"\n[[claims]]\nid = "c1"\n'
+                        'text = "UVC irradiance 70 µW/cm²"\n', "b.toml")
+    res = judge(lst, readings_from_measurement(_flat_uvc(), Conditions(measurement_distance_m=0.1)),
+                measured=True)
+    claims = res.to_dict()["claims"]
+    assert claims[0]["verdict"] == "holds"
+    text = "\n".join(render_claims(claims, {"listing": {"name": "box"}}))
+    assert "assumed: the claim names no distance: judged at the listing's distance of use" in text

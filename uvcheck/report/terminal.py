@@ -666,6 +666,9 @@ def render_claims(claims: list, d: dict) -> list[str]:
         text = c.get("text") or c["kind"]
         out.append(f"  [{label}] \"{text}\" ({c['kind']})")
         out += wrap(c["basis"], 6)
+        if c.get("assumptions"):
+            # the choices made on the listing's behalf (a distance, an organism, a medium)
+            out += wrap("assumed: " + "; ".join(c["assumptions"]), 6)
         if c.get("missing"):
             out += wrap("missing: " + "; ".join(c["missing"]), 6)
     summ = (d.get("claims_summary") or {})
