@@ -367,3 +367,9 @@ def test_a_bare_name_two_columns_share_is_refused():
         reader._col_ref("E", ["Wavelength [nm]", "E [counts]", "E (W/m2/nm)"], "value column",
                         "f.csv")
     assert "2 columns are named 'E'" in str(exc.value)
+
+
+@pytest.mark.parametrize("value", ["50 ± 1 cm", "50 +/- 1 cm", "50±1cm"])
+def test_a_distance_written_with_its_uncertainty_is_read(tmp_path, value):
+    p = write(tmp_path, "pm.csv", [f"Distance: {value}", HEADER], WL, 0.01 * led(WL))
+    assert read_spectrum(p)[1].measurement_distance_m == pytest.approx(0.5)

@@ -898,6 +898,7 @@ _DIST_NO_SEP = re.compile(rf"(?i)^\s*({_DIST_WORDS}(?:\s+de\s+mesure)?"
                           rf"(?:\s*[\[(]\s*{_DIST_UNITS}\s*[\])])?)\s+([-+]?\d.*?)\s*$")
 _DIST_VALUE = re.compile(rf"(?i)^\s*(?:(?:ca|approx|env)\.?\s*|about\s+|~\s*|≈\s*)?"
                          rf"([-+]?\d+(?:[.,]\d+)?\s*{_DIST_UNITS})(?![a-z])")
+_DIST_PLUS_MINUS = re.compile(r"\s*(?:±|\+/-|\+-)\s*\d+(?:[.,]\d+)?(?=\s*[a-zA-Z]|\s*$)")
 _DIST_BARE = re.compile(r"^\s*([-+]?\d+(?:[.,]\d+)?)\s*$")
 _DIST_KEY_UNIT = re.compile(rf"(?i)(?:[\[(]\s*({_DIST_UNITS})\s*[\])]|[\s_/]in\s+({_DIST_UNITS})"
                             rf"|_({_DIST_UNITS}))\s*$")
@@ -938,7 +939,9 @@ def _distance_conflict(meta: dict[str, str], used: tuple[str, str], dist: float)
 def _read_distance(key: str, value: str, meta: dict[str, str]) -> float | None:
     """The distance in metres from a metadata entry, else None: a number with a unit
     ("0,5 m", "20cm", "12 in", "ca. 20 cm"), or a bare number with the unit given in the key
-    ("Distance (mm): 200") or in a "distance unit" entry."""
+    ("Distance (mm): 200") or in a "distance unit" entry. An uncertainty written with it
+    ("50 ± 1 cm", "50 +/- 1 cm") is left out: the reading is the distance."""
+    value = _DIST_PLUS_MINUS.sub("", value)
     m = _DIST_VALUE.match(value)
     b = _DIST_BARE.match(value)
     text = m.group(1) if m else value
