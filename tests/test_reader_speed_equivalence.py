@@ -153,7 +153,11 @@ def ref_isolated_spikes(v):
     a = np.abs(v)
     nb = np.maximum(np.concatenate(([a[1]], a[:-1])), np.concatenate((a[1:], [a[-2]])))
     scale = median(a) or float(a.max()) * 1e-12
-    return [int(k) for k in np.nonzero((a > 1000.0 * np.maximum(nb, scale * 10)) & (a > 0))[0]]
+    # and at least SPIKE_MIN_SHARE (1e-3) of the largest finite magnitude (our own rule)
+    fin = a[np.isfinite(a)]
+    floor = 1e-3 * fin.max() if fin.size else np.inf
+    return [int(k) for k in np.nonzero((a > 1000.0 * np.maximum(nb, scale * 10))
+                                       & (a > floor))[0]]
 
 
 def ref_gaps(wl, steps):

@@ -373,3 +373,17 @@ def test_a_bare_name_two_columns_share_is_refused():
 def test_a_distance_written_with_its_uncertainty_is_read(tmp_path, value):
     p = write(tmp_path, "pm.csv", [f"Distance: {value}", HEADER], WL, 0.01 * led(WL))
     assert read_spectrum(p)[1].measurement_distance_m == pytest.approx(0.5)
+
+
+def test_a_last_digit_between_zeros_is_no_spike(tmp_path):
+    # values written to 6 decimals: far from the band, a lone 0.000001 between zeros is the
+    # rounding of the noise, not a cosmic-ray hit (SPIKE_MIN_SHARE, our own rule); a spike
+    # of a tenth of the peak there still is one
+    wl = np.arange(200.0, 300.01, 0.2)
+    v = 0.05 * np.exp(-0.5 * ((wl - 222.0) / 1.0) ** 2)
+    v[np.argmin(np.abs(wl - 260.0))] = 1e-6
+    p = write(tmp_path, "round.csv", [HEADER], wl, v, "{:.6f}")
+    assert not matching(warnings_of(p), r"isolated spike")
+    v[np.argmin(np.abs(wl - 280.0))] = 5e-3
+    p = write(tmp_path, "spike.csv", [HEADER], wl, v, "{:.6f}")
+    assert matching(warnings_of(p), r"isolated spike.* at 280 nm")

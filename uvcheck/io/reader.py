@@ -2354,8 +2354,17 @@ def _isolated_spikes(v: np.ndarray) -> list[int]:
     if not (a > 1000.0 * nb).any():
         return []
     scale = median(a) or float(a.max()) * 1e-12
-    spikes = np.nonzero((a > 1000.0 * np.maximum(nb, scale * 10)) & (a > 0))[0]
+    # and it reaches 1e-3 of the spectrum's largest value: below that, a lone sample above
+    # zeros is the last written digit (a value rounded to 0.000001 between zeros), and too
+    # small to move any band figure (our own rule)
+    fin = a[np.isfinite(a)]
+    floor = SPIKE_MIN_SHARE * float(fin.max()) if fin.size else math.inf
+    spikes = np.nonzero((a > 1000.0 * np.maximum(nb, scale * 10)) & (a > floor))[0]
     return [int(k) for k in spikes]
+
+
+#: The least share of the largest value a lone sample must reach to be called a spike. [-]
+SPIKE_MIN_SHARE = 1e-3
 
 
 def _clipped_at_zero(v: np.ndarray) -> str | None:
