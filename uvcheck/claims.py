@@ -1187,6 +1187,15 @@ def _unless_unmeasured(v: Verdict, r: Reading | None, lo: float, hi: float,
                    missing=(needs,), rule=None)
 
 
+def _no_absolute_output(c: Any, ev: Evidence) -> Verdict:
+    """``not-assessable`` for an efficacy claim with no absolute reading: no lamp data at all,
+    or a relative spectrum with no power stated."""
+    if not ev.readings:
+        return _na(c, ev, NO_LAMP_DATA, NO_LAMP_DATA_NEEDS)
+    return _na(c, ev, "no absolute output: the spectrum is relative and no power is stated",
+               ("a scaled spectrum (--scale-band) or lamp.optical_power / lamp.electrical_power",))
+
+
 def _one_inactivation(c: Any, ev: Evidence) -> Verdict:
     """One organism (or group): judged on the readings, then by the stray-light rule for
     efficacy (:func:`_unless_stray_credit`)."""
@@ -1237,11 +1246,8 @@ def _inactivation_on(c: Any, ev: Evidence) -> Verdict:
                    + (f"; {notes[-1]}" if vague else ""), missing, notes)
     t = c.time_s
     fav = ev.favourable()
-    if not fav and not ev.readings:
-        return _na(c, ev, NO_LAMP_DATA, NO_LAMP_DATA_NEEDS)
     if not fav:
-        return _na(c, ev, "no absolute output: the spectrum is relative and no power is stated",
-                   ("a scaled spectrum (--scale-band) or lamp.optical_power / lamp.electrical_power",))
+        return _no_absolute_output(c, ev)
     box_info = None
     d = c.distance_m
     if d is None and c.area_m2 is None and c.volume_m3 is None:
@@ -1891,11 +1897,8 @@ def _irradiance_on(c: Any, ev: Evidence) -> Verdict:
         assumptions.append("the claim names no band: judged on all UV, 200–400 nm (the most "
                            "favourable reading)")
     fav = ev.favourable()
-    if not fav and not ev.readings:
-        return _na(c, ev, NO_LAMP_DATA, NO_LAMP_DATA_NEEDS)
     if not fav:
-        return _na(c, ev, "no absolute output: the spectrum is relative and no power is stated",
-                   ("a scaled spectrum (--scale-band) or lamp.optical_power / lamp.electrical_power",))
+        return _no_absolute_output(c, ev)
     if any(r.d_ref is None and r.spectrum.quantity == "irradiance" for r in fav):
         return _na(c, ev, f"the spectrum's measurement distance is unknown, so the irradiance at "
                           f"{sig(d)} m cannot be worked out", ("--distance",))

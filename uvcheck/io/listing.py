@@ -1320,8 +1320,8 @@ def _negated(text: str, matches: list[re.Match]) -> list[bool]:
     return out
 
 
-def _bands_of_text(text: str) -> list[str]:
-    """Every band named and not denied, in order, once each ("UVA + UVC" -> UV-A, UV-C)."""
+def _named_bands(text: str) -> list[tuple[str, bool]]:
+    """Every band word of the text, in order: (canonical name, whether it is denied)."""
     found: list[tuple[re.Match, str]] = []
     for m in _BAND_WORD_RE.finditer(text):
         w = m.group(0)
@@ -1329,7 +1329,12 @@ def _bands_of_text(text: str) -> list[str]:
         if name is not None:
             found.append((m, name))
     neg = _negated(text, [m for m, _ in found])
-    return list(dict.fromkeys(name for (m, name), n in zip(found, neg) if not n))
+    return [(name, n) for (_, name), n in zip(found, neg)]
+
+
+def _bands_of_text(text: str) -> list[str]:
+    """Every band named and not denied, in order, once each ("UVA + UVC" -> UV-A, UV-C)."""
+    return list(dict.fromkeys(name for name, denied in _named_bands(text) if not denied))
 
 
 #: "UV-free", "no UV", "no UV leakage", "free of UV rays", "0 UV", "ohne UV": all UV denied.
@@ -1350,15 +1355,8 @@ def _deniable(name: str) -> str | None:
 def _denied_bands(text: str) -> list[str]:
     """The bands the text says the lamp does not emit in ("UV-free" -> UV; "no UV-B or UV-C"
     -> UV-B, UV-C), in order, once each (:func:`_negated`; our own reading)."""
-    found: list[tuple[re.Match, str]] = []
-    for m in _BAND_WORD_RE.finditer(text):
-        w = m.group(0)
-        name = "far-UVC" if re.search(r"far", w, re.I) else band_from_name(w)
-        if name is not None:
-            found.append((m, name))
-    neg = _negated(text, [m for m, _ in found])
     out = ["UV"] if _UV_DENIED_RE.search(text) else []
-    out += [name for (m, name), n in zip(found, neg) if n]
+    out += [name for name, denied in _named_bands(text) if denied]
     return list(dict.fromkeys(out))
 
 
