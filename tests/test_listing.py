@@ -326,6 +326,10 @@ def test_a_treatment_time_beside_the_lamps_life_is_kept(text, time_s, life_s):
 
 
 @pytest.mark.parametrize("text, field, value", [
+    # a thousands dot before exactly 000, or in two or more groups (German, French); "2.500"
+    # stays 2.5, being what an English listing writes as well
+    ("Für Räume bis 1.000 m³", "volume_m3", 1000.0), ("pour 10.000 m2", "area_m2", 1e4),
+    ("1.000.000 m3", "volume_m3", 1e6), ("2.500 m²", "area_m2", 2.5),
     ("in a 1e6 m3 room", "volume_m3", 1e6),         # scientific notation, not "6 m3"
     ("for rooms up to 2.5E2 m2", "area_m2", 250.0),
     ("2x30W UVC", "power_W", 30.0),

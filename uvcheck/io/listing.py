@@ -940,6 +940,9 @@ _LOG_RE = re.compile(rf"{_NUM}\s*-?\s*logs?(?:10)?\b|\blog\s*-?\s*{_NUM}\b", re.
 #: A count written with thousands groups ("1,000", "12 000"): areas, volumes, times, distances
 #: and powers; percentages keep the decimal comma ("99,9 %").
 _BIG = (r"(?<![\d.,])(?<!\d[eE])(\d{1,3}(?:[,\u00a0\u202f ]\d{3})+(?![\d,.])|"
+        # a thousands dot (German, French): "1.000", "10.000", "1.000.000"; a dot before
+        # exactly 000, or two or more groups, is never a decimal a listing would write
+        r"[1-9]\d{0,2}(?:\.000)+(?![\d,.])|[1-9]\d{0,2}(?:\.\d{3}){2,}(?![\d,.])|"
         r"\d+(?:[.,]\d+)?(?:[eE][+-]?\d+(?![\w]))?|\d+\s*/\s*\d+)")
 _TIME_RE = re.compile(rf"{_BIG}\s*(seconds?|secs?|s|minutes?|mins?|min|hours?|hrs?|h|"
                       r"sekunden|minuten|stunden?|secondes?|heures?)\b", re.I)
@@ -1193,7 +1196,8 @@ def _big(s: str, found: dict[str, Any] | None = None) -> float:
     """A number as written in a count: thousands groups ("1,000" → 1000, "12 000" → 12000,
     noted in ``found['thousands']``), a fraction ("1/2" → 0.5), else :func:`_num`."""
     t = s.strip()
-    if re.fullmatch(r"\d{1,3}(?:[,\u00a0\u202f ]\d{3})+", t) and not t.startswith("0"):
+    if (re.fullmatch(r"\d{1,3}(?:[,\u00a0\u202f ]\d{3})+", t) and not t.startswith("0")) or \
+            re.fullmatch(r"[1-9]\d{0,2}(?:\.000)+|[1-9]\d{0,2}(?:\.\d{3}){2,}", t):
         if found is not None:
             found.setdefault("thousands", t)
         return float(re.sub(r"\D", "", t))
@@ -1536,8 +1540,8 @@ def parse_claim_text(text: str, claim_id: str = "c1", kind: str | None = None) -
                                                                          "efficiency"))]
     notes = [f"read from the wording as {_article(kind)} {kind} claim"]
     if q.get("thousands"):
-        notes.append(f"{q['thousands']!r} read as {_big(q['thousands']):g} (the comma or space "
-                     "taken as a thousands separator)")
+        notes.append(f"{q['thousands']!r} read as {_big(q['thousands']):g} (the comma, dot or "
+                     "space taken as a thousands separator)")
     if q.get("lifetime_s") and kind == "inactivation":
         notes.append(f"{format_duration(q['lifetime_s'])} read as the lamp's life, not as the "
                      "time of a treatment")
