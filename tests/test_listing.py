@@ -325,6 +325,14 @@ def test_a_treatment_time_beside_the_lamps_life_is_kept(text, time_s, life_s):
     assert parse_claim_text(text).time_s == pytest.approx(time_s)
 
 
+@pytest.mark.parametrize("text, time_s", [
+    ("kills 99.9% of germs in half an hour", 1800.0), ("99% of germs in 1h30", 5400.0),
+    ("in 1 h 30 min at 2 m", 5400.0), ("tötet 99 % der Keime in einer halben Stunde", 1800.0),
+    ("élimine 99% des germes en une demi-heure", 1800.0)])
+def test_times_written_in_words_or_as_hours_and_minutes(text, time_s):
+    assert _find_quantities(text)["time_s"] == pytest.approx(time_s)
+
+
 @pytest.mark.parametrize("text, field, value", [
     # a thousands dot before exactly 000, or in two or more groups (German, French); "2.500"
     # stays 2.5, being what an English listing writes as well

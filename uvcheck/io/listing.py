@@ -946,6 +946,12 @@ _BIG = (r"(?<![\d.,])(?<!\d[eE])(\d{1,3}(?:[,\u00a0\u202f ]\d{3})+(?![\d,.])|"
         r"\d+(?:[.,]\d+)?(?:[eE][+-]?\d+(?![\w]))?|\d+\s*/\s*\d+)")
 _TIME_RE = re.compile(rf"{_BIG}\s*(seconds?|secs?|s|minutes?|mins?|min|hours?|hrs?|h|"
                       r"sekunden|minuten|stunden?|secondes?|heures?)\b", re.I)
+#: Hours and minutes written together ("1h30", "1 h 30 min"). The minutes are below 60.
+_H_MIN_RE = re.compile(r"(?<![\d.,])(\d{1,2})\s*h\s*([0-5]\d)(?:\s*(?:min|mins|minutes?)\b)?(?![\d.,])",
+                       re.I)
+#: Half an hour, as words.
+_HALF_HOUR_RE = re.compile(r"\bhalf\s+an?\s+hour\b|\bhalf[\s-]hour\b|\bhalbe[n]?\s+stunde\b|"
+                           r"\bdemi[\s-]heure\b", re.I)
 #: Time units of other languages, as the unit parser writes them.
 _FOREIGN_TIME = {"sekunden": "s", "minuten": "min", "stunde": "h", "stunden": "h",
                  "seconde": "s", "secondes": "s", "heure": "h", "heures": "h"}
@@ -1246,6 +1252,14 @@ def _find_quantities(text: str) -> dict[str, Any]:
     if m:
         found["log"] = _num(m.group(1) or m.group(2))
         spans.append(m.span())
+    for m in _H_MIN_RE.finditer(text):          # "1h30", "1 h 30 min"
+        if free(m):
+            found.setdefault("time_s", int(m.group(1)) * 3600.0 + int(m.group(2)) * 60.0)
+            spans.append(m.span())
+    for m in _HALF_HOUR_RE.finditer(text):       # "half an hour", "demi-heure"
+        if free(m):
+            found.setdefault("time_s", 1800.0)
+            spans.append(m.span())
     for m in _TIME_RE.finditer(text):
         if free(m):
             spans.append(m.span())
