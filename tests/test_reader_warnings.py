@@ -387,3 +387,14 @@ def test_a_last_digit_between_zeros_is_no_spike(tmp_path):
     v[np.argmin(np.abs(wl - 280.0))] = 5e-3
     p = write(tmp_path, "spike.csv", [HEADER], wl, v, "{:.6f}")
     assert matching(warnings_of(p), r"isolated spike.* at 280 nm")
+
+
+def test_unlabelled_wavelengths_that_may_be_angstrom_get_a_hint(tmp_path):
+    # 2000–4000 with no unit is read as nm (the rule), and the report says how to read it as
+    # ångström (1 Å = 0.1 nm, from memory); 200–800 gets no such hint
+    wl = np.arange(2000.0, 4000.01, 5.0)
+    p = write(tmp_path, "a.csv", ["Wavelength,Irradiance [W/m2/nm]"], wl, 0.01 * led(wl / 10))
+    ws = matching(warnings_of(p), r"if they are ångström \(200–400 nm\), give --wavelength-unit A")
+    assert len(ws) == 1
+    p = write(tmp_path, "nm.csv", ["Wavelength,Irradiance [W/m2/nm]"], WL, 0.01 * led(WL))
+    assert not matching(warnings_of(p), r"ångström")

@@ -2313,7 +2313,13 @@ def _to_nm(wl: np.ndarray, unit_text: str | None, how: str, where: str,
                 f"beyond 3 µm (no UV, visible or near infrared); as wavenumbers in cm⁻¹ it would "
                 f"be {1e7 / hi:.4g}–{1e7 / lo:.4g} nm", col_place,
                 "give the unit with --wavelength-unit (cm-1 for wavenumbers, nm for wavelengths)")
-        warnings.append(f"wavelength unit not stated: {lo:g}–{hi:g} read as nm")
+        text = f"wavelength unit not stated: {lo:g}–{hi:g} read as nm"
+        if lo >= 1800:
+            # a lamp scan that starts beyond 1.8 µm is rarer than one in ångström (Å = 0.1 nm),
+            # where 2000–8000 is 200–800 nm (our own hint; nothing is changed)
+            text += (f"; if they are ångström ({lo / 10:g}–{hi / 10:g} nm), give "
+                     "--wavelength-unit A")
+        warnings.append(text)
         return wl, "nm", "inferred from the values (100–20 000 → nm)"
     if 0.1 <= lo and hi <= 20:
         warnings.append(f"wavelengths {lo:g}–{hi:g} read as µm (no unit given)")
