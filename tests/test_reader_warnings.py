@@ -398,3 +398,19 @@ def test_unlabelled_wavelengths_that_may_be_angstrom_get_a_hint(tmp_path):
     assert len(ws) == 1
     p = write(tmp_path, "nm.csv", ["Wavelength,Irradiance [W/m2/nm]"], WL, 0.01 * led(WL))
     assert not matching(warnings_of(p), r"ångström")
+
+
+def test_quoted_decimal_commas_throughout_are_the_files_mark(tmp_path):
+    # a comma-separated file whose numbers are all quoted with decimal commas ("240,5"): the
+    # comma is its decimal mark, so no "mixed decimal separators" warning (which ranks first
+    # in a batch row) and the report says ','; the values are read the same
+    wl = np.arange(240.0, 300.01, 0.5)
+    v = 0.01 * led(wl, centre=270.0)
+    rows = [f'"{a:.1f}","{b:.6f}"'.replace(".", ",") for a, b in zip(wl, v)]
+    p = tmp_path / "q.csv"
+    p.write_text('# invented\n"Wavelength [nm]","Irradiance [W/m2/nm]"\n' + "\n".join(rows) + "\n",
+                 encoding="utf-8")
+    s, rep = read_spectrum(p)
+    assert not matching(rep.warnings, r"mixed decimal separators")
+    assert rep.to_dict()["decimal"] == ","
+    assert np.allclose(s.values, np.round(v, 6), atol=1e-12)

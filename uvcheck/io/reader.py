@@ -1521,7 +1521,11 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
         warnings.append(f"{stats['ragged']} row(s) with a different number of fields "
                         f"(line(s) {', '.join(map(str, rl[:5]))}{' …' if len(rl) > 5 else ''}); "
                         "missing fields count as missing values")
-    if num.mixed:
+    if num.mixed and num.mixed >= n_rows * ncols and not num.thousands_seen:
+        # every number used the other mark ("240,5" in quotes in a comma-separated file):
+        # that mark is the file's, and nothing was mixed
+        decimal = "," if decimal == "." else "."
+    elif num.mixed:
         warnings.append(f"mixed decimal separators: {num.mixed} number(s) used the other decimal "
                         f"mark than the file's '{decimal}'; they were read as decimals")
     thousands = None
