@@ -1199,11 +1199,11 @@ def _no_absolute_output(c: Any, ev: Evidence) -> Verdict:
 def _one_inactivation(c: Any, ev: Evidence) -> Verdict:
     """One organism (or group): judged on the readings, then by the stray-light rule for
     efficacy (:func:`_unless_stray_credit`)."""
-    return _unless_stray_credit(_inactivation_on(c, ev), c, ev)
+    return _unless_stray_credit(_inactivation_on(c, ev), c, ev, _inactivation_on)
 
 
 def _unless_stray_credit(v: Verdict, c: Any, ev: Evidence,
-                         judge_on: Callable[[Any, Evidence], Verdict] | None = None) -> Verdict:
+                         judge_on: Callable[[Any, Evidence], Verdict]) -> Verdict:
     """An efficacy verdict that ``holds`` on a measurement whose UV-C reads as likely stray
     light or noise is judged again without that UV-C (:meth:`Reading.stray_free`). If it
     still holds (on output the tool reads as real), it stands and its basis says so; if not,
@@ -1218,7 +1218,7 @@ def _unless_stray_credit(v: Verdict, c: Any, ev: Evidence,
         return v
     ev2 = replace(ev, readings=tuple(x if x is not None else r for r, x in zip(ev.readings, free)),
                   uncertainty=None)
-    v2 = (judge_on or _inactivation_on)(c, ev2)
+    v2 = judge_on(c, ev2)
     details = {**v.details, "without_stray_uvc": v2.verdict}
     if v2.verdict == "holds":
         return replace(v, basis=f"{v.basis}; it holds even without the UV-C below 280 nm that "
@@ -1893,9 +1893,12 @@ def _irradiance_on(c: Any, ev: Evidence) -> Verdict:
     if c.band_nm is not None:
         (lo, hi), band = c.band_nm, c.band_name or f"{c.band_nm[0]:g}–{c.band_nm[1]:g} nm"
     else:
-        (lo, hi), band = (200.0, 400.0), "UV (200–400 nm)"
-        assumptions.append("the claim names no band: judged on all UV, 200–400 nm (the most "
-                           "favourable reading)")
+        from uvcheck.io.listing import ALL_UV_NM
+
+        lo, hi = ALL_UV_NM
+        band = f"UV ({lo:g}–{hi:g} nm)"
+        assumptions.append(f"the claim names no band: judged on all UV, {lo:g}–{hi:g} nm (the "
+                           "most favourable reading)")
     fav = ev.favourable()
     if not fav:
         return _no_absolute_output(c, ev)
@@ -1933,8 +1936,9 @@ def _irradiance_on(c: Any, ev: Evidence) -> Verdict:
 NO_EMISSION_SHARE = 0.01
 #: Rule of a no-emission claim ("UV-free"): a safety statement, so no benefit of the doubt.
 RULE_NO_EMISSION = ("the no-emission rule (output in the band above the detection limit "
-                    "contradicts the claim: 'cannot-hold' from 1 % of the lamp's output, "
-                    "'unlikely' below; no benefit of the doubt, as for safety claims)")
+                    f"contradicts the claim: 'cannot-hold' from {NO_EMISSION_SHARE:.0%} of the "
+                    "lamp's output, 'unlikely' below; no benefit of the doubt, as for safety "
+                    "claims)")
 
 
 def _no_emission(c: Any, ev: Evidence) -> Verdict:
@@ -1959,30 +1963,30 @@ def _no_emission(c: Any, ev: Evidence) -> Verdict:
                      {"decided_by": _worst_part(subs)[0]})
 
 
+def _share(spec: Spectrum, lo: float, hi: float) -> float | None:
+    """The share of the spectrum's output in lo–hi nm, or None when it has no output. [-]"""
+    tot = total_integral(spec)
+    return integrate(spec, lo, hi).value / tot if tot > 0 else None
+
+
 def _one_no_emission(c: Any, ev: Evidence, band: str, nm: tuple[float, float]) -> Verdict:
     lo, hi = nm
     r = ev.likely()
     if r is None:
         return _na(c, ev, NO_LAMP_DATA, NO_LAMP_DATA_NEEDS)
     if ev.measured:
-        x = r.stray_free()
-        spec = r.spectrum
-        if spec.noise_floor is None and spec.wavelength_nm.size >= 12:
-            # as the germicidal evaluation does: the noise estimated from the data
-            from uvcheck.features import estimate_noise
+        from uvcheck.germicidal import with_noise_floor
 
-            sigma = estimate_noise(spec.values).sigma
-            if sigma is not None:
-                spec = spec.derive(noise_floor=sigma)
+        free = r.stray_free()
+        spec = with_noise_floor(r.spectrum)[0]   # as the germicidal evaluation takes it
         integ = integrate(spec, lo, hi)
-        tot = total_integral(spec)
         dl = integ.detection_limit or 0.0
-        share = integ.value / tot if tot > 0 else None
+        share = _share(spec, lo, hi)
         what = (f"{band} ({lo:g}–{hi:g} nm): {sig(integ.value)} {spec.integrated_unit}"
                 + (f", {share:.2%} of the lamp's output" if share is not None else ""))
-        if integ.value > dl and share is not None and x is not None:
+        if integ.value > dl and share is not None and free is not None:
             # judged without the UV-C that reads as stray light (the germicidal evaluation)
-            xi = integrate(x.spectrum, lo, hi)
+            xi = integrate(free.spectrum, lo, hi)
             if not xi.value > (xi.detection_limit or 0.0):
                 return _na(c, ev, f"the lamp shows {what}, but only through UV-C that reads as "
                                   "likely stray light or noise (see the germicidal artefacts)",
@@ -2005,13 +2009,8 @@ def _one_no_emission(c: Any, ev: Evidence, band: str, nm: tuple[float, float]) -
                        None, basis, (), (), "measured", r.label,
                        {"band_nm": [lo, hi], "share": share}, RULE_NO_EMISSION)
     # an estimate: a model shows what the technology emits, not traces
-    cases = ev.safety_cases() or [r]
-    shares = []
-    for x in cases:
-        tot = total_integral(x.spectrum)
-        shares.append(integrate(x.spectrum, lo, hi).value / tot if tot > 0 else 0.0)
-    likely_tot = total_integral(r.spectrum)
-    likely = integrate(r.spectrum, lo, hi).value / likely_tot if likely_tot > 0 else 0.0
+    shares = [_share(x.spectrum, lo, hi) or 0.0 for x in (ev.safety_cases() or [r])]
+    likely = _share(r.spectrum, lo, hi) or 0.0
     if likely >= NO_EMISSION_SHARE:
         return Verdict(c.id, c.kind, c.text, "unlikely",
                        Quantity(NO_EMISSION_SHARE, "-", f"largest share of the output in {band}"),
@@ -2019,9 +2018,7 @@ def _one_no_emission(c: Any, ev: Evidence, band: str, nm: tuple[float, float]) -
                        f"the nominal estimate puts {likely:.2%} of the lamp's output in {band} "
                        f"({lo:g}–{hi:g} nm); only a measurement can show how much there is",
                        (), ("a measured spectrum covering the band",), "nominal estimate",
-                       r.label, {"band_nm": [lo, hi], "share": likely},
-                       "the stated technology's nominal spectrum (technology data: at most "
-                       "'unlikely', not a hard bound)")
+                       r.label, {"band_nm": [lo, hi], "share": likely}, RULE_TECHNOLOGY_BAND)
     if max(shares) < 0.1 * NO_EMISSION_SHARE:
         return Verdict(c.id, c.kind, c.text, "holds", None,
                        Quantity(max(shares), "-", f"share in {band} (nominal estimate)"), None,

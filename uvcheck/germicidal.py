@@ -921,6 +921,21 @@ def _efficiency(uvc: Reading, spec: Spectrum, position: Position, cond: Conditio
     return Efficiency(status, p_el, flux, basis, eff, tech_id, rng, verdict, note)
 
 
+#: The fewest samples the noise is estimated from (uvcheck.features.estimate_noise needs 12). [-]
+NOISE_MIN_SAMPLES = 12
+
+
+def with_noise_floor(spectrum: Spectrum) -> tuple[Spectrum, Any]:
+    """The spectrum with a noise floor, and the estimate made for it: its own floor (estimate
+    None), else one estimated from the data (:func:`uvcheck.features.estimate_noise`; at
+    least :data:`NOISE_MIN_SAMPLES` samples), else the spectrum as it is (None)."""
+    if spectrum.noise_floor is None and spectrum.wavelength_nm.size >= NOISE_MIN_SAMPLES:
+        ne = estimate_noise(spectrum.values)
+        if ne.sigma is not None:
+            return spectrum.derive(noise_floor=ne.sigma), ne
+    return spectrum, None
+
+
 def spectrum_at(spectrum: Spectrum, cond: Conditions, distance_m: float | None) -> Spectrum:
     """The spectrum at ``distance_m`` on the lamp's axis, scaled with the conditions' emitter
     model as every germicidal figure at a distance is (a flux spectrum becomes an on-axis
@@ -994,13 +1009,11 @@ def evaluate_germicidal(spectrum: Spectrum, conditions: Conditions | None = None
     spec, position = _at_position(spectrum, cond, distance_m)
     notes: list[str] = []
     noise: dict[str, Any] = {"sigma": spec.noise_floor, "basis": "given by the reader"}
-    if spec.noise_floor is None and spec.wavelength_nm.size >= 12:
-        ne = estimate_noise(spec.values)
-        if ne.sigma is not None:
-            spec = spec.derive(noise_floor=ne.sigma)
-            noise = {"sigma": ne.sigma, "basis": f"estimated from the data ({ne.method})"}
-    elif spec.noise_floor is None:
+    if spec.noise_floor is None and spec.wavelength_nm.size < NOISE_MIN_SAMPLES:
         noise = {"sigma": None, "basis": "unknown"}
+    spec, ne = with_noise_floor(spec)
+    if ne is not None:
+        noise = {"sigma": ne.sigma, "basis": f"estimated from the data ({ne.method})"}
     total = total_integral(spec)
     artefacts = () if spec.wavelength_nm.size <= 2 else uvc_artefacts(spec)
     # a signal rising into the start of data that begin inside UV-C is undecided, not stray

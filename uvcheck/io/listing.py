@@ -59,9 +59,12 @@ BANDS_NM: dict[str, tuple[float, float]] = {
     "UV-C": (200.0, 280.0), "far-UVC": (200.0, 235.0), "UV-B": (280.0, 315.0),
     "UV-A": (315.0, 400.0), "visible": (400.0, 780.0), "IR-A": (780.0, 1400.0),
 }
+#: All UV as a claim means it ("UV-free", "UV intensity 80 µW/cm²"): 200–400 nm (UV below
+#: 200 nm does not travel in air).
+ALL_UV_NM = (200.0, 400.0)
 #: Bands a claim can say the lamp does not emit in ("no-emission": "UV-free", "no UV-C"):
-#: the named bands, and all UV (200–400 nm; UV below 200 nm does not travel in air).
-DENIABLE_BANDS_NM: dict[str, tuple[float, float]] = {**BANDS_NM, "UV": (200.0, 400.0)}
+#: the named bands, and all UV.
+DENIABLE_BANDS_NM: dict[str, tuple[float, float]] = {**BANDS_NM, "UV": ALL_UV_NM}
 
 #: Geometry models a listing may name (as uvcheck.geometry.EMITTER_MODELS).
 EMITTERS = ("point", "lambertian", "tube")
