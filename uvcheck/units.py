@@ -19,7 +19,7 @@ from __future__ import annotations
 import functools
 import math
 import re
-from dataclasses import dataclass, replace
+from dataclasses import dataclass
 from types import MappingProxyType
 from typing import Any
 
@@ -486,9 +486,15 @@ _PER_WAVENUMBER_BRACKET = re.compile(
     r"/\s*\(\s*(.+?)\s*[\s·*.]\s*cm\s*(?:\^?\s*-\s*1|⁻¹)\s*\)\s*$", re.I)
 
 
-def _per_wavenumber(raw: str, text: str, place: str) -> SpectralUnit | None:
+#: What a unit that is not per wavelength measures (the quantity of its spectral density).
+_DENSITY_OF = {KINDS["irradiance"]: "irradiance", KINDS["radiance"]: "radiance",
+               KINDS["power"]: "flux"}
+
+
+def _per_wavenumber(raw: str, text: str, place: str, note: str | None) -> SpectralUnit | None:
     """The spectral unit of values per wavenumber ("W/m2/cm-1", "W/(m2 cm-1)",
-    "W m-2 (cm-1)-1"), or None when the unit is not per wavenumber."""
+    "W m-2 (cm-1)-1"), or None when the unit is not per wavenumber. ``note``: as
+    :attr:`SpectralUnit.note`."""
     m = _PER_WAVENUMBER.search(raw)
     if m:
         base = raw[:m.start()]
@@ -501,12 +507,10 @@ def _per_wavenumber(raw: str, text: str, place: str) -> SpectralUnit | None:
         parsed = parse_unit(base, place)
     except UnitError:
         return None
-    table = {KINDS["irradiance"]: "irradiance", KINDS["radiance"]: "radiance",
-             KINDS["power"]: "flux"}
-    q = table.get(parsed.dims_key())
+    q = _DENSITY_OF.get(parsed.dims_key())
     if q is None:
         return None
-    return SpectralUnit(q, float(f"{parsed.scale:.12g}"), False, text, None, True)
+    return SpectralUnit(q, float(f"{parsed.scale:.12g}"), False, text, note, True)
 
 
 #: "MW/CM2/NM", "UW/CM^2/NM": a unit written in capitals, letters only upper case.
@@ -584,9 +588,9 @@ def parse_spectral_unit(text: str, where: str | None = None) -> SpectralUnit:
     if _RELATIVE_WORDS.match(raw.strip()):
         return SpectralUnit("relative", 1.0, False, text)
     raw, case_note = _case_read(raw)
-    wn = _per_wavenumber(raw, text, place)
+    wn = _per_wavenumber(raw, text, place, case_note)
     if wn is not None:
-        return replace(wn, note=case_note) if case_note else wn
+        return wn
     candidate = raw
     if "_" in raw and "/" not in raw:
         # name_W_m2_nm -> W/m2/nm ; name_W_per_m2_per_nm -> W/m2/nm
@@ -627,7 +631,7 @@ def parse_spectral_unit(text: str, where: str | None = None) -> SpectralUnit:
              KINDS["spectral_radiance"]: "radiance",
              KINDS["spectral_flux"]: "flux"}
     if key not in table:
-        if key in (KINDS["irradiance"], KINDS["radiance"], KINDS["power"]):
+        if key in _DENSITY_OF:
             raise UnitError(f"the unit {text!r} is not per wavelength (no '/nm')", place,
                             "if the values are per nm, say so with --unit, e.g. --unit 'W/m2/nm'")
         raise UnitError(f"the unit {text!r} is not a spectral irradiance, radiance or flux",

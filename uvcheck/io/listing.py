@@ -1284,9 +1284,10 @@ def _find_quantities(text: str) -> dict[str, Any]:
                 break
     for m in _IRRADIANCE_RE.finditer(text):
         if free(m):
-            unit = (m.group(2).replace(" ", "").replace("micro", "µ").replace("milli", "m")
-                    .replace("μ", "µ").replace("^2", "2").replace("²", "2"))
-            unit = unit[0].lower() + unit[1:] if unit[0] in "MU" else unit
+            # matched in any case: prefixes and lengths lower case, W capital ("MW/CM2" is
+            # milliwatts; no listing states megawatts per cm²)
+            unit = (re.sub("w", "W", m.group(2).replace(" ", "").lower())
+                    .replace("micro", "µ").replace("milli", "m"))
             found.setdefault("irradiance_W_m2", parse_quantity(
                 f"{_big(m.group(1), found)} {unit}", "irradiance").value_si)
             spans.append(m.span())
@@ -1364,6 +1365,16 @@ _UV_DENIED_RE = re.compile(
     r"\b(?:no|zero|0|without|free\s+(?:of|from)|ohne|kein\w*|sans|sin)\s+(?:harmful\s+|any\s+)?"
     r"(?:uv|ultra[\s-]?violet)(?![\s-]?[abc]\b)(?:\s+(?:light|radiation|rays?|leak\w*|emission))?\b",
     re.I)
+
+
+def _stated_band(q: dict[str, Any], band_name: str | None) -> dict[str, Any]:
+    """The band fields of a claim: a range written as wavelengths ("250-280 nm"), else a
+    named band, else none."""
+    if "band_nm" in q:
+        return {"band_nm": q["band_nm"]}
+    if band_name:
+        return {"band_name": band_name, "band_nm": BANDS_NM[band_name]}
+    return {}
 
 
 def _deniable(name: str) -> str | None:
@@ -1536,16 +1547,10 @@ def parse_claim_text(text: str, claim_id: str = "c1", kind: str | None = None) -
         kw["bands"] = tuple(denied)
     elif kind == "irradiance":
         kw["irradiance_W_m2"], kw["distance_m"] = q["irradiance_W_m2"], q.get("distance_m")
-        if "band_nm" in q:
-            kw["band_nm"] = q["band_nm"]
-        elif band_name:
-            kw["band_name"], kw["band_nm"] = band_name, BANDS_NM[band_name]
+        kw.update(_stated_band(q, band_name))
     elif kind == "emission":
         kw["wavelength_nm"] = q.get("wavelength_nm")
-        if "band_nm" in q:
-            kw["band_nm"] = q["band_nm"]
-        elif band_name:
-            kw["band_name"], kw["band_nm"] = band_name, BANDS_NM[band_name]
+        kw.update(_stated_band(q, band_name))
         # "UVA + UVC", "365nm & 254nm": the claim says the lamp emits in every one
         bands = _bands_of_text(text)
         if len(bands) > 1:

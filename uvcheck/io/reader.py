@@ -1211,8 +1211,6 @@ def wavelength_correction_nm(text: str) -> float:
     >>> wavelength_correction_nm("-2.2 nm"), wavelength_correction_nm("0.5nm")
     (-2.2, 0.5)
     """
-    from uvcheck.units import parse_quantity
-
     q = parse_quantity(text, "length", "--wavelength-correction")
     nm = round(q.value_si * 1e9, 9)
     if not abs(nm) <= MAX_WAVELENGTH_CORRECTION_NM:
@@ -1678,15 +1676,16 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
         raise InputFormatError(f"wavelength {wl_nm[k]:g} nm is not optical radiation "
                                f"(read as {wl_label}, {wl_how})", row_place(k),
                                "wrong wavelength unit? give --wavelength-unit (nm, um, m, cm-1)")
-    if (np.abs(values) > MAX_ABS_VALUE).any():
+    peak_abs = float(np.abs(values).max())
+    if peak_abs > MAX_ABS_VALUE:
         k = int(np.nonzero(np.abs(values) > MAX_ABS_VALUE)[0][0])
         raw = v_raw[np.nonzero(finite)[0][k]]
         raise InputFormatError(f"value {raw:g} is too large to be a measurement (limit "
                                f"{MAX_ABS_VALUE:g} {_spectral_unit_text(su)})",
                                row_place(k, val_idx),
                                "the row is corrupt or the column is not a spectrum; repair the file")
-    if su.quantity == "irradiance" and float(np.abs(values).max()) > IMPLAUSIBLE_W_M2_NM:
-        warnings.append(f"values up to {float(np.abs(values).max()):.3g} W/m2/nm (read as "
+    if su.quantity == "irradiance" and peak_abs > IMPLAUSIBLE_W_M2_NM:
+        warnings.append(f"values up to {peak_abs:.3g} W/m2/nm (read as "
                         f"{unit_label}): no lamp gives that at a measurement distance (full "
                         f"sunlight peaks near 2 W/m2/nm); check which is right: the unit "
                         f"(--unit) or the scale of the file")
