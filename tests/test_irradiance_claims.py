@@ -6,7 +6,7 @@ lost its number and was judged as a plain emission claim.
 
 Sources:
 * Unit conversion: 1 mW/cm² = 10 W/m², 1 µW/cm² = 0.01 W/m² (SI prefixes, BIPM SI Brochure,
-  9th edition, Table 7).
+  9th edition, Table 7, from memory).
 * A flat irradiance spectrum E_λ over a band of width Δλ gives E = E_λ·Δλ (the integral);
   with a point source, E scales as 1/d² (inverse-square law).
 The spectra and listings are invented.

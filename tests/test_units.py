@@ -167,7 +167,7 @@ def test_cjk_unit_characters():
 
 @pytest.mark.parametrize("text, factor, quantity, mentions", [
     # 1 mW/cm²/nm = 10 W/m²/nm, 1 µW/cm²/nm = 0.01 W/m²/nm (SI prefixes, BIPM SI Brochure,
-    # 9th edition, Table 7); a unit in capitals is read in lower case with W capital
+    # 9th edition, Table 7, from memory); a unit in capitals is read in lower case, W capital
     ("MW/CM2/NM", 10.0, "irradiance", "milli, not mega"),
     ("UW/CM2/NM", 0.01, "irradiance", "written in capitals"),
     ("W/M2/NM", 1.0, "irradiance", "written in capitals"),
@@ -194,7 +194,8 @@ def test_a_unit_as_written_has_no_case_note():
     ("W/cm-1", "flux", 1.0)])
 def test_a_density_per_wavenumber_is_no_flux(text, quantity, factor):
     # W m⁻² per cm⁻¹ was read as W m⁻² × cm, a "flux" 10⁻¹¹ too small; the factor is to the
-    # base unit per cm⁻¹ (SI prefixes), the reader converts per sample (test_reader_units)
+    # base unit per cm⁻¹ (SI prefixes); the reader converts per sample
+    # (tests/test_reader_wavenumber_density.py)
     u = parse_spectral_unit(text)
     assert u.per_wavenumber and u.quantity == quantity and u.factor == pytest.approx(factor)
     assert not parse_spectral_unit("W/m2/nm").per_wavenumber
