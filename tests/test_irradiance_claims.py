@@ -104,3 +104,9 @@ def test_the_terminal_shows_what_was_assumed():
     assert claims[0]["verdict"] == "holds"
     text = "\n".join(render_claims(claims, {"listing": {"name": "box"}}))
     assert "assumed: the claim names no distance: judged at the listing's distance of use" in text
+
+
+def test_a_kill_claim_at_a_distance_says_it_is_judged_on_a_surface():
+    # one medium: no "whichever is more favourable" of one choice
+    v = _verdicts(_flat_uvc(), 0.1, "kills 99.9% of germs in 10 minutes at 10 cm")["c1"]
+    assert "the claim names no medium: judged on a surface at that distance" in v.assumptions

@@ -1260,8 +1260,9 @@ def _inactivation_on(c: Any, ev: Evidence) -> Verdict:
     media = [c.medium] if c.medium else (["surface"] if d is not None else ["air", "surface"])
     assumptions = list(notes)
     if c.medium is None:
-        assumptions.append("the claim names no medium: judged on " + " and ".join(media)
-                           + ", whichever is more favourable")
+        assumptions.append("the claim names no medium: " + (
+            "judged on a surface at that distance" if len(media) == 1 else
+            "judged on " + " and ".join(media) + ", whichever is more favourable"))
     best: dict[str, Any] | None = None
     for r in fav:
         for medium in media:
