@@ -54,6 +54,8 @@ def ref_blocks(lines, delim, decimal, first=0):
                 pending.append(i)
             continue
         toks = reader._split(line, delim)
+        if len(toks) == 1 and delim != "space" and reader.DELIMITERS[delim] in line:
+            toks.append("")  # "302.0,": the cell after the delimiter is empty (a missing value)
         n_toks[i] = len(toks)
         if reader._row_values(toks, num) is not None:
             if cur is not None and len([p for p in pending if lines[p].strip()]) <= 2:

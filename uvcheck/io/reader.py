@@ -64,6 +64,16 @@ _CONFIGS = [("tab", "."), ("tab", ","), ("semicolon", "."), ("semicolon", ","),
             ("comma", "."), ("pipe", "."), ("pipe", ","), ("space", "."), ("space", ",")]
 _MISSING = {"", "na", "n/a", "nan", "-nan", "+nan", "--", "-", "null", "none", "#n/a",
             "1.#qnan", "-1.#ind", "1.#ind", "#value!", "#div/0!"}
+#: Cells an instrument or laboratory writes for a value below its detection or quantitation
+#: limit ("<LOD", "BDL", "n.d.", "<0.002"). The value is not known, only that it lies under
+#: a limit, so it is read as missing: those wavelengths count as not measured, never as zero
+#: emission (DESIGN.md: missing range is never read as zero). Abbreviations as laboratories
+#: use them (common practice).
+_BELOW_LIMIT = re.compile(r"^(?:<\s*(?:lod|loq|dl|mdl|ld|lq|[-+]?(?:\d+(?:[.,]\d*)?|[.,]\d+)"
+                          r"(?:e[-+]?\d+)?)|bdl|b\.d\.l\.|n\.d\.|nd|below\s+(?:lod|dl|detection))$",
+                          re.I)
+#: The letters and marks of those cells (for the test of characters no data row holds).
+_BELOW_LIMIT_CHARS = "<lodqmbnelwtci"
 _INF = {"inf", "+inf", "infinity", "+infinity", "1.#inf"}
 _NINF = {"-inf", "-infinity", "-1.#inf"}
 # A number with '.' or ',' as the decimal mark; written so that a digit run splits one way
@@ -201,12 +211,14 @@ def _split(line: str, delim: str) -> list[str]:
 class _Num:
     """Number parser for one (decimal, thousands) convention, counting what it saw."""
 
-    __slots__ = ("decimal", "mixed", "thousands_seen")
+    __slots__ = ("decimal", "mixed", "thousands_seen", "below_limit", "below_example")
 
     def __init__(self, decimal: str):
         self.decimal = decimal
         self.mixed = 0
         self.thousands_seen = 0
+        self.below_limit = 0  # cells marked below a detection limit, read as missing
+        self.below_example = ""
 
     def __call__(self, tok: str) -> float | None:
         """The token's value; NaN for a missing-value token; None if not a number."""
@@ -224,6 +236,10 @@ class _Num:
             return math.inf
         if low in _NINF:
             return -math.inf
+        if _BELOW_LIMIT.match(t):
+            self.below_limit += 1
+            self.below_example = self.below_example or t
+            return math.nan
         if self.decimal == ".":
             if _NUM_DOT.match(t):
                 return float(t)
@@ -435,6 +451,8 @@ def _blocks(lines: list[str], delim: str, decimal: str, first: int = 0,
         # a line without the delimiter is one token, no row (and no number is read)
         toks = (_split(line, delim) if (ch in line if ch is not None else len(line.split()) > 1)
                 else [])
+        if len(toks) == 1:
+            toks.append("")  # "302.0," : the delimiter is there, the value after it is empty
         if _row_values(toks, num) is None:
             if cur is not None:
                 pending.append(i)
@@ -482,6 +500,7 @@ def _foreign(delim: str) -> re.Pattern:
     row."""
     if delim not in _FOREIGN:
         word = "".join(sorted(set("".join(_MISSING | _INF | _NINF))))
+        word += _BELOW_LIMIT_CHARS
         ok = set("0123456789+-.,eE\"'") | set(word) | set(word.upper())
         if delim != "space":
             ok.add(DELIMITERS[delim])
@@ -1022,6 +1041,10 @@ def _stream_rows(path: Path, decoded: Decoded, delim: str, num: _Num, start: int
         if not line.strip():
             continue
         toks = _split(line, delim)
+        if len(toks) < ncols and delim != "space" and line.rstrip().endswith(DELIMITERS[delim]):
+            # "302.0," in a table of two columns: the cells after the delimiter are empty,
+            # missing values (_split drops trailing empty cells, as a trailing delimiter makes)
+            toks = toks + [""] * (ncols - len(toks))
         vals = _row_values(toks, num)
         if vals is None:
             run_bad.append((i, line))
@@ -1660,7 +1683,11 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
         bad_at = np.nonzero(~finite)[0][:3]
         warnings.append(f"{n_drop} row(s) with NaN, inf or missing values dropped "
                         f"(line(s) {', '.join(str(int(line_no[b]) + 1) for b in bad_at)}"
-                        f"{' …' if n_drop > 3 else ''})")
+                        f"{' …' if n_drop > 3 else ''})"
+                        + (f"; {num.below_limit} cell(s) are marked below a detection limit "
+                           f"(e.g. {num.below_example!r}): the instrument did not resolve "
+                           "them, so those wavelengths count as not measured, not as zero "
+                           "emission" if num.below_limit else ""))
         wl_nm, values, line_no = wl_nm[finite], values[finite], line_no[finite]
     if wl_nm.size < 2:
         raise InputFormatError("fewer than two rows with finite wavelength and value",
