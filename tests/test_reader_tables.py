@@ -38,16 +38,21 @@ def _two_tables(path: Path, rows: int = WL.size, label: str = "Calibration") -> 
 def test_a_second_table_is_not_read_into_the_first(tmp_path):
     p = _two_tables(tmp_path / "two.csv", rows=WL.size)  # 250–450 nm in 200 rows
     wl = np.linspace(250.0, 450.0, WL.size)
-    with pytest.raises(InputFormatError, match="data blocks") as exc:
+    with pytest.raises(InputFormatError, match="holds 2 data blocks") as exc:
         read_spectrum(p)
-    start = int(exc.value.todo.rsplit(" ", 1)[1].rstrip("."))  # "... --data-start N"
+    # "(1: lines 2–201 ...; 2: lines N–..." : the second block's first line, as --block counts
+    start = int(str(exc.value).split("2: lines ", 1)[1].split("–", 1)[0])
+    assert start == WL.size + 5  # 1-based: heading, rows, blank, label, heading, first row
+    assert "--block N" in exc.value.todo
     spec, rep = read_spectrum(p, block=1)
     assert rep.rows_used == WL.size and rep.duplicates_averaged == 0
     np.testing.assert_allclose(spec.values, 1e-3 * np.exp(-0.5 * ((wl - 300.0) / 8.0) ** 2) + 1e-7,
                                rtol=1e-6)  # the first table alone, as written
     assert rep.sorted == "ascending"
-    spec2, rep2 = read_spectrum(p, data_start=start)
-    np.testing.assert_allclose(spec2.values, 1.0 + 1e-3 * np.arange(WL.size), rtol=1e-9)
+    for spec2, rep2 in (read_spectrum(p, data_start=start), read_spectrum(p, block=2)):
+        np.testing.assert_allclose(spec2.values, 1.0 + 1e-3 * np.arange(WL.size), rtol=1e-9)
+    with pytest.raises(InputFormatError, match="no data block 3; the file has 2"):
+        read_spectrum(p, block=3)
 
 
 def test_a_second_table_beyond_the_head_ends_the_block(tmp_path):

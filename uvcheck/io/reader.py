@@ -483,6 +483,17 @@ def _blocks(lines: list[str], delim: str, decimal: str, first: int = 0,
     return blocks, against + num.mixed + num.thousands_seen
 
 
+def _listing(big: list[_Block], head: list[str]) -> str:
+    """The blocks as an error lists them: number, lines and the label above each."""
+    desc = []
+    for k, b in enumerate(big, 1):
+        label = next((head[j].strip() for j in range(b.start - 1, max(-1, b.start - 6), -1)
+                      if head[j].strip()), "")
+        desc.append(f"{k}: lines {b.start + 1}–{b.end + 1}"
+                    + (f" after {label[:40]!r}" if label else ""))
+    return "; ".join(desc)
+
+
 def _big_blocks(blocks: list[_Block]) -> list[_Block]:
     """The blocks of at least 3 data rows (what ``--block N`` counts)."""
     return [b for b in blocks if b.end - b.start + 1 - len(b.bad) >= 3]
@@ -1407,19 +1418,19 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
     if not switch:
         _flag_ambiguous_separators(sep_cols, head, start0, delim, decimal, opts, warnings)
     big = _big_blocks(blocks)
+    if opts.block and opts.block > len(big) and len(head) > len(sample):
+        # the format was chosen on a sample: count the blocks of the whole head, where the
+        # error below (and the streamed check for a later block) finds them
+        blocks = _blocks(head, delim, decimal)[0]
+        big = _big_blocks(blocks)
     if opts.block:
         if not 1 <= opts.block <= len(big):
             raise InputFormatError(f"there is no data block {opts.block}; the file has {len(big)}",
                                    where)
         block = big[opts.block - 1]
     elif len(big) > 1:
-        desc = []
-        for k, b in enumerate(big, 1):
-            label = next((head[j].strip() for j in range(b.start - 1, max(-1, b.start - 6), -1)
-                          if head[j].strip()), "")
-            desc.append(f"{k}: lines {b.start + 1}–{b.end + 1}" + (f" after {label[:40]!r}" if label else ""))
-        raise InputFormatError(f"the file holds {len(big)} data blocks ({'; '.join(desc)})", where,
-                               "choose one with --block N")
+        raise InputFormatError(f"the file holds {len(big)} data blocks ({_listing(big, head)})",
+                               where, "choose one with --block N")
     else:
         block = max(blocks, key=lambda b: b.end - b.start)
     ncols = block.ncols
@@ -1516,6 +1527,13 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
     last_line = stats.get("last_line", block.end)
     if stats.get("later_block") is not None and not opts.block:
         lb = stats["later_block"] + 1
+        in_head = _big_blocks(_blocks(head, delim, decimal)[0])
+        if len(in_head) > 1 and any(b.start == lb - 1 for b in in_head):
+            # the later block lies within the head: the blocks are listed, and numbered, as
+            # --block counts them
+            raise InputFormatError(f"the file holds {len(in_head)} data blocks "
+                                   f"({_listing(in_head, head)})", where,
+                                   "choose one with --block N")
         raise InputFormatError(
             f"the file holds several data blocks (lines {block.start + 1}–{last_line + 1}, and "
             f"another from line {lb})", where,
@@ -1679,7 +1697,16 @@ def _read_file(p: Path, decoded: Decoded, opts: ReadOptions, warnings: list[str]
                         "E_λ = E_ν̃ · 10⁷/λ² per sample")
     finite = np.isfinite(wl_nm) & np.isfinite(values)
     n_drop = int((~finite).sum())
-    if n_drop:
+    last_k = int(line_no[-1]) if line_no.size else 0
+    if (n_drop == 1 and not finite[-1] and stats.get("footer_start") is None
+            and delim != "space" and last_k < len(head)
+            and head[last_k].rstrip().endswith(DELIMITERS[delim])):
+        # only the last row lacks a value, and nothing follows it: an export that stopped
+        # early ("800.5," and no line end) more likely than a value not resolved
+        warnings.append(f"line {int(line_no[-1]) + 1} looks like a truncated or damaged data "
+                        "row (the last of the file, with a value missing); it was not used")
+        wl_nm, values, line_no = wl_nm[finite], values[finite], line_no[finite]
+    elif n_drop:
         bad_at = np.nonzero(~finite)[0][:3]
         warnings.append(f"{n_drop} row(s) with NaN, inf or missing values dropped "
                         f"(line(s) {', '.join(str(int(line_no[b]) + 1) for b in bad_at)}"
