@@ -132,3 +132,63 @@ def test_partly_measured_over_different_wavelengths_give_no_ratio(tmp_path):
     assert c["same_wavelengths"] is False
     uvc = next(x for x in c["bands"] if x["name"] == "UV-C")
     assert uvc["ratio"] is None and uvc["over"] is None and "partial" in uvc["note"]
+
+
+def test_a_distance_option_against_the_files_own_is_shown_beside_the_comparison(tmp_path):
+    # found by trying the tool: --distance overrode a file's stated 30 cm in silence, and the
+    # values at the wrong distance (here (0.3/0.2)² = 2.25× off, inverse-square law) were
+    # compared as if right; assess warns of the same conflict, and compare now shows it
+    a = write(tmp_path / "a.csv", 1.0, distance="30 cm")
+    b = write(tmp_path / "b.csv", 1.0, distance="20 cm")
+    out = tmp_path / "c.json"
+    r = CliRunner().invoke(app, ["compare", str(a), str(b), "--distance", "20 cm",
+                                 "--json", str(out)])
+    assert r.exit_code == 0, r.output
+    c = json.loads(out.read_text())
+    said = "the file states a measurement distance of 0.3 m, but --distance gives 0.2 m"
+    assert any(said in w for w in c["warnings"]["sample"])
+    assert not any("states a measurement distance" in w for w in c["warnings"]["reference"])
+    assert said in r.output and "Warnings (sample" in r.output
+
+
+def test_the_error_for_two_positions_reads_plainly(tmp_path):
+    a = write(tmp_path / "a.csv", 1.0, distance="20 cm")
+    b = tmp_path / "b.csv"
+    b.write_text("Wavelength (nm),Irradiance (W/m2/nm)\n" + "\n".join(
+        f"{x:.1f},{1e-3 * np.exp(-0.5 * ((x - 365) / 6) ** 2):.6e}" for x in WL) + "\n",
+        encoding="utf-8")
+    r, _ = run(tmp_path, a, b)
+    assert r.exit_code == 2
+    assert "measured at 0.2 m, the reference at an unstated distance:" in r.output
+    assert "distance m" not in r.output
+
+
+def test_hazard_rows_say_the_distance_they_are_evaluated_at(tmp_path):
+    # measured at 1 m; the hazards are evaluated at 200 mm (IEC 62471:2006, lamps not for
+    # general lighting service), so the two tables are at two distances and say so
+    a = write(tmp_path / "a.csv", 1.0, distance="1 m")
+    b = write(tmp_path / "b.csv", 1.1, distance="1 m")
+    r, c = run(tmp_path, a, b)
+    assert r.exit_code == 0, r.output
+    assert c["hazards_at_m"] == pytest.approx(0.2) and c["measurement_distance_m"] == 1.0
+    assert "Bands (at 1.00 m)" in r.output and "Hazards (at 0.200 m: 200 mm" in r.output
+    assert r.output.count("\n  UV-C ") == 1  # the UV-C row is not repeated below the bands
+
+
+def test_two_different_products_differ_in_what_one_of_them_lacks():
+    def one(tech, uva_status, uva, peak):
+        return {"input": {"quantity": "irradiance", "path": tech}, "conditions": {},
+                "bands": {"UV-A": {"value": uva, "unit": "W m-2", "status": uva_status,
+                                   "detection_limit": 1e-5,
+                                   "below_detection": uva_status == "below-detection"}},
+                "spectral": {"peak_nm": peak},
+                "germicidal": {"technology": {"id": tech, "name": tech.replace("_", " ")}}}
+    c = compare(one("uvc_led", "below-detection", 2e-6, 265.2),
+                one("low_pressure_mercury", "complete", 0.012, 253.7))
+    d = " | ".join(c["differences"])
+    assert "UV-A: found in the reference only (sample < 1.00e-05, reference 0.012" in d
+    assert "peak: sample 265.2 nm, reference 253.7 nm" in d
+    assert "probably not the same product" in d
+    # and peaks within 1 nm are one peak (our own rule)
+    c2 = compare(one("uvc_led", "complete", 1.0, 265.2), one("uvc_led", "complete", 1.0, 265.6))
+    assert c2["differences"] == []

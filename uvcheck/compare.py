@@ -113,11 +113,14 @@ def compare(sample: Mapping[str, Any], reference: Mapping[str, Any]) -> dict[str
                                  "quantities do not compare", todo="give two spectra of one kind")
     da, db = _position(sample), _position(reference)
     if (da is None) != (db is None) or (da is not None and abs(da - db) > 0.01 * db):  # type: ignore[operator]
+        def at(d: float | None) -> str:
+            return "an unstated distance" if d is None else f"{d:g} m"
+
         raise ConfigurationError(
-            f"the sample was measured at {da if da is not None else 'an unstated distance'} m, "
-            f"the reference at {db if db is not None else 'an unstated distance'} m: values "
-            "at different positions do not compare",
-            todo="give the same --distance for both (measure both at one distance)")
+            f"the sample was measured at {at(da)}, the reference at {at(db)}: values at "
+            "different positions do not compare",
+            todo="measure both at one distance, or give each file's distance in its metadata "
+                 "(--distance applies to both files)")
     same = _same_wavelengths(sample, reference)
     bands = []
     bb = reference.get("bands") or {}
@@ -149,18 +152,34 @@ def compare(sample: Mapping[str, Any], reference: Mapping[str, Any]) -> dict[str
     pb = (reference.get("spectral") or {}).get("peak_nm")
     rga, rgb = sample.get("risk_group") or {}, reference.get("risk_group") or {}
     findings = []
-    for r in bands + hz + [uvc]:
+    for r in bands + hz:  # (the UV-C row repeats the UV-C band's figure)
         if r["ratio"] is not None and abs(r["ratio"] - 1.0) > SAME_WITHIN:
             findings.append(f"{r['name']}: the sample is {r['ratio']:.3g} × the reference"
                             + (" (over the measured part only)" if r["over"] else ""))
+        elif r["ratio"] is None and (side := _detected_in_one(r)) is not None:
+            findings.append(f"{r['name']}: found in the {side} only (sample "
+                            f"{r['sample_text'] or r['sample']}, reference "
+                            f"{r['reference_text'] or r['reference']})")
+    if pa is not None and pb is not None and abs(pa - pb) > PEAK_SAME_NM:
+        findings.append(f"peak: sample {pa:.1f} nm, reference {pb:.1f} nm")
+    ta = ((sample.get("germicidal") or {}).get("technology") or {})
+    tb = ((reference.get("germicidal") or {}).get("technology") or {})
+    if ta.get("id") and tb.get("id") and ta["id"] != tb["id"]:
+        findings.append(f"technology: the sample looks like a {ta.get('name')}, the reference "
+                        f"like a {tb.get('name')} (each read from its spectrum, a guess): "
+                        "probably not the same product")
     if rga.get("group") != rgb.get("group") or bool(rga.get("is_lower_bound")) != bool(
             rgb.get("is_lower_bound")):
         findings.append(f"risk group: sample {_group(rga)}, reference {_group(rgb)}")
+    ev = sample.get("evaluation") or {}
     return {
         "schema": "uvcheck.comparison/1",
         "sample": (sample.get("input") or {}).get("path"),
         "reference": (reference.get("input") or {}).get("path"),
         "quantity": qa, "measurement_distance_m": da,
+        "hazards_at_m": ev.get("distance_m"), "hazards_distance_rule": ev.get("distance_rule"),
+        "warnings": {"sample": list((sample.get("input") or {}).get("warnings") or []),
+                     "reference": list((reference.get("input") or {}).get("warnings") or [])},
         "peak_nm": {"sample": pa, "reference": pb},
         "peak_shift_nm": (pa - pb) if pa is not None and pb is not None else None,
         "bands": bands, "hazards": hz, "uvc": uvc,
@@ -176,6 +195,29 @@ def compare(sample: Mapping[str, Any], reference: Mapping[str, Any]) -> dict[str
                   "Screening comparison, not a certification; local codes and licensed "
                   "practice take precedence."],
     }
+
+
+#: Peaks closer than this are the same peak in the differences (our own rule: the 1 nm used
+#: to name emission lines, about a spectrometer's wavelength accuracy). [nm]
+PEAK_SAME_NM = 1.0
+
+
+def _detected_in_one(r: Mapping[str, Any]) -> str | None:
+    """'sample' or 'reference' when that side's value is established or a lower bound above
+    detection and the other's is below detection; None otherwise."""
+    def found(status: Any, text: Any) -> bool:
+        return status in ("complete", "partial") and not str(text or "").startswith("<")
+
+    def below(status: Any, text: Any) -> bool:
+        return status == "below-detection" or str(text or "").startswith("<")
+
+    a = (r["sample_status"], r["sample_text"])
+    b = (r["reference_status"], r["reference_text"])
+    if found(*a) and below(*b):
+        return "sample"
+    if found(*b) and below(*a):
+        return "reference"
+    return None
 
 
 def _above_detection(u: Mapping[str, Any]) -> bool:
@@ -200,27 +242,52 @@ def render_comparison(c: Mapping[str, Any]) -> str:
             return "—"
         return ("≥ " if status == "partial" else "") + sig(v)   # partly measured: a lower bound
 
+    def nm(v: Any) -> str:
+        return "—" if v is None else f"{v:.1f}"
+
+    at = c["measurement_distance_m"]
     out = [f"Comparison: sample {c['sample']} against reference {c['reference']}",
-           f"  {c['quantity']}" + (f", both measured at {sig(c['measurement_distance_m'])} m"
-                                   if c["measurement_distance_m"] is not None else
+           f"  {c['quantity']}" + (f", both measured at {sig(at)} m" if at is not None else
                                    ", both at an unstated measurement position"), ""]
     pk = c["peak_nm"]
-    out.append(f"Peak: sample {num(pk['sample'])} nm, reference {num(pk['reference'])} nm"
-               + (f" (shift {c['peak_shift_nm']:+.3g} nm)" if c["peak_shift_nm"] is not None else ""))
+    out.append(f"Peak: sample {nm(pk['sample'])} nm, reference {nm(pk['reference'])} nm"
+               + (f" (shift {c['peak_shift_nm']:+.1f} nm)" if c["peak_shift_nm"] is not None
+                  else ""))
     out.append(f"Risk group: sample {c['risk_group']['sample']}, reference "
                f"{c['risk_group']['reference']}")
     out.append("")
-    for title, rows in (("Bands", c["bands"]), ("Hazards", c["hazards"]), ("UV-C", [c["uvc"]])):
-        out.append(f"{title:<30} {'sample':>12}  {'reference':>12}  {'unit':<12} sample/reference")
+    hz_at = c.get("hazards_at_m")
+    sections = [("Bands" + (f" (at {sig(at)} m)" if at is not None else ""), c["bands"]),
+                ("Hazards" + (f" (at {sig(hz_at)} m: {c.get('hazards_distance_rule')})"
+                              if hz_at is not None and hz_at != at else ""), c["hazards"])]
+    band_uvc = next((r for r in c["bands"] if r["name"] == "UV-C"), None)
+    if band_uvc is None or (band_uvc["sample"], band_uvc["reference"]) != (
+            c["uvc"]["sample"], c["uvc"]["reference"]):
+        sections.append(("UV-C", [c["uvc"]]))  # only where it is not the UV-C band's figure
+    every = [r for _, rows in sections for r in rows]
+    # as the assessment shows them: a detection limit as '< x', a lower bound '≥ x'
+    texts = {id(r): (r.get("sample_text") or num(r["sample"], r["sample_status"]),
+                     r.get("reference_text") or num(r["reference"], r["reference_status"]))
+             for r in every}
+    w = max([12] + [len(t) for pair in texts.values() for t in pair])
+    wn = max([28] + [len(r["name"]) for r in every])
+    for title, rows in sections:
+        out.append(title)
+        out.append(f"  {'':<{wn}} {'sample':>{w}}  {'reference':>{w}}  {'unit':<12} "
+                   "sample/reference")
         for r in rows:
             ratio = (r["note"] if r["ratio"] is None else f"{r['ratio']:.3g} ×"
                      + (" over the measured part only" if r.get("over") else ""))
-            # as the assessment shows them: a detection limit as '< x', a lower bound '≥ x'
-            sa = r.get("sample_text") or num(r["sample"], r["sample_status"])
-            ra = r.get("reference_text") or num(r["reference"], r["reference_status"])
-            out.append(f"  {r['name']:<28} {sa:>12}  {ra:>12}  "
+            sa, ra = texts[id(r)]
+            out.append(f"  {r['name']:<{wn}} {sa:>{w}}  {ra:>{w}}  "
                        f"{r['unit'] or '':<12} {ratio}")
         out.append("")
+    for side in ("sample", "reference"):
+        said = (c.get("warnings") or {}).get(side) or []
+        if said:
+            out.append(f"Warnings ({side}, from reading {c[side]})")
+            out += [f"  ! {x}" for x in said]
+            out.append("")
     out.append("Differences" if c["differences"] else "No difference beyond "
                f"{c['same_within']:.0%} where both values are established.")
     out += [f"  - {f}" for f in c["differences"]]
