@@ -110,3 +110,29 @@ def test_a_kill_claim_at_a_distance_says_it_is_judged_on_a_surface():
     # one medium: no "whichever is more favourable" of one choice
     v = _verdicts(_flat_uvc(), 0.1, "kills 99.9% of germs in 10 minutes at 10 cm")["c1"]
     assert "the claim names no medium: judged on a surface at that distance" in v.assumptions
+
+
+def test_a_band_below_detection_is_credited_with_its_upper_bound_as_a_kill_claim_is():
+    # found by trying the tool: a 395 nm wand's UV-C was "at most 0.0719 µW/cm²" for its
+    # irradiance claim (the apparent integral) but "at most 0.253 µW/cm²" for its kill claim
+    # (apparent + 3 σ, the germicidal evaluation's favourable reading). Both now use the
+    # upper bound: benefit of the doubt for both efficacy claims, the same figure.
+    from uvcheck.germicidal import evaluate_germicidal
+
+    wl = np.arange(200.0, 800.5, 1.0)
+    rng = np.random.default_rng(5)
+    noise = 2e-4
+    v = 0.05 * np.exp(-0.5 * ((wl - 395.0) / 6.0) ** 2) + rng.normal(0.0, noise, wl.size)
+    spec = Spectrum(wl, v, "irradiance", noise_floor=noise)
+    cond = Conditions(measurement_distance_m=0.1)
+    uvc = evaluate_germicidal(spec, cond).uvc
+    assert uvc.value is None and uvc.upper_bound is not None  # below detection (or stray)
+    got = _verdicts(spec, 0.1, "UV-C output 5 mW/cm² at 10 cm",
+                    "kills 99.9% of germs in 30 minutes at 10 cm")
+    v1 = got["c1"]
+    assert v1.verdict == "cannot-hold"
+    assert v1.available.value == pytest.approx(uvc.upper_bound, rel=1e-9)
+    assert "below the detection limit" in v1.basis and "upper bound" in v1.basis
+    # the kill claim's irradiance is the same figure (its basis: "(X µW/cm² × 30 min)")
+    from uvcheck.units import sig
+    assert f"({sig(uvc.upper_bound * 100)} µW/cm² ×" in got["c2"].basis

@@ -50,7 +50,7 @@ from typing import Any, Callable, Iterable, Mapping, Sequence
 from uvcheck.conditions import WORKDAY_S, Conditions
 from uvcheck.errors import ConfigurationError
 from uvcheck.germicidal import NO_UVC_FRACTION, OZONE_EDGE_NM, UVC_BAND_NM, UVC_EMITTING
-from uvcheck.spectrum import Spectrum, covers_all, integrate, total_integral
+from uvcheck.spectrum import Spectrum, below_detection, covers_all, integrate, total_integral
 from uvcheck.units import format_duration, sig
 
 VERDICTS = ("holds", "unlikely", "cannot-hold", "not-assessable")
@@ -1489,6 +1489,9 @@ def _ozone(c: Any, ev: Evidence) -> Verdict:
 #: 62471:2006 clause 4.3 that a lamp's irradiance gives; E_H, the skin's thermal hazard, is
 #: left out because its limit covers exposures up to 10 s only (from memory).
 SAFETY_HAZARDS = ("actinic_uv", "near_uv", "blue_light", "retinal_thermal", "ir_eye")
+#: What a safety claim needs when only a hazard's detection limit reaches its exposure limit.
+BELOW_DETECTION_NEEDS = ("a more sensitive measurement of the hazard's range (closer, a longer "
+                         "integration or averaging, a dark scan subtracted)",)
 #: What a safety claim on an estimate needs when only some of its cases stay within the limits.
 SAFETY_MEASUREMENT_NEEDED = ("a measured spectrum of the lamp as sold (through any cover), with "
                              "its measurement distance",)
@@ -1759,6 +1762,21 @@ def _safety_verdict(c: Any, ev: Evidence) -> Verdict:
         return _na(c, ev, "the measurement distance is unknown, so exposure at a distance of use "
                           "cannot be worked out", ("--distance",), assumptions)
     hz, worst, open_h = _exposure_at(r, ev, d)
+    if worst is not None and below_detection(worst[1]):
+        # the shortest time comes from a hazard under the detection limit: its value is that
+        # limit, a bound, not the most likely reading the safety rule judges (our own rule)
+        seen = [(h["t_max_s"], h) for k, h in hz.items() if k in SAFETY_HAZARDS
+                and h.get("t_max_s") is not None and not below_detection(h)]
+        detected = min(seen, key=lambda e: e[0]) if seen else None
+        if worst[0] < t and (detected is None or detected[0] >= t):
+            tm, h = worst
+            return _na(c, ev, f"at {sig(d)} m {h.get('symbol')} is below the measurement's "
+                              f"detection limit; at that limit the {h.get('name') or 'its'} "
+                              f"limit would be reached in {format_duration(tm)}, against "
+                              f"{format_duration(t)} of exposure, so the measurement is not "
+                              f"sensitive enough to show whether the limit is kept{lnamed}",
+                       BELOW_DETECTION_NEEDS, assumptions)
+        worst = detected if detected is not None and detected[0] < t else worst
     decision = None
     verdict_u = None
     if worst is not None and ev.measured:
@@ -1906,22 +1924,31 @@ def _irradiance_on(c: Any, ev: Evidence) -> Verdict:
     if any(r.d_ref is None and r.spectrum.quantity == "irradiance" for r in fav):
         return _na(c, ev, f"the spectrum's measurement distance is unknown, so the irradiance at "
                           f"{sig(d)} m cannot be worked out", ("--distance",))
-    best: tuple[float, Reading] | None = None
+    best: tuple[float, Reading, bool] | None = None
     for r in fav:
         spec = spectrum_at(r.spectrum, r.conditions, d)
         if spec.quantity != "irradiance":
             continue
-        e = integrate(spec, lo, hi).value
+        ig = integrate(spec, lo, hi)
+        e, dl = ig.value, ig.detection_limit
+        under = dl is not None and dl > 0 and e <= dl
+        if under:
+            # below the detection limit: the favourable reading is the apparent value + 3 σ,
+            # the upper bound the germicidal evaluation (and so the kill claims) use
+            e = max(e, 0.0) + dl
         if best is None or e > best[0]:
-            best = (e, r)
+            best = (e, r, under)
     if best is None:
         return _na(c, ev, "the lamp's output cannot be made an irradiance at that distance",
                    ("an irradiance spectrum with --distance",))
-    e, r = best
+    e, r, under = best
     stated = c.irradiance_W_m2
     ratio = e / stated
     basis = (f"the claim states {_uw_cm2(stated)} of {band} at {sig(d)} m; this lamp gives at "
-             f"most {_uw_cm2(e)} there: {_short(ratio)}")
+             f"most {_uw_cm2(e)} there"
+             + (" (its output there is below the detection limit: that is the apparent value "
+                "plus the limit, an upper bound)" if under else "")
+             + f": {_short(ratio)}")
     v = Verdict(c.id, c.kind, c.text, _by_ratio(ratio, ev.margin),
                 Quantity(stated, "W m-2", f"stated {band} irradiance"),
                 Quantity(e, "W m-2", "irradiance this lamp gives, most favourable reading"),

@@ -250,6 +250,14 @@ def partly_measured(block: Mapping[str, Any]) -> bool:
     return isinstance(cov, (int, float)) and not covers_all(cov)
 
 
+def below_detection(block: Mapping[str, Any]) -> bool:
+    """A reading (its dict: a hazard's, a band's) whose value is under its detection limit, so
+    the value given is a bound, not what the lamp gives (whatever its coverage)."""
+    v, dl = block.get("value"), block.get("detection_limit")
+    return block.get("status") == "below-detection" or (v is not None and dl is not None
+                                                        and v < dl)
+
+
 def is_nominal(spectrum: "Spectrum") -> bool:
     """A spectrum modelled from a listing's stated data (an estimate), not a measurement."""
     meta = spectrum.meta or {}

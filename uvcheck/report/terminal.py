@@ -9,7 +9,7 @@ from __future__ import annotations
 from pathlib import Path
 from typing import Any, Mapping, Sequence
 
-from uvcheck.spectrum import partly_measured
+from uvcheck.spectrum import below_detection, partly_measured
 from uvcheck.units import bounded_duration, format_duration, sig, to_trade
 
 STATUS_TEXT = {"complete": "measured", "partial": "partly measured (lower bound)",
@@ -89,8 +89,7 @@ def hg_line_text(present: Any, d: Mapping[str, Any]) -> str:
 
 def hazard_below_detection(h: Mapping[str, Any]) -> bool:
     """The hazard's value is under its detection limit (whatever its coverage)."""
-    v, dl = h.get("value"), h.get("detection_limit")
-    return h.get("status") == "below-detection" or (v is not None and dl is not None and v < dl)
+    return below_detection(h)
 
 
 def table(headers: Sequence[str], rows: Sequence[Sequence[Any]], right: Sequence[int] = ()) -> str:
