@@ -1325,6 +1325,13 @@ def _inactivation_on(c: Any, ev: Evidence) -> Verdict:
                    ("organism data for the lamp's wavelengths",), assumptions)
     o = best["organism"]
     ratio = best["ratio"]
+    r_best = next((x for x in fav if x.label == best["reading"]), None)
+    if r_best is not None:
+        from uvcheck.germicidal import cross_wavelength_note
+
+        moved = cross_wavelength_note(o, r_best.germicidal_at(None).organisms.uvc_peak_nm)
+        if moved is not None:
+            assumptions.append(f"{o.organism}: {moved}")
     verdict = _by_ratio(ratio, ev.margin)
     rel = ev.relative_interval("germicidal", "equivalent_254", "most_favourable") if ev.measured else None
     decision = None
@@ -1347,8 +1354,7 @@ def _inactivation_on(c: Any, ev: Evidence) -> Verdict:
                 {"organism_id": o.id, "medium": best["medium"], "time_s": t,
                  "irradiance_W_m2": best["e"], "place": best["place"]},
                 rule_interval(ev.rule) if decision is not None else rule_margin(ev.margin))
-    r = next((x for x in fav if x.label == best["reading"]), None)
-    return _unless_unmeasured(v, r, *UVC_BAND_NM, "a spectrum covering the whole of UV-C "
+    return _unless_unmeasured(v, r_best, *UVC_BAND_NM, "a spectrum covering the whole of UV-C "
                               "(200–280 nm)")
 
 

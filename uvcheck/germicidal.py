@@ -1082,6 +1082,23 @@ def evaluate_germicidal(spectrum: Spectrum, conditions: Conditions | None = None
         organisms=plan, notes=tuple(notes))
 
 
+def cross_wavelength_note(organism: Organism, uvc_peak_nm: float | None) -> str | None:
+    """The caution for organism data measured at a wavelength more than
+    :data:`CROSS_WAVELENGTH_NM` from the lamp's UV-C peak (e.g. 222-nm data for a 254-nm lamp),
+    whose dose the action spectrum carries over to the lamp's wavelength; None otherwise.
+
+    >>> o = next(r for r in organism_table() if r.pathway == "uvc")
+    >>> cross_wavelength_note(o, o.wavelength_nm) is None
+    True
+    """
+    if (organism.pathway != "uvc" or uvc_peak_nm is None
+            or abs(uvc_peak_nm - organism.wavelength_nm) <= CROSS_WAVELENGTH_NM):
+        return None
+    return (f"data measured at {organism.wavelength_nm:g} nm, lamp UV-C peak at "
+            f"{round(uvc_peak_nm, 1):g} nm: transferred by the action spectrum, which adds "
+            "uncertainty beyond the data's own")
+
+
 @dataclass(frozen=True)
 class OrganismPlan:
     """What the doses and times of one lamp position are computed from (on first use, by
@@ -1131,11 +1148,8 @@ class OrganismPlan:
             best = max(effective, key=lambda e: e.equivalent_at(o.wavelength_nm) or -1.0)
             txt = (f"{o.wavelength_nm:g}-nm-equivalent, most favourable action spectrum "
                    f"({best.reading.id}), {where}")
-            peak = self.uvc_peak_nm
-            if peak is not None and abs(peak - o.wavelength_nm) > CROSS_WAVELENGTH_NM:
-                txt += (f"; data measured at {o.wavelength_nm:g} nm, lamp UV-C peak at {peak:g} nm: "
-                        "transferred by the action spectrum")
-            return txt
+            note = cross_wavelength_note(o, self.uvc_peak_nm)
+            return txt if note is None else f"{txt}; {note}"
 
         inact = tuple(estimate(o, irradiance_for(o), basis=basis(o),
                                times_are=times_are(o, uvc, vb)) for o in self.rows)
