@@ -48,3 +48,35 @@ def test_data_at_the_lamp_wavelength_need_no_such_note():
     v = _claim(222.0, "kills 99.9% of viruses in the air in 10 minutes at 1 m")
     assert v.details["organism_id"] == "hcov_oc43_air_222_buonanno2020"
     assert not [a for a in v.assumptions if "transferred by the action spectrum" in a]
+
+
+def _line_file(tmp_path, peak_nm: float):
+    """A narrow invented band at peak_nm (1 nm FWHM, 1 W/m² at 1 m) on 200–800 nm, as a CSV."""
+    import numpy as np
+
+    wl = np.arange(200.0, 800.01, 0.5)
+    v = np.exp(-0.5 * ((wl - peak_nm) / 0.425) ** 2) / (0.425 * np.sqrt(2 * np.pi)) + 1e-7
+    f = tmp_path / f"line{peak_nm:g}.csv"
+    f.write_text("# distance: 1 m\nwavelength_nm,irradiance_W_m2_nm\n"
+                 + "".join(f"{a:.2f},{b:.6e}\n" for a, b in zip(wl, v)), encoding="utf-8")
+    return f
+
+
+@pytest.mark.parametrize("peak_nm, moved", [(253.7, True), (222.0, False)])
+def test_the_organism_table_and_the_note_mark_carried_over_data(tmp_path, peak_nm, moved):
+    from uvcheck.cli_note import note_result
+    from uvcheck.report.note import finding
+    from uvcheck.report.terminal import render_inactivation
+
+    res, _ = note_result(_line_file(tmp_path, peak_nm), None)
+    g = res["germicidal"]
+    text = "\n".join(render_inactivation(g["inactivation"]))
+    oc43 = next(ln for ln in text.splitlines() if "Human coronavirus OC43" in ln)
+    assert ("222 †" in oc43) is moved
+    # the other way round, 254-nm rows are carried over to a 222-nm lamp
+    assert ("254 †" in text) is not moved
+    assert "† data measured more than 10 nm from the lamp's UV-C peak" in text
+    f = finding(res)
+    assert g["most_susceptible"]["uvc"]["air"]["organism_id"] == "hcov_oc43_air_222_buonanno2020"
+    assert "Human coronavirus OC43" in f
+    assert ("data measured at 222 nm and carried over" in f) is moved

@@ -80,6 +80,7 @@ FEATURE_SNR = 5.0               # 5 σ: the threshold features.find_lines uses f
 LINE_TOLERANCE_NM = 2.0         # wavelength calibration of compact spectrometers ±1-2 nm (from memory)
 MIN_SIGNIFICANT_SHARE = 0.01    # ozone band "present": above 1 % of the UV-C (or of the total)
 CROSS_WAVELENGTH_NM = 10.0      # organism data this far from the lamp's UV-C peak are flagged
+TRANSFERRED = "transferred by the action spectrum"  # how a basis says so (cross_wavelength_note)
 # stray light needs a source to scatter: a UV-C feature is read as stray light only when the
 # output outside UV-C is at least this many times the apparent UV-C (ours: the reciprocal of
 # PEDESTAL_MAX_RELATIVE, the upper end of typical stray-light levels; from memory)
@@ -1095,7 +1096,7 @@ def cross_wavelength_note(organism: Organism, uvc_peak_nm: float | None) -> str 
             or abs(uvc_peak_nm - organism.wavelength_nm) <= CROSS_WAVELENGTH_NM):
         return None
     return (f"data measured at {organism.wavelength_nm:g} nm, lamp UV-C peak at "
-            f"{round(uvc_peak_nm, 1):g} nm: transferred by the action spectrum, which adds "
+            f"{round(uvc_peak_nm, 1):g} nm: {TRANSFERRED}, which adds "
             "uncertainty beyond the data's own")
 
 

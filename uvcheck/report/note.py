@@ -18,7 +18,7 @@ import os
 import re
 from typing import Any, Iterable, Mapping
 
-from uvcheck.germicidal import UVC_EMITTING
+from uvcheck.germicidal import TRANSFERRED, UVC_EMITTING
 from uvcheck.limits import GROUPS
 from uvcheck.report.terminal import (hazard_below_detection, hg_line_text, is_estimate,
                                      listing_only, no_assessment_distance, peak_caveat,
@@ -1141,8 +1141,11 @@ def finding(result: Result, claims: list[dict[str, Any]] | None = None) -> str:
             bound = {"≤ ": "at most about ", "≥ ": "at least about "}.get(t[:2])
             t = bound + t[2:] if bound else "about " + t
             if st in UVC_EMITTING:
+                moved = (f", data measured at {best['wavelength_nm']:g} nm and carried over to "
+                         "this lamp's wavelength by an action spectrum"
+                         if TRANSFERRED in (best.get("irradiance_basis") or "") else "")
                 s.append(f"At {gpos}, even the most susceptible organism in uvcheck's table "
-                         f"({best['organism']}, {best['medium']}) needs {t} for a 99.9 % "
+                         f"({best['organism']}, {best['medium']}{moved}) needs {t} for a 99.9 % "
                          "reduction; most real germs need longer.")
             else:
                 s.append(f"Violet and blue light inactivate some bacteria, but slowly: a 99.9 % reduction "

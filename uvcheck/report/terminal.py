@@ -624,7 +624,8 @@ def render_inactivation(rows: list) -> list[str]:
             mem = "" if str(e.get("from_memory") or "no").lower() == "no" else " *"
             body.append([e["organism"] + (" (hardest listed)" if len(real) > ROWS_PER_MEDIUM
                                           and i == len(pick) - 1 else ""),
-                         where, f"{e['wavelength_nm']:g}", _time_cell(e, "time_to_90_s", "90"),
+                         where, f"{e['wavelength_nm']:g}" + (" †" if _moved(e) else ""),
+                         _time_cell(e, "time_to_90_s", "90"),
                          _time_cell(e, "time_to_99_9_s", "99.9"),
                          (e.get("source_key") or "") + mem])
         shown += len(pick)
@@ -639,7 +640,20 @@ def render_inactivation(rows: list) -> list[str]:
                "study's data stop below that reduction and are not extrapolated; mixed and "
                "unspecified rows (reviews, legacy charts) count for every medium; * partly from "
                "memory; sources: uvcheck organisms.")
+    if any(_moved(e) for e in rows):
+        from uvcheck.germicidal import CROSS_WAVELENGTH_NM, TRANSFERRED
+
+        out[-1] += (" † data measured more than "
+                    f"{CROSS_WAVELENGTH_NM:g} nm from the lamp's UV-C peak: {TRANSFERRED}, which "
+                    "adds uncertainty beyond the data's own.")
     return out
+
+
+def _moved(e: dict) -> bool:
+    """Whether an organism row's dose was carried over from another wavelength."""
+    from uvcheck.germicidal import TRANSFERRED
+
+    return TRANSFERRED in (e.get("irradiance_basis") or "")
 
 
 VERDICT_TEXT = {"holds": "HOLDS", "cannot-hold": "CANNOT HOLD", "unlikely": "UNLIKELY",
